@@ -1,0 +1,190 @@
+"""Entry and exit of a route into each area, exact on the WGS84 ellipsoid.
+
+Method (per area):
+
+1. *Search*: the legs and every area edge are sampled every
+   :data:`SEARCH_STEP_M` in the unwrapped lon/lat plane (area copies shifted
+   by multiples of 360° where the route needs them); an STR-tree over the
+   edge chords gives each leg chord the edge chords within
+   :data:`SEARCH_PAD_DEG` (chords deviate from their curves by well under
+   a metre, so no meeting is missed).
+2. *Solve*: each candidate pair is solved on the true curves
+   (:func:`geo.roots.intersect`) to :data:`geo.roots.TOL_M`.
+3. *Classify*: meeting points closer than :data:`MERGE_M` along the route are
+   merged; the route is inside or outside on each interval between them
+   (tested at the interval's midpoint, strictly inside the area); an event
+   exists only where that state flips. Touches, vertex hits without
+   crossing, runs along an edge, overlapping parts, holes and seams of
+   polygons split at 180° therefore give no event. The start counts as
+   inside when it is on the boundary, so a route that starts inside (or on
+   the edge) has no entry event there.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import shapely
+from numpy.typing import NDArray
+
+from geo import rhumb, roots
+from geo.area import Area
+from geo.curves import concat
+from geo.ellipsoid import NM_M
+from geo.path import RoutePath
+from geo.plane import AreaShape
+
+SEARCH_STEP_M = 1000.0
+SEARCH_PAD_DEG = 1e-4
+MERGE_M = 1e-3
+BOUNDARY_TOL_DEG = 1e-7  # a midpoint this close to the boundary is on it (about 1 cm)
+_PARAM_SLACK_M = 1e-3
+
+
+@dataclass(frozen=True)
+class Crossing:
+    """One entry into or exit from an area.
+
+    ``leg`` counts from 0 (leg ``i`` joins waypoints ``i`` and ``i + 1``);
+    ``lon`` is folded into [-180, 180).
+    """
+
+    area: str
+    event: str
+    leg: int
+    distance_m: float
+    lat: float
+    lon: float
+
+    @property
+    def distance_nm(self) -> float:
+        return self.distance_m / NM_M
+
+
+@dataclass(frozen=True, eq=False)
+class AreaTrack:
+    """Inside/outside state of one area along the whole route.
+
+    ``breaks_m`` are the merged meeting points (m along the route), and
+    ``inside[k]`` the state on the k-th interval between ``0``, the breaks
+    and the route's end.
+    """
+
+    area: Area
+    breaks_m: NDArray[np.float64]
+    inside: NDArray[np.bool_]
+    start_inside: bool
+    events: tuple[Crossing, ...]
+    route_length_m: float
+
+    def intervals(self) -> list[tuple[float, float, bool]]:
+        """``(from_m, to_m, inside)`` for every interval along the route."""
+        edges = np.concatenate([[0.0], self.breaks_m, [self.route_length_m]])
+        return [(float(a), float(b), bool(s)) for a, b, s in zip(edges[:-1], edges[1:],
+                                                                   self.inside, strict=True)]
+
+    @property
+    def inside_m(self) -> float:
+        """Distance sailed inside the area, metres."""
+        return sum(b - a for a, b, s in self.intervals() if s)
+
+
+def _chords(lat, lon, idx) -> tuple[NDArray[np.int64], NDArray[np.float64]]:
+    """Indices of chord starts (consecutive samples of one curve) and their coordinates."""
+    j = np.nonzero(idx[:-1] == idx[1:])[0]
+    xy = np.stack([np.column_stack([lon[j], lat[j]]), np.column_stack([lon[j + 1], lat[j + 1]])],
+                  axis=1)
+    return j, xy
+
+
+def _chord_params(p: NDArray, q: NDArray) -> tuple[NDArray, NDArray]:
+    """Where chords p[:,0]->p[:,1] and q[:,0]->q[:,1] cross (fractions, clamped to 0..1)."""
+    dp = p[:, 1] - p[:, 0]
+    dq = q[:, 1] - q[:, 0]
+    w = q[:, 0] - p[:, 0]
+    det = dp[:, 0] * dq[:, 1] - dp[:, 1] * dq[:, 0]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        a = (w[:, 0] * dq[:, 1] - w[:, 1] * dq[:, 0]) / det
+        b = (w[:, 0] * dp[:, 1] - w[:, 1] * dp[:, 0]) / det
+    a = np.where(np.isfinite(a), np.clip(a, 0.0, 1.0), 0.5)
+    b = np.where(np.isfinite(b), np.clip(b, 0.0, 1.0), 0.5)
+    return a, b
+
+
+def meeting_points(path: RoutePath, shape: AreaShape) -> tuple[NDArray, NDArray]:
+    """Every point where the route meets the area's boundary: (leg, metres into leg)."""
+    lat_r, lon_r, leg_r, s_r, _ = path.curves.sample(SEARCH_STEP_M)
+    jr, xy_r = _chords(lat_r, lon_r, leg_r)
+    edges = concat([r.curves for r in shape.rings])
+    lat_e, lon_e, edge_e, t_e, _ = edges.sample(SEARCH_STEP_M)
+    je, xy_e = _chords(lat_e, lon_e, edge_e)
+    rmin, rmax = float(lon_r.min()), float(lon_r.max())
+    emin, emax = float(lon_e.min()), float(lon_e.max())
+    shifts = [k for k in range(int(np.floor((rmin - emax) / 360.0)) - 1,
+                               int(np.ceil((rmax - emin) / 360.0)) + 2)
+              if emin + 360.0 * k <= rmax + 1.0 and emax + 360.0 * k >= rmin - 1.0]
+    if not shifts or len(je) == 0:
+        return np.zeros(0, np.int64), np.zeros(0)
+    xy_all = np.concatenate([xy_e + np.array([360.0 * k, 0.0]) for k in shifts])
+    je_all = np.tile(je, len(shifts))
+    tree = shapely.STRtree(shapely.linestrings(xy_all))
+    ir, ie = tree.query(shapely.linestrings(xy_r), predicate="dwithin", distance=SEARCH_PAD_DEG)
+    if len(ir) == 0:
+        return np.zeros(0, np.int64), np.zeros(0)
+    a, b = _chord_params(xy_r[ir], xy_all[ie])
+    r0, e0 = jr[ir], je_all[ie]
+    leg = leg_r[r0]
+    edge = edge_e[e0]
+    s0 = s_r[r0] + a * (s_r[r0 + 1] - s_r[r0])
+    t0 = t_e[e0] + b * (t_e[e0 + 1] - t_e[e0])
+    s, t, ok = roots.intersect(path.curves, leg, s0, edges, edge, t0)
+    leg_len = path.curves.length_m[leg]
+    edge_len = edges.length_m[edge]
+    ok &= (s >= -_PARAM_SLACK_M) & (s <= leg_len + _PARAM_SLACK_M)
+    ok &= (t >= -_PARAM_SLACK_M) & (t <= edge_len + _PARAM_SLACK_M)
+    return leg[ok], np.clip(s[ok], 0.0, leg_len[ok])
+
+
+def _strictly_inside(shape: AreaShape, lat, lon) -> NDArray[np.bool_]:
+    inside = shape.contains(lat, lon)
+    if np.any(inside):
+        k = np.nonzero(inside)[0]
+        boundary = shapely.boundary(shape.union)
+        near = np.zeros(len(k), dtype=bool)
+        for shift in (-720.0, -360.0, 0.0, 360.0, 720.0):
+            pts = shapely.points(lon[k] + shift, lat[k])
+            near |= shapely.dwithin(boundary, pts, BOUNDARY_TOL_DEG)
+        inside[k[near]] = False
+    return inside
+
+
+def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
+    """Meeting points, interval states and events of one area along a route."""
+    leg, s = meeting_points(path, shape)
+    d = path.start_m[leg] + s
+    order = np.argsort(d, kind="stable")
+    d, leg, s = d[order], leg[order], s[order]
+    keep = np.ones(len(d), dtype=bool)
+    if len(d):
+        keep[1:] = np.diff(d) > MERGE_M
+    # a meeting at either end of the route is not an event: the boundary counts as inside
+    keep &= (d > MERGE_M) & (d < path.length_m - MERGE_M)
+    d, leg, s = d[keep], leg[keep], s[keep]
+    ends = np.concatenate([[0.0], d, [path.length_m]])
+    mids = 0.5 * (ends[:-1] + ends[1:])
+    mlat, mlon = path.position(mids)
+    inside = _strictly_inside(shape, mlat, mlon)
+    lat0, lon0 = path.position([0.0])
+    start_inside = bool(shape.covers(lat0, lon0)[0])
+    events: list[Crossing] = []
+    name = shape.area.name
+    if start_inside != bool(inside[0]):
+        events.append(Crossing(name, "exit" if start_inside else "enter", 0, 0.0,
+                               float(lat0[0]), float(rhumb.wrap180(lon0[0]))))
+    if len(d):
+        plat, plon = path.curves.point(leg, s)
+        for k in np.nonzero(inside[1:] != inside[:-1])[0]:
+            events.append(Crossing(name, "enter" if inside[k + 1] else "exit", int(leg[k]),
+                                   float(d[k]), float(plat[k]), float(rhumb.wrap180(plon[k]))))
+    return AreaTrack(shape.area, d, inside, start_inside, tuple(events), path.length_m)

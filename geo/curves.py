@@ -1,0 +1,141 @@
+"""Batches of curves on the ellipsoid: geodesics, rhumb lines and lon/lat straights.
+
+One representation serves route legs (geodesic = great circle, rhumb) and
+area edges (geodesic, rhumb, lonlat), so the crossing solver treats every
+leg type × edge type alike. Each curve is evaluated at a parameter ``t``:
+
+- geodesic and rhumb: ``t`` is the distance from the start in metres, exact
+  (pyproj.Geod for geodesics, :mod:`geo.rhumb` for rhumb lines);
+- lonlat: longitude and latitude linear in ``t`` over ``[0, length_m]``,
+  where ``length_m`` is the geodesic distance between the ends (only a scale).
+
+Longitudes are unwrapped: ``lon2`` is written continuously from ``lon1``
+(geodesic and rhumb edges take the shorter way; lonlat takes the
+coordinates literally, as RFC 7946 does), and points along a curve are
+returned continuous between its ends, never folded into ±180.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from geo import rhumb
+from geo.ellipsoid import GEOD
+
+GEODESIC, RHUMB, LONLAT = 0, 1, 2
+KIND_CODES = {"geodesic": GEODESIC, "great_circle": GEODESIC, "rhumb": RHUMB, "lonlat": LONLAT}
+
+
+def _arr(x: ArrayLike, dtype=np.float64) -> NDArray:
+    return np.atleast_1d(np.asarray(x, dtype=dtype))
+
+
+def unwrap_near(lon_deg: ArrayLike, ref_deg: ArrayLike) -> NDArray[np.float64]:
+    """The longitude equal to ``lon_deg`` modulo 360 that lies within 180° of ``ref_deg``."""
+    ref = np.asarray(ref_deg, dtype=np.float64)
+    return ref + rhumb.wrap180(np.asarray(lon_deg, dtype=np.float64) - ref)
+
+
+@dataclass(frozen=True, eq=False)
+class Curves:
+    """``n`` curves as parallel arrays (degrees, metres). Build with :meth:`between`."""
+
+    kind: NDArray[np.int8]
+    lat1: NDArray[np.float64]
+    lon1: NDArray[np.float64]
+    lat2: NDArray[np.float64]
+    lon2: NDArray[np.float64]
+    azi_deg: NDArray[np.float64]
+    length_m: NDArray[np.float64]
+
+    def __len__(self) -> int:
+        return len(self.kind)
+
+    @classmethod
+    def between(cls, kind: ArrayLike, lat1, lon1, lat2, lon2, *, literal_lon: bool = False):
+        """Curves from point 1 to point 2 of the given kinds (codes or names).
+
+        Geodesic and rhumb curves take the shorter way in longitude unless
+        ``literal_lon`` (then ``lon2`` must already be continuous from ``lon1``);
+        lonlat curves always take the longitudes as written.
+        """
+        kind = np.asarray(kind)
+        if kind.dtype.kind in "US":
+            kind = np.vectorize(KIND_CODES.__getitem__, otypes=[np.int8])(kind)
+        lat1, lon1, lat2, lon2 = (_arr(v) for v in (lat1, lon1, lat2, lon2))
+        kind = np.broadcast_to(kind, lat1.shape).astype(np.int8)
+        if not literal_lon:
+            lon2 = np.where(kind == LONLAT, lon2, lon1 + rhumb.wrap180(lon2 - lon1))
+        az_g, _, len_g = GEOD.inv(lon1, lat1, lon2, lat2)
+        len_g = np.asarray(len_g, dtype=np.float64)
+        azi = np.asarray(az_g, dtype=np.float64)
+        length = len_g.copy()
+        is_r = kind == RHUMB
+        if np.any(is_r):
+            s_r, az_r = rhumb.inverse(lat1[is_r], lon1[is_r], lat2[is_r], lon2[is_r])
+            length[is_r] = s_r
+            azi[is_r] = az_r
+        azi = np.where(kind == LONLAT, np.nan, azi)
+        return cls(kind, lat1, lon1, lat2, lon2, azi, length)
+
+    def subset(self, idx: ArrayLike) -> Curves:
+        """The curves at ``idx`` (an index array), in that order."""
+        i = np.asarray(idx)
+        return Curves(*(getattr(self, f)[i] for f in self.__dataclass_fields__))
+
+    def point(self, idx: ArrayLike, t_m: ArrayLike) -> tuple[NDArray, NDArray]:
+        """Latitude and unwrapped longitude of curve ``idx`` at parameter ``t_m``."""
+        idx = np.asarray(idx)
+        t = np.asarray(t_m, dtype=np.float64)
+        idx, t = np.broadcast_arrays(idx, t)
+        kind = self.kind[idx]
+        lat1, lon1 = self.lat1[idx], self.lon1[idx]
+        lat2, lon2 = self.lat2[idx], self.lon2[idx]
+        length = self.length_m[idx]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            frac = np.where(length > 0, t / length, 0.0)
+        ref = lon1 + frac * (lon2 - lon1)
+        lat = lat1 + frac * (lat2 - lat1)
+        lon = ref.copy()
+        g = kind == GEODESIC
+        if np.any(g):
+            lon_g, lat_g, _ = GEOD.fwd(lon1[g], lat1[g], self.azi_deg[idx][g], t[g])
+            lat[g] = lat_g
+            lon[g] = unwrap_near(lon_g, ref[g])
+        r = kind == RHUMB
+        if np.any(r):
+            lat_r, lon_r = rhumb.direct(lat1[r], lon1[r], self.azi_deg[idx][r], t[r])
+            lat[r] = lat_r
+            lon[r] = lon_r
+        # a meridian keeps its longitude exactly (seams of split areas must match),
+        # and the end points are the vertices as written, not recomputed
+        lon = np.where(lon1 == lon2, lon1, lon)
+        at_end = t == length
+        at_start = t == 0.0
+        lat = np.where(at_start, lat1, np.where(at_end, lat2, lat))
+        lon = np.where(at_start, lon1, np.where(at_end, lon2, lon))
+        return lat, lon
+
+    def sample(self, max_step_m: float):
+        """Points along every curve at most ``max_step_m`` apart, ends included.
+
+        Returns ``(lat, lon, curve_index, t_m, offsets)``: curve ``i`` owns
+        ``[offsets[i], offsets[i+1])`` of the flat arrays.
+        """
+        n_seg = np.maximum(1, np.ceil(self.length_m / max_step_m).astype(np.int64))
+        counts = n_seg + 1
+        offsets = np.concatenate([[0], np.cumsum(counts)])
+        idx = np.repeat(np.arange(len(self)), counts)
+        k = np.arange(offsets[-1]) - offsets[idx]
+        t = self.length_m[idx] * (k / n_seg[idx])
+        lat, lon = self.point(idx, t)
+        return lat, lon, idx, t, offsets
+
+
+def concat(parts: list[Curves]) -> Curves:
+    """All curves of several batches, in order, as one batch."""
+    fields = Curves.__dataclass_fields__
+    return Curves(*(np.concatenate([getattr(p, f) for p in parts]) for f in fields))
