@@ -23,6 +23,9 @@ class InputError(ValueError):
         self.place = place
         self.value = value
         self.expected = expected
-        shown = "missing" if value is None else repr(value) if isinstance(value, str) else str(value)
+        if value is None:
+            shown = "missing"
+        else:
+            shown = repr(value) if isinstance(value, str) else str(value)
         parts = [p for p in (self.file, place) if p]
         super().__init__(f"{': '.join(parts)}: {shown}: expected {expected}")

@@ -29,7 +29,7 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from geo.ellipsoid import A_M, E, E2, N3
+from geo.ellipsoid import A_M, E2, N3, E
 
 _N = N3
 _ARC_A = A_M / (1.0 + _N) * (1.0 + _N**2 / 4.0 + _N**4 / 64.0)

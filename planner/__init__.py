@@ -1,0 +1,1 @@
+"""Fuel changeover planning under MARPOL Annex VI regulation 14, built on :mod:`geo`."""

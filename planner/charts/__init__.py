@@ -1,0 +1,1 @@
+"""PNG charts (matplotlib, imported lazily by the command line only)."""

@@ -1,0 +1,179 @@
+"""``changeover route`` and ``changeover areas``: the master's route check.
+
+Computes everything first, then prints and writes; rich and matplotlib are
+imported only here, and matplotlib only when a map is asked for.
+"""
+
+from __future__ import annotations
+
+from datetime import UTC, date, datetime, timezone
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from planner.cli import app
+
+AreasOpt = Annotated[list[Path], typer.Option("--areas", "-a", help="Area GeoJSON file or folder "
+                                              "of .geojson files (repeatable).")]
+JsonOpt = Annotated[bool, typer.Option("--json", help="Print JSON (the documented keys) instead "
+                                       "of tables.")]
+
+
+def ship_zone(tz: str | None, depart: str | None) -> timezone:
+    """The ship's time zone: ``--tz``, else the offset written on ``--depart``, else UTC."""
+    from planner.timefmt import parse_offset
+
+    if tz:
+        return parse_offset(tz)
+    if depart:
+        try:
+            written = datetime.fromisoformat(depart.strip().replace("z", "Z"))
+        except ValueError:
+            return UTC  # reported when --depart itself is parsed
+        if isinstance(written.tzinfo, timezone):
+            return written.tzinfo
+    return UTC
+
+
+def run_route_check(route_file: Path, areas: list[Path], depart: str | None, speed: float | None,
+                    on: str | None):
+    """Load the inputs and run the route check (no printing)."""
+    from geo.area_files import load_areas
+    from geo.compliance import check_route
+    from geo.path import route_path
+    from geo.route_loader import load_route
+    from geo.schedule import make_schedule
+    from planner.timefmt import parse_day, parse_moment
+
+    route = load_route(route_file)
+    area_list = load_areas(areas)
+    depart_utc = parse_moment(depart) if depart else None
+    day = parse_day(on) if on else date.today()
+    path = route_path(route)
+    schedule = make_schedule(path, depart_utc, speed)
+    return check_route(path, area_list, schedule, day)
+
+
+@app.command("route")
+def route_cmd(
+    route_file: Annotated[Path, typer.Argument(help="Route file: CSV, GeoJSON, GPX or RTZ.")],
+    areas: AreasOpt,
+    depart: Annotated[str | None, typer.Option(help="Departure, ISO 8601 with offset, e.g. "
+                                               "2027-05-29T08:00+12:00.")] = None,
+    speed: Annotated[float | None, typer.Option(help="Speed over ground for legs without their "
+                                                "own, knots.")] = None,
+    tz: Annotated[str | None, typer.Option(help="Ship's time as a UTC offset, e.g. +12:00 "
+                                           "(default: the offset written on --depart).")] = None,
+    on: Annotated[str | None, typer.Option(help="Judge areas in force on this date when there "
+                                           "are no times (default today).")] = None,
+    json_out: JsonOpt = False,
+    geojson: Annotated[Path | None, typer.Option(help="Write route and crossings as GeoJSON.")]
+    = None,
+    map_png: Annotated[Path | None, typer.Option("--map", help="Draw a PNG map of areas, route "
+                                                 "and crossings.")] = None,
+) -> None:
+    """Where and when the route enters and leaves each area, and the limit on every stretch."""
+    from planner.outputs import dumps, write_json
+    from planner.route_report import route_geojson, route_json
+
+    zone = ship_zone(tz, depart)
+    check = run_route_check(route_file, areas, depart, speed, on)
+    doc = route_json(check, zone)
+    if map_png is not None:
+        from planner.charts.route_map import draw_route_map
+
+        draw_route_map(check, map_png)
+    if geojson is not None:
+        write_json(geojson, route_geojson(check))
+    if json_out:
+        typer.echo(dumps(doc))
+        return
+    print_route_check(check, zone)
+    for p in (geojson, map_png):
+        if p is not None:
+            typer.echo(f"wrote {p}")
+
+
+def print_route_check(check, zone: timezone) -> None:
+    """Tables of crossings, stretches and time inside each area."""
+    from rich.console import Console
+    from rich.table import Table
+
+    from geo.position import format_position
+    from planner.timefmt import format_offset, format_ship, format_utc
+
+    con = Console()
+    path = check.path
+    sched = check.schedule
+    head = f"Route {path.route.name or path.route.source}: {path.length_nm:,.1f} nm in " \
+           f"{path.n_legs} legs"
+    if sched:
+        head += f", departs {format_utc(sched.depart_utc)}, arrives {format_utc(sched.arrive_utc)}"
+    else:
+        head += f"; no times given, areas judged as in force on {check.on.isoformat()}"
+    con.print(head)
+    t = Table(title="Boundary crossings", title_justify="left")
+    for col in ("Area", "Event", "Position", "Leg", "Dist (nm)", "UTC",
+                f"Ship's time ({format_offset(zone)})", "In force", "Limit after (% m/m)"):
+        t.add_column(col, justify="right" if col.startswith(("Dist", "Leg", "Limit")) else "left")
+    for tc in check.crossings:
+        c = tc.crossing
+        t.add_row(c.area, c.event, format_position(c.lat, c.lon), str(c.leg + 1),
+                  f"{c.distance_nm:,.2f}", format_utc(tc.time_utc),
+                  format_ship(tc.time_utc, zone), "yes" if tc.in_force else "no",
+                  f"{tc.limit_pct:.2f}")
+    if not check.crossings:
+        con.print("The route crosses no area boundary.")
+    else:
+        con.print(t)
+    s = Table(title="Sulphur limit along the route", title_justify="left")
+    for col in ("From (nm)", "To (nm)", "Length (nm)", "Limit (% m/m)", "Under", "From UTC",
+                "To UTC"):
+        s.add_column(col, justify="right" if "(nm)" in col or "%" in col else "left")
+    for st in check.stretches:
+        s.add_row(f"{st.from_nm:,.2f}", f"{st.to_nm:,.2f}", f"{st.to_nm - st.from_nm:,.2f}",
+                  f"{st.limit_pct:.2f}", ", ".join(st.areas) or "global cap",
+                  format_utc(st.from_utc), format_utc(st.to_utc))
+    con.print(s)
+    a = Table(title="Time inside each area", title_justify="left")
+    for col in ("Area", "Limit (% m/m)", "Inside (nm)", "Inside (h)"):
+        a.add_column(col, justify="left" if col == "Area" else "right")
+    for p in check.passages:
+        a.add_row(p.area.name, f"{p.area.sulphur_limit_pct:.2f}", f"{p.inside_nm:,.2f}",
+                  "—" if p.inside_h is None else f"{p.inside_h:,.2f}")
+    con.print(a)
+    con.print("[dim]Advisory only. Official area boundaries and limits are those in MARPOL "
+              "Annex VI and national law.[/dim]")
+
+
+@app.command("areas")
+def areas_cmd(
+    paths: Annotated[list[Path], typer.Argument(help="Area GeoJSON files or folders.")],
+    json_out: JsonOpt = False,
+    on: Annotated[str | None, typer.Option(help="Date for 'in force' (default today).")] = None,
+) -> None:
+    """List the control areas in files or folders, with their limits, dates and size."""
+    from geo.area_files import load_areas
+    from geo.area_measure import describe
+    from planner.outputs import dumps
+    from planner.timefmt import parse_day
+
+    day = parse_day(on) if on else datetime.now(UTC).date()
+    rows = [describe(a, day) for a in load_areas(paths)]
+    if json_out:
+        typer.echo(dumps({"on": day.isoformat(), "areas": rows}))
+        return
+    from rich.console import Console
+    from rich.table import Table
+
+    t = Table(title=f"Control areas (in force judged on {day.isoformat()})", title_justify="left")
+    for col in ("Name", "Limit (% m/m)", "From", "Until", "Edges", "Vertices", "Area (km²)",
+                "In force"):
+        t.add_column(col, justify="right" if col in ("Limit (% m/m)", "Vertices", "Area (km²)")
+                     else "left")
+    for r in rows:
+        t.add_row(r["name"], f"{r['limit_pct']:.2f}", str(r["effective_from"]),
+                  str(r["effective_until"] or "—"), r["edges"], str(r["vertices"]),
+                  f"{r['area_km2']:,.0f}", "yes" if r["in_force_today"] else "no")
+    Console().print(t)

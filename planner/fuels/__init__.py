@@ -1,0 +1,92 @@
+"""Fuel properties: the fuel as bunkered, blending, viscosity, specific energy, volume.
+
+One module per physical concept, pure functions over floats or numpy arrays:
+
+- :mod:`planner.fuels.fuel`: :class:`Fuel`, the delivery-note data, checked;
+- :mod:`planner.fuels.blending`: sulphur and density by mass, Refutas viscosity;
+- :mod:`planner.fuels.viscosity`: ASTM D341 viscosity-temperature line;
+- :mod:`planner.fuels.energy`: ISO 8217 specific energy, CCAI, SFOC scaling, SO₂;
+- :mod:`planner.fuels.volume`: Table 54B volume correction to 15 °C and mass.
+"""
+
+from planner.fuels.blending import (
+    blend,
+    blend_by_volume,
+    blend_density_from_masses_kg_m3,
+    blend_density_kg_m3,
+    blend_sulphur_pct,
+    blend_viscosity_cst,
+    mass_fractions,
+    mass_fractions_from_volumes,
+    viscosity_blending_number,
+    viscosity_from_blending_number,
+)
+from planner.fuels.energy import (
+    ISO_REFERENCE_Q_NET_MJ_KG,
+    SO2_CO2_RATIO_LIMITS,
+    SO2_PER_KG_SULPHUR,
+    ccai,
+    gross_specific_energy_mj_kg,
+    net_specific_energy_mj_kg,
+    sfoc_scaled,
+    so2_co2_ratio_limit,
+    so2_formed_kg,
+    so2_from_fuel_kg,
+)
+from planner.fuels.fuel import Fuel
+from planner.fuels.viscosity import (
+    DEFAULT_SLOPE_DISTILLATE,
+    DEFAULT_SLOPE_RESIDUAL,
+    d341_fit,
+    d341_intercept,
+    d341_viscosity_cst,
+    d341_viscosity_from_z,
+    d341_z,
+    default_slope,
+    temperature_for_viscosity,
+)
+from planner.fuels.volume import (
+    density_at_temperature_kg_m3,
+    mass_t,
+    standard_volume_m3,
+    thermal_expansion_coefficient,
+    volume_correction_factor,
+)
+
+__all__ = [
+    "DEFAULT_SLOPE_DISTILLATE",
+    "DEFAULT_SLOPE_RESIDUAL",
+    "ISO_REFERENCE_Q_NET_MJ_KG",
+    "SO2_CO2_RATIO_LIMITS",
+    "SO2_PER_KG_SULPHUR",
+    "Fuel",
+    "blend",
+    "blend_by_volume",
+    "blend_density_from_masses_kg_m3",
+    "blend_density_kg_m3",
+    "blend_sulphur_pct",
+    "blend_viscosity_cst",
+    "ccai",
+    "d341_fit",
+    "d341_intercept",
+    "d341_viscosity_cst",
+    "d341_viscosity_from_z",
+    "d341_z",
+    "default_slope",
+    "density_at_temperature_kg_m3",
+    "gross_specific_energy_mj_kg",
+    "mass_fractions",
+    "mass_fractions_from_volumes",
+    "mass_t",
+    "net_specific_energy_mj_kg",
+    "sfoc_scaled",
+    "so2_co2_ratio_limit",
+    "so2_formed_kg",
+    "so2_from_fuel_kg",
+    "standard_volume_m3",
+    "temperature_for_viscosity",
+    "thermal_expansion_coefficient",
+    "viscosity_blending_number",
+    "viscosity_from_blending_number",
+    "volume_correction_factor",
+]

@@ -1,0 +1,30 @@
+"""Helpers shared by the fuel-property modules: floats in, floats out; arrays in, arrays out."""
+
+from __future__ import annotations
+
+from typing import TypeAlias
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+FloatOrArray: TypeAlias = float | NDArray[np.float64]
+"""A plain float for scalar input, a float64 array for array input."""
+
+
+def f64(x: ArrayLike) -> NDArray[np.float64]:
+    """``x`` as a float64 array (0-d for a scalar)."""
+    return np.asarray(x, dtype=np.float64)
+
+
+def out(x: ArrayLike) -> FloatOrArray:
+    """A 0-d result as a Python float, anything else as a float64 array."""
+    arr = np.asarray(x, dtype=np.float64)
+    if arr.ndim == 0:
+        return float(arr)
+    return arr
+
+
+def require(condition: ArrayLike, message: str) -> None:
+    """Raise ``ValueError(message)`` unless ``condition`` holds everywhere."""
+    if not bool(np.all(condition)):
+        raise ValueError(message)

@@ -1,0 +1,103 @@
+"""The route check as plain data: the ``--json`` contract and the GeoJSON export.
+
+Keys follow DESIGN.md ("JSON contract"); keys may be added, never renamed.
+Legs count from 1 here (leg 1 joins waypoints 1 and 2), as on the bridge.
+"""
+
+from __future__ import annotations
+
+from datetime import timezone
+
+from geo.compliance import RouteCheck
+from geo.ellipsoid import NM_M
+from geo.rhumb import wrap180
+from planner.timefmt import format_offset, iso_utc
+
+
+def route_json(check: RouteCheck, tz: timezone | None = None) -> dict:
+    """The ``changeover route --json`` document."""
+    path = check.path
+    sched = check.schedule
+    out = {
+        "route": {
+            "name": path.route.name,
+            "file": path.route.source,
+            "distance_nm": path.length_nm,
+            "legs": path.n_legs,
+            "depart_utc": iso_utc(sched.depart_utc) if sched else None,
+            "arrive_utc": iso_utc(sched.arrive_utc) if sched else None,
+        },
+        "rules_on": None if sched else check.on.isoformat(),
+        "ship_utc_offset": format_offset(tz) if tz else None,
+        "crossings": [
+            {
+                "area": tc.crossing.area,
+                "event": tc.crossing.event,
+                "leg": tc.crossing.leg + 1,
+                "lat": tc.crossing.lat,
+                "lon": tc.crossing.lon,
+                "distance_nm": tc.crossing.distance_nm,
+                "time_utc": iso_utc(tc.time_utc),
+                "in_force": tc.in_force,
+                "limit_after_pct": tc.limit_pct,
+            }
+            for tc in check.crossings
+        ],
+        "stretches": [
+            {
+                "from_nm": st.from_nm,
+                "to_nm": st.to_nm,
+                "limit_pct": st.limit_pct,
+                "areas": list(st.areas),
+                "from_utc": iso_utc(st.from_utc),
+                "to_utc": iso_utc(st.to_utc),
+            }
+            for st in check.stretches
+        ],
+        "areas": [
+            {
+                "name": p.area.name,
+                "limit_pct": p.area.sulphur_limit_pct,
+                "inside_nm": p.inside_nm,
+                "inside_h": p.inside_h,
+            }
+            for p in check.passages
+        ],
+    }
+    return out
+
+
+def route_geojson(check: RouteCheck) -> dict:
+    """A GeoJSON FeatureCollection: the route as a LineString, crossings as Points.
+
+    The line is sampled every 5 nm along the true legs (rhumb or great circle),
+    longitudes continuing past ±180 where the route crosses it, so any GIS
+    draws the real track rather than straight lon/lat chords.
+    """
+    import numpy as np
+
+    path = check.path
+    step = 5 * NM_M
+    d = np.unique(np.concatenate([np.arange(0.0, path.length_m, step), path.start_m,
+                                  [path.length_m]]))
+    lat, lon = path.position(d)
+    features = [{
+        "type": "Feature",
+        "geometry": {"type": "LineString",
+                     "coordinates": [[float(x), float(y)] for x, y in zip(lon, lat, strict=True)]},
+        "properties": {"kind": "route", "name": path.route.name, "distance_nm": path.length_nm},
+    }]
+    for w in path.route.waypoints:
+        features.append({"type": "Feature",
+                         "geometry": {"type": "Point", "coordinates": [w.lon, w.lat]},
+                         "properties": {"kind": "waypoint", "name": w.name}})
+    for tc in check.crossings:
+        c = tc.crossing
+        features.append({
+            "type": "Feature",
+            "geometry": {"type": "Point", "coordinates": [float(wrap180(c.lon)), c.lat]},
+            "properties": {"kind": "crossing", "area": c.area, "event": c.event,
+                           "leg": c.leg + 1, "distance_nm": c.distance_nm,
+                           "time_utc": iso_utc(tc.time_utc), "in_force": tc.in_force},
+        })
+    return {"type": "FeatureCollection", "features": features}

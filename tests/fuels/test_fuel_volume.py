@@ -1,0 +1,89 @@
+"""Volume correction to 15 °C and bunker mass: planner.fuels.volume (Table 54B)."""
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given
+from hypothesis import strategies as st
+
+from planner.fuels.volume import (
+    density_at_temperature_kg_m3,
+    mass_t,
+    standard_volume_m3,
+    thermal_expansion_coefficient,
+    volume_correction_factor,
+)
+
+
+@pytest.mark.parametrize(
+    ("rho", "t", "vcf"),
+    # Table 54B formula; REFERENCE.md §4 checks from published bunker worked examples [P]
+    [(992.0, 36.0, 0.9857), (990.3, 34.0, 0.9870)],
+)
+def test_vcf_check_values(rho, t, vcf):
+    assert round(volume_correction_factor(rho, t), 4) == vcf
+
+
+def test_fuel_oil_band_constants():
+    # REFERENCE.md §4 [S]: rho >= 838.5, K0 186.9696, K1 0.4862; 787.5-838.5 K0 594.5418, K1 0
+    for rho in (992.0, 838.5, 1010.0):
+        expected = 186.9696 / rho**2 + 0.4862 / rho
+        assert thermal_expansion_coefficient(rho) == pytest.approx(expected)
+    assert thermal_expansion_coefficient(800.0) == pytest.approx(594.5418 / 800.0**2)
+
+
+def test_from_memory_bands_join_their_neighbours():
+    # Transition (770.5-787.5) and gasoline (653-770.5) constants are from memory [M]; REFERENCE.md
+    # does not list them. Not a source check: only that alpha is nearly continuous (within 0.2 %)
+    # across every band edge, which a mistyped constant would break.
+    for edge in (770.5, 787.5, 838.5):
+        below = thermal_expansion_coefficient(edge - 1e-9)
+        above = thermal_expansion_coefficient(edge)
+        assert above == pytest.approx(below, rel=2e-3)
+    assert thermal_expansion_coefficient(780.0) == pytest.approx(-0.00336312 + 2680.3206 / 780.0**2)
+    gasoline = 346.4228 / 700.0**2 + 0.4388 / 700.0
+    assert thermal_expansion_coefficient(700.0) == pytest.approx(gasoline)
+
+
+def test_vcf_is_one_at_15_c_and_arrays_work():
+    assert volume_correction_factor(991.0, 15.0) == 1.0
+    vcf = volume_correction_factor(np.array([991.0, 845.0]), np.array([40.0, 40.0]))
+    assert vcf.shape == (2,)
+    assert vcf[1] < vcf[0]  # the lighter fuel expands more
+
+
+@given(rho=st.floats(653.0, 1075.0), t=st.floats(15.001, 150.0))
+def test_vcf_below_one_above_15_c(rho, t):
+    assert volume_correction_factor(rho, t) < 1.0
+
+
+@given(rho=st.floats(653.0, 1075.0), t=st.floats(-18.0, 14.999))
+def test_vcf_above_one_below_15_c(rho, t):
+    assert volume_correction_factor(rho, t) > 1.0
+
+
+@pytest.mark.parametrize("rho", [652.9, 1075.1, float("nan")])
+def test_density_outside_table_refused(rho):
+    with pytest.raises(ValueError, match="Table 54B"):
+        volume_correction_factor(rho, 30.0)
+
+
+def test_standard_volume_and_density_at_temperature():
+    v15 = standard_volume_m3(1000.0, 992.0, 36.0)
+    assert v15 == pytest.approx(1000.0 * volume_correction_factor(992.0, 36.0))
+    assert density_at_temperature_kg_m3(992.0, 36.0) < 992.0
+    # mass is conserved: observed volume x density at t = V15 x rho15
+    assert 1000.0 * density_at_temperature_kg_m3(992.0, 36.0) == pytest.approx(v15 * 992.0)
+    with pytest.raises(ValueError):
+        standard_volume_m3(-1.0, 992.0, 36.0)
+
+
+def test_mass_in_vacuum_and_in_air():
+    # in vacuum: V15 x rho15 / 1000
+    assert mass_t(1000.0, 991.0, 15.0) == pytest.approx(991.0)
+    # weight in air: V15 x (rho15 - 1.1) / 1000, the usual air-buoyancy correction [M], from memory
+    assert mass_t(1000.0, 991.0, 15.0, in_air=True) == pytest.approx(989.9)
+    m = mass_t(500.0, 992.0, 36.0)
+    assert m == pytest.approx(500.0 * volume_correction_factor(992.0, 36.0) * 992.0 / 1000.0)
+    assert not math.isnan(m)
