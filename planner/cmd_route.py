@@ -97,13 +97,11 @@ def route_cmd(
 
 def print_route_check(check, zone: timezone) -> None:
     """Tables of crossings, stretches and time inside each area."""
-    from rich.console import Console
-    from rich.table import Table
-
     from geo.position import format_position
+    from planner.console import console, table
     from planner.timefmt import format_offset, format_ship, format_utc
 
-    con = Console()
+    con = console()
     path = check.path
     sched = check.schedule
     head = f"Route {path.route.name or path.route.source}: {path.length_nm:,.1f} nm in " \
@@ -113,32 +111,30 @@ def print_route_check(check, zone: timezone) -> None:
     else:
         head += f"; no times given, areas judged as in force on {check.on.isoformat()}"
     con.print(head)
-    t = Table(title="Boundary crossings", title_justify="left")
-    for col in ("Area", "Event", "Position", "Leg", "Dist (nm)", "UTC",
-                f"Ship's time ({format_offset(zone)})", "In force", "Limit after (% m/m)"):
-        t.add_column(col, justify="right" if col.startswith(("Dist", "Leg", "Limit")) else "left")
+    t = table("Boundary crossings", [
+        ("Area", "w"), ("Event", "l"), ("Position", "l"), ("Leg", "r"), ("Dist nm", "r"),
+        ("UTC", "l"), (f"Ship's time {format_offset(zone)}", "l"), ("In force", "l"),
+        ("Then limit %", "r")])
     for tc in check.crossings:
         c = tc.crossing
         t.add_row(c.area, c.event, format_position(c.lat, c.lon), str(c.leg + 1),
                   f"{c.distance_nm:,.2f}", format_utc(tc.time_utc),
-                  format_ship(tc.time_utc, zone), "yes" if tc.in_force else "no",
+                  format_ship(tc.time_utc, zone, with_offset=False), "yes" if tc.in_force else "no",
                   f"{tc.limit_pct:.2f}")
     if not check.crossings:
         con.print("The route crosses no area boundary.")
     else:
         con.print(t)
-    s = Table(title="Sulphur limit along the route", title_justify="left")
-    for col in ("From (nm)", "To (nm)", "Length (nm)", "Limit (% m/m)", "Under", "From UTC",
-                "To UTC"):
-        s.add_column(col, justify="right" if "(nm)" in col or "%" in col else "left")
+    s = table("Sulphur limit along the route", [
+        ("From nm", "r"), ("To nm", "r"), ("Length nm", "r"), ("Limit % m/m", "r"),
+        ("Under", "w"), ("From UTC", "l"), ("To UTC", "l")])
     for st in check.stretches:
         s.add_row(f"{st.from_nm:,.2f}", f"{st.to_nm:,.2f}", f"{st.to_nm - st.from_nm:,.2f}",
                   f"{st.limit_pct:.2f}", ", ".join(st.areas) or "global cap",
                   format_utc(st.from_utc), format_utc(st.to_utc))
     con.print(s)
-    a = Table(title="Time inside each area", title_justify="left")
-    for col in ("Area", "Limit (% m/m)", "Inside (nm)", "Inside (h)"):
-        a.add_column(col, justify="left" if col == "Area" else "right")
+    a = table("Time inside each area", [
+        ("Area", "w"), ("Limit % m/m", "r"), ("Inside nm", "r"), ("Inside h", "r")])
     for p in check.passages:
         a.add_row(p.area.name, f"{p.area.sulphur_limit_pct:.2f}", f"{p.inside_nm:,.2f}",
                   "—" if p.inside_h is None else f"{p.inside_h:,.2f}")
@@ -164,16 +160,13 @@ def areas_cmd(
     if json_out:
         typer.echo(dumps({"on": day.isoformat(), "areas": rows}))
         return
-    from rich.console import Console
-    from rich.table import Table
+    from planner.console import console, table
 
-    t = Table(title=f"Control areas (in force judged on {day.isoformat()})", title_justify="left")
-    for col in ("Name", "Limit (% m/m)", "From", "Until", "Edges", "Vertices", "Area (km²)",
-                "In force"):
-        t.add_column(col, justify="right" if col in ("Limit (% m/m)", "Vertices", "Area (km²)")
-                     else "left")
+    t = table(f"Control areas (in force judged on {day.isoformat()})", [
+        ("Name", "w"), ("Limit % m/m", "r"), ("From", "l"), ("Until", "l"), ("Edges", "l"),
+        ("Vertices", "r"), ("Area km²", "r"), ("In force", "l")])
     for r in rows:
         t.add_row(r["name"], f"{r['limit_pct']:.2f}", str(r["effective_from"]),
                   str(r["effective_until"] or "—"), r["edges"], str(r["vertices"]),
                   f"{r['area_km2']:,.0f}", "yes" if r["in_force_today"] else "no")
-    Console().print(t)
+    console().print(t)

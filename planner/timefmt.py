@@ -65,11 +65,12 @@ def format_offset(tz: timezone) -> str:
     return f"{sign}{minutes // 60:02d}:{minutes % 60:02d}"
 
 
-def format_ship(moment: datetime | None, tz: timezone) -> str:
-    """Ship's time: ``2027-06-03 02:05 (+12:00)``."""
+def format_ship(moment: datetime | None, tz: timezone, with_offset: bool = True) -> str:
+    """Ship's time: ``2027-06-03 02:05 (+12:00)`` (the offset left out on request)."""
     if moment is None:
         return "—"
-    return f"{moment.astimezone(tz).strftime('%Y-%m-%d %H:%M')} ({format_offset(tz)})"
+    text = moment.astimezone(tz).strftime("%Y-%m-%d %H:%M")
+    return f"{text} ({format_offset(tz)})" if with_offset else text
 
 
 def iso_utc(moment: datetime | None) -> str | None:

@@ -24,6 +24,13 @@ def _route_line(check: RouteCheck):
     return path.position(d)
 
 
+def _lon_label(x: float) -> str:
+    w = (x + 180.0) % 360.0 - 180.0
+    if abs(abs(w) - 180.0) < 1e-9 or abs(w) < 1e-9:
+        return f"{abs(w):.0f}°"
+    return f"{abs(w):.0f}°{'E' if w > 0 else 'W'}"
+
+
 def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
     """Write the map PNG. ``extra(ax)`` may draw more (changeover points) on top."""
     import matplotlib
@@ -33,15 +40,23 @@ def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
     import shapely
 
     lat, lon = _route_line(check)
-    pad = 2.0
+    pad = 1.5
     x0, x1 = lon.min() - pad, lon.max() + pad
-    y0, y1 = max(lat.min() - pad, -90.0), min(lat.max() + pad, 90.0)
-    fig, ax = plt.subplots(figsize=(10, 6.5), dpi=120)
-    window = shapely.box(x0 - 60, y0 - 30, x1 + 60, y1 + 30)
-    for k, track in enumerate(check.tracks):
-        from geo.plane import area_shape
+    y0, y1 = lat.min() - pad, lat.max() + pad
+    window = shapely.box(x0, -90.0, x1, 90.0)
+    from geo.plane import area_shape
 
-        shape = area_shape(track.area)
+    shapes = [area_shape(t.area) for t in check.tracks]
+    for shape in shapes:
+        part = shapely.intersection(shape.union, window)
+        if not part.is_empty:
+            _, b0, _, b1 = part.bounds
+            y0, y1 = min(y0, b0 - 0.5), max(y1, b1 + 0.5)
+    y0, y1 = max(y0, -90.0), min(y1, 90.0)
+    aspect = 1.0 / max(np.cos(np.radians(0.5 * (y0 + y1))), 0.05)
+    height = float(np.clip(10.0 * (y1 - y0) * aspect / (x1 - x0), 3.0, 9.0))
+    fig, ax = plt.subplots(figsize=(11, height + 1.8), dpi=120)
+    for k, (track, shape) in enumerate(zip(check.tracks, shapes, strict=True)):
         colour = AREA_COLOURS[k % len(AREA_COLOURS)]
         geom = shapely.intersection(shape.union, window)
         polys = [g for g in shapely.get_parts(geom) if g.geom_type == "Polygon"]
@@ -63,27 +78,37 @@ def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
         wl = w.lon + 360.0 * np.round((lon.mean() - w.lon) / 360.0)
         ax.plot(wl, w.lat, "ks", ms=4)
         ax.annotate(w.name, (wl, w.lat), textcoords="offset points", xytext=(4, -10), fontsize=8)
-    for tc in check.crossings:
+    notes = []
+    for n, tc in enumerate(check.crossings, start=1):
         c = tc.crossing
         cl = c.lon + 360.0 * np.round((lon.mean() - c.lon) / 360.0)
-        marker = "v" if c.event == "enter" else "^"
-        ax.plot(cl, c.lat, marker, color="crimson" if c.event == "enter" else "royalblue", ms=8)
-        ax.annotate(f"{c.event} {c.area}\n{c.distance_m / NM_M:,.1f} nm", (cl, c.lat),
-                    textcoords="offset points", xytext=(4, 6), fontsize=7)
+        enter = c.event == "enter"
+        ax.plot(cl, c.lat, "v" if enter else "^", color="crimson" if enter else "royalblue",
+                ms=8, label=("enter" if enter else "exit") if n <= 2 else None)
+        ax.annotate(str(n), (cl, c.lat), textcoords="offset points", fontsize=8,
+                    xytext=(0, 9 if n % 2 else -16), ha="center", weight="bold")
+        notes.append(f"{n}  {c.event:<5} {c.area}  at {c.distance_m / NM_M:,.1f} nm")
+    if notes:
+        fig.text(0.01, 0.01, "\n".join(notes), fontsize=7, family="monospace", va="bottom")
     if extra is not None:
         extra(ax)
     ax.set_xlim(x0, x1)
     ax.set_ylim(y0, y1)
-    ax.set_aspect(1.0 / max(np.cos(np.radians(0.5 * (y0 + y1))), 0.05))
+    ax.set_aspect(aspect)
     ticks = ax.get_xticks()
     ax.set_xticks(ticks)
-    ax.set_xticklabels([f"{(t + 180) % 360 - 180:.0f}°" for t in ticks])
-    ax.set_xlabel("longitude (degrees, east positive)")
-    ax.set_ylabel("latitude (degrees, north positive)")
+    ax.set_xticklabels([_lon_label(t) for t in ticks])
+    ax.set_yticks(ax.get_yticks())
+    ax.set_yticklabels([f"{abs(t):.0f}°{'N' if t > 0 else 'S' if t < 0 else ''}"
+                        for t in ax.get_yticks()])
+    ax.set_ylim(y0, y1)
+    ax.set_xlim(x0, x1)
+    ax.set_xlabel("longitude")
+    ax.set_ylabel("latitude")
     ax.set_title(f"Route {check.path.route.name}: areas and boundary crossings "
                  "(sketch, not for navigation)")
     ax.grid(True, lw=0.3)
     ax.legend(loc="best", fontsize=8)
-    fig.tight_layout()
+    fig.tight_layout(rect=(0, 0.03 + 0.018 * len(notes) / (height + 1.8) * 6, 1, 1))
     write_atomic(out, lambda p: fig.savefig(p, format="png"), suffix=".png")
     plt.close(fig)

@@ -1,0 +1,181 @@
+"""Temperature and viscosity at a consumer inlet during a changeover.
+
+Residual fuel is heated to a target viscosity (default 13 cSt; residual fuel
+is heated to about 13-17 cSt at the injectors, REFERENCE.md section 2 [P]);
+distillate arrives at its supply temperature. During a changeover the heater
+set point follows what the blend now at the inlet needs, but the inlet
+temperature changes no faster than a set rate (default 2 °C/min, the usual
+rule of thumb against thermal shock, REFERENCE.md section 2 [S]; common
+practice). The blend's viscosity-temperature line comes from Refutas blending
+(mass fractions) at two temperatures, then ASTM D341 through them.
+
+The engine's window: at least 2 cSt at the inlet (published two-stroke
+guidance on sub-0.10 % fuels, REFERENCE.md section 2 [P]) and at most a
+maximum (default 20 cSt, common practice), both user-set. When the path
+leaves the window the fix is reported: how long before the valve switch
+the temperature must start moving (pre-cooling the old fuel towards the
+coolest temperature its own maximum viscosity allows, or pre-heating), or
+that the switch must be slower.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from planner.fuels import Fuel, blend_viscosity_cst, d341_fit, d341_viscosity_cst
+from planner.fuels import temperature_for_viscosity as d341_temperature
+
+_T_LOW_C, _T_HIGH_C = 50.0, 100.0
+
+
+@dataclass(frozen=True)
+class InletWindow:
+    """Heating rule and engine limits at a consumer inlet (°C, cSt, °C/min)."""
+
+    target_cst: float = 13.0
+    min_cst: float = 2.0
+    max_cst: float = 20.0
+    max_rate_c_per_min: float = 2.0
+    supply_temperature_c: float = 40.0
+    max_temperature_c: float = 150.0
+
+    def __post_init__(self) -> None:
+        if not 0.0 < self.min_cst <= self.target_cst <= self.max_cst:
+            raise ValueError("inlet window needs 0 < min_cst <= target_cst <= max_cst "
+                             f"(got {self.min_cst}, {self.target_cst}, {self.max_cst} cSt)")
+        if not self.max_rate_c_per_min > 0.0:
+            raise ValueError(f"max_rate_c_per_min must be > 0 (got {self.max_rate_c_per_min})")
+        if not self.supply_temperature_c < self.max_temperature_c:
+            raise ValueError("supply_temperature_c must be below max_temperature_c")
+
+
+def blend_line(fuels: Sequence[Fuel], mass_fractions: ArrayLike) -> tuple[NDArray, NDArray]:
+    """ASTM D341 constants (A, B) of blends: fractions shaped (n_fuels, ...) by mass.
+
+    Refutas (mass fractions) at 50 °C and 100 °C, then the D341 line through them.
+    """
+    w = np.asarray(mass_fractions, dtype=np.float64)
+    nu_lo = np.array([f.viscosity_at(_T_LOW_C) for f in fuels], dtype=np.float64)
+    nu_hi = np.array([f.viscosity_at(_T_HIGH_C) for f in fuels], dtype=np.float64)
+    shape = (len(fuels),) + (1,) * (w.ndim - 1)
+    v_lo = blend_viscosity_cst(w, np.broadcast_to(nu_lo.reshape(shape), w.shape))
+    v_hi = blend_viscosity_cst(w, np.broadcast_to(nu_hi.reshape(shape), w.shape))
+    a, b = d341_fit(v_lo, _T_LOW_C, v_hi, _T_HIGH_C)
+    return np.asarray(a), np.asarray(b)
+
+
+def set_point_c(a: ArrayLike, b: ArrayLike, window: InletWindow) -> NDArray[np.float64]:
+    """Heater set point for blends (°C): the target viscosity's temperature, within limits.
+
+    A fuel already thinner than the target at its supply temperature is not heated.
+    """
+    t = np.asarray(d341_temperature(window.target_cst, a, b), dtype=np.float64)
+    return np.clip(t, window.supply_temperature_c, window.max_temperature_c)
+
+
+def rate_limited(target_c: NDArray, time_h: NDArray, start_c: float, rate_c_per_min: float):
+    """Follow a target temperature, moving at most ``rate_c_per_min`` (°C/min)."""
+    out = np.empty_like(target_c)
+    cur = start_c
+    dt_min = np.diff(time_h, prepend=time_h[0]) * 60.0
+    for k in range(len(target_c)):
+        step = rate_c_per_min * dt_min[k]
+        cur = cur + min(max(target_c[k] - cur, -step), step)
+        out[k] = cur
+    return out
+
+
+@dataclass(frozen=True, eq=False)
+class InletPath:
+    """Temperature (°C), viscosity (cSt) and set point (°C) at an inlet against time (h)."""
+
+    time_h: NDArray[np.float64]
+    temperature_c: NDArray[np.float64]
+    viscosity_cst: NDArray[np.float64]
+    set_point_c: NDArray[np.float64]
+    window: InletWindow
+
+    @property
+    def min_viscosity_cst(self) -> float:
+        return float(np.min(self.viscosity_cst))
+
+    @property
+    def max_viscosity_cst(self) -> float:
+        return float(np.max(self.viscosity_cst))
+
+    def outside(self) -> list[tuple[float, float, str]]:
+        """Spans ``(from_h, to_h, "below"|"above")`` outside the engine's window."""
+        spans: list[tuple[float, float, str]] = []
+        for label, bad in (("below", self.viscosity_cst < self.window.min_cst - 1e-9),
+                           ("above", self.viscosity_cst > self.window.max_cst + 1e-9)):
+            edges = np.diff(np.concatenate([[0], bad.astype(np.int8), [0]]))
+            starts, ends = np.nonzero(edges == 1)[0], np.nonzero(edges == -1)[0] - 1
+            spans += [(float(self.time_h[i]), float(self.time_h[j]), label)
+                      for i, j in zip(starts, ends, strict=True)]
+        return sorted(spans)
+
+    @property
+    def hours_outside(self) -> float:
+        return sum(b - a for a, b, _ in self.outside())
+
+
+def inlet_path(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: ArrayLike,
+               window: InletWindow, lead_h: float = 0.0) -> InletPath:
+    """The inlet's temperature and viscosity path over a changeover.
+
+    ``mass_fractions`` (n_fuels, n_times) is the inlet's composition by mass;
+    the inlet starts settled at the set point of the first composition. With
+    ``lead_h`` > 0 the temperature starts moving that long before t = 0,
+    towards the temperature the first composition tolerates nearest the final
+    set point (its own viscosity window), and the path returned covers
+    ``-lead_h`` onwards.
+    """
+    t = np.asarray(time_h, dtype=np.float64)
+    a, b = blend_line(fuels, mass_fractions)
+    sp = set_point_c(a, b, window)
+    start = float(sp[0])
+    if lead_h > 0.0:
+        pre = _pre_target_c(float(a[0]), float(b[0]), float(sp[-1]), window)
+        n_pre = max(2, int(np.ceil(lead_h * 60.0)) + 1)
+        t_pre = np.linspace(-lead_h, 0.0, n_pre)[:-1]
+        t = np.concatenate([t_pre, t])
+        a = np.concatenate([np.full(len(t_pre), a[0]), a])
+        b = np.concatenate([np.full(len(t_pre), b[0]), b])
+        sp = np.concatenate([np.full(len(t_pre), pre), sp])
+    temp = rate_limited(sp, t, start, window.max_rate_c_per_min)
+    nu = np.asarray(d341_viscosity_cst(temp, a, b), dtype=np.float64)
+    return InletPath(t, temp, nu, sp, window)
+
+
+def _pre_target_c(a: float, b: float, final_c: float, window: InletWindow) -> float:
+    """Where the old fuel may be taken before the switch: toward the final set point,
+    no further than its own viscosity window allows."""
+    cool_limit = float(d341_temperature(window.max_cst, a, b))
+    hot_limit = float(d341_temperature(window.min_cst, a, b))
+    lo, hi = sorted((cool_limit, hot_limit))
+    return float(np.clip(final_c, max(lo, window.supply_temperature_c),
+                         min(hi, window.max_temperature_c)))
+
+
+def lead_needed_h(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: ArrayLike,
+                  window: InletWindow, max_lead_h: float = 4.0,
+                  step_h: float = 1.0 / 60.0) -> float | None:
+    """Shortest lead (h, to the minute) that keeps the inlet inside the window.
+
+    0 when no lead is needed; None when no lead up to ``max_lead_h`` suffices
+    (then the switch itself must be slower).
+    """
+    t = np.asarray(time_h, dtype=np.float64)
+    w = np.asarray(mass_fractions, dtype=np.float64)
+    grid = np.arange(t[0], t[-1] + step_h, step_h)  # a minute grid is enough for a rate limit
+    w_grid = np.array([np.interp(grid, t, wi) for wi in w])
+    lead = 0.0
+    while lead <= max_lead_h + 1e-12:
+        if not inlet_path(fuels, w_grid, grid, window, lead).outside():
+            return lead
+        lead = lead + (step_h if lead < 1.0 else 5.0 * step_h)
+    return None
