@@ -43,7 +43,3 @@ def main() -> None:
     except InputError as exc:
         sys.stderr.write(f"changeover: error: {exc}\n")
         sys.exit(2)
-
-
-if __name__ == "__main__":
-    main()
