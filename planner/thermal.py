@@ -140,7 +140,7 @@ def inlet_path(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: ArrayLi
     start = float(sp[0])
     if lead_h > 0.0:
         pre = _pre_target_c(float(a[0]), float(b[0]), float(sp[-1]), window)
-        n_pre = max(2, int(np.ceil(lead_h * 60.0)) + 1)
+        n_pre = max(2, int(np.ceil(lead_h * 60.0 - 1e-9)) + 1)
         t_pre = np.linspace(-lead_h, 0.0, n_pre)[:-1]
         t = np.concatenate([t_pre, t])
         a = np.concatenate([np.full(len(t_pre), a[0]), a])
@@ -173,9 +173,9 @@ def lead_needed_h(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: Arra
     w = np.asarray(mass_fractions, dtype=np.float64)
     grid = np.arange(t[0], t[-1] + step_h, step_h)  # a minute grid is enough for a rate limit
     w_grid = np.array([np.interp(grid, t, wi) for wi in w])
-    lead = 0.0
-    while lead <= max_lead_h + 1e-12:
-        if not inlet_path(fuels, w_grid, grid, window, lead).outside():
-            return lead
-        lead = lead + (step_h if lead < 1.0 else 5.0 * step_h)
+    k = 0
+    while k * step_h <= max_lead_h + 1e-12:
+        if not inlet_path(fuels, w_grid, grid, window, k * step_h).outside():
+            return k * step_h
+        k += 1 if k * step_h < 1.0 else 5
     return None
