@@ -45,9 +45,10 @@ class PlaneRing:
 def ring_curves(ring: Ring, edges: str) -> tuple[Curves, int]:
     """The edge curves of an open ring and its winding: 0, or ±1 around a pole.
 
-    Geodesic and rhumb edges take the shorter way in longitude; an edge to or
-    from a pole point keeps the longitude as written (a meridian), and an edge
+    Geodesic and rhumb edges take the shorter way in longitude; an edge
     between two pole points is taken literally (it runs along the pole).
+    Lonlat rings take every longitude as written, so their steps always sum
+    to zero: a lonlat polar area must be written with explicit pole vertices.
     """
     lon = np.array([p[0] for p in ring], dtype=np.float64)
     lat = np.array([p[1] for p in ring], dtype=np.float64)

@@ -1,0 +1,293 @@
+"""Load sulphur control areas from GeoJSON files (RFC 7946).
+
+Each path is a ``.geojson`` / ``.json`` file or a folder (its ``*.geojson``
+files, sorted by name). A file holds a Feature or a FeatureCollection whose
+features have Polygon or MultiPolygon geometries, holes allowed, positions
+``[lon, lat]`` in degrees (an altitude, if any, is ignored). Properties:
+
+- ``name`` (required, non-empty text, unique among all areas loaded together,
+  compared ignoring case);
+- ``sulphur_limit_pct`` (required number 0..100, % m/m);
+- ``effective_from`` (required date ``YYYY-MM-DD``, UTC), optional
+  ``effective_until`` (date, not before ``effective_from``);
+- optional ``edges``: ``geodesic`` (default) | ``rhumb`` | ``lonlat``;
+- optional ``source`` (text); any other property is kept out of the way.
+
+Rings must be closed (last position equal to the first); the closing vertex
+is removed and repeated consecutive vertices are dropped. Latitudes within
+±90°; longitudes may continue past ±180 (at most one turn: within ±540°), so
+a polygon across 180° may be written split there or continuous. The geometry
+is then checked by :func:`geo.area_checks.check_area`.
+
+Every refusal is one :class:`InputError` naming the file, the place
+(``feature 3 'Corran Sea ECA', polygon 1, ring 2, vertex 5``) and the value.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import re
+from collections.abc import Sequence
+from datetime import date
+from numbers import Real
+from pathlib import Path
+
+from geo.area import EDGE_KINDS, Area, Polygon
+from geo.area_checks import Text, check_area
+from geo.errors import InputError
+
+SUFFIXES = (".geojson", ".json")
+_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
+_LIMIT = "a number of % m/m sulphur from 0 to 100, such as 0.10"
+
+
+def load_areas(paths: Sequence[str | Path]) -> list[Area]:
+    """All areas in the given files and folders, in file order then feature order."""
+    areas: list[Area] = []
+    seen: dict[str, str] = {}
+    for path in _files(paths):
+        for i, feature in enumerate(_features(path), start=1):
+            areas.append(_area(path, i, feature, seen))
+    return areas
+
+
+def _files(paths: Sequence[str | Path]) -> list[Path]:
+    out: list[Path] = []
+    for p in map(Path, paths):
+        if p.is_dir():
+            found = sorted(f for f in p.glob("*.geojson") if f.is_file())
+            if not found:
+                raise InputError(
+                    p,
+                    "",
+                    Text("a folder with no *.geojson file"),
+                    "a folder holding area files (*.geojson)",
+                )
+            out.extend(found)
+        elif p.is_file():
+            if p.suffix.lower() not in SUFFIXES:
+                raise InputError(
+                    p,
+                    "",
+                    Text(f"a {p.suffix or 'plain'} file"),
+                    "an area file named *.geojson or *.json",
+                )
+            out.append(p)
+        else:
+            raise InputError(
+                p,
+                "",
+                Text("no such file or folder"),
+                "an area file (.geojson, .json) or a folder of them",
+            )
+    unique: dict[Path, Path] = {}
+    for f in out:
+        unique.setdefault(f.resolve(), f)
+    return list(unique.values())
+
+
+def _refuse_constant(name: str) -> float:
+    raise ValueError(f"{name} is not a JSON number")
+
+
+def _features(path: Path) -> list[dict]:
+    try:
+        text = path.read_bytes().decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        raise InputError(path, f"byte {e.start + 1}", Text("not UTF-8"), "UTF-8 text") from None
+    except OSError as e:
+        raise InputError(path, "", Text(e.strerror or "unreadable"), "a readable file") from None
+    try:
+        doc = json.loads(text, parse_constant=_refuse_constant)
+    except json.JSONDecodeError as e:
+        raise InputError(
+            path,
+            f"line {e.lineno}, column {e.colno}",
+            Text(e.msg),
+            "GeoJSON (RFC 7946), valid JSON",
+        ) from None
+    except ValueError as e:
+        raise InputError(path, "", Text(str(e)), "GeoJSON (RFC 7946), valid JSON") from None
+    kind = doc.get("type") if isinstance(doc, dict) else None
+    if kind == "Feature":
+        return [doc]
+    if kind == "FeatureCollection":
+        feats = doc.get("features")
+        if not isinstance(feats, list) or not feats:
+            raise InputError(
+                path,
+                "features",
+                Text("none") if feats == [] else feats,
+                "a FeatureCollection with at least one Feature",
+            )
+        return feats
+    raise InputError(
+        path,
+        "type",
+        kind if isinstance(kind, str) else Text("no type"),
+        "a Feature or FeatureCollection (an area needs its properties)",
+    )
+
+
+def _area(path: Path, i: int, feature: object, seen: dict[str, str]) -> Area:
+    """Build and check the area of feature ``i`` (1-based) of ``path``."""
+    place = f"feature {i}"
+    if not isinstance(feature, dict) or feature.get("type") != "Feature":
+        kind = feature.get("type") if isinstance(feature, dict) else feature
+        raise InputError(path, place, kind, "a GeoJSON Feature")
+    props = feature.get("properties")
+    if props is None:
+        props = {}
+    if not isinstance(props, dict):
+        raise InputError(path, f"{place}, properties", props, "an object of properties")
+
+    name = props.get("name")
+    if not isinstance(name, str) or not name.strip():
+        raise InputError(path, f"{place}, property name", name, "the area's name, non-empty text")
+    name = name.strip()
+    place = f"{place} {name!r}"
+    key = name.casefold()
+    if key in seen:
+        raise InputError(
+            path, f"{place}, property name", name, f"a name not already used ({seen[key]} has it)"
+        )
+    seen[key] = f"{path}, feature {i}"
+
+    limit = props.get("sulphur_limit_pct")
+    if (
+        isinstance(limit, bool)
+        or not isinstance(limit, Real)
+        or not (math.isfinite(limit) and 0.0 <= limit <= 100.0)
+    ):
+        raise InputError(path, f"{place}, property sulphur_limit_pct", limit, _LIMIT)
+    start = _date(path, place, props, "effective_from", required=True)
+    until = _date(path, place, props, "effective_until", required=False)
+    if until is not None and start is not None and until < start:
+        raise InputError(
+            path,
+            f"{place}, property effective_until",
+            props["effective_until"],
+            f"a date not before effective_from {start.isoformat()}",
+        )
+    edges = props.get("edges")
+    edges = "geodesic" if edges is None else edges
+    if edges not in EDGE_KINDS:
+        raise InputError(path, f"{place}, property edges", edges, " | ".join(EDGE_KINDS))
+    source = props.get("source")
+    source = "" if source is None else source
+    if not isinstance(source, str):
+        raise InputError(path, f"{place}, property source", source, "text")
+
+    polygons, numbers = _geometry(path, place, feature.get("geometry"))
+    area = Area(
+        name=name,
+        sulphur_limit_pct=float(limit),
+        effective_from=start,
+        polygons=polygons,
+        effective_until=until,
+        edges=edges,
+        source=source,
+        file=str(path),
+    )
+    return check_area(area, file=str(path), place=place, vertex_numbers=numbers)
+
+
+def _date(path: Path, place: str, props: dict, key: str, *, required: bool) -> date | None:
+    value = props.get(key)
+    if value is None and not required:
+        return None
+    if isinstance(value, str) and _DATE.fullmatch(value):
+        try:
+            return date.fromisoformat(value)
+        except ValueError:
+            pass
+    raise InputError(
+        path, f"{place}, property {key}", value, "a date YYYY-MM-DD, such as 2027-03-01"
+    )
+
+
+def _geometry(path: Path, place: str, geom: object):
+    """Polygons of a Polygon or MultiPolygon, and the file's vertex numbers per stored vertex."""
+    kind = geom.get("type") if isinstance(geom, dict) else None
+    coords = geom.get("coordinates") if isinstance(geom, dict) else None
+    if kind not in ("Polygon", "MultiPolygon"):
+        raise InputError(
+            path,
+            f"{place}, geometry",
+            kind if geom is not None else None,
+            "a Polygon or MultiPolygon geometry",
+        )
+    if kind == "Polygon":
+        coords = [coords]
+    if not isinstance(coords, list) or not coords:
+        raise InputError(
+            path, f"{place}, geometry coordinates", Text("none"), f"the coordinates of a {kind}"
+        )
+    polygons: list[Polygon] = []
+    numbers: dict[tuple[int, int], list[int]] = {}
+    for pi, rings in enumerate(coords):
+        where = f"{place}, polygon {pi + 1}"
+        if not isinstance(rings, list) or not rings:
+            raise InputError(path, where, Text("no rings"), "an exterior ring, then any holes")
+        parsed = []
+        for ri, ring in enumerate(rings):
+            vertices, nums = _ring(path, f"{where}, ring {ri + 1}", ring)
+            parsed.append(vertices)
+            numbers[(pi, ri)] = nums
+        polygons.append(Polygon(parsed[0], tuple(parsed[1:])))
+    return tuple(polygons), numbers
+
+
+def _ring(path: Path, where: str, ring: object):
+    """An open ring of (lon, lat) from a closed GeoJSON ring, and each vertex's number (1-based)."""
+    if not isinstance(ring, list):
+        raise InputError(path, where, Text(type(ring).__name__), "a list of [lon, lat] positions")
+    points = [_position(path, f"{where}, vertex {k}", p) for k, p in enumerate(ring, start=1)]
+    if len(points) < 4 or points[0] != points[-1]:
+        shown = Text(
+            f"{len(points)} positions"
+            if len(points) < 4
+            else f"first {list(points[0])}, last {list(points[-1])}"
+        )
+        raise InputError(
+            path, where, shown, "a closed ring: at least 4 positions, the last equal to the first"
+        )
+    vertices: list[tuple[float, float]] = []
+    nums: list[int] = []
+    for k, p in enumerate(points[:-1], start=1):
+        if not vertices or p != vertices[-1]:
+            vertices.append(p)
+            nums.append(k)
+    while len(vertices) > 1 and vertices[-1] == vertices[0]:
+        vertices.pop()
+        nums.pop()
+    if len(set(vertices)) < 3:
+        raise InputError(
+            path,
+            where,
+            Text(f"{len(set(vertices))} distinct vertices"),
+            "a ring of at least 3 distinct vertices",
+        )
+    return tuple(vertices), nums
+
+
+def _position(path: Path, where: str, p: object) -> tuple[float, float]:
+    ok = (
+        isinstance(p, list)
+        and len(p) >= 2
+        and all(isinstance(v, Real) and not isinstance(v, bool) and math.isfinite(v) for v in p[:2])
+    )
+    if not ok:
+        raise InputError(path, where, Text(json.dumps(p)), "a position [lon, lat] of two numbers")
+    lon, lat = float(p[0]), float(p[1])
+    if abs(lat) > 90.0:
+        raise InputError(path, where, Text(json.dumps(p)), "a latitude within ±90° (second number)")
+    if abs(lon) > 540.0:
+        raise InputError(
+            path,
+            where,
+            Text(json.dumps(p)),
+            "a longitude within ±540° (first number; at most one turn past ±180)",
+        )
+    return lon, lat
