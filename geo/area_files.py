@@ -52,6 +52,30 @@ def load_areas(paths: Sequence[str | Path]) -> list[Area]:
     return areas
 
 
+NO_LIMIT_PCT = 100.0
+"""The 'limit' of a caution zone: none (caution zones restrict when to change over)."""
+
+
+def load_caution_zones(paths: Sequence[str | Path]) -> list[Area]:
+    """Caution zones (confined or congested waters, traffic lanes, pilotage areas).
+
+    The same GeoJSON and checks as areas; only ``name`` is required. A zone is
+    returned as an :class:`Area` with no limit (:data:`NO_LIMIT_PCT`), in
+    force from ``effective_from`` if given, else always.
+    """
+    zones: list[Area] = []
+    seen: dict[str, str] = {}
+    for path in _files(paths):
+        for i, feature in enumerate(_features(path), start=1):
+            if isinstance(feature, dict) and isinstance(feature.get("properties"), dict):
+                props = dict(feature["properties"])
+                props.setdefault("sulphur_limit_pct", NO_LIMIT_PCT)
+                props.setdefault("effective_from", "1900-01-01")
+                feature = {**feature, "properties": props}
+            zones.append(_area(path, i, feature, seen))
+    return zones
+
+
 def _files(paths: Sequence[str | Path]) -> list[Path]:
     out: list[Path] = []
     for p in map(Path, paths):
