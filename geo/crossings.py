@@ -12,12 +12,14 @@ Method (per area):
    (:func:`geo.roots.intersect`) to :data:`geo.roots.TOL_M`.
 3. *Classify*: meeting points closer than :data:`MERGE_M` along the route are
    merged; the route is inside or outside on each interval between them
-   (tested at the interval's midpoint, strictly inside the area); an event
-   exists only where that state flips. Touches, vertex hits without
+   (tested at the interval's midpoint, strictly inside the area; an interval
+   lying on the boundary is inside when the route is inside next to it); an
+   event exists only where that state flips. Touches, vertex hits without
    crossing, runs along an edge, overlapping parts, holes and seams of
    polygons split at 180° therefore give no event. The start counts as
    inside when it is on the boundary, so a route that starts inside (or on
-   the edge) has no entry event there.
+   the edge) has no entry event there, and a route that arrives on the
+   boundary from outside enters there, at its end.
 """
 
 from __future__ import annotations
@@ -146,16 +148,49 @@ def meeting_points(path: RoutePath, shape: AreaShape) -> tuple[NDArray, NDArray]
     return leg[ok], np.clip(s[ok], 0.0, leg_len[ok])
 
 
-def _strictly_inside(shape: AreaShape, lat, lon) -> NDArray[np.bool_]:
+def _interval_states(shape: AreaShape, lat, lon) -> tuple[NDArray[np.bool_], NDArray[np.bool_]]:
+    """For interval midpoints: strictly inside the area, and on its boundary."""
+    lat = np.atleast_1d(np.asarray(lat, dtype=np.float64))
+    lon = np.atleast_1d(np.asarray(lon, dtype=np.float64))
     inside = shape.contains(lat, lon)
-    if np.any(inside):
-        k = np.nonzero(inside)[0]
-        boundary = shapely.boundary(shape.union)
-        near = np.zeros(len(k), dtype=bool)
-        for shift in (-720.0, -360.0, 0.0, 360.0, 720.0):
-            pts = shapely.points(lon[k] + shift, lat[k])
-            near |= shapely.dwithin(boundary, pts, BOUNDARY_TOL_DEG)
-        inside[k[near]] = False
+    boundary = shapely.boundary(shape.union)
+    shapely.prepare(boundary)
+    # only over the area's own span is the united boundary the true one: the outermost
+    # copies (a turn either side) keep the seams of polygons split at 180° as edges
+    lo, hi = shape.lon_min + 360.0, shape.lon_max - 360.0
+    near = np.zeros(len(lat), dtype=bool)
+    for shift in (-720.0, -360.0, 0.0, 360.0, 720.0):
+        x = lon + shift
+        here = (x >= lo - 1e-6) & (x <= hi + 1e-6)
+        if np.any(here):
+            pts = shapely.points(x[here], lat[here])
+            near[here] |= shapely.dwithin(boundary, pts, BOUNDARY_TOL_DEG)
+    return inside & ~near, near
+
+
+def _settle_boundary_runs(inside: NDArray[np.bool_], on_edge: NDArray[np.bool_],
+                          start_inside: bool) -> NDArray[np.bool_]:
+    """Give each run of intervals lying on the boundary the state around it.
+
+    The boundary counts as inside, so a run is inside when the route is inside
+    just before or just after it (before the first interval: the start's
+    state; after the last: the state before). Touching or following the
+    boundary from outside, or from inside, therefore flips nothing.
+    """
+    inside = inside.copy()
+    n = len(inside)
+    i = 0
+    while i < n:
+        if not on_edge[i]:
+            i += 1
+            continue
+        j = i
+        while j + 1 < n and on_edge[j + 1]:
+            j += 1
+        before = bool(inside[i - 1]) if i > 0 else start_inside
+        after = bool(inside[j + 1]) if j + 1 < n else before
+        inside[i:j + 1] = before or after
+        i = j + 1
     return inside
 
 
@@ -168,15 +203,20 @@ def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
     keep = np.ones(len(d), dtype=bool)
     if len(d):
         keep[1:] = np.diff(d) > MERGE_M
+    # the solver's meetings, not the sampled plane outline (good to about a centimetre),
+    # decide whether the start is on the boundary
+    start_on_boundary = bool(np.any(d <= MERGE_M))
+    end_on_boundary = bool(np.any(d >= path.length_m - MERGE_M))
     # a meeting at either end of the route is not an event: the boundary counts as inside
     keep &= (d > MERGE_M) & (d < path.length_m - MERGE_M)
     d, leg, s = d[keep], leg[keep], s[keep]
     ends = np.concatenate([[0.0], d, [path.length_m]])
     mids = 0.5 * (ends[:-1] + ends[1:])
     mlat, mlon = path.position(mids)
-    inside = _strictly_inside(shape, mlat, mlon)
+    strict, on_edge = _interval_states(shape, mlat, mlon)
     lat0, lon0 = path.position([0.0])
-    start_inside = bool(shape.covers(lat0, lon0)[0])
+    start_inside = start_on_boundary or bool(shape.covers(lat0, lon0)[0])
+    inside = _settle_boundary_runs(strict, on_edge, start_inside)
     events: list[Crossing] = []
     name = shape.area.name
     if start_inside != bool(inside[0]):
@@ -187,4 +227,9 @@ def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
         for k in np.nonzero(inside[1:] != inside[:-1])[0]:
             events.append(Crossing(name, "enter" if inside[k + 1] else "exit", int(leg[k]),
                                    float(d[k]), float(plat[k]), float(rhumb.wrap180(plon[k]))))
+    if end_on_boundary and not inside[-1]:
+        # arriving on the boundary from outside is arriving inside (mirror of the start)
+        lat1, lon1 = path.position([path.length_m])
+        events.append(Crossing(name, "enter", path.n_legs - 1, path.length_m, float(lat1[0]),
+                               float(rhumb.wrap180(lon1[0]))))
     return AreaTrack(shape.area, d, inside, start_inside, tuple(events), path.length_m)

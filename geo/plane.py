@@ -62,10 +62,10 @@ def ring_curves(ring: Ring, edges: str) -> tuple[Curves, int]:
         step = np.where(at_pole, raw, step)
     lon_u = lon[0] + np.concatenate([[0.0], np.cumsum(step[:-1])])
     winding = int(round(np.sum(step) / 360.0))
+    # each edge ends exactly where the next begins (no round-off zig-zags at vertices)
+    lon_end = np.concatenate([lon_u[1:], [lon_u[0] + 360.0 * winding]])
     kind = np.full(len(lon), KIND_CODES[edges], dtype=np.int8)
-    curves = Curves.between(
-        kind, lat, lon_u, lat_next, lon_u + step, literal_lon=True
-    )
+    curves = Curves.between(kind, lat, lon_u, lat_next, lon_end, literal_lon=True)
     return curves, winding
 
 

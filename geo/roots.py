@@ -7,7 +7,8 @@ centred on the current point of ``a``: the offset of ``b(t)`` is
 geodesic problem (pyproj.Geod, Karney 2013), and the two tangents come from
 points one metre further along each curve. The frame is exact at its centre
 and recentred every step, so the iteration converges quadratically; it stops
-when the two points are within :data:`TOL_M` on the ellipsoid, so the answer
+when the two points are within :data:`TOL_M` on the ellipsoid (after one
+last step, which brings the parameters to round-off too), so the answer
 is exact to that tolerance whatever the curve types (geodesic, rhumb,
 lonlat), since the residual is measured by the geodesic distance itself.
 """
@@ -54,12 +55,12 @@ def intersect(a: Curves, ia: NDArray, s0: NDArray, b: Curves, ib: NDArray, t0: N
         qlat, qlon = b.point(ib[k], t[k])
         qx, qy = _offset(plat, plon, qlat, qlon)
         gap = np.hypot(qx, qy)
+        # converged pairs take this last Newton step too: the gap is within TOL_M, but the
+        # parameters are only within TOL_M / sin(crossing angle); one more step makes them
+        # exact to round-off (quadratic convergence)
         done = gap <= TOL_M
         ok[k[done]] = True
         active[k[done]] = False
-        k, plat, plon, qx, qy = k[~done], plat[~done], plon[~done], qx[~done], qy[~done]
-        if len(k) == 0:
-            break
         ulat, ulon = a.point(ia[k], s[k] + _H_M)
         ux, uy = _offset(plat, plon, ulat, ulon)
         vlat, vlon = b.point(ib[k], t[k] + _H_M)
@@ -76,7 +77,7 @@ def intersect(a: Curves, ia: NDArray, s0: NDArray, b: Curves, ib: NDArray, t0: N
         scale = np.where(big > _MAX_STEP_M, _MAX_STEP_M / np.where(big > 0, big, 1.0), 1.0)
         bad = parallel | ~np.isfinite(ds) | ~np.isfinite(dt)
         active[k[bad]] = False
-        good = ~bad
+        good = ~bad & (~done | (big <= TOL_M * 1e3))
         s[k[good]] += (ds * scale)[good]
         t[k[good]] += (dt * scale)[good]
     return s, t, ok
