@@ -25,7 +25,8 @@ app = typer.Typer(
 
 
 def _register() -> None:
-    from planner import cmd_route  # noqa: F401  (commands register on import)
+    # commands register themselves on import
+    from planner import cmd_log, cmd_route  # noqa: F401
 
 
 def main() -> None:

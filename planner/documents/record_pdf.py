@@ -1,0 +1,336 @@
+"""The printed changeover record: regulation 14.6 items from the journal, ready to sign.
+
+Page one names the ship (name, IMO number), what the copy covers, the
+journal's entry count, its last hash and whether the chain verified when
+printed. Then the fuels named, with sulphur and delivery-note references;
+then each changeover: every step's entry number, date, time in UTC and in
+ship's time, position and what was planned; the fuel and its sulphur; the
+volume of compliant fuel in each tank (observed, at 15 °C by Table 54B, and
+mass); the margin to the planned boundary crossing; and lines for the chief
+engineer and the master to sign. A corrected entry is printed struck through
+with the correction under it, never left out. Other entries (tank soundings,
+samples, notes) follow in one table. reportlab is imported inside functions.
+"""
+
+from __future__ import annotations
+
+from datetime import UTC, datetime
+from pathlib import Path
+
+from planner.documents.pdf_common import (
+    FRAME_WIDTH_MM,
+    Markup,
+    build_pdf,
+    caution_box,
+    data_table,
+    esc,
+    para,
+    signature_block,
+    title_block,
+)
+from planner.journal.book import Book, Changeover, Line, Version
+from planner.journal.describe import boundary_text, fuel_text, position_text, warnings
+from planner.journal.details import TankReading
+from planner.journal.entries import (
+    BACK_COMMENCED,
+    BACK_COMPLETED,
+    COMPLETED,
+    LABELS,
+    REG14_KINDS,
+    STARTED,
+    Record,
+)
+from planner.journal.verify import VerifyReport
+from planner.timefmt import format_offset, format_utc
+
+TITLE = "Fuel changeover record"
+SUBTITLE = ("MARPOL Annex VI regulation 14.6: the changeover to compliant fuel completed before "
+            "entry into an emission control area, and the changeover to regular fuel commenced "
+            "after exit, with the volume of compliant fuel in each tank. Printed from the ship's "
+            "journal, where entries are never changed: a correction is printed beside the "
+            "struck-through original.")
+STEP = {STARTED: "Changeover started", COMPLETED: "Completed before entry",
+        BACK_COMMENCED: "Commenced after exit", BACK_COMPLETED: "Changeover back completed"}
+GREY = "#6b6b6b"
+
+
+def _cell(lines: list[str], struck: bool = False, bold: bool = False) -> Markup:
+    text = "<br/>".join(esc(x) for x in lines)
+    if bold:
+        text = f"<b>{text}</b>"
+    if struck:
+        text = f'<font color="{GREY}"><strike>{text}</strike></font>'
+    return Markup(text)
+
+
+def _ship_time(r: Record) -> list[str]:
+    local = r.time_utc.astimezone(r.ship_tz)
+    return [local.strftime("%Y-%m-%d %H:%M"), f"UTC{format_offset(r.ship_tz)}"]
+
+
+def _planned_cell(r: Record) -> list[str]:
+    p = r.planned
+    if p is None:
+        return ["not linked to a plan"]
+    out = [f"{p.source} #{p.changeover}"]
+    if p.time_utc is not None:
+        out.append(format_utc(p.time_utc))
+        d = round((r.time_utc - p.time_utc).total_seconds() / 60.0)
+        out.append("as planned" if d == 0 else f"actual {'+' if d > 0 else '-'}{abs(d)} min")
+    if p.position is not None:
+        out.insert(2, position_text(p.position))
+    if r.as_planned:
+        out.append(f"{' & '.join(r.as_planned)} confirmed from plan")
+    return out
+
+
+def _version_row(v: Version, kind: str, first: bool) -> list[Markup]:
+    s, r = v.stored, v.record
+    struck = not v.standing
+    if first:
+        label = [STEP.get(kind, LABELS[kind])]
+    elif r is None:
+        label = [f"Struck out: {v.reason}"]
+    else:
+        label = [f"Correction of {v.stored.entry.correction.corrects}: {v.reason}"]
+    if r is None:
+        return [_cell([str(s.seq)], struck), _cell(label, struck)] + [_cell(["—"], struck)] * 5
+    return [
+        _cell([str(s.seq)], struck, bold=v.standing),
+        _cell(label, struck, bold=first and v.standing),
+        _cell([r.time_utc.strftime("%Y-%m-%d")], struck),
+        _cell([r.time_utc.strftime("%H:%M") + "Z"], struck),
+        _cell(_ship_time(r), struck),
+        _cell(position_text(r.position).split(" ", 1), struck),
+        _cell(_planned_cell(r), struck),
+    ]
+
+
+def _steps_table(ch: Changeover):
+    rows = []
+    for line in ch.steps:
+        for i, v in enumerate(line.versions):
+            rows.append(_version_row(v, line.kind, i == 0))
+    return data_table(["Entry", "Step", "Date (UTC)", "Time UTC", "Ship's time", "Position",
+                       "Planned"], rows, [12, 40, 20, 16, 25, 29, 36], zebra=False)
+
+
+def _tank_rows(v: Version, struck: bool) -> list[list[Markup]]:
+    tanks = [t for t in getattr(v.record.details, "tanks", ()) if isinstance(t, TankReading)]
+    sulphur = {u.fuel.name: u.fuel.sulphur_pct for u in v.record.fuels}
+    rows = []
+    for t in tanks:
+        s = sulphur.get(t.fuel)
+        rows.append([_cell([str(v.stored.seq)], struck), _cell([t.tank], struck),
+                     _cell([t.fuel], struck), _cell(["—" if s is None else f"{s:.2f}"], struck),
+                     _cell([f"{t.volume_m3:.3f}"], struck),
+                     _cell([f"{t.temperature_c:.1f}"], struck), _cell([f"{t.vcf:.4f}"], struck),
+                     _cell([f"{t.volume15_m3:.3f}"], struck), _cell([f"{t.mass_t:.3f}"], struck)])
+    if tanks:
+        rows.append([_cell([""], struck), _cell(["Total"], struck, bold=True), "", "",
+                     _cell([f"{sum(t.volume_m3 for t in tanks):.3f}"], struck), "", "",
+                     _cell([f"{sum(t.volume15_m3 for t in tanks):.3f}"], struck, bold=True),
+                     _cell([f"{sum(t.mass_t for t in tanks):.3f}"], struck, bold=True)])
+    return rows
+
+
+def _tanks_section(line: Line) -> list:
+    rows: list[list[Markup]] = []
+    last_tanks = None
+    for v in line.versions:
+        if v.record is None:
+            continue
+        tanks = getattr(v.record.details, "tanks", ())
+        if tanks == last_tanks:
+            continue
+        last_tanks = tanks
+        rows += _tank_rows(v, struck=not v.standing)
+    if not rows:
+        return []
+    what = "completed" if line.kind == COMPLETED else "commenced"
+    return [para(f"Compliant fuel in each tank when the changeover was {what} (entry "
+                 f"{line.seq}); observed volume corrected to 15 °C with the Table 54B volume "
+                 "correction factor (VCF); mass = volume at 15 °C × density at 15 °C.", "small"),
+            data_table(["Entry", "Tank", "Fuel", "S % m/m", "Observed m³", "Temp °C", "VCF",
+                        "m³ at 15 °C", "Mass t"], rows, [12, 38, 20, 15, 20, 15, 16, 22, 20],
+                       align="lllrrrrrr", zebra=False)]
+
+
+def _fuel_lines(ch: Changeover) -> list[str]:
+    out: list[str] = []
+    for line in ch.steps:
+        r = line.record
+        to, frm = r.fuels_as("to"), r.fuels_as("from")
+        if ch.direction == "to_compliant":
+            out += [f"Compliant fuel: {fuel_text(u)}" for u in to]
+            out += [f"Changed from: {fuel_text(u)}" for u in frm]
+        else:
+            out += [f"Changed back to: {fuel_text(u)}" for u in to]
+            out += [f"Compliant fuel left in the tanks: {fuel_text(u)}" for u in frm]
+        if out:
+            break
+    return out
+
+
+def _key_step(ch: Changeover) -> Line | None:
+    """The regulation 14.6 step of a changeover (else its first step), not struck out."""
+    live = [x for x in ch.steps if not x.struck]
+    for line in live:
+        if line.kind in REG14_KINDS:
+            return line
+    return live[0] if live else None
+
+
+def _summary(book: Book) -> list:
+    rows = []
+    for i, ch in enumerate(book.changeovers, 1):
+        key = _key_step(ch)
+        what = (f"to compliant fuel before entering {ch.area}" if ch.direction == "to_compliant"
+                else f"back to regular fuel after leaving {ch.area}")
+        if ch.circuit:
+            what += f" ({ch.circuit})"
+        if key is None or key.kind not in REG14_KINDS:
+            rows.append([str(i), what, "not recorded", "—", "—", "—"])
+            continue
+        r = key.record
+        tanks = [t for t in getattr(r.details, "tanks", ()) if isinstance(t, TankReading)]
+        step = "completed" if key.kind == COMPLETED else "commenced"
+        ref = f"entry {key.seq}" + (f", corrected by {key.standing.stored.seq}"
+                                    if len(key.versions) > 1 else "")
+        rows.append([str(i), what, [f"{step} {format_utc(r.time_utc)}", ref],
+                     _ship_time(r), position_text(r.position).split(" ", 1),
+                     [f"{sum(t.volume15_m3 for t in tanks):.3f} m³",
+                      f"{sum(t.mass_t for t in tanks):.3f} t, {len(tanks)} tank(s)"]])
+    if not rows:
+        return []
+    cells = [[_cell(c if isinstance(c, list) else [c]) for c in row] for row in rows]
+    return [para("Changeovers in this record", "h1"), data_table(
+        ["No.", "Changeover", "Reg. 14.6 time (UTC)", "Ship's time", "Position",
+         "Compliant fuel at 15 °C"], cells, [10, 56, 32, 25, 27, 28], align="lllllr")]
+
+
+def _changeover(i: int, ch: Changeover) -> list:
+    from reportlab.platypus import KeepTogether
+
+    head = (f"Changeover {i}: to compliant fuel before entering {ch.area}"
+            if ch.direction == "to_compliant" else
+            f"Changeover {i}: back to regular fuel after leaving {ch.area}")
+    facts = [x for x in (f"circuit {ch.circuit}" if ch.circuit else "",
+                         f"voyage {ch.voyage}" if ch.voyage else "") if x]
+    parts = [para(head, "h1")]
+    if facts:
+        parts.append(para(" · ".join(facts), "small"))
+    parts.append(_steps_table(ch))
+    parts += [para(x, "small") for x in _fuel_lines(ch)]
+    key = _key_step(ch)
+    note = boundary_text(key.kind, key.record) if key is not None else ""
+    if note:
+        parts.append(para(note[0].upper() + note[1:] + ".", "small"))
+    for line in ch.steps:
+        if line.kind in REG14_KINDS:
+            parts += _tanks_section(line)
+    who = []
+    for line in ch.steps:
+        for v in line.versions:
+            e = v.stored.entry
+            who.append(f"entry {v.stored.seq} by {e.who.rank} {e.who.name}, written "
+                       f"{format_utc(e.written_utc)}")
+    parts.append(para("Entered: " + "; ".join(who) + ".", "small"))
+    warn = [w for line in ch.steps if not line.struck for w in warnings(line.kind, line.record)]
+    if warn:
+        parts.append(caution_box("Check this changeover", warn))
+    if not any(line.kind in REG14_KINDS for line in ch.steps):
+        parts.append(caution_box("Not complete", [
+            "No completion before entry (or commencement after exit) is recorded for this "
+            "changeover in the selection: regulation 14.6 asks for that record."]))
+    sign = signature_block(["Chief engineer", "Master"])
+    return [KeepTogether(parts + sign)]
+
+
+def _others(lines: tuple[Line, ...]) -> list:
+    if not lines:
+        return []
+    rows = []
+    for line in lines:
+        for i, v in enumerate(line.versions):
+            struck = not v.standing
+            r = v.record
+            label = LABELS[line.kind] if i == 0 else (
+                f"struck out: {v.reason}" if r is None else f"correction of "
+                f"{v.stored.entry.correction.corrects}: {v.reason}")
+            if r is None:
+                rows.append([_cell([str(v.stored.seq)], struck), _cell([label], struck)]
+                            + [_cell(["—"], struck)] * 4)
+                continue
+            rows.append([_cell([str(v.stored.seq)], struck), _cell([label], struck),
+                         _cell([format_utc(r.time_utc)], struck), _cell(_ship_time(r), struck),
+                         _cell(position_text(r.position).split(" ", 1), struck),
+                         _cell(_other_details(v), struck)])
+    return [para("Tank soundings, samples and notes", "h1"),
+            data_table(["Entry", "What", "UTC", "Ship's time", "Position", "Details"], rows,
+                       [12, 28, 25, 25, 27, FRAME_WIDTH_MM - 117])]
+
+
+def _other_details(v: Version) -> list[str]:
+    r = v.record
+    d = r.details
+    out = [fuel_text(u) for u in r.fuels]
+    for t in getattr(d, "tanks", ()):
+        out.append(f"{t.tank}: {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
+                   f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
+    if getattr(d, "sample_number", None):
+        out.append(f"sample {d.sample_number}, seal {d.seal_number}"
+                   f"{', drawn at ' + d.point if d.point else ''}")
+    text = getattr(d, "text", "") or getattr(d, "remarks", "")
+    if text:
+        out.append(text)
+    e = v.stored.entry
+    out.append(f"by {e.who.rank} {e.who.name}")
+    return out
+
+
+def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
+                     journal_name: str, printed_at: datetime | None = None) -> None:
+    """Write the changeover record of ``book`` to ``target`` (all-or-nothing)."""
+    printed_at = printed_at or datetime.now(UTC).replace(microsecond=0)
+    check = (f"intact: all {report.entries} entries match their hashes" if report.ok else
+             f"FAILED: {len(report.problems)} problem(s), listed below")
+    facts = [
+        ("Ship", book.ship_name),
+        ("IMO number", book.imo_number),
+        ("This copy covers", f"{book.selection}: {len(book.changeovers)} changeover(s), "
+                             f"{len(book.others)} other entries"),
+        ("Journal", f"{journal_name}: {book.entries} entries, the last is entry "
+                    f"{book.last_seq}"),
+        ("Journal's last hash", para(book.last_hash, "mono")),
+        ("Chain check", check),
+        ("Printed", f"{format_utc(printed_at)} (UTC)"),
+    ]
+    story = title_block(TITLE, SUBTITLE, facts)
+    if not report.ok:
+        shown = [str(p) for p in report.problems[:15]]
+        if len(report.problems) > 15:
+            shown.append(f"... and {len(report.problems) - 15} more (changeover log verify)")
+        story.append(caution_box("This journal failed its chain check when printed", shown))
+    story += _summary(book)
+    if book.fuels:
+        story.append(para("Fuels named in this record", "h1"))
+        story.append(data_table(
+            ["Fuel", "Grade", "Sulphur % m/m", "Density 15 °C kg/m³", "Delivery note"],
+            [[f.name, f.grade or "—", f"{f.sulphur_pct:.2f}", f"{f.density15_kg_m3:.1f}",
+              f.bdn_ref] for f in book.fuels], [34, 30, 26, 32, FRAME_WIDTH_MM - 122],
+            align="llrrl"))
+    if not book.changeovers:
+        story.append(para("No changeover is recorded in this selection.", "h2"))
+    for i, ch in enumerate(book.changeovers, 1):
+        story += _changeover(i, ch)
+    story += _others(book.others)
+    story += [para("How to check this copy", "h2"), para(
+        f"Run <font face='Courier'>changeover log verify --journal {esc(journal_name)} --hash "
+        f"{book.last_hash}</font>: the journal must still hold this hash (entry "
+        f"{book.last_seq}) and every entry must match its hash. Times are UTC unless marked "
+        "ship's time; positions are WGS84 in degrees and minutes.", "small", markup=True)]
+    build_pdf(target, story, title=TITLE,
+              header_right=f"{book.ship_name} · IMO {book.imo_number}",
+              footer_middle=f"journal last hash {book.last_hash[:16]}… (entry {book.last_seq})",
+              printed_at=printed_at)

@@ -1,0 +1,92 @@
+"""Rules an entry must meet against the journal as it stands, checked inside the append.
+
+Each refusal is one :class:`geo.errors.InputError` naming the option the
+value came from, so the command line prints one line and nothing is written:
+an unknown tank, a fuel not registered, a correction of an entry that does
+not exist (or of the wrong kind), a completion timed before its start (or a
+start corrected to after its completion), a first entry that is not the
+ship's set-up.
+"""
+
+from __future__ import annotations
+
+from geo.errors import InputError
+from planner.journal.entries import (
+    CORRECTABLE,
+    CORRECTION,
+    FOLLOWS,
+    LABELS,
+    SETUP,
+    Entry,
+    Record,
+)
+from planner.journal.state import JournalState
+from planner.timefmt import format_utc
+
+
+def check_entry(state: JournalState, entry: Entry) -> None:
+    """Raise :class:`InputError` unless ``entry`` may follow the entries in ``state``."""
+    if state.last_seq == 0:
+        d = entry.record.details if entry.record else None
+        if entry.kind != SETUP or d is None or not d.ship_name or not d.imo_number:
+            raise InputError("--journal", "entry 1", entry.kind,
+                             "the ship's set-up first (changeover log init --ship --imo)")
+    root = None
+    if entry.kind == CORRECTION and entry.correction is not None:
+        root = check_correction(state, entry.correction.corrects, entry.correction.of_kind)
+    if entry.record is not None:
+        check_tanks(state, entry.record)
+        check_order(state, entry.subject_kind, entry.record, root)
+
+
+def check_correction(state: JournalState, corrects: int, of_kind: str | None = None) -> int:
+    """The original entry number a correction of entry ``corrects`` goes back to, after
+    checking that it exists, may be corrected and (if given) is of kind ``of_kind``."""
+    if corrects not in state.stored:
+        span = f"1 to {state.last_seq}" if state.last_seq else "none yet"
+        raise InputError("correct", "entry number", corrects,
+                         f"the number of an entry in this journal ({span})")
+    root = state.root(corrects)
+    kind = state.kind_of(root)
+    if kind not in CORRECTABLE:
+        raise InputError("correct", "entry number", corrects,
+                         f"an entry that can be corrected: a {LABELS[kind]} entry is "
+                         "superseded by a new one (changeover log setup / log fuel)")
+    if of_kind is not None and of_kind != kind:
+        raise InputError("correct", "entry number", corrects,
+                         f"a {LABELS[of_kind]} entry (it is a {LABELS[kind]} entry)")
+    return root
+
+
+def check_tanks(state: JournalState, r: Record) -> None:
+    """Every tank named must be one the journal knows (when it knows any)."""
+    tanks = getattr(r.details, "tanks", ())
+    if not state.tanks or not tanks or isinstance(tanks[0], str):
+        return
+    for t in tanks:
+        if t.tank not in state.tanks:
+            raise InputError("--tank", "", t.tank,
+                             f"one of the journal's tanks: {', '.join(state.tanks)} "
+                             "(add more with changeover log setup --tank)")
+
+
+def check_order(state: JournalState, kind: str, r: Record, root: int | None) -> None:
+    """A completion is not before the start it follows; a start not after its completions."""
+    follows = getattr(r.details, "follows", None)
+    if kind in FOLLOWS and follows is not None:
+        if follows not in state.stored or state.kind_of(follows) != FOLLOWS[kind]:
+            raise InputError("--follows", "", follows,
+                             f"the number of a {LABELS[FOLLOWS[kind]]} entry")
+        start = state.current(follows)
+        if start is None:
+            raise InputError("--follows", "", follows, "an entry that is not struck out")
+        if r.time_utc < start.time_utc:
+            raise InputError("--at", "", format_utc(r.time_utc),
+                             f"a time at or after the start of this changeover "
+                             f"(entry {follows}, {format_utc(start.time_utc)})")
+    if root is not None and kind in FOLLOWS.values():
+        for s, done in state.completions_of(root):
+            if done.time_utc < r.time_utc:
+                raise InputError("--at", "", format_utc(r.time_utc),
+                                 f"a time at or before the completion of this changeover "
+                                 f"(entry {s.seq}, {format_utc(done.time_utc)})")

@@ -1,0 +1,155 @@
+"""Entries in words: positions, fuels, tanks, planned against actual, and warnings.
+
+Plain text for the terminal and the printed record; units on every figure
+(m³, °C, t, % m/m, hours, minutes).
+"""
+
+from __future__ import annotations
+
+from datetime import datetime
+
+from geo.position import format_position
+from planner.journal.details import FuelUse, TankReading
+from planner.journal.entries import (
+    BACK_COMMENCED,
+    BACK_COMPLETED,
+    COMPLETED,
+    CORRECTION,
+    LABELS,
+    STARTED,
+    Planned,
+    Position,
+    Record,
+)
+from planner.journal.state import JournalState, Stored
+from planner.timefmt import format_ship, format_utc
+
+
+def position_text(p: Position | None) -> str:
+    """``54°12.3'N 003°30.0'W``, or an em dash."""
+    return format_position(p.lat_deg, p.lon_deg) if p is not None else "—"
+
+
+def fuel_text(u: FuelUse) -> str:
+    """``MGO (DMA), 0.08 % m/m S, BDN BDN-0412``."""
+    f = u.fuel
+    grade = f" ({f.grade})" if f.grade else ""
+    return f"{f.name}{grade}, {f.sulphur_pct:.2f} % m/m S, BDN {f.bdn_ref}"
+
+
+def tank_text(t: TankReading) -> str:
+    """``MGO service 12.500 m³ @ 32.0 °C = 12.323 m³ at 15 °C, 10.474 t``."""
+    return (f"{t.tank} {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
+            f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
+
+
+def minutes_text(delta_h: float) -> str:
+    """``1 h 05 min`` / ``25 min`` from hours (sign dropped)."""
+    m = round(abs(delta_h) * 60.0)
+    return f"{m // 60} h {m % 60:02d} min" if m >= 60 else f"{m} min"
+
+
+def against_plan(kind: str, r: Record) -> list[str]:
+    """Actual against planned, and the margin to the planned boundary crossing."""
+    p: Planned | None = r.planned
+    if p is None:
+        return []
+    out = []
+    head = f"planned ({p.source}, changeover {p.changeover})"
+    if p.time_utc is not None:
+        d = (r.time_utc - p.time_utc).total_seconds() / 3600.0
+        when = "as planned" if abs(d) < 1 / 120 else \
+            f"{minutes_text(d)} {'later' if d > 0 else 'earlier'} than planned"
+        out.append(f"{head}: {format_utc(p.time_utc)}"
+                   f"{', ' + position_text(p.position) if p.position else ''}; {when}")
+    else:
+        out.append(head)
+    if p.boundary_utc is not None:
+        out.append(boundary_text(kind, r))
+    if r.as_planned:
+        out.append(f"{' and '.join(r.as_planned)} confirmed from the plan, not typed")
+    return out
+
+
+VERB = {STARTED: "started", COMPLETED: "completed", BACK_COMMENCED: "commenced",
+        BACK_COMPLETED: "completed"}
+
+
+def boundary_text(kind: str, r: Record) -> str:
+    """``planned boundary entry 2027-05-31 11:46Z at ...: completed 1 h 42 min before it``."""
+    p = r.planned
+    if p is None or p.boundary_utc is None:
+        return ""
+    d = (p.boundary_utc - r.time_utc).total_seconds() / 3600.0
+    what = "entry" if p.direction == "to_compliant" else "exit"
+    margin = f" (the plan's margin {p.margin_h:.2f} h)" if p.margin_h is not None else ""
+    return (f"planned boundary {what} {format_utc(p.boundary_utc)}"
+            f"{' at ' + position_text(p.boundary) if p.boundary else ''}: "
+            f"{VERB.get(kind, 'written')} {minutes_text(d)} {'before' if d >= 0 else 'after'} "
+            f"it{margin}")
+
+
+def warnings(kind: str, r: Record) -> list[str]:
+    """What a reader must notice: a completion after the planned entry, a changeover back
+    commenced before the planned exit."""
+    p = r.planned
+    if p is None or p.boundary_utc is None:
+        return []
+    if kind == COMPLETED and r.time_utc > p.boundary_utc:
+        return [f"completed after the planned boundary entry ({format_utc(p.boundary_utc)}): "
+                "check where the ship crossed into the area"]
+    if kind == BACK_COMMENCED and r.time_utc < p.boundary_utc:
+        return [f"commenced before the planned boundary exit ({format_utc(p.boundary_utc)}): "
+                "check where the ship left the area"]
+    return []
+
+
+def when_text(moment: datetime, r: Record) -> str:
+    """``2027-06-02 13:00Z (ship's time 2027-06-02 15:00 +02:00)``."""
+    return f"{format_utc(moment)} (ship's time {format_ship(moment, r.ship_tz)})"
+
+
+def summary(s: Stored, state: JournalState) -> list[str]:
+    """Lines shown after an entry is written (and by ``show --detail``)."""
+    e = s.entry
+    r = e.record
+    label = LABELS[e.kind]
+    if e.kind == CORRECTION and e.correction is not None:
+        c = e.correction
+        label = (f"{'strike-out' if c.void else 'correction'} of entry {c.corrects} "
+                 f"({LABELS[c.of_kind]}): {c.reason}")
+    lines = [f"entry {s.seq} written: {label}"]
+    if r is not None:
+        parts = [when_text(r.time_utc, r)]
+        if r.position is not None:
+            parts.append(position_text(r.position))
+        parts += [x for x in (r.area, r.circuit) if x]
+        if r.voyage:
+            parts.append(f"voyage {r.voyage}")
+        follows = getattr(r.details, "follows", None)
+        if follows:
+            parts.append(f"follows entry {follows}")
+        lines.append("  " + " · ".join(parts))
+        for u in r.fuels:
+            lines.append(f"  fuel {u.role}: {fuel_text(u)}")
+        tanks = getattr(r.details, "tanks", ())
+        for t in tanks:
+            lines.append(f"  tank {tank_text(t)}" if isinstance(t, TankReading) else
+                         f"  tank known: {t}")
+        if tanks and isinstance(tanks[0], TankReading):
+            lines.append(f"  total {sum(t.volume15_m3 for t in tanks):.3f} m³ at 15 °C, "
+                         f"{sum(t.mass_t for t in tanks):.3f} t")
+        d = r.details
+        if getattr(d, "fuel", None) is not None:
+            lines.append(f"  fuel: {fuel_text(FuelUse('subject', d.fuel))}, "
+                         f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
+        if getattr(d, "sample_number", None):
+            lines.append(f"  sample {d.sample_number}, seal {d.seal_number}"
+                         f"{', drawn at ' + d.point if d.point else ''}")
+        text = getattr(d, "text", "") or getattr(d, "remarks", "")
+        if text:
+            lines.append(f"  {text}")
+        lines += ["  " + x for x in against_plan(e.subject_kind, r)]
+        lines += ["  warning: " + x for x in warnings(e.subject_kind, r)]
+    lines.append(f"  by {e.who.rank} {e.who.name}; hash {s.hash}")
+    return lines

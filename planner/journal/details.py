@@ -1,0 +1,277 @@
+"""What each kind of journal entry holds beyond time and place: frozen, checked on creation.
+
+Units: volumes in m³, temperatures in °C, densities in kg/m³ at 15 °C,
+sulphur in % m/m, masses in tonnes. A bad value raises ``ValueError`` naming
+the field and the value; the command line turns it into one
+:class:`geo.errors.InputError` line.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import ClassVar
+
+from planner.fuels.volume import (
+    TABLE_54B_MAX_DENSITY_KG_M3,
+    TABLE_54B_MIN_DENSITY_KG_M3,
+    standard_volume_m3,
+    volume_correction_factor,
+)
+
+MAX_TANK_VOLUME_M3 = 1e5
+"""Largest tank volume accepted, m³ (a typo guard, not a ship limit)."""
+
+TANK_TEMPERATURE_RANGE_C = (-10.0, 150.0)
+"""Temperatures accepted for a sounding, °C (as in the voyage file)."""
+
+MAX_SULPHUR_PCT = 5.0
+"""Largest sulphur content accepted, % m/m (the highest global cap was 4.50)."""
+
+
+def _text(cls: str, name: str, value: object, *, empty_ok: bool = False) -> None:
+    if not isinstance(value, str) or (not empty_ok and not value.strip()):
+        raise ValueError(f"{cls}.{name} must be {'text' if empty_ok else 'non-empty text'}, "
+                         f"got {value!r}")
+
+
+def _number(cls: str, name: str, value: object, low: float, high: float) -> float:
+    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value):
+        raise ValueError(f"{cls}.{name} must be a finite number, got {value!r}")
+    if not low <= value <= high:
+        raise ValueError(f"{cls}.{name} must be from {low:g} to {high:g}, got {value!r}")
+    return float(value)
+
+
+def imo_check_digit(first_six: str) -> int:
+    """Check digit of an IMO ship number from its first six digits.
+
+    Each digit is multiplied by 7, 6, 5, 4, 3, 2 in turn; the last digit of
+    the sum is the check digit [M: the rule as remembered, not checked
+    against the IMO resolution here]. ``imo_check_digit("123456")`` is 7.
+    """
+    if len(first_six) != 6 or not first_six.isdigit():
+        raise ValueError(f"six digits expected, got {first_six!r}")
+    return sum(int(d) * w for d, w in zip(first_six, (7, 6, 5, 4, 3, 2), strict=True)) % 10
+
+
+def valid_imo(number: str) -> bool:
+    """Whether ``number`` is seven digits with a valid check digit (:func:`imo_check_digit`)."""
+    return (len(number) == 7 and number.isdigit()
+            and imo_check_digit(number[:6]) == int(number[6]))
+
+
+@dataclass(frozen=True)
+class FuelSpec:
+    """A fuel on board as its bunker delivery note (BDN) states it."""
+
+    name: str                 # the ship's name for it, e.g. "MGO"
+    grade: str                # e.g. "DMA" (ISO 8217); may be empty
+    sulphur_pct: float        # % m/m, from the delivery note
+    density15_kg_m3: float    # kg/m³ at 15 °C, from the delivery note
+    bdn_ref: str              # delivery-note number or reference
+
+    def __post_init__(self) -> None:
+        _text("FuelSpec", "name", self.name)
+        _text("FuelSpec", "grade", self.grade, empty_ok=True)
+        _text("FuelSpec", "bdn_ref", self.bdn_ref)
+        object.__setattr__(self, "sulphur_pct",
+                           _number("FuelSpec", "sulphur_pct", self.sulphur_pct, 0.0,
+                                   MAX_SULPHUR_PCT))
+        object.__setattr__(self, "density15_kg_m3",
+                           _number("FuelSpec", "density15_kg_m3", self.density15_kg_m3,
+                                   TABLE_54B_MIN_DENSITY_KG_M3, TABLE_54B_MAX_DENSITY_KG_M3))
+
+
+FUEL_ROLES = ("to", "from", "subject")
+"""``to``: the fuel changed to; ``from``: the fuel changed from; ``subject``: the fuel
+a tank or sample entry is about."""
+
+
+@dataclass(frozen=True)
+class FuelUse:
+    """A fuel named by an entry, with its role and the delivery-note data as it stood."""
+
+    role: str
+    fuel: FuelSpec
+
+    def __post_init__(self) -> None:
+        if self.role not in FUEL_ROLES:
+            raise ValueError(f"FuelUse.role must be one of {FUEL_ROLES}, got {self.role!r}")
+        if not isinstance(self.fuel, FuelSpec):
+            raise ValueError(f"FuelUse.fuel must be a FuelSpec, got {self.fuel!r}")
+
+
+@dataclass(frozen=True)
+class TankReading:
+    """One tank's sounding: observed volume and temperature, and the same at 15 °C.
+
+    ``vcf`` is the Table 54B volume correction factor for the fuel's density at
+    the observed temperature (:func:`planner.fuels.volume.volume_correction_factor`),
+    ``volume15_m3 = volume_m3 × vcf`` and ``mass_t = volume15_m3 × density15_kg_m3 / 1000``
+    (mass in vacuum). The derived values are stored as computed when written.
+    Make one with :meth:`measure`.
+    """
+
+    tank: str
+    fuel: str
+    volume_m3: float
+    temperature_c: float
+    density15_kg_m3: float
+    vcf: float
+    volume15_m3: float
+    mass_t: float
+
+    @classmethod
+    def measure(cls, tank: str, fuel: str, volume_m3: float, temperature_c: float,
+                density15_kg_m3: float) -> TankReading:
+        """A reading with the 15 °C volume and mass worked out (Table 54B)."""
+        v = _number("TankReading", "volume_m3", volume_m3, 0.0, MAX_TANK_VOLUME_M3)
+        t = _number("TankReading", "temperature_c", temperature_c, *TANK_TEMPERATURE_RANGE_C)
+        rho = _number("TankReading", "density15_kg_m3", density15_kg_m3,
+                      TABLE_54B_MIN_DENSITY_KG_M3, TABLE_54B_MAX_DENSITY_KG_M3)
+        vcf = float(volume_correction_factor(rho, t))
+        v15 = float(standard_volume_m3(v, rho, t))
+        return cls(tank, fuel, v, t, rho, vcf, v15, v15 * rho / 1000.0)
+
+    def __post_init__(self) -> None:
+        _text("TankReading", "tank", self.tank)
+        _text("TankReading", "fuel", self.fuel)
+        for name, low, high in (
+                ("volume_m3", 0.0, MAX_TANK_VOLUME_M3),
+                ("temperature_c", *TANK_TEMPERATURE_RANGE_C),
+                ("density15_kg_m3", TABLE_54B_MIN_DENSITY_KG_M3, TABLE_54B_MAX_DENSITY_KG_M3),
+                ("vcf", 0.8, 1.2),
+                ("volume15_m3", 0.0, 1.2 * MAX_TANK_VOLUME_M3),
+                ("mass_t", 0.0, 1.2 * MAX_TANK_VOLUME_M3)):
+            object.__setattr__(self, name, _number("TankReading", name, getattr(self, name),
+                                                   low, high))
+        if not math.isclose(self.volume15_m3, self.volume_m3 * self.vcf, rel_tol=1e-9,
+                            abs_tol=1e-9):
+            raise ValueError(f"TankReading {self.tank!r}: volume15_m3 is not volume_m3 × vcf")
+        if not math.isclose(self.mass_t, self.volume15_m3 * self.density15_kg_m3 / 1000.0,
+                            rel_tol=1e-9, abs_tol=1e-9):
+            raise ValueError(f"TankReading {self.tank!r}: mass_t is not volume15_m3 × density")
+
+
+def _tanks(cls: str, tanks: object) -> None:
+    if not isinstance(tanks, tuple) or not all(isinstance(t, TankReading) for t in tanks):
+        raise ValueError(f"{cls}.tanks must be a tuple of TankReading")
+    names = [t.tank for t in tanks]
+    for n in names:
+        if names.count(n) > 1:
+            raise ValueError(f"{cls}.tanks names tank {n!r} twice")
+
+
+@dataclass(frozen=True)
+class ChangeoverDetails:
+    """A changeover step: the tanks sounded with it, remarks, and the step it follows.
+
+    ``follows`` is the entry number of the start this completion belongs to
+    (None for a start, or a completion logged without its start).
+    """
+
+    TYPE: ClassVar[str] = "changeover"
+    tanks: tuple[TankReading, ...] = ()
+    remarks: str = ""
+    follows: int | None = None
+
+    def __post_init__(self) -> None:
+        _tanks("ChangeoverDetails", self.tanks)
+        _text("ChangeoverDetails", "remarks", self.remarks, empty_ok=True)
+        if self.follows is not None and (isinstance(self.follows, bool)
+                                         or not isinstance(self.follows, int)
+                                         or self.follows < 1):
+            raise ValueError(f"ChangeoverDetails.follows must be an entry number, "
+                             f"got {self.follows!r}")
+
+
+@dataclass(frozen=True)
+class TankDetails:
+    """Tank soundings on their own (at least one tank)."""
+
+    TYPE: ClassVar[str] = "tanks"
+    tanks: tuple[TankReading, ...]
+    remarks: str = ""
+
+    def __post_init__(self) -> None:
+        _tanks("TankDetails", self.tanks)
+        if not self.tanks:
+            raise ValueError("TankDetails needs at least one tank")
+        _text("TankDetails", "remarks", self.remarks, empty_ok=True)
+
+
+@dataclass(frozen=True)
+class SampleDetails:
+    """A fuel sample drawn: its number, the seal number and where it was drawn."""
+
+    TYPE: ClassVar[str] = "sample"
+    sample_number: str
+    seal_number: str
+    point: str = ""           # sampling point, e.g. "ME inlet" or "bunker manifold"
+    remarks: str = ""
+
+    def __post_init__(self) -> None:
+        _text("SampleDetails", "sample_number", self.sample_number)
+        _text("SampleDetails", "seal_number", self.seal_number)
+        _text("SampleDetails", "point", self.point, empty_ok=True)
+        _text("SampleDetails", "remarks", self.remarks, empty_ok=True)
+
+
+@dataclass(frozen=True)
+class NoteDetails:
+    """A note in words."""
+
+    TYPE: ClassVar[str] = "note"
+    text: str
+
+    def __post_init__(self) -> None:
+        _text("NoteDetails", "text", self.text)
+
+
+@dataclass(frozen=True)
+class SetupDetails:
+    """The ship the journal belongs to, and tank names it knows.
+
+    The first entry of every journal is a set-up with the ship's name and IMO
+    number. Later set-ups may add tank names or (rarely) change the name;
+    None means unchanged.
+    """
+
+    TYPE: ClassVar[str] = "setup"
+    ship_name: str | None
+    imo_number: str | None
+    tanks: tuple[str, ...] = ()
+
+    def __post_init__(self) -> None:
+        if self.ship_name is not None:
+            _text("SetupDetails", "ship_name", self.ship_name)
+        if self.imo_number is not None and not (isinstance(self.imo_number, str)
+                                                and valid_imo(self.imo_number)):
+            raise ValueError(f"SetupDetails.imo_number must be 7 digits with a valid check "
+                             f"digit, got {self.imo_number!r}")
+        if not isinstance(self.tanks, tuple):
+            raise ValueError("SetupDetails.tanks must be a tuple of names")
+        for t in self.tanks:
+            _text("SetupDetails", "tanks", t)
+
+
+@dataclass(frozen=True)
+class FuelDetails:
+    """A fuel taken on board (its delivery-note data), for later entries to name."""
+
+    TYPE: ClassVar[str] = "fuel"
+    fuel: FuelSpec
+    remarks: str = ""
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.fuel, FuelSpec):
+            raise ValueError("FuelDetails.fuel must be a FuelSpec")
+        _text("FuelDetails", "remarks", self.remarks, empty_ok=True)
+
+
+Details = (ChangeoverDetails | TankDetails | SampleDetails | NoteDetails | SetupDetails
+           | FuelDetails)
+DETAIL_TYPES: dict[str, type] = {c.TYPE: c for c in (ChangeoverDetails, TankDetails,
+                                                    SampleDetails, NoteDetails, SetupDetails,
+                                                    FuelDetails)}

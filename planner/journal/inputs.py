@@ -1,0 +1,122 @@
+"""Reading what the crew types: positions, times, tank soundings.
+
+Every refusal is one :class:`geo.errors.InputError` naming the option.
+
+- Position (``--pos``): latitude then longitude, in degrees and minutes or
+  decimal degrees: ``"54°12.3'N 003°30.0'W"``, ``"54 12.3 N 3 30 W"``,
+  ``"N54°12.3' W003°30.0'"``, ``"54.205, -3.5"``. Off the globe (latitude
+  beyond 90°, longitude beyond 180°) is refused.
+- Time (``--at``): ISO 8601 with its offset, UTC (``2027-06-02T14:05Z``) or
+  ship's time (``2027-06-02 16:05+02:00``); the written offset is also taken
+  as the ship's offset when ``--tz`` is not given.
+- Tank (``--tank``): ``NAME=VOLUME@TEMPERATURE``, volume in m³ observed at
+  the temperature in °C, optionally ``/FUEL`` for the fuel in it when the
+  entry names more than one: ``"MGO service=12.5@32"``,
+  ``"LS settling=40.0@55/ULSFO"``.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from datetime import datetime, timedelta, timezone
+
+from geo.errors import InputError
+from geo.position import parse_lat, parse_lon
+from planner.journal.entries import Position
+from planner.timefmt import parse_moment, parse_offset
+
+POS_EXPECTED = ("a position: latitude then longitude, e.g. \"54°12.3'N 003°30.0'W\" or "
+                "\"54.205, -3.5\"")
+TANK_EXPECTED = 'NAME=VOLUME@TEMPERATURE in m³ at °C, e.g. "MGO service=12.5@32"'
+
+_NUMBER = r"[-+]?\d+(?:\.\d*)?|[-+]?\.\d+"
+_TANK = re.compile(rf"^(?P<name>[^=]+?)\s*=\s*(?P<vol>{_NUMBER})\s*(?:m3|m³)?\s*"
+                   rf"(?:@\s*(?P<temp>{_NUMBER})\s*(?:°\s*C|C)?)?\s*(?:/\s*(?P<fuel>.+?))?\s*$")
+
+
+def split_position(text: str) -> tuple[str, str]:
+    """Latitude and longitude parts of a typed position (not yet checked)."""
+    t = text.strip()
+    if "," in t:
+        lat, _, lon = t.partition(",")
+        return lat.strip(), lon.strip()
+    up = t.upper()
+    m = re.search(r"[NS]", up)
+    if m is not None:
+        if m.start() == 0:  # prefix form: N54°12.3' W003°30.0'
+            e = re.search(r"[EW]", up)
+            if e is not None:
+                return t[:e.start()].strip(), t[e.start():].strip()
+        else:               # suffix form: 54°12.3'N 003°30.0'W
+            return t[:m.end()].strip(), t[m.end():].strip()
+    parts = t.split()
+    if len(parts) == 2:
+        return parts[0], parts[1]
+    raise InputError("--pos", "", text, POS_EXPECTED)
+
+
+def parse_position(text: str, option: str = "--pos") -> Position:
+    """A :class:`Position` on the globe from typed text (see the module docstring)."""
+    lat_text, lon_text = split_position(text)
+    for axis, part in (("latitude", lat_text), ("longitude", lon_text)):
+        try:
+            value = (parse_lat if axis == "latitude" else parse_lon)(_number_or_text(part))
+        except InputError as exc:
+            why = exc.expected
+            why = why[why.index("(") + 1:-1] if "(" in why else f"not a {axis}"
+            raise InputError(option, "", text, f"{POS_EXPECTED} ({axis} {part!r}: {why})"
+                             ) from None
+        if axis == "latitude":
+            lat = value
+        else:
+            lon = value
+    if abs(lon) > 180.0:
+        raise InputError(option, "", text, f"{POS_EXPECTED} (longitude within ±180°)")
+    return Position(lat, lon)
+
+
+def _number_or_text(text: str) -> float | str:
+    try:
+        return float(text)
+    except ValueError:
+        return text
+
+
+def parse_at(text: str, option: str = "--at") -> tuple[datetime, int | None]:
+    """The UTC time typed and the offset written on it in minutes (None when it was UTC)."""
+    moment = parse_moment(text, file=option)
+    written = datetime.fromisoformat(text.strip().replace("z", "Z")).utcoffset()
+    minutes = int(written.total_seconds() // 60) if written else None
+    return moment, minutes or None
+
+
+def parse_tz(text: str, option: str = "--tz") -> int:
+    """A UTC offset (``+02:00``, ``-0530``, ``Z``) in whole minutes east of UTC."""
+    tz: timezone = parse_offset(text, file=option)
+    return int((tz.utcoffset(None) or timedelta(0)).total_seconds() // 60)
+
+
+@dataclass(frozen=True)
+class TankInput:
+    """A sounding as typed: tank name, observed volume m³, temperature °C, fuel name or None."""
+
+    tank: str
+    volume_m3: float
+    temperature_c: float
+    fuel: str | None
+
+
+def parse_tank(text: str, option: str = "--tank") -> TankInput:
+    """One ``--tank`` value (see the module docstring); a negative volume is refused."""
+    m = _TANK.match(text.strip())
+    if m is None or not m["name"].strip():
+        raise InputError(option, "", text, TANK_EXPECTED)
+    if m["temp"] is None:
+        raise InputError(option, "", text, f"{TANK_EXPECTED} (the temperature is needed to "
+                                           "correct the volume to 15 °C)")
+    volume = float(m["vol"])
+    if volume < 0.0:
+        raise InputError(option, "", text, "a volume of 0 m³ or more")
+    return TankInput(m["name"].strip(), volume, float(m["temp"]),
+                     m["fuel"].strip() if m["fuel"] else None)

@@ -1,0 +1,137 @@
+"""Prefilling an entry from a plan: the planned time and place of one changeover step.
+
+The plan is the JSON of ``changeover plan VOYAGE --json`` (keys per
+DESIGN.md): ``changeovers`` is a list of ``{"area", "circuit", "direction":
+"to_compliant" | "to_regular", "start_utc", "start_lat", "start_lon",
+"compliant_utc" (or null), "boundary_utc", "boundary_lat", "boundary_lon",
+"margin_h"}``. ``--changeover N`` picks the N-th (from 1).
+
+What each step takes from it (:func:`planned_for`):
+
+=========================  ==================  ============================
+step                       direction           planned time and position
+=========================  ==================  ============================
+started                    to_compliant        start_utc, start_lat/lon
+completed (before entry)   to_compliant        compliant_utc, no position
+commenced (after exit)     to_regular          start_utc, start_lat/lon
+back completed             to_regular          compliant_utc, no position
+=========================  ==================  ============================
+
+and every step keeps the area, circuit, boundary crossing and margin.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from datetime import datetime
+from pathlib import Path
+
+from geo.errors import InputError
+from planner.journal.entries import (
+    BACK_COMMENCED,
+    DIRECTION,
+    STARTED,
+    Planned,
+    Position,
+)
+from planner.timefmt import parse_moment
+
+
+def load_changeovers(path: str | Path) -> list[dict]:
+    """The ``changeovers`` list of a plan JSON file (each item checked when used)."""
+    file = str(path)
+    try:
+        doc = json.loads(Path(path).read_text(encoding="utf-8"))
+    except FileNotFoundError:
+        raise InputError(file, "", None, "an existing plan JSON file "
+                                         "(from changeover plan VOYAGE --json)") from None
+    except (ValueError, UnicodeDecodeError) as exc:
+        raise InputError(file, "", str(exc), "valid JSON") from None
+    items = doc.get("changeovers") if isinstance(doc, dict) else None
+    if not isinstance(items, list):
+        raise InputError(file, "changeovers", None, "a plan with a list of changeovers")
+    return items
+
+
+def planned_for(kind: str, path: str | Path, number: int | None) -> Planned:
+    """The :class:`Planned` values of changeover ``number`` (from 1) for a step of ``kind``."""
+    file = str(path)
+    items = load_changeovers(path)
+    if number is None:
+        raise InputError("--changeover", "", None,
+                         f"which changeover of the plan (1 to {len(items)})")
+    if not 1 <= number <= len(items):
+        raise InputError("--changeover", "", number,
+                         f"a changeover of {file} (1 to {len(items)})")
+    item = items[number - 1]
+    place = f"changeovers[{number - 1}]"
+    if not isinstance(item, dict):
+        raise InputError(file, place, item, "a changeover object")
+    direction = item.get("direction")
+    if direction not in ("to_compliant", "to_regular"):
+        raise InputError(file, f"{place}.direction", direction, "to_compliant or to_regular")
+    if direction != DIRECTION[kind]:
+        steps = "start or complete" if direction == "to_compliant" else "back or back-complete"
+        raise InputError("--changeover", "", number,
+                         f"a {DIRECTION[kind]} changeover of the plan (number {number} is "
+                         f"{direction}: use it with log {steps})")
+    starts = kind in (STARTED, BACK_COMMENCED)
+    time_key = "start_utc" if starts else "compliant_utc"
+    return Planned(
+        source=Path(path).name,
+        changeover=number,
+        direction=direction,
+        area=_text(item, "area", file, place),
+        circuit=_text(item, "circuit", file, place, required=False),
+        time_utc=_time(item, time_key, file, place, required=starts),
+        position=_position(item, "start", file, place) if starts else None,
+        boundary_utc=_time(item, "boundary_utc", file, place, required=False),
+        boundary=_position(item, "boundary", file, place, required=False),
+        margin_h=_number(item, "margin_h", file, place),
+    )
+
+
+def _text(item: dict, key: str, file: str, place: str, required: bool = True) -> str | None:
+    v = item.get(key)
+    if v is None and not required:
+        return None
+    if not isinstance(v, str) or not v.strip():
+        raise InputError(file, f"{place}.{key}", v, "a name")
+    return v.strip()
+
+
+def _time(item: dict, key: str, file: str, place: str, required: bool) -> datetime | None:
+    v = item.get(key)
+    if v is None:
+        if required:
+            raise InputError(file, f"{place}.{key}", None, "an ISO 8601 UTC time")
+        return None
+    if not isinstance(v, str):
+        raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time")
+    return parse_moment(v, file=file, place=f"{place}.{key}")
+
+
+def _number(item: dict, key: str, file: str, place: str) -> float | None:
+    v = item.get(key)
+    if v is None:
+        return None
+    if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+        raise InputError(file, f"{place}.{key}", v, "a number")
+    return float(v)
+
+
+def _position(item: dict, prefix: str, file: str, place: str,
+              required: bool = True) -> Position | None:
+    lat, lon = item.get(f"{prefix}_lat"), item.get(f"{prefix}_lon")
+    if lat is None and lon is None and not required:
+        return None
+    for key, v, limit in ((f"{prefix}_lat", lat, 90.0), (f"{prefix}_lon", lon, math.inf)):
+        if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v) \
+                or abs(v) > limit:
+            raise InputError(file, f"{place}.{key}", v, "degrees" + (
+                " within ±90" if limit == 90.0 else ""))
+    lon = float(lon)
+    if abs(lon) > 180.0:  # a plan may unwrap longitudes past ±180
+        lon = (lon + 180.0) % 360.0 - 180.0
+    return Position(float(lat), lon)

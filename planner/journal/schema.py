@@ -1,0 +1,143 @@
+"""The journal's SQLite schema, its version and the migrations between versions.
+
+The version lives in ``PRAGMA user_version``; ``PRAGMA application_id`` marks
+the file as a changeover journal. :func:`migrate` brings an older journal up
+to :data:`SCHEMA_VERSION` inside one ``BEGIN IMMEDIATE`` transaction (all
+steps or none) and refuses a journal written by a newer program.
+
+Version 1: the ``entries`` table; triggers that refuse every UPDATE and
+DELETE and any INSERT that is not the next entry chained to the last one;
+the ``head`` row (number and hash of the last entry) kept by a trigger, so a
+removed last entry is noticed.
+
+Version 2: indexes for listing by time, voyage and area.
+
+Entries are never rewritten by a migration: the hashed text of an entry
+stays exactly as it was written.
+"""
+
+from __future__ import annotations
+
+import sqlite3
+
+from planner.journal.canonical import GENESIS_HASH
+
+APPLICATION_ID = 0x43484F56
+"""``PRAGMA application_id`` of a changeover journal (ASCII "CHOV")."""
+
+SCHEMA_VERSION = 2
+"""The schema version this program writes."""
+
+_V1 = f"""
+CREATE TABLE entries (
+    seq         INTEGER PRIMARY KEY,      -- entry number: 1, 2, 3, ...
+    kind        TEXT NOT NULL,            -- copied from the body, for listing
+    time_utc    TEXT,                     -- event time (ISO 8601 UTC), from the body
+    voyage      TEXT,
+    area        TEXT,
+    written_utc TEXT NOT NULL,
+    body        TEXT NOT NULL,            -- canonical JSON of the entry (hashed)
+    prev_hash   TEXT NOT NULL,
+    hash        TEXT NOT NULL UNIQUE      -- SHA-256 over prev_hash, seq and body
+);
+CREATE TABLE head (
+    id   INTEGER PRIMARY KEY CHECK (id = 1),
+    seq  INTEGER NOT NULL,
+    hash TEXT NOT NULL
+);
+CREATE TRIGGER entries_never_updated BEFORE UPDATE ON entries
+BEGIN
+    SELECT RAISE(ABORT, 'journal entries are never changed: add a correction entry');
+END;
+CREATE TRIGGER entries_never_deleted BEFORE DELETE ON entries
+BEGIN
+    SELECT RAISE(ABORT, 'journal entries are never deleted: add a correction entry');
+END;
+CREATE TRIGGER entries_append_only BEFORE INSERT ON entries
+WHEN NEW.seq IS NOT (SELECT COALESCE(MAX(seq), 0) + 1 FROM entries)
+  OR NEW.prev_hash IS NOT COALESCE((SELECT hash FROM entries ORDER BY seq DESC LIMIT 1),
+                                   '{GENESIS_HASH}')
+BEGIN
+    SELECT RAISE(ABORT, 'an entry must follow the last entry and carry its hash');
+END;
+CREATE TRIGGER entries_head AFTER INSERT ON entries
+BEGIN
+    INSERT OR REPLACE INTO head (id, seq, hash) VALUES (1, NEW.seq, NEW.hash);
+END;
+"""
+
+_V2 = """
+CREATE INDEX entries_by_time ON entries (time_utc);
+CREATE INDEX entries_by_voyage ON entries (voyage, area);
+"""
+
+MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2}
+"""SQL that takes the schema from version ``n - 1`` to ``n``."""
+
+
+class SchemaError(Exception):
+    """The file is not a journal this program can use (the message says why)."""
+
+
+def schema_version(conn: sqlite3.Connection) -> int:
+    """``PRAGMA user_version`` of the open database."""
+    return int(conn.execute("PRAGMA user_version").fetchone()[0])
+
+
+def check_journal(conn: sqlite3.Connection) -> int:
+    """Raise :class:`SchemaError` unless this is a journal we can read; return its version."""
+    app_id = int(conn.execute("PRAGMA application_id").fetchone()[0])
+    version = schema_version(conn)
+    if app_id != APPLICATION_ID:
+        raise SchemaError("an SQLite file but not a changeover journal")
+    if version > SCHEMA_VERSION:
+        raise SchemaError(f"a journal of schema version {version}, newer than this program's "
+                          f"{SCHEMA_VERSION}: update changeover")
+    if version < 1:
+        raise SchemaError("a journal with no schema")
+    return version
+
+
+def migrate(conn: sqlite3.Connection, target: int = SCHEMA_VERSION, *, new: bool = False) -> int:
+    """Bring the schema up to ``target`` in one transaction; return the version reached.
+
+    ``new=True`` sets up an empty database (marks it and starts at version 0).
+    The connection must be in autocommit mode (``isolation_level=None``).
+    """
+    if target > SCHEMA_VERSION:
+        raise ValueError(f"target {target} is above SCHEMA_VERSION {SCHEMA_VERSION}")
+    conn.execute("BEGIN IMMEDIATE")
+    try:
+        if new:
+            if conn.execute("SELECT COUNT(*) FROM sqlite_master").fetchone()[0]:
+                raise SchemaError("not empty")
+            conn.execute(f"PRAGMA application_id = {APPLICATION_ID}")
+            version = 0
+        else:
+            version = check_journal(conn)
+        while version < target:
+            version += 1
+            for statement in _statements(MIGRATIONS[version]):
+                conn.execute(statement)
+            conn.execute(f"PRAGMA user_version = {version}")
+        conn.execute("COMMIT")
+    except BaseException:
+        conn.execute("ROLLBACK")
+        raise
+    return version
+
+
+def _statements(script: str) -> list[str]:
+    """Split a migration script into statements (triggers kept whole)."""
+    out: list[str] = []
+    buf = ""
+    for line in script.splitlines(keepends=True):
+        if line.lstrip().startswith("--") and not buf.strip():
+            continue
+        buf += line
+        if sqlite3.complete_statement(buf):
+            out.append(buf.strip())
+            buf = ""
+    if buf.strip():
+        out.append(buf.strip())
+    return out

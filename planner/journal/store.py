@@ -1,0 +1,219 @@
+"""The journal file: one SQLite database per ship, appended to and never rewritten.
+
+- WAL mode and ``synchronous = FULL``: a commit is on disk when it returns;
+  a writer killed at any moment leaves every committed entry and none of an
+  unfinished batch.
+- Appends run in ``BEGIN IMMEDIATE``: the write lock is taken first, then
+  the last entry's number and hash are read and the new entry chained to
+  them, so concurrent writers (other processes) queue and never fork the
+  chain. They wait up to :data:`BUSY_TIMEOUT_S` for the lock.
+- The entry is built and checked inside that transaction (see
+  :meth:`Journal.append`): a bad value raises :class:`geo.errors.InputError`
+  and the transaction is rolled back, so nothing is written.
+- A new journal is built under a temporary name and linked into place only
+  when complete; an existing file is never overwritten.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import sqlite3
+from collections.abc import Callable, Sequence
+from pathlib import Path
+
+from geo.errors import InputError
+from planner.journal.canonical import canonical_json, entry_hash
+from planner.journal.checks import check_entry
+from planner.journal.codec import DecodeError, decode_entry, encode
+from planner.journal.entries import Entry
+from planner.journal.schema import SCHEMA_VERSION, SchemaError, check_journal, migrate
+from planner.journal.state import JournalState, Stored
+from planner.journal.verify import Row, VerifyReport, listing_columns, verify_rows
+
+BUSY_TIMEOUT_S = 30.0
+"""How long a writer waits for another writer's transaction to finish, s."""
+
+Make = Entry | Callable[[JournalState], Entry]
+"""An entry, or a function building one from the journal as it stands (run in the append)."""
+
+_COLUMNS = "seq, kind, time_utc, voyage, area, written_utc, body, prev_hash, hash"
+
+
+def _connect(path: Path, mode: str) -> sqlite3.Connection:
+    uri = path.resolve().as_uri() + f"?mode={mode}"
+    conn = sqlite3.connect(uri, uri=True, isolation_level=None, timeout=BUSY_TIMEOUT_S)
+    conn.execute("PRAGMA synchronous = FULL")
+    return conn
+
+
+class Journal:
+    """An open journal. Use :meth:`create` or :meth:`open`; close it (or use ``with``)."""
+
+    def __init__(self, conn: sqlite3.Connection, path: Path) -> None:
+        self.conn = conn
+        self.path = path
+        self._state: JournalState | None = None
+
+    # -- opening ---------------------------------------------------------------------------
+
+    @classmethod
+    def create(cls, path: str | Path, first: Make, *, option: str = "--journal") -> Journal:
+        """A new journal at ``path`` whose entry 1 is ``first`` (the ship's set-up)."""
+        target = Path(path)
+        if target.exists():
+            raise InputError(option, "", str(path), "a new file: a journal is never overwritten")
+        if not target.parent.is_dir():
+            raise InputError(option, "", str(path), "a path in an existing folder")
+        tmp = target.with_name(f".{target.name}.{os.getpid()}.new")
+        try:
+            conn = _connect(tmp, "rwc")
+            try:
+                conn.execute("PRAGMA journal_mode = WAL")
+                migrate(conn, new=True)
+                cls(conn, tmp).append(first)
+            finally:
+                conn.close()
+            try:
+                os.link(tmp, target)
+            except FileExistsError:
+                raise InputError(option, "", str(path),
+                                 "a new file: a journal is never overwritten") from None
+            except OSError:  # no hard links here: rename, having looked first
+                if target.exists():
+                    raise InputError(option, "", str(path),
+                                     "a new file: a journal is never overwritten") from None
+                os.replace(tmp, target)
+        finally:
+            for p in (tmp, Path(f"{tmp}-wal"), Path(f"{tmp}-shm")):
+                if p.exists():
+                    p.unlink()
+        return cls.open(target, option=option)
+
+    @classmethod
+    def open(cls, path: str | Path, *, option: str = "--journal") -> Journal:
+        """An existing journal, its schema brought up to date (see :mod:`.schema`)."""
+        p = Path(path)
+        if not p.is_file():
+            raise InputError(option, "", str(path),
+                             "an existing journal file (start one with changeover log init)")
+        conn = None
+        try:
+            conn = _connect(p, "rw")
+            version = check_journal(conn)
+            if version < SCHEMA_VERSION:
+                migrate(conn)
+            if conn.execute("PRAGMA journal_mode").fetchone()[0].lower() != "wal":
+                conn.execute("PRAGMA journal_mode = WAL")
+        except SchemaError as exc:
+            conn.close()
+            raise InputError(option, "", str(path), f"a changeover journal this program can "
+                                                    f"use; it is {exc}") from None
+        except sqlite3.DatabaseError as exc:
+            if conn is not None:
+                conn.close()
+            raise InputError(option, "", str(path), f"a changeover journal ({exc})") from None
+        return cls(conn, p)
+
+    def close(self) -> None:
+        self.conn.close()
+
+    def __enter__(self) -> Journal:
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
+
+    # -- reading ---------------------------------------------------------------------------
+
+    def rows(self) -> list[Row]:
+        """Every row, in entry-number order, as stored (untrusted)."""
+        cur = self.conn.execute(f"SELECT {_COLUMNS} FROM entries ORDER BY seq")
+        return [Row(*r) for r in cur.fetchall()]
+
+    def head(self) -> tuple[int, str] | None:
+        """(number, hash) of the last entry as the head row recorded it."""
+        r = self.conn.execute("SELECT seq, hash FROM head WHERE id = 1").fetchone()
+        return (int(r[0]), str(r[1])) if r else None
+
+    def read(self) -> list[Stored]:
+        """Every entry, decoded (refused if one cannot be read: see :meth:`verify`)."""
+        return list(self.state().stored.values())
+
+    def state(self) -> JournalState:
+        """The journal as it stands now (one consistent read)."""
+        self.conn.execute("BEGIN")
+        try:
+            return self._refresh()
+        finally:
+            self.conn.execute("COMMIT")
+
+    def verify(self, expect_hash: str | None = None) -> VerifyReport:
+        """Check the whole chain (see :mod:`planner.journal.verify`)."""
+        self.conn.execute("BEGIN")
+        try:
+            rows, head = self.rows(), self.head()
+        finally:
+            self.conn.execute("COMMIT")
+        return verify_rows(rows, head, expect_hash)
+
+    # -- writing ---------------------------------------------------------------------------
+
+    def append(self, make: Make) -> Stored:
+        """Append one entry (built and checked inside the transaction); return it as stored."""
+        return self.append_many([make])[0]
+
+    def append_many(self, makes: Sequence[Make]) -> list[Stored]:
+        """Append entries in one transaction: all of them or, on any error, none."""
+        conn = self.conn
+        conn.execute("BEGIN IMMEDIATE")
+        try:
+            state = self._refresh()
+            out = []
+            for make in makes:
+                entry = make if isinstance(make, Entry) else make(state)
+                if not isinstance(entry, Entry):
+                    raise TypeError(f"expected an Entry, got {entry!r}")
+                check_entry(state, entry)
+                stored = self._insert(state, entry)
+                state.add(stored)
+                out.append(stored)
+            conn.execute("COMMIT")
+        except BaseException:
+            if conn.in_transaction:
+                conn.execute("ROLLBACK")
+            self._state = None
+            raise
+        return out
+
+    def _insert(self, state: JournalState, entry: Entry) -> Stored:
+        doc = encode(entry)
+        body = canonical_json(doc)
+        seq, prev = state.last_seq + 1, state.last_hash
+        digest = entry_hash(prev, seq, body)
+        self.conn.execute(f"INSERT INTO entries ({_COLUMNS}) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
+                          (seq, *listing_columns(doc), body, prev, digest))
+        return Stored(seq, digest, prev, entry)
+
+    def _refresh(self) -> JournalState:
+        """Bring the cached state up to the last committed entry (call inside a transaction)."""
+        st = self._state or JournalState()
+        if st.last_seq:
+            r = self.conn.execute("SELECT hash FROM entries WHERE seq = ?",
+                                  (st.last_seq,)).fetchone()
+            if r is None or r[0] != st.last_hash:
+                st = JournalState()
+        cur = self.conn.execute(f"SELECT {_COLUMNS} FROM entries WHERE seq > ? ORDER BY seq",
+                                (st.last_seq,))
+        for row in cur.fetchall():
+            st.add(self._decode(Row(*row)))
+        self._state = st
+        return st
+
+    def _decode(self, row: Row) -> Stored:
+        try:
+            entry = decode_entry(json.loads(row.body))
+        except (ValueError, DecodeError) as exc:
+            raise InputError(str(self.path), f"entry {row.seq}", "unreadable",
+                             f"a valid entry ({exc}); run changeover log verify") from None
+        return Stored(row.seq, row.hash, row.prev_hash, entry)
