@@ -1,0 +1,35 @@
+"""Flushing: sulphur at each consumer inlet after the changeover valve is switched.
+
+Public API (see each module for the method and REFERENCE.md section 3):
+
+- :func:`simulate` (:mod:`~planner.flushing.simulate`): the simulation itself;
+- :class:`Switch`, :func:`make_switch` (:mod:`~planner.flushing.network`): which
+  valve goes from which tank to which;
+- :class:`ConsumptionSchedule`, :func:`schedule_at`
+  (:mod:`~planner.flushing.schedule`): consumption against time;
+- :class:`FlushResult`, :class:`InletCurve`, :class:`TankCurve`
+  (:mod:`~planner.flushing.result`): curves, crossing times, masses;
+- :func:`flush`, :func:`summarize`, :class:`CircuitSummary`
+  (:mod:`~planner.flushing.summary`): the headline figures per circuit.
+"""
+
+from planner.flushing.network import Switch, make_switch
+from planner.flushing.result import FlushResult, InletCurve, TankCurve
+from planner.flushing.schedule import ConsumptionSchedule, schedule_at
+from planner.flushing.simulate import FlushError, simulate
+from planner.flushing.summary import CircuitSummary, flush, summarize
+
+__all__ = [
+    "CircuitSummary",
+    "ConsumptionSchedule",
+    "FlushError",
+    "FlushResult",
+    "InletCurve",
+    "Switch",
+    "TankCurve",
+    "flush",
+    "make_switch",
+    "schedule_at",
+    "simulate",
+    "summarize",
+]

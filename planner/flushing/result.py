@@ -1,0 +1,247 @@
+"""Results of a flushing simulation: inlet curves, crossing times, masses, tank states.
+
+Array convention (as :mod:`planner.fuels`): the fuel (component) axis is the
+**first** axis, time the second: ``fractions`` has shape (n_fuels, n_times).
+Compositions are volume fractions at 15 °C; sulphur and density follow on a
+mass basis (REFERENCE.md section 3): ``S = Σ φᵢρᵢSᵢ / Σ φᵢρᵢ``,
+``ρ = Σ φᵢρᵢ`` (ideal mixing).
+
+Crossing times are found on the recorded trace (every output time plus both
+sides of every step end) by linear interpolation of the composition between
+neighbours; since sulphur at or below a level is *linear* in the volume
+fractions (``Σ φᵢρᵢ(Sᵢ − L) ≤ 0``), that root is exact for the interpolant,
+and a front (two samples at one time) gives its time exactly.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass
+from types import MappingProxyType
+
+import numpy as np
+
+from planner.flushing.network import Network, Switch
+from planner.fuels import Fuel
+
+
+def _sulphur(fr: np.ndarray, rho: np.ndarray, s: np.ndarray) -> np.ndarray:
+    m = np.clip(fr, 0.0, None) * rho[:, None]
+    return (m * s[:, None]).sum(0) / m.sum(0)
+
+
+def _crossing(t: np.ndarray, g: np.ndarray, settled: bool) -> float | None:
+    """First time g ≤ 0 (or, if ``settled``, the time from which g ≤ 0 to the end)."""
+    above = g > 0.0
+    if settled:
+        if above[-1]:
+            return None
+        idx = np.flatnonzero(above)
+        if idx.size == 0:
+            return float(t[0])
+        k = int(idx[-1]) + 1
+    else:
+        idx = np.flatnonzero(~above)
+        if idx.size == 0:
+            return None
+        k = int(idx[0])
+        if k == 0:
+            return float(t[0])
+    t0, t1, g0, g1 = t[k - 1], t[k], g[k - 1], g[k]
+    if t1 <= t0 or g0 == g1:
+        return float(t1)
+    return float(t0 + (t1 - t0) * g0 / (g0 - g1))
+
+
+@dataclass(frozen=True)
+class InletCurve:
+    """Fuel at one consumer's inlet against time.
+
+    Attributes
+    ----------
+    consumer, circuit : str
+    fuels : tuple of Fuel
+        The distinct fuels, in the order of the first axis of the arrays.
+    time_h : ndarray (n,)
+        Output times, h after the switch.
+    fractions : ndarray (F, n)
+        Volume fractions of each fuel at the inlet.
+    burnt_m3 : ndarray (F, n)
+        Cumulative volume of each fuel burnt since the switch, m³ at 15 °C.
+    trace_time_h, trace_fractions : ndarray (K,), (F, K)
+        The finer record the crossing times are found on.
+    """
+
+    consumer: str
+    circuit: str
+    fuels: tuple[Fuel, ...]
+    time_h: np.ndarray
+    fractions: np.ndarray
+    burnt_m3: np.ndarray
+    trace_time_h: np.ndarray
+    trace_fractions: np.ndarray
+
+    @property
+    def _rho(self) -> np.ndarray:
+        return np.array([f.density_kg_m3 for f in self.fuels])
+
+    @property
+    def _s(self) -> np.ndarray:
+        return np.array([f.sulphur_pct for f in self.fuels])
+
+    @property
+    def sulphur_pct(self) -> np.ndarray:
+        """Sulphur at the inlet, % m/m (n,)."""
+        return _sulphur(self.fractions, self._rho, self._s)
+
+    @property
+    def density_kg_m3(self) -> np.ndarray:
+        """Density of the inlet blend at 15 °C, kg/m³ (n,)."""
+        return self._rho @ np.clip(self.fractions, 0.0, None)
+
+    @property
+    def mass_fractions(self) -> np.ndarray:
+        """Mass fractions of each fuel at the inlet (F, n), for Refutas viscosity blending."""
+        m = np.clip(self.fractions, 0.0, None) * self._rho[:, None]
+        return m / m.sum(0)
+
+    @property
+    def burnt_t(self) -> np.ndarray:
+        """Cumulative mass of each fuel burnt since the switch, t (F, n)."""
+        return self.burnt_m3 * self._rho[:, None] / 1000.0
+
+    def burnt_until_t(self, time_h: float) -> np.ndarray:
+        """Mass of each fuel burnt from the switch to ``time_h``, t (F,)."""
+        return np.array([np.interp(time_h, self.time_h, b) for b in self.burnt_t])
+
+    def _g(self, level_pct: float) -> np.ndarray:
+        fr = np.clip(self.trace_fractions, 0.0, None)
+        return ((self._s - level_pct) * self._rho) @ fr
+
+    def time_at_or_below_h(self, level_pct: float, settled: bool = True) -> float | None:
+        """When inlet sulphur is at or below ``level_pct`` % m/m, h after the switch.
+
+        ``settled=True``: from when it stays so until the horizon (None if it is
+        above at the horizon); ``settled=False``: the first time it gets there.
+        """
+        return _crossing(self.trace_time_h, self._g(level_pct), settled)
+
+    def time_at_or_above_h(self, level_pct: float, settled: bool = True) -> float | None:
+        """As :meth:`time_at_or_below_h`, for sulphur at or above ``level_pct`` (switching back)."""
+        return _crossing(self.trace_time_h, -self._g(level_pct), settled)
+
+
+@dataclass(frozen=True)
+class TankCurve:
+    """A tank's level and composition against time (output times)."""
+
+    name: str
+    fuels: tuple[Fuel, ...]
+    capacity_m3: float
+    time_h: np.ndarray
+    volume_m3: np.ndarray  # (n,)
+    fractions: np.ndarray  # (F, n)
+
+    @property
+    def sulphur_pct(self) -> np.ndarray:
+        """Sulphur of the tank content, % m/m (n,)."""
+        rho = np.array([f.density_kg_m3 for f in self.fuels])
+        return _sulphur(self.fractions, rho, np.array([f.sulphur_pct for f in self.fuels]))
+
+    @property
+    def content_m3(self) -> np.ndarray:
+        """Volume of each fuel in the tank, m³ at 15 °C (F, n)."""
+        return self.fractions * self.volume_m3
+
+
+@dataclass(frozen=True)
+class FlushResult:
+    """Everything a simulation gives (see :func:`planner.flushing.simulate`).
+
+    ``inventory_*_m3`` and ``burnt_m3`` are per fuel (F,) over the whole
+    network (tanks, volumes and pipes): initial = final + burnt to round-off.
+    """
+
+    fuels: tuple[Fuel, ...]
+    switches: tuple[Switch, ...]
+    time_h: np.ndarray
+    inlets: Mapping[str, InletCurve]
+    tanks: Mapping[str, TankCurve]
+    inventory_initial_m3: np.ndarray
+    inventory_final_m3: np.ndarray
+    burnt_m3: np.ndarray
+    warnings: tuple[str, ...]
+    n_steps: int
+
+    @property
+    def fuel_names(self) -> tuple[str, ...]:
+        return tuple(f.name for f in self.fuels)
+
+    def circuit_inlets(self, circuit: str) -> list[InletCurve]:
+        """The inlet curves of ``circuit``'s consumers."""
+        return [c for c in self.inlets.values() if c.circuit == circuit]
+
+    def time_to_h(self, circuit: str, level_pct: float, settled: bool = True) -> float | None:
+        """When every inlet of ``circuit`` is at or below ``level_pct`` % m/m (None: not by
+        the horizon): the latest of its consumers' times."""
+        times = [c.time_at_or_below_h(level_pct, settled) for c in self.circuit_inlets(circuit)]
+        return None if any(x is None for x in times) else max(times)  # type: ignore[type-var]
+
+    def sulphur_t(self, volumes_m3: np.ndarray) -> float:
+        """Mass of sulphur, t, in per-fuel volumes (F,) m³."""
+        rho = np.array([f.density_kg_m3 for f in self.fuels])
+        s = np.array([f.sulphur_pct for f in self.fuels])
+        return float(np.sum(volumes_m3 * rho * s) / 100.0 / 1000.0)
+
+    def sulphur_balance_t(self) -> tuple[float, float, float]:
+        """Sulphur, t: (held at the start, held at the end, burnt). First = second + third."""
+        return (
+            self.sulphur_t(self.inventory_initial_m3),
+            self.sulphur_t(self.inventory_final_m3),
+            self.sulphur_t(self.burnt_m3),
+        )
+
+
+def build_result(
+    net: Network, rec, n_out: int, h_out: float, warnings: tuple[str, ...], n_steps: int
+) -> FlushResult:
+    """Assemble a :class:`FlushResult` from the simulator's record."""
+    grid = np.arange(n_out + 1) * h_out
+    trace_t = np.concatenate(rec.trace_t)
+    trace_phi = np.concatenate(rec.trace_phi, axis=1)  # (C, K, F)
+    idx = np.searchsorted(trace_t, grid * (1 + 1e-12) + 1e-15, side="right") - 1
+    step_t = np.array(rec.step_t)
+    burnt = np.array(rec.burnt)  # (steps+1, C, F)
+    inlets = {}
+    for c, name in enumerate(net.consumers):
+        b = np.array([np.interp(grid, step_t, burnt[:, c, f]) for f in range(len(net.fuels))])
+        inlets[name] = InletCurve(
+            name,
+            net.consumer_circuit[c],
+            net.fuels,
+            grid,
+            trace_phi[c, idx].T,
+            b,
+            trace_t,
+            trace_phi[c].T,
+        )
+    tv, tx = np.array(rec.tank_vol), np.array(rec.tank_x)
+    tanks = {}
+    for i, name in enumerate(net.stirred):
+        if net.is_tank[i]:
+            vol = np.interp(grid, step_t, tv[:, i])
+            fr = np.array([np.interp(grid, step_t, tx[:, i, f]) for f in range(len(net.fuels))])
+            tanks[name] = TankCurve(name, net.fuels, float(net.capacity_m3[i]), grid, vol, fr)
+    final = tv[-1] @ tx[-1] + sum((q.content_m3() for q in rec.queues), np.zeros(len(net.fuels)))
+    return FlushResult(
+        fuels=net.fuels,
+        switches=net.switches,
+        time_h=grid,
+        inlets=MappingProxyType(inlets),
+        tanks=MappingProxyType(tanks),
+        inventory_initial_m3=rec.inventory0,
+        inventory_final_m3=final,
+        burnt_m3=burnt[-1].sum(0),
+        warnings=warnings,
+        n_steps=n_steps,
+    )

@@ -1,0 +1,356 @@
+"""Load a ship file (TOML) into a :class:`planner.system.FuelSystem`.
+
+The format is documented in the README ("The ship file") and annotated in
+``areas_sample/ship.toml``. Tables: ``[ship]``, ``[fuels.NAME]``,
+``[tanks.NAME]``, ``[consumers.NAME]``, ``[volumes.NAME]``,
+``[circuits.NAME]`` (chain form: ``chain``, optional ``loop``; or general
+form: ``links``). Every problem is one :class:`geo.errors.InputError` naming
+the file and the key (``circuits.main.links[2].flow``).
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+from numbers import Real
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from geo.errors import InputError
+from planner.consumers import CONSUMER_KINDS, MainEngine, iso_demand_t_h
+from planner.fuels import Fuel
+from planner.system import (
+    VALVE,
+    Circuit,
+    Flow,
+    FuelSystem,
+    FuelSystemError,
+    Link,
+    Pipe,
+    ShipIdentity,
+    Stirred,
+    Tank,
+)
+
+MAX_FILE_BYTES = 1024 * 1024
+
+_FUEL_KEYS = (
+    "grade",
+    "bdn_ref",
+    "sulphur_pct",
+    "density_kg_m3",
+    "viscosity_cst",
+    "viscosity_ref_c",
+    "viscosity2_cst",
+    "viscosity2_ref_c",
+    "water_pct",
+    "ash_pct",
+    "q_net_mj_kg",
+)
+_CONSUMER_KEYS = {
+    "main_engine": ("mcr_kw", "sfoc_g_kwh", "ref_speed_kn", "ref_load_pct", "sfoc_curve"),
+    "generator": ("power_kw", "sfoc_g_kwh", "rated_kw"),
+    "boiler": ("fuel_t_h", "q_net_ref_mj_kg"),
+}
+_CHAIN_KEYS = ("tanks", "consumers", "chain", "loop", "loop_flow_m3h", "loop_factor", "loop_return")
+_LINK_KEYS = ("from", "to", "flow", "flow_m3h", "factor", "consumers")
+
+
+class _Reader:
+    def __init__(self, file: str) -> None:
+        self.file = file
+
+    def fail(self, place: str, value: object, expected: str) -> InputError:
+        return InputError(self.file, place, value, expected)
+
+    def table(self, data: dict, key: str, place: str, required: bool = True) -> dict:
+        value = data.get(key)
+        if value is None and not required:
+            return {}
+        if not isinstance(value, dict):
+            raise self.fail(place, value, "a table")
+        return value
+
+    def keys(self, data: dict, allowed: tuple[str, ...], place: str) -> None:
+        for k in data:
+            if k not in allowed:
+                raise self.fail(f"{place}.{k}", k, f"one of the keys {', '.join(allowed)}")
+
+    def number(
+        self, data: dict, key: str, place: str, required: bool = True, positive: bool = False
+    ) -> float | None:
+        value = data.get(key)
+        if value is None:
+            if required:
+                raise self.fail(f"{place}.{key}", None, "a number")
+            return None
+        if isinstance(value, bool) or not isinstance(value, Real) or not math.isfinite(value):
+            raise self.fail(f"{place}.{key}", value, "a number")
+        if positive and value <= 0:
+            raise self.fail(f"{place}.{key}", value, "a number above 0")
+        return float(value)
+
+    def text(self, data: dict, key: str, place: str, required: bool = True) -> str | None:
+        value = data.get(key)
+        if value is None and not required:
+            return None
+        if not isinstance(value, str) or not value.strip():
+            raise self.fail(f"{place}.{key}", value, "a non-empty string")
+        return value
+
+    def names(self, data: dict, key: str, place: str, required: bool = True) -> list[str]:
+        value = data.get(key)
+        if value is None and not required:
+            return []
+        if not isinstance(value, list) or not all(isinstance(v, str) and v for v in value):
+            raise self.fail(f"{place}.{key}", value, "a list of names")
+        return value
+
+
+def load_ship(path: str | Path) -> FuelSystem:
+    """The :class:`FuelSystem` of the ship file at ``path`` (InputError on any fault)."""
+    p = Path(path)
+    file = str(path)
+    if not p.is_file():
+        raise InputError(file, "", None, "an existing ship file (TOML)")
+    if p.stat().st_size > MAX_FILE_BYTES:
+        raise InputError(file, "file size", p.stat().st_size, f"at most {MAX_FILE_BYTES} bytes")
+    try:
+        data = tomllib.loads(p.read_bytes().decode("utf-8-sig"))
+    except UnicodeDecodeError:
+        raise InputError(file, "", "undecodable bytes", "UTF-8 text") from None
+    except tomllib.TOMLDecodeError as e:
+        raise InputError(file, "", str(e), "valid TOML") from None
+    return parse_ship(data, file)
+
+
+def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
+    """The :class:`FuelSystem` of already-parsed TOML ``data`` (``file`` names it in errors)."""
+    r = _Reader(file)
+    r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits"), "")
+    ship_t = r.table(data, "ship", "ship")
+    r.keys(ship_t, ("name", "imo", "fictional", "notes"), "ship")
+    fictional = ship_t.get("fictional", False)
+    if not isinstance(fictional, bool):
+        raise r.fail("ship.fictional", fictional, "true or false")
+    imo = ship_t.get("imo", "")
+    if not isinstance(imo, str | int) or isinstance(imo, bool):
+        raise r.fail("ship.imo", imo, "the IMO number as a string")
+    ship = ShipIdentity(
+        r.text(ship_t, "name", "ship"), str(imo), fictional, str(ship_t.get("notes", ""))
+    )
+    fuels = {n: _fuel(r, n, t) for n, t in _tables(r, data, "fuels").items()}
+    tanks = {n: _tank(r, n, t) for n, t in _tables(r, data, "tanks").items()}
+    consumers = {n: _consumer(r, n, t) for n, t in _tables(r, data, "consumers").items()}
+    volumes = {n: _volume(r, n, t) for n, t in _tables(r, data, "volumes").items()}
+    circuits = {n: _circuit(r, n, t) for n, t in _tables(r, data, "circuits").items()}
+    try:
+        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits)
+    except FuelSystemError as e:
+        raise InputError(file, e.place, e.value, e.expected) from None
+    _check_pumps(r, system)
+    return system
+
+
+def _tables(r: _Reader, data: dict, key: str) -> dict[str, dict]:
+    group = r.table(data, key, key)
+    if not group:
+        raise r.fail(key, None, f"at least one [{key}.NAME] table")
+    for name, t in group.items():
+        if not isinstance(t, dict):
+            raise r.fail(f"{key}.{name}", t, "a table")
+    return group
+
+
+def _fuel(r: _Reader, name: str, t: dict) -> Fuel:
+    place = f"fuels.{name}"
+    r.keys(t, _FUEL_KEYS, place)
+    kw: dict[str, Any] = {
+        "name": name,
+        "grade": r.text(t, "grade", place),
+        "bdn_ref": str(t.get("bdn_ref", "")),
+    }
+    for key in _FUEL_KEYS[2:]:
+        required = key in ("sulphur_pct", "density_kg_m3", "viscosity_cst", "viscosity_ref_c")
+        value = r.number(t, key, place, required)
+        if value is not None:
+            kw[key] = value
+    try:
+        return Fuel(**kw)
+    except ValueError as e:
+        raise r.fail(place, name, f"valid fuel data ({e})") from None
+
+
+def _tank(r: _Reader, name: str, t: dict) -> Tank:
+    place = f"tanks.{name}"
+    r.keys(t, ("capacity_m3", "fuel", "volume_m3", "content"), place)
+    capacity = r.number(t, "capacity_m3", place, positive=True)
+    if "content" in t:
+        if "fuel" in t or "volume_m3" in t:
+            raise r.fail(f"{place}.content", "content", "either content or fuel + volume_m3")
+        content = r.table(t, "content", f"{place}.content")
+        for fuel in content:
+            r.number(content, fuel, f"{place}.content")
+    else:
+        content = {r.text(t, "fuel", place): r.number(t, "volume_m3", place)}
+    try:
+        return Tank(name, capacity, content)  # type: ignore[arg-type]
+    except FuelSystemError as e:
+        raise r.fail(e.place, e.value, e.expected) from None
+
+
+def _consumer(r: _Reader, name: str, t: dict):
+    place = f"consumers.{name}"
+    kind = t.get("kind")
+    if kind not in CONSUMER_KINDS:
+        raise r.fail(f"{place}.kind", kind, f"one of {', '.join(CONSUMER_KINDS)}")
+    allowed = _CONSUMER_KEYS[kind]
+    r.keys(t, ("kind",) + allowed, place)
+    kw: dict[str, Any] = {"name": name}
+    for key in allowed:
+        if key == "sfoc_curve":
+            curve = t.get(key, [])
+            if not isinstance(curve, list) or not all(
+                isinstance(p, list) and len(p) == 2 for p in curve
+            ):
+                raise r.fail(f"{place}.sfoc_curve", curve, "a list of [load_pct, sfoc_g_kwh] pairs")
+            kw[key] = tuple(tuple(p) for p in curve)
+            continue
+        optional = key in ("rated_kw", "q_net_ref_mj_kg")
+        value = r.number(t, key, place, required=not optional)
+        if value is not None:
+            kw[key] = value
+    try:
+        return CONSUMER_KINDS[kind](**kw)
+    except (ValueError, TypeError) as e:
+        raise r.fail(place, name, f"valid {kind} data ({e})") from None
+
+
+def _volume(r: _Reader, name: str, t: dict) -> Pipe | Stirred:
+    place = f"volumes.{name}"
+    kind = t.get("kind")
+    if kind not in ("pipe", "stirred"):
+        raise r.fail(f"{place}.kind", kind, "pipe or stirred")
+    try:
+        if kind == "stirred":
+            r.keys(t, ("kind", "volume_m3"), place)
+            return Stirred(name, r.number(t, "volume_m3", place))  # type: ignore[arg-type]
+        r.keys(t, ("kind", "volume_m3", "length_m", "bore_mm"), place)
+        if "volume_m3" in t:
+            if "length_m" in t or "bore_mm" in t:
+                raise r.fail(
+                    f"{place}.volume_m3", t["volume_m3"], "either volume_m3 or length_m + bore_mm"
+                )
+            return Pipe(name, r.number(t, "volume_m3", place))  # type: ignore[arg-type]
+        return Pipe.from_length(
+            name,
+            r.number(t, "length_m", place),  # type: ignore[arg-type]
+            r.number(t, "bore_mm", place),
+        )
+    except FuelSystemError as e:
+        raise r.fail(e.place, e.value, e.expected) from None
+
+
+def _circuit(r: _Reader, name: str, t: dict) -> Circuit:
+    place = f"circuits.{name}"
+    tanks = r.names(t, "tanks", place)
+    who = r.names(t, "consumers", place)
+    if "links" in t:
+        if "chain" in t:
+            raise r.fail(f"{place}.links", "links", "either chain (with loop) or links")
+        r.keys(t, ("tanks", "consumers", "links"), place)
+        raw = t["links"]
+        if not isinstance(raw, list) or not raw:
+            raise r.fail(f"{place}.links", raw, "a list of links {from, to, flow}")
+        links = tuple(_link(r, f"{place}.links[{i}]", x) for i, x in enumerate(raw))
+        return Circuit(name, tuple(tanks), tuple(who), links)
+    r.keys(t, _CHAIN_KEYS, place)
+    chain = r.names(t, "chain", place)
+    if not chain:
+        raise r.fail(f"{place}.chain", chain, "a list of volumes from the valve (or links)")
+    at = f"{place}.chain"
+    links = [Link(VALVE, chain[0], Flow.consumption(), at)]
+    links += [Link(a, b, Flow.balance(), at) for a, b in zip(chain, chain[1:], strict=False)]
+    loop = r.names(t, "loop", place, required=False)
+    if loop:
+        at = f"{place}.loop"
+        rate = r.number(t, "loop_flow_m3h", place, required=False, positive=True)
+        factor = r.number(t, "loop_factor", place, required=False, positive=True)
+        if (rate is None) == (factor is None):
+            raise r.fail(f"{place}.loop_flow_m3h", rate, "one of loop_flow_m3h or loop_factor")
+        flow = Flow.fixed(rate) if rate is not None else Flow.consumption(factor)  # type: ignore
+        back = r.names(t, "loop_return", place, required=False)
+        links.append(Link(chain[-1], loop[0], flow, at))
+        path = loop + back + [chain[-1]]
+        links += [Link(a, b, Flow.balance(), at) for a, b in zip(path, path[1:], strict=False)]
+        end = loop[-1]
+    else:
+        for key in ("loop_flow_m3h", "loop_factor", "loop_return"):
+            if key in t:
+                raise r.fail(f"{place}.{key}", t[key], "no loop settings without a loop")
+        end = chain[-1]
+    links += [Link(end, c, None, f"{place}.consumers") for c in who]
+    return Circuit(name, tuple(tanks), tuple(who), tuple(links))
+
+
+def _link(r: _Reader, place: str, x: object) -> Link:
+    if not isinstance(x, dict):
+        raise r.fail(place, x, "a table {from = ..., to = ..., flow = ...}")
+    r.keys(x, _LINK_KEYS, place)
+    source, target = r.text(x, "from", place), r.text(x, "to", place)
+    kinds = [k for k in ("flow", "flow_m3h") if k in x]
+    if not kinds:
+        return Link(source, target, None, place)  # type: ignore[arg-type]
+    word = x.get("flow")
+    rate = r.number(x, "flow_m3h", place, required=False)
+    factor = r.number(x, "factor", place, required=False)
+    if word is not None and word not in ("consumption", "rest"):
+        raise r.fail(f"{place}.flow", word, "'consumption' or 'rest' (or give flow_m3h)")
+    if word == "rest":
+        if rate is not None or factor is not None or "consumers" in x:
+            raise r.fail(f"{place}.flow", word, "'rest' alone, without flow_m3h or factor")
+        return Link(source, target, Flow.balance(), place)  # type: ignore[arg-type]
+    if word is None and (factor is not None or "consumers" in x):
+        raise r.fail(
+            f"{place}.factor", factor, "factor and consumers only with flow = 'consumption'"
+        )
+    who = tuple(r.names(x, "consumers", place)) if "consumers" in x else None
+    flow = Flow(
+        constant_m3h=rate or 0.0,
+        factor=(1.0 if factor is None else factor) if word == "consumption" else 0.0,
+        consumers=who,
+    )
+    return Link(source, target, flow, place)  # type: ignore[arg-type]
+
+
+def _check_pumps(r: _Reader, system: FuelSystem) -> None:
+    """Every link flow must be >= 0 with main engines at 100 % MCR on the lightest valve fuel."""
+    from planner.flushing.flows import circuit_flows
+
+    for circuit in system.circuits.values():
+        fuels = {f for t in circuit.tanks for f in system.tanks[t].content_m3}
+        rho = min(system.fuels[f].density_kg_m3 for f in fuels)
+        v = np.array(
+            [
+                iso_demand_t_h(
+                    system.consumers[c],
+                    load_pct=100.0 if isinstance(system.consumers[c], MainEngine) else None,
+                )
+                * 1000.0
+                / rho
+                for c in circuit.consumers
+            ]
+        )
+        flows = circuit_flows(system, circuit)
+        q = flows.rates_m3h(v)
+        for i in np.flatnonzero(q < -1e-9):
+            link = circuit.links[i]
+            place = link.place or f"circuits.{circuit.name}.links[{i}]"
+            raise r.fail(
+                f"{place}.flow",
+                link.flow.describe() if link.flow else "consumption",
+                f"a flow >= 0 with main engines at 100 % MCR (it would be {q[i]:.3g} m³/h"
+                f" on {link.source} → {link.target})",
+            )
