@@ -33,6 +33,7 @@ from planner.system import (
     Stirred,
     Tank,
 )
+from planner.thermal import InletWindow
 
 MAX_FILE_BYTES = 1024 * 1024
 
@@ -129,29 +130,49 @@ def load_ship(path: str | Path) -> FuelSystem:
 def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     """The :class:`FuelSystem` of already-parsed TOML ``data`` (``file`` names it in errors)."""
     r = _Reader(file)
-    r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits"), "")
+    r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits", "inlet"), "")
     ship_t = r.table(data, "ship", "ship")
-    r.keys(ship_t, ("name", "imo", "fictional", "notes"), "ship")
+    r.keys(ship_t, ("name", "imo", "fictional", "notes", "journal"), "ship")
     fictional = ship_t.get("fictional", False)
     if not isinstance(fictional, bool):
         raise r.fail("ship.fictional", fictional, "true or false")
     imo = ship_t.get("imo", "")
     if not isinstance(imo, str | int) or isinstance(imo, bool):
         raise r.fail("ship.imo", imo, "the IMO number as a string")
+    journal = ""
+    if "journal" in ship_t:
+        journal = str(Path(file).resolve().parent / r.text(ship_t, "journal", "ship"))
     ship = ShipIdentity(
-        r.text(ship_t, "name", "ship"), str(imo), fictional, str(ship_t.get("notes", ""))
+        r.text(ship_t, "name", "ship"), str(imo), fictional, str(ship_t.get("notes", "")), journal
     )
+    inlet = _inlet(r, data.get("inlet", {}))
     fuels = {n: _fuel(r, n, t) for n, t in _tables(r, data, "fuels").items()}
     tanks = {n: _tank(r, n, t) for n, t in _tables(r, data, "tanks").items()}
     consumers = {n: _consumer(r, n, t) for n, t in _tables(r, data, "consumers").items()}
     volumes = {n: _volume(r, n, t) for n, t in _tables(r, data, "volumes").items()}
     circuits = {n: _circuit(r, n, t) for n, t in _tables(r, data, "circuits").items()}
     try:
-        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits)
+        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits, inlet)
     except FuelSystemError as e:
         raise InputError(file, e.place, e.value, e.expected) from None
     _check_pumps(r, system)
     return system
+
+
+_INLET_KEYS = ("target_cst", "min_cst", "max_cst", "max_rate_c_per_min", "supply_temperature_c",
+               "max_temperature_c")
+
+
+def _inlet(r: _Reader, t: object) -> InletWindow:
+    """The engines' inlet window (``[inlet]``): heating target, viscosity limits, rate."""
+    if not isinstance(t, dict):
+        raise r.fail("inlet", t, "an [inlet] table")
+    r.keys(t, _INLET_KEYS, "inlet")
+    values = {k: r.number(t, k, "inlet", required=False) for k in _INLET_KEYS if k in t}
+    try:
+        return InletWindow(**values)
+    except ValueError as e:
+        raise r.fail("inlet", values, str(e)) from None
 
 
 def _tables(r: _Reader, data: dict, key: str) -> dict[str, dict]:

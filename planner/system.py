@@ -33,6 +33,7 @@ from types import MappingProxyType
 
 from planner.consumers import Consumer
 from planner.fuels import Fuel
+from planner.thermal import InletWindow
 
 VALVE = "valve"
 """Pseudo-node: the changeover valve of a circuit, drawing from the tank it selects."""
@@ -255,6 +256,7 @@ class ShipIdentity:
     imo: str = ""
     fictional: bool = False
     notes: str = ""
+    journal: str = ""  # the ship's journal file (absolute path once loaded), or ""
 
 
 @dataclass(frozen=True)
@@ -267,6 +269,7 @@ class FuelSystem:
     volumes: Mapping[str, Volume]
     consumers: Mapping[str, Consumer]
     circuits: Mapping[str, Circuit]
+    inlet: InletWindow = field(default_factory=InletWindow)
 
     def __post_init__(self) -> None:
         for name in ("fuels", "tanks", "volumes", "consumers", "circuits"):

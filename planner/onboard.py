@@ -1,0 +1,53 @@
+"""The ship as she sails this voyage: the ship file with the voyage's fuels and tanks.
+
+The voyage file's delivery-note fuels replace (or add to) the ship file's by
+name, and each tank sounding (observed m³ at °C) becomes its standard volume
+at 15 °C by the Table 54B volume correction factor (REFERENCE.md section 4,
+:func:`planner.fuels.standard_volume_m3`).
+"""
+
+from __future__ import annotations
+
+import tomllib
+from pathlib import Path
+
+from geo.errors import InputError
+from planner.fuels import standard_volume_m3
+from planner.ship_file import load_ship
+from planner.system import FuelSystem, FuelSystemError
+from planner.voyage_file import Voyage, load_voyage
+
+
+def is_voyage_file(path: str | Path) -> bool:
+    """Whether a TOML file is a voyage file (it has a [voyage] table)."""
+    try:
+        return "voyage" in tomllib.loads(Path(path).read_text(encoding="utf-8"))
+    except (OSError, tomllib.TOMLDecodeError, UnicodeDecodeError):
+        return False
+
+
+def ship_for_voyage(voyage: Voyage) -> FuelSystem:
+    """The ship file of ``voyage`` with its fuels and tank contents applied."""
+    system = load_ship(voyage.ship_file)
+    system = system.with_fuels({f.name: f for f in voyage.fuels})
+    for name, content in voyage.tanks.items():
+        if name not in system.tanks:
+            raise InputError(voyage.file, f'tank."{name}"', name,
+                             f"a tank of the ship file: {', '.join(sorted(system.tanks))}")
+        fuel = voyage.fuel(content.fuel)
+        v15 = float(standard_volume_m3(content.volume_m3, fuel.density_kg_m3,
+                                       content.temperature_c))
+        try:
+            system = system.with_tank_content(name, {content.fuel: v15})
+        except FuelSystemError as e:
+            raise InputError(voyage.file, f'tank."{name}".volume_m3', content.volume_m3,
+                             e.expected) from None
+    return system
+
+
+def load_ship_or_voyage(path: str | Path) -> tuple[FuelSystem, Voyage | None]:
+    """A ship file, or a voyage file and its ship as she sails it."""
+    if is_voyage_file(path):
+        voyage = load_voyage(path)
+        return ship_for_voyage(voyage), voyage
+    return load_ship(path), None

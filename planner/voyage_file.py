@@ -1,0 +1,224 @@
+"""The voyage file (TOML): what this voyage is, and what is on board.
+
+Format (ours; an annotated example is ``areas_sample/voyage.toml``)::
+
+    [voyage]
+    name = "..."                         # free text
+    ship = "ship.toml"                   # paths are relative to this file
+    route = "aldmere_to_skarvik.csv"
+    areas = ["."]                        # files or folders of .geojson
+    depart = "2027-05-30T06:00+12:00"    # with its UTC offset
+    ship_time = "+12:00"                 # ship's time zone (default: depart's offset)
+    speed_kn = 14.0                      # legs without their own speed or ETA
+    caution_zones = "cautions.geojson"   # optional: confined or congested waters
+
+    [[voyage.zone_change]]               # optional: ship's clocks changed on the way
+    at_utc = "2027-06-01T12:00Z"
+    ship_time = "-11:00"
+
+    [[fuel]]                             # one per delivery note
+    name = "VLSFO"  grade = "RMK 380"  bdn_ref = "..."  sulphur_pct = 0.48
+    density_kg_m3 = 991.0  viscosity_cst = 380.0  viscosity_ref_c = 50.0
+
+    [tank."HFO service"]                 # the content of every tank now
+    fuel = "VLSFO"  volume_m3 = 38.0  temperature_c = 60.0
+
+    [margins]
+    time_before_boundary_h = 1.0         # default 1 h (common practice)
+    sulphur_target_fraction = 0.9        # aim at 90 % of the limit (default)
+
+Every bad or missing value is one :class:`geo.errors.InputError` naming the
+file and the key.
+"""
+
+from __future__ import annotations
+
+import tomllib
+from dataclasses import dataclass, field
+from datetime import datetime, timezone
+from pathlib import Path
+
+from geo.errors import InputError
+from planner.fuels import Fuel
+from planner.timefmt import parse_moment, parse_offset
+
+FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
+             "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
+             "q_net_mj_kg")
+
+
+@dataclass(frozen=True)
+class TankContent:
+    """What a tank holds now: a fuel by name, observed volume (m³) at a temperature (°C)."""
+
+    fuel: str
+    volume_m3: float
+    temperature_c: float = 15.0
+
+
+@dataclass(frozen=True)
+class Voyage:
+    """A loaded voyage file; paths are absolute."""
+
+    file: str
+    name: str
+    ship_file: Path
+    route_file: Path
+    area_paths: tuple[Path, ...]
+    depart_utc: datetime
+    ship_tz: timezone
+    speed_kn: float | None
+    fuels: tuple[Fuel, ...]
+    tanks: dict[str, TankContent] = field(default_factory=dict)
+    zone_changes: tuple[tuple[datetime, timezone], ...] = ()
+    caution_zones: Path | None = None
+    time_margin_h: float = 1.0
+    sulphur_target_fraction: float = 0.9
+    confidence: float | None = None
+
+    def fuel(self, name: str) -> Fuel:
+        for f in self.fuels:
+            if f.name == name:
+                return f
+        raise KeyError(name)
+
+    def ship_tz_at(self, moment: datetime) -> timezone:
+        """The ship's time zone in force at a moment (after any zone changes)."""
+        tz = self.ship_tz
+        for at, zone in self.zone_changes:
+            if moment >= at:
+                tz = zone
+        return tz
+
+
+def _table(doc: dict, key: str, file: str, required: bool = True) -> dict:
+    v = doc.get(key)
+    if v is None and not required:
+        return {}
+    if not isinstance(v, dict):
+        raise InputError(file, f"[{key}]", None if v is None else v, f"a [{key}] table")
+    return v
+
+
+def _number(tab: dict, key: str, file: str, place: str, *, required: bool = True,
+            default: float | None = None, low: float | None = None,
+            high: float | None = None) -> float | None:
+    v = tab.get(key)
+    if v is None:
+        if required:
+            raise InputError(file, f"{place}.{key}", None, "a number")
+        return default
+    if isinstance(v, bool) or not isinstance(v, int | float):
+        raise InputError(file, f"{place}.{key}", v, "a number")
+    x = float(v)
+    if (low is not None and x < low) or (high is not None and x > high):
+        raise InputError(file, f"{place}.{key}", v, f"a number from {low} to {high}")
+    return x
+
+
+def _text(tab: dict, key: str, file: str, place: str, required: bool = True) -> str | None:
+    v = tab.get(key)
+    if v is None:
+        if required:
+            raise InputError(file, f"{place}.{key}", None, "a text value")
+        return None
+    if not isinstance(v, str) or not v.strip():
+        raise InputError(file, f"{place}.{key}", v, "a non-empty text value")
+    return v.strip()
+
+
+def _path(base: Path, text: str, file: str, place: str) -> Path:
+    p = (base / text).resolve()
+    if not p.exists():
+        raise InputError(file, place, text, "an existing file (relative to the voyage file)")
+    return p
+
+
+def _fuel(tab: object, file: str, place: str) -> Fuel:
+    if not isinstance(tab, dict):
+        raise InputError(file, place, tab, "a [[fuel]] table")
+    for k in tab:
+        if k not in FUEL_KEYS:
+            raise InputError(file, f"{place}.{k}", tab[k],
+                             f"one of the keys {', '.join(FUEL_KEYS)}")
+    kw = {k: tab[k] for k in FUEL_KEYS if k in tab}
+    for k in ("name", "grade"):
+        _text(tab, k, file, place)
+    for k in ("sulphur_pct", "density_kg_m3", "viscosity_cst", "viscosity_ref_c"):
+        _number(tab, k, file, place)
+    try:
+        return Fuel(**kw)
+    except (TypeError, ValueError) as exc:
+        raise InputError(file, place, kw.get("name"), f"valid delivery-note data ({exc})") from None
+
+
+def load_voyage(path: str | Path) -> Voyage:
+    """Read and check a voyage file."""
+    file = str(path)
+    p = Path(path)
+    try:
+        doc = tomllib.loads(p.read_text(encoding="utf-8"))
+    except FileNotFoundError:
+        raise InputError(file, "", None, "an existing voyage file") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(file, "", str(exc), "valid TOML") from None
+    base = p.resolve().parent
+    v = _table(doc, "voyage", file)
+    ship = _path(base, _text(v, "ship", file, "voyage"), file, "voyage.ship")
+    route = _path(base, _text(v, "route", file, "voyage"), file, "voyage.route")
+    areas_raw = v.get("areas")
+    if isinstance(areas_raw, str):
+        areas_raw = [areas_raw]
+    if not isinstance(areas_raw, list) or not areas_raw or not all(isinstance(a, str)
+                                                                     for a in areas_raw):
+        raise InputError(file, "voyage.areas", areas_raw, "a list of area files or folders")
+    areas = tuple(_path(base, a, file, "voyage.areas") for a in areas_raw)
+    depart_text = _text(v, "depart", file, "voyage")
+    depart = parse_moment(depart_text, file=file, place="voyage.depart")
+    tz_text = _text(v, "ship_time", file, "voyage", required=False)
+    if tz_text:
+        tz = parse_offset(tz_text, file=file, place="voyage.ship_time")
+    else:
+        written = datetime.fromisoformat(depart_text.replace("z", "Z")).tzinfo
+        tz = written if isinstance(written, timezone) else parse_offset("Z")
+    changes = []
+    for i, zc in enumerate(v.get("zone_change", []) or []):
+        place = f"voyage.zone_change[{i + 1}]"
+        if not isinstance(zc, dict):
+            raise InputError(file, place, zc, "a table with at_utc and ship_time")
+        at = parse_moment(_text(zc, "at_utc", file, place), file=file, place=f"{place}.at_utc")
+        zone = parse_offset(_text(zc, "ship_time", file, place), file=file,
+                            place=f"{place}.ship_time")
+        changes.append((at, zone))
+    speed = _number(v, "speed_kn", file, "voyage", required=False, low=0.1, high=60.0)
+    cz = _text(v, "caution_zones", file, "voyage", required=False)
+    cautions = _path(base, cz, file, "voyage.caution_zones") if cz else None
+    fuels_raw = doc.get("fuel")
+    if not isinstance(fuels_raw, list) or not fuels_raw:
+        raise InputError(file, "[[fuel]]", None, "at least one [[fuel]] from a delivery note")
+    fuels = tuple(_fuel(f, file, f"fuel[{i + 1}]") for i, f in enumerate(fuels_raw))
+    names = [f.name for f in fuels]
+    for n in names:
+        if names.count(n) > 1:
+            raise InputError(file, "[[fuel]].name", n, "a different name for each fuel")
+    tanks = {}
+    for tname, t in _table(doc, "tank", file, required=False).items():
+        place = f'tank."{tname}"'
+        if not isinstance(t, dict):
+            raise InputError(file, place, t, "a table with fuel and volume_m3")
+        fuel = _text(t, "fuel", file, place)
+        if fuel not in names:
+            raise InputError(file, f"{place}.fuel", fuel, f"one of the fuels: {', '.join(names)}")
+        vol = _number(t, "volume_m3", file, place, low=0.0, high=1e5)
+        temp = _number(t, "temperature_c", file, place, required=False, default=15.0,
+                       low=-10.0, high=150.0)
+        tanks[tname] = TankContent(fuel, vol, temp)
+    m = _table(doc, "margins", file, required=False)
+    margin_h = _number(m, "time_before_boundary_h", file, "margins", required=False,
+                       default=1.0, low=0.0, high=48.0)
+    frac = _number(m, "sulphur_target_fraction", file, "margins", required=False, default=0.9,
+                   low=0.1, high=1.0)
+    conf = _number(m, "confidence", file, "margins", required=False, low=0.5, high=0.9999)
+    return Voyage(file, _text(v, "name", file, "voyage", required=False) or p.stem, ship, route,
+                  areas, depart, tz, speed, fuels, tanks, tuple(changes), cautions, margin_h,
+                  frac, conf)
