@@ -134,8 +134,13 @@ def inlet_path(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: ArrayLi
     set point (its own viscosity window), and the path returned covers
     ``-lead_h`` onwards.
     """
-    t = np.asarray(time_h, dtype=np.float64)
     a, b = blend_line(fuels, mass_fractions)
+    return path_on_line(np.asarray(time_h, dtype=np.float64), a, b, window, lead_h)
+
+
+def path_on_line(t: NDArray, a: NDArray, b: NDArray, window: InletWindow,
+                 lead_h: float = 0.0) -> InletPath:
+    """:func:`inlet_path` for blends already given as ASTM D341 lines ``(a, b)`` per time."""
     sp = set_point_c(a, b, window)
     start = float(sp[0])
     if lead_h > 0.0:
@@ -173,9 +178,10 @@ def lead_needed_h(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: Arra
     w = np.asarray(mass_fractions, dtype=np.float64)
     grid = np.arange(t[0], t[-1] + step_h, step_h)  # a minute grid is enough for a rate limit
     w_grid = np.array([np.interp(grid, t, wi) for wi in w])
+    a, b = blend_line(fuels, w_grid)  # once: only the lead changes below
     k = 0
     while k * step_h <= max_lead_h + 1e-12:
-        if not inlet_path(fuels, w_grid, grid, window, k * step_h).outside():
+        if not path_on_line(grid, a, b, window, k * step_h).outside():
             return k * step_h
         k += 1 if k * step_h < 1.0 else 5
     return None

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from typing import TypeAlias
 
 import numpy as np
@@ -24,7 +25,11 @@ def out(x: ArrayLike) -> FloatOrArray:
     return arr
 
 
-def require(condition: ArrayLike, message: str) -> None:
-    """Raise ``ValueError(message)`` unless ``condition`` holds everywhere."""
+def require(condition: ArrayLike, message: str | Callable[[], str]) -> None:
+    """Raise ``ValueError(message)`` unless ``condition`` holds everywhere.
+
+    ``message`` may be a function giving the text, so that a message quoting an
+    array is only formatted when it is needed (formatting arrays is slow).
+    """
     if not bool(np.all(condition)):
-        raise ValueError(message)
+        raise ValueError(message() if callable(message) else message)

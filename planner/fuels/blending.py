@@ -37,15 +37,19 @@ _VBN_OFFSET = 10.975
 
 def _weights(amounts: ArrayLike, label: str) -> NDArray[np.float64]:
     w = f64(amounts)
-    require(w.ndim >= 1 and w.shape[0] >= 1, f"{label} needs at least one component")
-    require(np.isfinite(w) & (w >= 0.0), f"{label} must be finite and >= 0, got {amounts!r}")
-    require(np.sum(w, axis=0) > 0.0, f"{label} must not all be zero")
+    require(w.ndim >= 1 and w.shape[0] >= 1, lambda: f"{label} needs at least one component")
+    require(
+        np.isfinite(w) & (w >= 0.0), lambda: f"{label} must be finite and >= 0, got {amounts!r}"
+    )
+    require(np.sum(w, axis=0) > 0.0, lambda: f"{label} must not all be zero")
     return w
 
 
 def _pair(values: ArrayLike, weights: NDArray[np.float64], label: str) -> NDArray[np.float64]:
     v = f64(values)
-    require(v.ndim >= 1 and v.shape[0] == weights.shape[0], f"{label}: one value per component")
+    require(
+        v.ndim >= 1 and v.shape[0] == weights.shape[0], lambda: f"{label}: one value per component"
+    )
     return v
 
 
@@ -72,7 +76,8 @@ def mass_fractions_from_volumes(volumes_m3: ArrayLike, densities_kg_m3: ArrayLik
     v = _weights(volumes_m3, "volumes_m3")
     rho = _pair(densities_kg_m3, v, "densities_kg_m3")
     require(
-        np.isfinite(rho) & (rho > 0.0), f"densities_kg_m3 must be positive, got {densities_kg_m3!r}"
+        np.isfinite(rho) & (rho > 0.0),
+        lambda: f"densities_kg_m3 must be positive, got {densities_kg_m3!r}",
     )
     return mass_fractions(v * rho)
 
@@ -81,7 +86,7 @@ def blend_sulphur_pct(masses: ArrayLike, sulphur_pct: ArrayLike) -> FloatOrArray
     """Sulphur of a blend, % m/m: ``Σ mᵢ·Sᵢ / Σ mᵢ`` (masses in any one unit)."""
     m = _weights(masses, "masses")
     s = _pair(sulphur_pct, m, "sulphur_pct")
-    require(np.isfinite(s) & (s >= 0.0), f"sulphur_pct must be >= 0, got {sulphur_pct!r}")
+    require(np.isfinite(s) & (s >= 0.0), lambda: f"sulphur_pct must be >= 0, got {sulphur_pct!r}")
     return out(np.sum(m * s, axis=0) / np.sum(m, axis=0))
 
 
@@ -93,7 +98,8 @@ def blend_density_kg_m3(volumes_m3: ArrayLike, densities_kg_m3: ArrayLike) -> Fl
     v = _weights(volumes_m3, "volumes_m3")
     rho = _pair(densities_kg_m3, v, "densities_kg_m3")
     require(
-        np.isfinite(rho) & (rho > 0.0), f"densities_kg_m3 must be positive, got {densities_kg_m3!r}"
+        np.isfinite(rho) & (rho > 0.0),
+        lambda: f"densities_kg_m3 must be positive, got {densities_kg_m3!r}",
     )
     return out(np.sum(v * rho, axis=0) / np.sum(v, axis=0))
 
@@ -103,7 +109,8 @@ def blend_density_from_masses_kg_m3(masses: ArrayLike, densities_kg_m3: ArrayLik
     m = _weights(masses, "masses")
     rho = _pair(densities_kg_m3, m, "densities_kg_m3")
     require(
-        np.isfinite(rho) & (rho > 0.0), f"densities_kg_m3 must be positive, got {densities_kg_m3!r}"
+        np.isfinite(rho) & (rho > 0.0),
+        lambda: f"densities_kg_m3 must be positive, got {densities_kg_m3!r}",
     )
     return out(np.sum(m, axis=0) / np.sum(m / rho, axis=0))
 
@@ -114,7 +121,10 @@ def viscosity_blending_number(viscosity_cst: ArrayLike) -> FloatOrArray:
     ``VBN = 14.534·ln(ln(ν + 0.8)) + 10.975``; ν > 0.2 cSt.
     """
     nu = f64(viscosity_cst)
-    require(np.isfinite(nu) & (nu > 0.2), f"viscosity_cst must be > 0.2 cSt, got {viscosity_cst!r}")
+    require(
+        np.isfinite(nu) & (nu > 0.2),
+        lambda: f"viscosity_cst must be > 0.2 cSt, got {viscosity_cst!r}",
+    )
     return out(_VBN_SCALE * np.log(np.log(nu + 0.8)) + _VBN_OFFSET)
 
 
@@ -124,7 +134,7 @@ def viscosity_from_blending_number(vbn: ArrayLike) -> FloatOrArray:
     ``ν = exp(exp((VBN − 10.975)/14.534)) − 0.8``.
     """
     x = f64(vbn)
-    require(np.isfinite(x), f"vbn must be finite, got {vbn!r}")
+    require(np.isfinite(x), lambda: f"vbn must be finite, got {vbn!r}")
     return out(np.exp(np.exp((x - _VBN_OFFSET) / _VBN_SCALE)) - 0.8)
 
 

@@ -46,7 +46,9 @@ def _check_fractions(sulphur_pct: np.ndarray, water_pct: np.ndarray, ash_pct: np
     for label, value in checks:
         require(
             np.isfinite(value) & (value >= 0.0) & (value <= 100.0),
-            f"{label} must be a percentage between 0 and 100, got {value!r}",
+            lambda label=label, value=value: (
+                f"{label} must be a percentage between 0 and 100, got {value!r}"
+            ),
         )
 
 
@@ -80,7 +82,8 @@ def net_specific_energy_mj_kg(
     """
     rho, s, w, a = f64(density_kg_m3), f64(sulphur_pct), f64(water_pct), f64(ash_pct)
     require(
-        np.isfinite(rho) & (rho > 0.0), f"density_kg_m3 must be positive, got {density_kg_m3!r}"
+        np.isfinite(rho) & (rho > 0.0),
+        lambda: f"density_kg_m3 must be positive, got {density_kg_m3!r}",
     )
     _check_fractions(s, w, a)
     base = 46.704 - 8.802e-6 * rho * rho + 3.167e-3 * rho
@@ -101,7 +104,8 @@ def gross_specific_energy_mj_kg(
     """
     rho, s, w, a = f64(density_kg_m3), f64(sulphur_pct), f64(water_pct), f64(ash_pct)
     require(
-        np.isfinite(rho) & (rho > 0.0), f"density_kg_m3 must be positive, got {density_kg_m3!r}"
+        np.isfinite(rho) & (rho > 0.0),
+        lambda: f"density_kg_m3 must be positive, got {density_kg_m3!r}",
     )
     _check_fractions(s, w, a)
     return out((52.190 - 8.802e-6 * rho * rho) * (1.0 - 0.01 * (w + a + s)) + 0.0942 * s)
@@ -130,10 +134,12 @@ def ccai(
     """
     rho, nu, t = f64(density_kg_m3), f64(viscosity_cst), f64(temperature_c)
     require(
-        np.isfinite(nu) & (nu > 0.15), f"viscosity_cst must be > 0.15 cSt, got {viscosity_cst!r}"
+        np.isfinite(nu) & (nu > 0.15),
+        lambda: f"viscosity_cst must be > 0.15 cSt, got {viscosity_cst!r}",
     )
     require(
-        np.isfinite(t) & (t > -273.0), f"temperature_c must be above -273 °C, got {temperature_c!r}"
+        np.isfinite(t) & (t > -273.0),
+        lambda: f"temperature_c must be above -273 °C, got {temperature_c!r}",
     )
     viscosity_term = 141.0 * np.log10(np.log10(nu + 0.85))
     temperature_term = 483.0 * np.log10((t + 273.0) / 323.0)
@@ -156,7 +162,9 @@ def sfoc_scaled(sfoc_g_kwh: ArrayLike, q_net_mj_kg: ArrayLike) -> FloatOrArray:
         Net specific energy of the fuel burnt, MJ/kg (> 0).
     """
     q = f64(q_net_mj_kg)
-    require(np.isfinite(q) & (q > 0.0), f"q_net_mj_kg must be positive, got {q_net_mj_kg!r}")
+    require(
+        np.isfinite(q) & (q > 0.0), lambda: f"q_net_mj_kg must be positive, got {q_net_mj_kg!r}"
+    )
     return out(f64(sfoc_g_kwh) * ISO_REFERENCE_Q_NET_MJ_KG / q)
 
 

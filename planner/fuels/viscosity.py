@@ -83,7 +83,7 @@ def _kelvin(temperature_c: ArrayLike) -> np.ndarray:
     t_k = f64(temperature_c) + KELVIN_OFFSET
     require(
         np.isfinite(t_k) & (t_k > 0.0),
-        f"temperature_c must be above -273.15 °C, got {temperature_c!r}",
+        lambda: f"temperature_c must be above -273.15 °C, got {temperature_c!r}",
     )
     return t_k
 
@@ -111,7 +111,7 @@ def d341_viscosity_from_z(z: ArrayLike) -> FloatOrArray:
         infinite Z (overflow) gives an infinite viscosity.
     """
     z_in = f64(z)
-    require(~np.isnan(z_in) & (z_in > 1.0), f"Z must be > 1, got {z!r}")
+    require(~np.isnan(z_in) & (z_in > 1.0), lambda: f"Z must be > 1, got {z!r}")
     huge = np.isinf(z_in)  # overflowed upstream: the viscosity is infinite too
     zz = np.where(huge, 2.0, z_in)
     nu = zz - 0.7
@@ -152,7 +152,7 @@ def d341_fit(
     for nu in (nu1, nu2):
         require(
             np.isfinite(nu) & (nu >= MIN_VISCOSITY_CST),
-            f"viscosity must be finite and >= {MIN_VISCOSITY_CST} cSt, got {nu!r}",
+            lambda nu=nu: f"viscosity must be finite and >= {MIN_VISCOSITY_CST} cSt, got {nu!r}",
         )
     lt1, lt2 = np.log10(_kelvin(temperature1_c)), np.log10(_kelvin(temperature2_c))
     require(lt1 != lt2, "the two viscosity points must be at different temperatures")
@@ -183,7 +183,7 @@ def d341_intercept(
     nu = f64(viscosity_cst)
     require(
         np.isfinite(nu) & (nu >= MIN_VISCOSITY_CST),
-        f"viscosity must be finite and >= {MIN_VISCOSITY_CST} cSt, got {viscosity_cst!r}",
+        lambda: f"viscosity must be finite and >= {MIN_VISCOSITY_CST} cSt, got {viscosity_cst!r}",
     )
     w = np.log10(np.log10(f64(d341_z(nu))))
     return out(w + f64(slope_b) * np.log10(_kelvin(temperature_c)))
@@ -210,7 +210,7 @@ def temperature_for_viscosity(viscosity_cst: ArrayLike, a: ArrayLike, b: ArrayLi
     nu = f64(viscosity_cst)
     require(
         np.isfinite(nu) & (nu >= MIN_VISCOSITY_CST),
-        f"viscosity must be finite and >= {MIN_VISCOSITY_CST} cSt, got {viscosity_cst!r}",
+        lambda: f"viscosity must be finite and >= {MIN_VISCOSITY_CST} cSt, got {viscosity_cst!r}",
     )
     bb = f64(b)
     require(bb != 0.0, "D341 slope B must be non-zero")

@@ -82,8 +82,10 @@ def thermal_expansion_coefficient(density15_kg_m3: ArrayLike) -> FloatOrArray:
         np.isfinite(rho)
         & (rho >= TABLE_54B_MIN_DENSITY_KG_M3)
         & (rho <= TABLE_54B_MAX_DENSITY_KG_M3),
-        f"density15_kg_m3 must be within {TABLE_54B_MIN_DENSITY_KG_M3}-"
-        f"{TABLE_54B_MAX_DENSITY_KG_M3} kg/m³ for Table 54B, got {density15_kg_m3!r}",
+        lambda: (
+            f"density15_kg_m3 must be within {TABLE_54B_MIN_DENSITY_KG_M3}-"
+            f"{TABLE_54B_MAX_DENSITY_KG_M3} kg/m³ for Table 54B, got {density15_kg_m3!r}"
+        ),
     )
     inv2 = 1.0 / (rho * rho)
     alpha = np.select(
@@ -112,7 +114,7 @@ def volume_correction_factor(density15_kg_m3: ArrayLike, temperature_c: ArrayLik
         Temperature of the observed volume, °C.
     """
     t = f64(temperature_c)
-    require(np.isfinite(t), f"temperature_c must be finite, got {temperature_c!r}")
+    require(np.isfinite(t), lambda: f"temperature_c must be finite, got {temperature_c!r}")
     alpha = f64(thermal_expansion_coefficient(density15_kg_m3))
     dt = t - STANDARD_TEMPERATURE_C
     return out(np.exp(-alpha * dt * (1.0 + 0.8 * alpha * dt)))
@@ -123,7 +125,7 @@ def standard_volume_m3(
 ) -> FloatOrArray:
     """Volume at 15 °C, m³, of ``observed_m3`` m³ measured at ``temperature_c`` °C (Table 54B)."""
     v = f64(observed_m3)
-    require(np.isfinite(v) & (v >= 0.0), f"observed_m3 must be >= 0, got {observed_m3!r}")
+    require(np.isfinite(v) & (v >= 0.0), lambda: f"observed_m3 must be >= 0, got {observed_m3!r}")
     return out(v * f64(volume_correction_factor(density15_kg_m3, temperature_c)))
 
 

@@ -1,0 +1,110 @@
+"""When and where each changeover starts, on the voyage's own timeline.
+
+Going to compliant fuel (a step down in limit at a boundary), per circuit:
+the latest start ``t_s`` such that every inlet of the circuit is at or under
+the sulphur target by the boundary time minus the time margin,
+
+    t_s + D(t_s) = T_boundary − margin,
+
+where ``D(t_s)`` is the flushing time to the target *with the consumption
+that really applies from t_s on* (speed changes and stops on the timeline
+included). Solved by fixed-point iteration on ``t_s`` (D changes slowly with
+t_s), checked, and stepped back a minute at a time if the last step
+overshot. Going back to regular fuel (a step up at an exit): commenced at the
+exit, never before; complete when every inlet is within
+:data:`SWITCH_BACK_COMPLETE` of the regular fuel's sulphur.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from planner.flush_study import FlushStudy, study
+from planner.system import FuelSystem
+from planner.timeline import Timeline
+
+SWITCH_BACK_COMPLETE = 0.05
+"""A switch back is complete when the inlet is within 5 % of the fuels' sulphur difference
+from the regular fuel (common practice for 'fully changed over'; our choice)."""
+_TOL_S = 10.0
+_MAX_ITER = 12
+
+
+@dataclass(frozen=True, eq=False)
+class CircuitChange:
+    """One circuit's changeover, times in epoch seconds (UTC)."""
+
+    circuit: str
+    direction: str
+    from_fuel: str
+    to_fuel: str
+    from_tank: str
+    to_tank: str
+    start_s: float
+    done_s: float | None
+    limit_s: float | None
+    boundary_s: float
+    study: FlushStudy
+
+    @property
+    def duration_h(self) -> float | None:
+        return None if self.done_s is None else (self.done_s - self.start_s) / 3600.0
+
+
+def _run(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str, to_tank: str,
+         start_s: float, limit_pct: float, level_pct: float, thermal: bool) -> FlushStudy:
+    sched = timeline.consumption_from(start_s, 96.0)
+    return study(system, circuit, from_tank, to_tank, sched, limit_pct, level_pct,
+                 thermal=thermal)
+
+
+def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,
+                      to_tank: str, boundary_s: float, margin_h: float, limit_pct: float,
+                      target_pct: float) -> CircuitChange:
+    """Latest start for one circuit so its inlets are at the target by boundary − margin."""
+    due = boundary_s - margin_h * 3600.0
+
+    def duration_s(t: float) -> float:
+        st = _run(system, timeline, circuit, from_tank, to_tank, t, limit_pct, target_pct, False)
+        d = st.summary.time_to_target_h
+        if d is None:
+            raise ValueError(f"circuit {circuit}: the target {target_pct:.3f} % is never "
+                             "reached (check the fuels and tanks)")
+        return d * 3600.0
+
+    start = due - duration_s(due)
+    for _ in range(_MAX_ITER):
+        new = due - duration_s(start)
+        if abs(new - start) < _TOL_S:
+            start = min(new, start)
+            break
+        start = new
+    while start + duration_s(start) > due + 1.0:  # the fixed point overshot: step back
+        start -= 60.0
+    final = _run(system, timeline, circuit, from_tank, to_tank, start, limit_pct, target_pct,
+                 True)
+    s = final.summary
+    done = start + s.time_to_target_h * 3600.0
+    at_limit = None if s.time_to_limit_h is None else start + s.time_to_limit_h * 3600.0
+    return CircuitChange(circuit, "to_compliant", s.from_fuel, s.to_fuel, from_tank, to_tank,
+                         start, done, at_limit, boundary_s, final)
+
+
+def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,
+                    to_tank: str, exit_s: float, limit_pct: float) -> CircuitChange:
+    """Switch back commenced at the exit; complete near the regular fuel's sulphur."""
+    s_old = _main_fuel_sulphur(system, from_tank)
+    s_new = _main_fuel_sulphur(system, to_tank)
+    level = s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
+    final = _run(system, timeline, circuit, from_tank, to_tank, exit_s, limit_pct, level, True)
+    s = final.summary
+    done = None if s.time_to_target_h is None else exit_s + s.time_to_target_h * 3600.0
+    over = None if s.first_time_to_limit_h is None else exit_s + s.first_time_to_limit_h * 3600.0
+    return CircuitChange(circuit, "to_regular", s.from_fuel, s.to_fuel, from_tank, to_tank,
+                         exit_s, done, over, exit_s, final)
+
+
+def _main_fuel_sulphur(system: FuelSystem, tank: str) -> float:
+    content = system.tanks[tank].content_m3
+    fuel = max(content.items(), key=lambda kv: kv[1])[0]
+    return system.fuels[fuel].sulphur_pct

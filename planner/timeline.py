@@ -1,0 +1,116 @@
+"""The voyage against time: where the ship is, how fast, and what each consumer burns.
+
+Built on the route's schedule (:mod:`geo.schedule`): constant speed on each
+leg, stops where an ETD follows an ETA. The main engine follows the propeller
+law from its reference point (power ∝ speed³, common practice) and is
+stopped when the ship is; generators and boilers run at their constant
+rates throughout. Rates are at the ISO reference net specific energy
+(42.7 MJ/kg, REFERENCE.md section 4 [M]); the flushing model and
+:func:`burnt_t` scale them to the fuel actually burnt.
+
+Times are epoch seconds (UTC) inside, hours relative to a start where a
+flushing schedule needs them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from datetime import datetime
+
+import numpy as np
+
+from geo.ellipsoid import NM_M
+from geo.schedule import Schedule, from_epoch
+from planner.consumers import MainEngine
+from planner.flushing import ConsumptionSchedule
+from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG, Fuel
+from planner.system import FuelSystem
+
+
+@dataclass(frozen=True, eq=False)
+class Timeline:
+    """Speed and consumption of every consumer against time for one voyage."""
+
+    schedule: Schedule
+    system: FuelSystem
+
+    @property
+    def start_s(self) -> float:
+        return float(self.schedule.knot_s[0])
+
+    @property
+    def end_s(self) -> float:
+        return float(self.schedule.knot_s[-1])
+
+    def breaks_s(self) -> np.ndarray:
+        """Epoch seconds where the speed changes (schedule knots)."""
+        return np.unique(self.schedule.knot_s)
+
+    def speed_kn(self, epoch_s: float) -> float:
+        """Speed over ground at a moment, knots (0 while stopped, before departure and after
+        arrival)."""
+        k = self.schedule.knot_s
+        if epoch_s < k[0] or epoch_s >= k[-1]:
+            return 0.0
+        i = int(np.searchsorted(k, epoch_s, side="right")) - 1
+        i = min(i, len(k) - 2)
+        dt = k[i + 1] - k[i]
+        dd = self.schedule.knot_m[i + 1] - self.schedule.knot_m[i]
+        return float(dd / NM_M / (dt / 3600.0)) if dt > 0 else 0.0
+
+    def rates_iso_t_h(self, epoch_s: float, consumers=None) -> dict[str, float]:
+        """Each consumer's fuel rate at the ISO reference energy, t/h, at a moment.
+
+        Before departure and after arrival the ship is taken as at sea at her
+        first (last) leg's speed: a changeover that must start before departure
+        is planned as if under way, and says so.
+        """
+        t = min(max(epoch_s, self.start_s), np.nextafter(self.end_s, -np.inf))
+        v = self.speed_kn(t)
+        names = consumers if consumers is not None else list(self.system.consumers)
+        out = {}
+        for n in names:
+            c = self.system.consumers[n]
+            if isinstance(c, MainEngine):
+                out[n] = c.iso_demand_t_h(speed_kn=v) if v > 0 else 0.0
+            else:
+                out[n] = c.iso_demand_t_h()
+        return out
+
+    def consumption_from(self, start_s: float, horizon_h: float,
+                         consumers=None) -> ConsumptionSchedule:
+        """The consumption schedule seen by a changeover starting at ``start_s``."""
+        end = start_s + horizon_h * 3600.0
+        br = self.breaks_s()
+        inner = br[(br > start_s) & (br < end)]
+        starts = np.concatenate([[start_s], inner])
+        rates = [self.rates_iso_t_h(float(s), consumers) for s in starts]
+        times_h = [float((s - start_s) / 3600.0) for s in starts]
+        # merge equal neighbours (a stop-free leg change of speed keeps the same rates)
+        keep_t, keep_r = [times_h[0]], [rates[0]]
+        for t, r in zip(times_h[1:], rates[1:], strict=True):
+            if r != keep_r[-1]:
+                keep_t.append(t)
+                keep_r.append(r)
+        return ConsumptionSchedule.steps(keep_t, keep_r)
+
+    def position(self, epoch_s: float) -> tuple[float, float, float]:
+        """``(lat, lon, distance_m)`` of the ship at a moment (clamped to the voyage)."""
+        d = float(self.schedule.distance_at_epoch([epoch_s])[0])
+        lat, lon = self.schedule.path.position([d])
+        return float(lat[0]), float((lon[0] + 180.0) % 360.0 - 180.0), d
+
+    def burnt_t(self, from_s: float, to_s: float, fuel: Fuel, consumers=None) -> float:
+        """Mass of ``fuel`` the consumers burn between two moments, t (scaled by 42.7/Q_net)."""
+        if to_s <= from_s:
+            return 0.0
+        br = self.breaks_s()
+        edges = np.unique(np.concatenate([[from_s, to_s], br[(br > from_s) & (br < to_s)]]))
+        total = 0.0
+        for a, b in zip(edges[:-1], edges[1:], strict=True):
+            rate = sum(self.rates_iso_t_h(0.5 * (a + b), consumers).values())
+            total += rate * (b - a) / 3600.0
+        return total * ISO_REFERENCE_Q_NET_MJ_KG / fuel.q_net
+
+    def utc(self, epoch_s: float) -> datetime:
+        return from_epoch(epoch_s)
