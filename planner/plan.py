@@ -25,8 +25,8 @@ from planner.changeovers import CircuitChange, plan_to_compliant, plan_to_regula
 from planner.fuel_choice import FuelChoice, choose_fuels
 from planner.fuels import Fuel
 from planner.system import FuelSystem
-from planner.timeline import Timeline
 from planner.timefmt import format_utc
+from planner.timeline import Timeline
 from planner.voyage_file import Voyage
 
 

@@ -234,10 +234,10 @@ def run_checks(plan) -> None:
     for fuel, need in needs.items():
         held = have.get(fuel, 0.0)
         if need > held:
-            f = plan.system.fuels[fuel]
+            m3 = need * 1000 / plan.system.fuels[fuel].density_kg_m3
             plan.warnings.append(
-                f"Short of {fuel}: the voyage needs {need:.1f} t ({need * 1000 / f.density_kg_m3:.1f}"
-                f" m³ at 15 °C) but the tanks hold {held:.1f} t: {need - held:.1f} t short.")
+                f"Short of {fuel}: the voyage needs {need:.1f} t ({m3:.1f} m³ at 15 °C) but the "
+                f"tanks hold {held:.1f} t: {need - held:.1f} t short.")
     plan.warnings.extend(zone_warnings(plan))
     plan.warnings.extend(viscosity_warnings(plan))
     for ch in plan.changes:
