@@ -1,0 +1,172 @@
+"""``changeover plan``: the voyage's changeovers, quantities and warnings (the main job)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from planner.cli import app
+
+
+def build_plan(voyage_file: Path, progress=None):
+    """Load the voyage and everything it names, and plan it (no printing)."""
+    from geo.area_files import load_areas
+    from geo.compliance import check_route
+    from geo.path import route_path
+    from geo.route_loader import load_route
+    from geo.schedule import make_schedule
+    from planner.onboard import ship_for_voyage
+    from planner.plan import plan_voyage
+    from planner.voyage_file import load_voyage
+
+    step = progress or (lambda text: None)
+    step("reading the voyage, ship, route and areas")
+    voyage = load_voyage(voyage_file)
+    system = ship_for_voyage(voyage)
+    path = route_path(load_route(voyage.route_file))
+    schedule = make_schedule(path, voyage.depart_utc, voyage.speed_kn)
+    step("finding the boundary crossings")
+    check = check_route(path, load_areas(voyage.area_paths), schedule, voyage.depart_utc.date())
+    step("simulating every changeover on the voyage timeline")
+    return plan_voyage(voyage, system, check)
+
+
+@app.command("plan")
+def plan_cmd(
+    voyage: Annotated[Path, typer.Argument(help="Voyage file (TOML).")],
+    json_out: Annotated[bool, typer.Option("--json", help="Print JSON (documented keys).")]
+    = False,
+    geojson: Annotated[Path | None, typer.Option(help="Write route, crossings and changeover "
+                                                 "points as GeoJSON.")] = None,
+    chart: Annotated[Path | None, typer.Option(help="Chart of sulphur at each inlet along the "
+                                               "voyage (PNG).")] = None,
+    map_png: Annotated[Path | None, typer.Option("--map", help="Map of areas, route and "
+                                                 "changeover points (PNG).")] = None,
+    pdf: Annotated[Path | None, typer.Option(help="The plan for signature (PDF).")] = None,
+) -> None:
+    """When and where each changeover starts, what it needs, and what to watch."""
+    import sys
+
+    from planner.outputs import dumps, write_json
+    from planner.plan_report import plan_geojson, plan_json
+
+    if sys.stderr.isatty() and not json_out:
+        from planner.console import console
+
+        with console(stderr=True).status("planning") as status:
+            plan = build_plan(voyage, lambda text: status.update(text))
+    else:
+        plan = build_plan(voyage)
+    doc = plan_json(plan)
+    if chart is not None:
+        from planner.charts.plan_chart import draw_plan_chart
+
+        draw_plan_chart(plan, chart)
+    if map_png is not None:
+        from planner.charts.route_map import draw_route_map
+
+        draw_route_map(plan.check, map_png, extra=_changeover_marks(doc, plan))
+    if pdf is not None:
+        from planner.documents.plan_pdf import write_plan_pdf
+
+        write_plan_pdf(pdf, doc)
+    if geojson is not None:
+        write_json(geojson, plan_geojson(plan, doc))
+    if json_out:
+        typer.echo(dumps(doc))
+        return
+    print_plan(doc)
+    for p in (geojson, chart, map_png, pdf):
+        if p is not None:
+            typer.echo(f"wrote {p}")
+
+
+def _changeover_marks(doc: dict, plan):
+    """Extra drawing for the route map: caution zones and every changeover start."""
+    def draw(ax):
+        import numpy as np
+        import shapely
+
+        from planner.plan_checks import _zones
+
+        lon_mid = float(np.mean(ax.get_xlim()))
+        x0, x1 = ax.get_xlim()
+        window = shapely.box(x0 - 5, -90, x1 + 5, 90)
+        for k, shape in enumerate(_zones(plan)):
+            for poly in shapely.get_parts(shapely.intersection(shape.union, window)):
+                if poly.geom_type != "Polygon":
+                    continue
+                xs, ys = poly.exterior.xy
+                ax.fill(xs, ys, facecolor="none", edgecolor="dimgrey", hatch="////", lw=0.8,
+                        label="caution zone" if k == 0 else None)
+        first = True
+        for r in doc["changeovers"]:
+            if r["direction"] != "to_compliant" or r["start_lat"] is None:
+                continue
+            lon = r["start_lon"] + 360.0 * round((lon_mid - r["start_lon"]) / 360.0)
+            ax.plot(lon, r["start_lat"], "o", color="darkorange", ms=6, mec="black",
+                    label="changeover start" if first else None)
+            first = False
+    return draw
+
+
+def _dm(lat: float | None, lon: float | None) -> str:
+    from geo.position import format_position
+
+    return "—" if lat is None else format_position(lat, lon)
+
+
+def _t(iso: str | None) -> str:
+    return "—" if iso is None else iso.replace("T", " ")[:16] + ("Z" if iso.endswith("Z") else "")
+
+
+def print_plan(doc: dict) -> None:
+    """The plan as tables on the terminal."""
+    from planner.console import console, table
+
+    con = console()
+    v = doc["voyage"]
+    con.print(f"[bold]{v['ship']}[/bold] — {v['name']}: {v['distance_nm']:,.1f} nm, departs "
+              f"{_t(v['depart_utc'])}, arrives {_t(v['arrive_utc'])}; compliant "
+              f"{v['time_margin_h']:g} h before each boundary, sulphur target "
+              f"{v['sulphur_target_fraction']:.0%} of the limit")
+    t = table("Changeovers", [("#", "r"), ("Area", "w"), ("Circuit", "l"), ("Change", "l"),
+                              ("Start UTC", "l"), ("Start ship's time", "l"),
+                              ("Start position", "l"), ("Compliant / done UTC", "l"),
+                              ("Boundary UTC", "l"), ("Boundary position", "l"),
+                              ("Margin h", "r"), ("Takes h", "r")])
+    for r in doc["changeovers"]:
+        change = f"{r['from_fuel']} → {r['to_fuel']}"
+        done = r["compliant_utc"] or r["complete_utc"]
+        t.add_row(str(r["number"]), r["area"], r["circuit"], change, _t(r["start_utc"]),
+                  (r["start_ship_time"] or "—").replace("T", " "),
+                  _dm(r["start_lat"], r["start_lon"]), _t(done), _t(r["boundary_utc"]),
+                  _dm(r["boundary_lat"], r["boundary_lon"]), f"{r['margin_h']:.2f}",
+                  "—" if r["duration_h"] is None else f"{r['duration_h']:.2f}")
+    con.print(t)
+    s = table("Fuel on each stretch", [("From nm", "r"), ("To nm", "r"), ("Limit %", "r"),
+                                       ("Under", "w"), ("Fuel", "l"), ("From UTC", "l")])
+    for st in doc["stretches"]:
+        s.add_row(f"{st['from_nm']:,.1f}", f"{st['to_nm']:,.1f}", f"{st['limit_pct']:.2f}",
+                  ", ".join(st["areas"]) or "global cap", st["fuel"], _t(st["from_utc"]))
+    con.print(s)
+    q = table("Fuel needed (valve switch to valve switch) against fuel on board",
+              [("Fuel", "l"), ("Needed t", "r"), ("Needed m³ at 15 °C", "r"),
+               ("On board t", "r"), ("Spare t", "r")])
+    for f, x in doc["fuel_totals"].items():
+        q.add_row(f, f"{x['needed_t']:.1f}", f"{x['needed_m3_15c']:.1f}",
+                  f"{x['on_board_t']:.1f}", f"{x['on_board_t'] - x['needed_t']:.1f}")
+    con.print(q)
+    so = table("SO₂ formed inside each area", [("Area", "w"), ("As planned kg", "r"),
+                                               (f"On {doc['regular_fuel']} kg", "r")])
+    for a, x in doc["so2"]["areas"].items():
+        so.add_row(a, f"{x['so2_kg']:,.0f}", f"{x['so2_on_regular_kg']:,.0f}")
+    con.print(so)
+    for n in doc["notes"]:
+        con.print(f"[cyan]Note:[/cyan] {n}")
+    for w in doc["warnings"]:
+        con.print(f"[yellow]Warning:[/yellow] {w}")
+    for c in doc["cautions"]:
+        con.print(f"[dim]{c}[/dim]")

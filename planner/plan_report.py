@@ -1,0 +1,173 @@
+"""The plan as plain data: the ``--json`` contract, GeoJSON, and what the tables print.
+
+Keys follow DESIGN.md ("JSON contract"); keys may be added, never renamed.
+Every time is given in UTC (ISO 8601, ``Z``) and in ship's time with its
+offset; positions in decimal degrees (tables show degrees and minutes).
+"""
+
+from __future__ import annotations
+
+from geo.ellipsoid import NM_M
+from planner.plan import Plan
+from planner.plan_checks import fuel_needs, on_board_t, so2_by_area, stretch_so2, totals_t
+from planner.timefmt import format_offset, iso_utc
+
+CAUTIONS = (
+    "Advisory only: the engine and boiler makers' instructions and the ship's safety "
+    "management system come first.",
+    "A changeover can cause loss of propulsion or power: avoid starting one in confined or "
+    "congested waters, traffic lanes or pilotage areas, and keep the engine room manned.",
+    "Check the compatibility of the fuels before mixing them.",
+    "Official area boundaries and limits are those in MARPOL Annex VI and national law; the "
+    "sample areas are fictional.",
+)
+
+
+def _ship_time(plan: Plan, epoch_s: float | None) -> str | None:
+    if epoch_s is None:
+        return None
+    utc = plan.timeline.utc(epoch_s)
+    tz = plan.voyage.ship_tz_at(utc)
+    return utc.astimezone(tz).strftime("%Y-%m-%dT%H:%M") + format_offset(tz)
+
+
+def _point(plan: Plan, epoch_s: float | None) -> tuple[float | None, float | None]:
+    if epoch_s is None:
+        return None, None
+    lat, lon, _ = plan.timeline.position(epoch_s)
+    return lat, lon
+
+
+def changeover_rows(plan: Plan) -> list[dict]:
+    """One row per circuit and changeover, in time order (the contract's keys and more)."""
+    rows = []
+    for n, ch in enumerate(plan.changes, start=1):
+        blat, blon, _ = plan.timeline.position(ch.boundary_s)
+        for part in ch.circuits:
+            slat, slon = _point(plan, part.start_s)
+            dlat, dlon = _point(plan, part.done_s)
+            down = ch.direction == "to_compliant"
+            compliant = part.done_s if down else None
+            margin = (ch.boundary_s - part.done_s) / 3600.0 if down and part.done_s else 0.0
+            st = part.study
+            rows.append({
+                "number": n,
+                "area": ch.area,
+                "circuit": part.circuit,
+                "direction": ch.direction,
+                "from_fuel": part.from_fuel,
+                "to_fuel": part.to_fuel,
+                "from_tank": part.from_tank,
+                "to_tank": part.to_tank,
+                "limit_pct": ch.limit_pct,
+                "target_pct": ch.target_pct if down else None,
+                "start_utc": iso_utc(plan.timeline.utc(part.start_s)),
+                "start_ship_time": _ship_time(plan, part.start_s),
+                "start_lat": slat,
+                "start_lon": slon,
+                "compliant_utc": iso_utc(plan.timeline.utc(compliant)) if compliant else None,
+                "compliant_ship_time": _ship_time(plan, compliant),
+                "compliant_lat": dlat if down else None,
+                "compliant_lon": dlon if down else None,
+                "complete_utc": (iso_utc(plan.timeline.utc(part.done_s))
+                                 if part.done_s is not None else None),
+                "complete_lat": dlat,
+                "complete_lon": dlon,
+                "at_limit_utc": (iso_utc(plan.timeline.utc(part.limit_s))
+                                 if part.limit_s is not None else None),
+                "boundary_utc": iso_utc(plan.timeline.utc(ch.boundary_s)),
+                "boundary_ship_time": _ship_time(plan, ch.boundary_s),
+                "boundary_lat": blat,
+                "boundary_lon": blon,
+                "boundary_nm": ch.boundary_m / NM_M,
+                "margin_h": margin,
+                "duration_h": part.duration_h,
+                "before_departure": ch.before_departure,
+                "min_viscosity_cst": st.min_viscosity_cst if st.paths else None,
+                "max_viscosity_cst": st.max_viscosity_cst if st.paths else None,
+            })
+    return rows
+
+
+def plan_json(plan: Plan) -> dict:
+    """The ``changeover plan --json`` document."""
+    regular = max((c.fuel for c in plan.choices), key=lambda f: f.sulphur_pct)
+    needs = fuel_needs(plan)
+    total = totals_t(needs)
+    have = on_board_t(plan)
+    compliant = {f for f in total if f != regular.name}
+    so2 = stretch_so2(plan)
+    sched = plan.timeline.schedule
+    return {
+        "voyage": {
+            "name": plan.voyage.name,
+            "file": plan.voyage.file,
+            "ship": plan.system.ship.name,
+            "imo": plan.system.ship.imo,
+            "route": plan.check.path.route.name,
+            "distance_nm": plan.check.path.length_nm,
+            "depart_utc": iso_utc(sched.depart_utc),
+            "arrive_utc": iso_utc(sched.arrive_utc),
+            "ship_utc_offset": format_offset(plan.voyage.ship_tz),
+            "time_margin_h": plan.voyage.time_margin_h,
+            "sulphur_target_fraction": plan.voyage.sulphur_target_fraction,
+        },
+        "changeovers": changeover_rows(plan),
+        "stretches": [
+            {"from_nm": c.stretch.from_nm, "to_nm": c.stretch.to_nm,
+             "limit_pct": c.stretch.limit_pct, "areas": list(c.stretch.areas),
+             "fuel": _run_fuel(plan, c.stretch.from_m), "fuel_choice": c.reason,
+             "from_utc": iso_utc(c.stretch.from_utc), "to_utc": iso_utc(c.stretch.to_utc)}
+            for c in plan.choices
+        ],
+        "fuel_needed": [
+            {"fuel": n.fuel, "from_utc": iso_utc(plan.timeline.utc(n.from_s)),
+             "to_utc": iso_utc(plan.timeline.utc(n.to_s)), "mass_t": n.mass_t,
+             "volume_m3_15c": n.volume_m3} for n in needs if n.mass_t > 0
+        ],
+        "fuel_totals": {f: {"needed_t": t, "on_board_t": have.get(f, 0.0),
+                            "needed_m3_15c": t * 1000.0 / plan.system.fuels[f].density_kg_m3}
+                        for f, t in total.items()},
+        "compliant_fuel_needed_t": sum(total[f] for f in compliant),
+        "compliant_fuel_on_board_t": sum(have.get(f, 0.0) for f in compliant),
+        "regular_fuel": regular.name,
+        "so2": {
+            "stretches": [{"from_nm": r.from_m / NM_M, "to_nm": r.to_m / NM_M,
+                           "areas": list(r.areas), "fuel": r.fuel, "fuel_t": r.fuel_t,
+                           "so2_kg": r.so2_kg, "so2_on_regular_kg": r.so2_regular_kg}
+                          for r in so2],
+            "areas": {a: {"so2_kg": p, "so2_on_regular_kg": q}
+                      for a, (p, q) in so2_by_area(so2).items()},
+            "total_kg": sum(r.so2_kg for r in so2),
+        },
+        "notes": list(plan.notes),
+        "warnings": list(plan.warnings),
+        "cautions": list(CAUTIONS),
+    }
+
+
+def _run_fuel(plan: Plan, from_m: float) -> str:
+    for r in plan.runs:
+        if r.from_m - 1e-6 <= from_m < r.to_m - 1e-6 or (r is plan.runs[-1]):
+            return r.fuel.name
+    return plan.runs[-1].fuel.name
+
+
+def plan_geojson(plan: Plan, doc: dict | None = None) -> dict:
+    """The route check's GeoJSON plus each changeover's start, compliant and boundary points."""
+    from planner.route_report import route_geojson
+
+    gj = route_geojson(plan.check)
+    for row in (doc or plan_json(plan))["changeovers"]:
+        for kind in ("start", "compliant", "boundary"):
+            lat, lon = row.get(f"{kind}_lat"), row.get(f"{kind}_lon")
+            if lat is None:
+                continue
+            gj["features"].append({
+                "type": "Feature",
+                "geometry": {"type": "Point", "coordinates": [lon, lat]},
+                "properties": {"kind": f"changeover_{kind}", "number": row["number"],
+                               "area": row["area"], "circuit": row["circuit"],
+                               "direction": row["direction"], "time_utc": row[f"{kind}_utc"]},
+            })
+    return gj
