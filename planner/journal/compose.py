@@ -172,7 +172,7 @@ def _planned(kind: str, t: Typed) -> Planned | None:
             raise InputError("--from-plan", "", None, "the plan JSON to take the "
                                                       "changeover from")
         return None
-    return planned_for(kind, t.plan, t.changeover)
+    return planned_for(kind, t.plan, t.changeover, t.circuit)
 
 
 def _entry(kind: str, who: Person, record: Record | None, correction: Correction | None = None):

@@ -54,18 +54,40 @@ def load_changeovers(path: str | Path) -> list[dict]:
     return items
 
 
-def planned_for(kind: str, path: str | Path, number: int | None) -> Planned:
-    """The :class:`Planned` values of changeover ``number`` (from 1) for a step of ``kind``."""
+def _pick(items: list, number: int, circuit: str | None, file: str) -> tuple[int, object]:
+    """The plan row of changeover ``number`` (and ``circuit``): rows carry the plan's own
+    ``number`` (one row per circuit); a plan without numbers is counted row by row."""
+    numbered = [i for i, it in enumerate(items) if isinstance(it, dict) and "number" in it]
+    if not numbered:
+        if not 1 <= number <= len(items):
+            raise InputError("--changeover", "", number,
+                             f"a changeover of {file} (1 to {len(items)})")
+        return number - 1, items[number - 1]
+    rows = [i for i in numbered if items[i]["number"] == number]
+    if not rows:
+        top = max(items[i]["number"] for i in numbered)
+        raise InputError("--changeover", "", number, f"a changeover of {file} (1 to {top})")
+    if circuit is not None:
+        match = [i for i in rows if items[i].get("circuit") == circuit]
+        if not match:
+            names = ", ".join(str(items[i].get("circuit")) for i in rows)
+            raise InputError("--circuit", "", circuit,
+                             f"a circuit of changeover {number} in {file}: {names}")
+        rows = match
+    return rows[0], items[rows[0]]
+
+
+def planned_for(kind: str, path: str | Path, number: int | None,
+                circuit: str | None = None) -> Planned:
+    """The :class:`Planned` values of changeover ``number`` (from 1) for a step of ``kind``;
+    with several circuits in that changeover, ``circuit`` (default the plan's first)."""
     file = str(path)
     items = load_changeovers(path)
     if number is None:
         raise InputError("--changeover", "", None,
                          f"which changeover of the plan (1 to {len(items)})")
-    if not 1 <= number <= len(items):
-        raise InputError("--changeover", "", number,
-                         f"a changeover of {file} (1 to {len(items)})")
-    item = items[number - 1]
-    place = f"changeovers[{number - 1}]"
+    index, item = _pick(items, number, circuit, file)
+    place = f"changeovers[{index}]"
     if not isinstance(item, dict):
         raise InputError(file, place, item, "a changeover object")
     direction = item.get("direction")
@@ -77,7 +99,8 @@ def planned_for(kind: str, path: str | Path, number: int | None) -> Planned:
                          f"a {DIRECTION[kind]} changeover of the plan (number {number} is "
                          f"{direction}: use it with log {steps})")
     starts = kind in (STARTED, BACK_COMMENCED)
-    time_key = "start_utc" if starts else "compliant_utc"
+    time_key = "start_utc" if starts else (
+        "compliant_utc" if direction == "to_compliant" else "complete_utc")
     return Planned(
         source=Path(path).name,
         changeover=number,
