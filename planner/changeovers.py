@@ -10,8 +10,13 @@ where ``D(t_s)`` is the flushing time to the target *with the consumption
 that really applies from t_s on* (speed changes and stops on the timeline
 included). Solved by fixed-point iteration on ``t_s`` (D changes slowly with
 t_s), checked, and stepped back a minute at a time if the last step
-overshot. Going back to regular fuel (a step up at an exit): commenced at the
-exit, never before; complete when every inlet is within
+overshot. The iteration converges only while |dD/dt_s| < 1: a speed cut during
+the flush to less than half the flow (e.g. 14 kn to 10 kn by the propeller law)
+makes it oscillate, so when it has not converged the root of
+``t_s + D(t_s) = T_boundary − margin`` is bracketed and bisected instead
+(``t_s + D(t_s)`` never decreases with ``t_s``: a later switch leaves more old
+fuel in the system at every moment). Going back to regular fuel (a step up at an
+exit): commenced at the exit, never before; complete when every inlet is within
 :data:`SWITCH_BACK_COMPLETE` of the regular fuel's sulphur.
 """
 
@@ -72,13 +77,19 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
                              "reached (check the fuels and tanks)")
         return d * 3600.0
 
-    start = due - duration_s(due)
+    first = duration_s(due)
+    start = due - first
+    tried = [(due, first)]
     for _ in range(_MAX_ITER):
-        new = due - duration_s(start)
+        d = duration_s(start)
+        tried.append((start, start + d - due))
+        new = due - d
         if abs(new - start) < _TOL_S:
             start = min(new, start)
             break
         start = new
+    else:
+        start = _bisect_latest_start(duration_s, due, tried)
     while start + duration_s(start) > due + 1.0:  # the fixed point overshot: step back
         start -= 60.0
     final = _run(system, timeline, circuit, from_tank, to_tank, start, limit_pct, target_pct,
@@ -88,6 +99,36 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
     at_limit = None if s.time_to_limit_h is None else start + s.time_to_limit_h * 3600.0
     return CircuitChange(circuit, "to_compliant", s.from_fuel, s.to_fuel, from_tank, to_tank,
                          start, done, at_limit, boundary_s, final)
+
+
+def _bisect_latest_start(duration_s, due: float, tried: list[tuple[float, float]]) -> float:
+    """The latest start whose flush is done by ``due`` (to 1 s), by bisection.
+
+    ``tried`` holds ``(t_s, t_s + D(t_s) − due)`` pairs already computed (the first
+    entry is ``due`` itself with ``D(due)`` > 0: too late).
+    """
+    late = [p for p in tried[1:] if p[1] > 0.0]
+    early = [p for p in tried[1:] if p[1] <= 0.0]
+    hi = min(late)[0] if late else due
+    if early:
+        lo = max(early)[0]
+    else:
+        step = max(tried[0][1], 600.0)
+        for _ in range(_MAX_ITER):
+            t = hi - step
+            if t + duration_s(t) <= due:
+                lo = t
+                break
+            hi, step = t, 2.0 * step
+        else:
+            raise ValueError("no start found that completes the changeover in time")
+    while hi - lo > 1.0:
+        mid = 0.5 * (lo + hi)
+        if mid + duration_s(mid) <= due:
+            lo = mid
+        else:
+            hi = mid
+    return lo
 
 
 def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,

@@ -138,7 +138,7 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
     runs = make_runs(choices, timeline)
     notes: list[str] = []
     while True:
-        changes = _changes(system, timeline, voyage, runs)
+        changes = _simulated(voyage, _changes, system, timeline, voyage, runs)
         stay = _first_needless_switch_back(changes)
         if stay is None:
             break
@@ -150,10 +150,13 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
         runs = _merge_same_fuel(runs)
     regular = max((c.fuel for c in choices), key=lambda f: f.sulphur_pct)
     first = runs[0]
+    if first.areas:  # departs inside an area: the fuel she burns outside, even if never again
+        regular = _outside_fuel(voyage, system, timeline.utc(first.from_s), regular)
     warnings: list[str] = []
     if first.fuel.sulphur_pct < regular.sulphur_pct:
         pre = Run(first.from_m, first.from_m, first.from_s, first.from_s, regular, 4.5, ())
-        dep = _change(system, timeline, voyage, pre, first, first.from_s, 0.0, True)
+        dep = _simulated(voyage, _change, system, timeline, voyage, pre, first, first.from_s,
+                         0.0, True)
         dep = replace(dep, area=first.areas[0] if first.areas else dep.area)
         changes.insert(0, dep)
         start = min(c.start_s for c in dep.circuits)
@@ -168,6 +171,30 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
 
     run_checks(plan)
     return plan
+
+
+def _outside_fuel(voyage: Voyage, system: FuelSystem, when, regular: Fuel) -> Fuel:
+    """The fuel the ship burns outside any area at ``when``: the highest-sulphur fuel on
+    board within the global cap's target (or ``regular`` if none is higher)."""
+    from geo.limits import global_cap_pct
+
+    cap = global_cap_pct(when) * voyage.sulphur_target_fraction
+    ok = [f for f in fuels_on_board(voyage, system) if f.sulphur_pct <= cap + 1e-12]
+    return max(ok + [regular], key=lambda f: f.sulphur_pct)
+
+
+def _simulated(voyage: Voyage, fn, *args):
+    """``fn(*args)``, with a flushing simulation that cannot run (a tank runs dry, a pump
+    below the consumption) reported as bad input naming the voyage file."""
+    from geo.errors import InputError
+    from planner.flushing import FlushError
+
+    try:
+        return fn(*args)
+    except FlushError as exc:
+        raise InputError(voyage.file, "changeover simulation", str(exc),
+                         "tanks that hold enough fuel, and pumps that cover the consumption, "
+                         "for every changeover") from None
 
 
 def _merge_same_fuel(runs: list[Run]) -> list[Run]:

@@ -95,7 +95,9 @@ def plan_json(plan: Plan) -> dict:
     needs = fuel_needs(plan)
     total = totals_t(needs)
     have = on_board_t(plan)
-    compliant = {f for f in total if f != regular.name}
+    # the fuels chosen for stretches inside an area (not "all but the regular one": a voyage
+    # that never leaves an area burns only its compliant fuel)
+    compliant = {c.fuel.name for c in plan.choices if c.stretch.areas}
     so2 = stretch_so2(plan)
     sched = plan.timeline.schedule
     return {
@@ -128,8 +130,8 @@ def plan_json(plan: Plan) -> dict:
         "fuel_totals": {f: {"needed_t": t, "on_board_t": have.get(f, 0.0),
                             "needed_m3_15c": t * 1000.0 / plan.system.fuels[f].density_kg_m3}
                         for f, t in total.items()},
-        "compliant_fuel_needed_t": sum(total[f] for f in compliant),
-        "compliant_fuel_on_board_t": sum(have.get(f, 0.0) for f in compliant),
+        "compliant_fuel_needed_t": float(sum(total.get(f, 0.0) for f in compliant)),
+        "compliant_fuel_on_board_t": float(sum(have.get(f, 0.0) for f in compliant)),
         "regular_fuel": regular.name,
         "so2": {
             "stretches": [{"from_nm": r.from_m / NM_M, "to_nm": r.to_m / NM_M,
