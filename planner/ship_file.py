@@ -130,7 +130,8 @@ def load_ship(path: str | Path) -> FuelSystem:
 def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     """The :class:`FuelSystem` of already-parsed TOML ``data`` (``file`` names it in errors)."""
     r = _Reader(file)
-    r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits", "inlet"), "")
+    r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits", "inlet",
+                  "uncertainty"), "")
     ship_t = r.table(data, "ship", "ship")
     r.keys(ship_t, ("name", "imo", "fictional", "notes", "journal"), "ship")
     fictional = ship_t.get("fictional", False)

@@ -157,6 +157,6 @@ def test_sample_ship_flushes_in_believable_times():
 def test_switching_back_to_regular_fuel():
     system = load_ship("areas_sample/ship.toml")
     schedule = schedule_at(system, load_pct=85.0, circuits=["main"])
-    _, s = flush(system, "main", "mgo", "vlsfo", schedule, limit_pct=0.10, target_pct=0.46)
+    _, s = flush(system, "main", "mgo", "vlsfo", schedule, limit_pct=0.10, target_pct=0.44)
     assert s.direction == "to_regular"
     assert 0.0 < s.time_to_limit_h < s.time_to_target_h
