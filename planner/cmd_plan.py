@@ -45,21 +45,32 @@ def plan_cmd(
     map_png: Annotated[Path | None, typer.Option("--map", help="Map of areas, route and "
                                                  "changeover points (PNG).")] = None,
     pdf: Annotated[Path | None, typer.Option(help="The plan for signature (PDF).")] = None,
+    confidence: Annotated[float | None, typer.Option(help="Also the starts at this confidence "
+                                                     "(Monte Carlo), e.g. 0.99 (default: the "
+                                                     "voyage file's, if any).")] = None,
+    samples: Annotated[int, typer.Option(help="Monte Carlo samples per changeover.")] = 4000,
+    seed: Annotated[int, typer.Option(help="Random seed (same seed, same numbers).")] = 0,
 ) -> None:
     """When and where each changeover starts, what it needs, and what to watch."""
     import sys
 
+    from geo.errors import InputError
     from planner.outputs import dumps, write_json
-    from planner.plan_report import plan_geojson, plan_json
+    from planner.plan_report import plan_geojson
 
+    if confidence is not None and not 0.5 <= confidence < 1.0:
+        raise InputError("--confidence", "", confidence, "a confidence from 0.5 to below 1")
+    if samples < 100:
+        raise InputError("--samples", "", samples, "at least 100 samples")
     if sys.stderr.isatty() and not json_out:
         from planner.console import console
 
         with console(stderr=True).status("planning") as status:
             plan = build_plan(voyage, lambda text: status.update(text))
+            doc = _document(plan, confidence, samples, seed, status.update)
     else:
         plan = build_plan(voyage)
-    doc = plan_json(plan)
+        doc = _document(plan, confidence, samples, seed)
     if chart is not None:
         from planner.charts.plan_chart import draw_plan_chart
 
@@ -81,6 +92,18 @@ def plan_cmd(
     for p in (geojson, chart, map_png, pdf):
         if p is not None:
             typer.echo(f"wrote {p}")
+
+
+def _document(plan, confidence, samples, seed, progress=None) -> dict:
+    from planner.plan_report import plan_json
+
+    doc = plan_json(plan)
+    conf = confidence if confidence is not None else plan.voyage.confidence
+    if conf is not None:
+        from planner.plan_uncertainty import add_uncertainty
+
+        add_uncertainty(plan, doc, conf, samples, seed, progress)
+    return doc
 
 
 def _changeover_marks(doc: dict, plan):
@@ -146,6 +169,22 @@ def print_plan(doc: dict) -> None:
                   _dm(r["boundary_lat"], r["boundary_lon"]), f"{r['margin_h']:.2f}",
                   "—" if r["duration_h"] is None else f"{r['duration_h']:.2f}")
     con.print(t)
+    if "uncertainty" in doc:
+        u = doc["uncertainty"]
+        ut = table(f"Start at {u['confidence']:.0%} confidence ({u['samples']} samples, seed "
+                   f"{u['seed']}; main driver: {u['main_driver'] or '—'})",
+                   [("#", "r"), ("Circuit", "l"), ("P50 start UTC", "l"),
+                    (f"{u['confidence']:.0%} start UTC", "l"), ("Lead h", "r"),
+                    ("Extra compliant t", "r"), ("Driver", "w")])
+        for r in doc["changeovers"]:
+            if "start_p50_utc" in r:
+                ut.add_row(str(r["number"]), r["circuit"], _t(r["start_p50_utc"]),
+                           _t(r["start_confidence_utc"]),
+                           "—" if r["lead_confidence_h"] is None else
+                           f"{r['lead_confidence_h']:.2f}",
+                           "—" if r["extra_compliant_t"] is None else
+                           f"{r['extra_compliant_t']:.2f}", r["main_driver"] or "—")
+        con.print(ut)
     s = table("Fuel on each stretch", [("From nm", "r"), ("To nm", "r"), ("Limit %", "r"),
                                        ("Under", "w"), ("Fuel", "l"), ("From UTC", "l")])
     for st in doc["stretches"]:

@@ -1,0 +1,59 @@
+"""How sure the plan is: each changeover's start at a chosen confidence.
+
+For every changeover to compliant fuel and every circuit, the Monte Carlo
+study of :mod:`planner.uncertainty` gives the lead (valve switch to the
+sulphur target, plus how much earlier than planned the boundary may be
+reached) at P50 and at the chosen confidence; the start is then
+``boundary − time margin − lead``. The consumption is the voyage timeline's
+from the deterministic start. When the fuel itself may lie above the target
+(its delivery-note sulphur is uncertain too), the lead to the limit is used
+instead, and the plan says so.
+"""
+
+from __future__ import annotations
+
+from planner.timefmt import iso_utc
+
+
+def add_uncertainty(plan, doc: dict, confidence: float, samples: int, seed: int,
+                    progress=None) -> None:
+    """Add the confidence starts to the plan document (in place)."""
+    from planner.uncertainty import load_uncertainty, start_quantiles
+
+    v = plan.voyage
+    spec = load_uncertainty(v.ship_file, plan.system, voyage_file=v.file)
+    drivers: dict[str, int] = {}
+    rows = iter(doc["changeovers"])
+    for ch in plan.changes:
+        for part in ch.circuits:
+            row = next(rows)
+            if ch.direction != "to_compliant":
+                continue
+            if progress:
+                progress(f"uncertainty: changeover {row['number']}, circuit {part.circuit}")
+            sched = plan.timeline.consumption_from(part.start_s, 96.0)
+            q = start_quantiles(plan.system, part.circuit, part.from_tank, part.to_tank, sched,
+                                ch.limit_pct, ch.target_pct, confidence=confidence,
+                                samples=samples, seed=seed, spec=spec)
+            lead, basis = q.lead_conf_h, "target"
+            if lead is None:
+                lead, basis = q.lead_conf_limit_h, "limit"
+                doc["warnings"].append(
+                    f"Changeover {row['number']} ({ch.area}), circuit {part.circuit}: at "
+                    f"{confidence:.0%} confidence the inlet may never reach the target "
+                    f"{ch.target_pct:.3f} % (the fuel's own sulphur is uncertain); the start is "
+                    f"set for the {ch.limit_pct:.2f} % limit instead.")
+            due = ch.boundary_s - v.time_margin_h * 3600.0
+            row["start_p50_utc"] = iso_utc(plan.timeline.utc(due - q.lead_p50_h * 3600.0))
+            row["start_confidence_utc"] = (None if lead is None else
+                                           iso_utc(plan.timeline.utc(due - lead * 3600.0)))
+            row["lead_p50_h"] = q.lead_p50_h
+            row["lead_confidence_h"] = lead
+            row["confidence_basis"] = basis
+            row["extra_compliant_t"] = q.extra_compliant_t
+            row["main_driver"] = q.driver
+            if q.driver:
+                drivers[q.driver] = drivers.get(q.driver, 0) + 1
+    main = max(drivers, key=drivers.get) if drivers else None
+    doc["uncertainty"] = {"confidence": confidence, "samples": samples, "seed": seed,
+                          "main_driver": main}
