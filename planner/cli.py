@@ -26,7 +26,7 @@ app = typer.Typer(
 
 def _register() -> None:
     # commands register themselves on import
-    from planner import cmd_flush, cmd_log, cmd_plan, cmd_route  # noqa: F401
+    from planner import cmd_flush, cmd_log, cmd_plan, cmd_procedure, cmd_route  # noqa: F401
 
 
 def main() -> None:
