@@ -79,6 +79,24 @@ def test_plug_flow_delay_tracks_throughput_when_the_flow_changes():
     assert c.time_at_or_below_h(0.10) == pytest.approx(t1 + (v - q1 * t1) / (2 * q1), abs=1e-12)
 
 
+@pytest.mark.parametrize("vols", [[0.5, 0.0625, 0.03125, 0.5], [0.625, 0.0625, 0.03125, 0.5]])
+def test_pipes_in_series_are_one_pure_delay(vols):
+    # regression: a front reaching a pipe outlet at a step end used to be
+    # carried through the downstream pipes by that same step's throughput,
+    # so it crossed them inside later steps and was smeared (hypothesis case
+    # of test_more_volume_never_shortens_the_flush)
+    rate = 1.0
+    c = simulate(series(vols, "pppp"), AB, mass_schedule(rate), 24.0).inlets["me"]
+    # REFERENCE.md §3 [P]: plug flow is a pure delay; pipes in series add their
+    # volumes, at the old fuel's flow (991 kg/m³) until the front arrives
+    delay = sum(vols) * HFO.density_kg_m3 / (rate * 1000.0)
+    assert abs(c.time_at_or_below_h(0.10) - delay) < SECOND_H
+    assert abs(c.time_at_or_below_h(0.10, settled=False) - delay) < SECOND_H
+    before, after = c.time_h < delay - 1e-9, c.time_h > delay + 1e-9
+    np.testing.assert_array_equal(c.sulphur_pct[before], 0.50)
+    np.testing.assert_allclose(c.sulphur_pct[after], 0.05, atol=1e-12)
+
+
 @pytest.mark.parametrize("order", ["ps", "sp"])
 def test_pipe_and_stirred_volume_give_a_delayed_exponential(order):
     vp, vs, rho = 0.1, 0.5, 900.0

@@ -356,14 +356,18 @@ def commit_and_record(rec, net, step, x, vol, queues, fm, consumption, t, grid, 
     )
     rec.burnt.append(rec.burnt[-1] + h * consumption[:, None] * means)
     x_new, vol_new = commit_step(step, x, vol, net.is_tank, queues, fm)
+    # a front reaching a pipe outlet at the step end enters the pipes it feeds
+    # then: their new markers must not be moved by this step's throughput
+    entering: list[int] = []
     for i, qu in enumerate(queues):
         through = fm.pipe_flow[i] * h
         moved = [m - through for m in markers[i]]
         arrived = [m for m in moved if m <= 1e-9 * qu.volume_m3]
         markers[i] = [m for m in moved if m > 1e-9 * qu.volume_m3]
         if arrived:
-            for r in np.flatnonzero(fm.pp[:, i] > 0):
-                markers[r].append(queues[r].volume_m3)
+            entering.extend(int(r) for r in np.flatnonzero(fm.pp[:, i] > 0))
+    for r in entering:
+        markers[r].append(queues[r].volume_m3)
     rec.step_t.append(t + h)
     rec.tank_vol.append(vol_new.copy())
     rec.tank_x.append(x_new.copy())
