@@ -65,10 +65,25 @@ UntilOpt = Annotated[str | None, typer.Option(help="To this UTC date, YYYY-MM-DD
 
 
 def _path(journal: Path | None) -> Path:
+    """The journal file: ``--journal`` (or CHANGEOVER_JOURNAL) as a journal path, or as a
+    ship file (``.toml``) whose ``[ship] journal`` key names it; else CHANGEOVER_SHIP."""
+    import os
+
     from geo.errors import InputError
 
+    if (journal is None or not str(journal)) and os.environ.get("CHANGEOVER_SHIP"):
+        journal = Path(os.environ["CHANGEOVER_SHIP"])
     if journal is None or not str(journal):
-        raise InputError("--journal", "", None, "the journal file (or set CHANGEOVER_JOURNAL)")
+        raise InputError("--journal", "", None, "the journal file or the ship file (or set "
+                         "CHANGEOVER_JOURNAL or CHANGEOVER_SHIP)")
+    if journal.suffix.lower() == ".toml":
+        from planner.ship_file import load_ship
+
+        ship = load_ship(journal)
+        if not ship.ship.journal:
+            raise InputError(journal, "ship.journal", None, "the journal file's name in the "
+                             "ship file's [ship] table")
+        return Path(ship.ship.journal)
     return journal
 
 
