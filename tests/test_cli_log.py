@@ -192,7 +192,8 @@ def test_journal_path_refusals(tmp_path):
     r = run(None, "show")
     assert r.returncode == 2
     assert r.stderr.strip() == ("changeover: error: --journal: missing: expected the journal "
-                                "file (or set CHANGEOVER_JOURNAL)")
+                                "file or the ship file (or set CHANGEOVER_JOURNAL or "
+                                "CHANGEOVER_SHIP)")
     r = run(tmp_path / "none.db", "show")
     assert r.returncode == 2 and "existing journal file" in r.stderr
     bad = tmp_path / "new.db"

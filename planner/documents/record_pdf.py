@@ -29,7 +29,13 @@ from planner.documents.pdf_common import (
     title_block,
 )
 from planner.journal.book import Book, Changeover, Line, Version
-from planner.journal.describe import boundary_text, fuel_text, position_text, warnings
+from planner.journal.describe import (
+    boundary_text,
+    fuel_text,
+    position_text,
+    sample_and_text,
+    warnings,
+)
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -278,12 +284,7 @@ def _other_details(v: Version) -> list[str]:
     for t in getattr(d, "tanks", ()):
         out.append(f"{t.tank}: {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
                    f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
-    if getattr(d, "sample_number", None):
-        out.append(f"sample {d.sample_number}, seal {d.seal_number}"
-                   f"{', drawn at ' + d.point if d.point else ''}")
-    text = getattr(d, "text", "") or getattr(d, "remarks", "")
-    if text:
-        out.append(text)
+    out += sample_and_text(d)
     e = v.stored.entry
     out.append(f"by {e.who.rank} {e.who.name}")
     return out

@@ -43,6 +43,18 @@ def tank_text(t: TankReading) -> str:
             f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
 
 
+def sample_and_text(d: object) -> list[str]:
+    """The sample line (number, seal, where drawn) and the free text of an entry's details."""
+    out = []
+    if getattr(d, "sample_number", None):
+        out.append(f"sample {d.sample_number}, seal {d.seal_number}"
+                   f"{', drawn at ' + d.point if d.point else ''}")
+    text = getattr(d, "text", "") or getattr(d, "remarks", "")
+    if text:
+        out.append(text)
+    return out
+
+
 def minutes_text(delta_h: float) -> str:
     """``1 h 05 min`` / ``25 min`` from hours (sign dropped)."""
     m = round(abs(delta_h) * 60.0)
@@ -143,12 +155,7 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         if getattr(d, "fuel", None) is not None:
             lines.append(f"  fuel: {fuel_text(FuelUse('subject', d.fuel))}, "
                          f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
-        if getattr(d, "sample_number", None):
-            lines.append(f"  sample {d.sample_number}, seal {d.seal_number}"
-                         f"{', drawn at ' + d.point if d.point else ''}")
-        text = getattr(d, "text", "") or getattr(d, "remarks", "")
-        if text:
-            lines.append(f"  {text}")
+        lines += ["  " + x for x in sample_and_text(d)]
         lines += ["  " + x for x in against_plan(e.subject_kind, r)]
         lines += ["  warning: " + x for x in warnings(e.subject_kind, r)]
     lines.append(f"  by {e.who.rank} {e.who.name}; hash {s.hash}")

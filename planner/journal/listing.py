@@ -12,7 +12,7 @@ from datetime import date
 
 from geo.errors import InputError
 from planner.journal.codec import encode
-from planner.journal.describe import position_text
+from planner.journal.describe import position_text, sample_and_text
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -100,12 +100,7 @@ def _details(s: Stored) -> str:
         f = d.fuel
         parts.append(f"{f.name} {f.grade} {f.sulphur_pct:.2f} % S, {f.density15_kg_m3:.1f} "
                      f"kg/m³, BDN {f.bdn_ref}")
-    if getattr(d, "sample_number", None):
-        parts.append(f"sample {d.sample_number}, seal {d.seal_number}"
-                     f"{', ' + d.point if d.point else ''}")
-    text = getattr(d, "text", "") or getattr(d, "remarks", "")
-    if text:
-        parts.append(text if len(text) <= 60 else text[:57] + "...")
+    parts += [x if len(x) <= 60 else x[:57] + "..." for x in sample_and_text(d)]
     if getattr(d, "follows", None):
         parts.append(f"follows {d.follows}")
     if r.planned is not None:
