@@ -118,7 +118,7 @@ def plan_json(plan: Plan) -> dict:
         "stretches": [
             {"from_nm": c.stretch.from_nm, "to_nm": c.stretch.to_nm,
              "limit_pct": c.stretch.limit_pct, "areas": list(c.stretch.areas),
-             "fuel": _run_fuel(plan, c.stretch.from_m), "fuel_choice": c.reason,
+             "fuel": _run_fuel(plan, c.stretch.from_m), "fuel_choice": _why(plan, c),
              "from_utc": iso_utc(c.stretch.from_utc), "to_utc": iso_utc(c.stretch.to_utc)}
             for c in plan.choices
         ],
@@ -146,6 +146,15 @@ def plan_json(plan: Plan) -> dict:
         "warnings": list(plan.warnings),
         "cautions": list(CAUTIONS),
     }
+
+
+def _why(plan: Plan, choice) -> str:
+    """Why the stretch burns its fuel: the choice, or the plan's note for staying compliant."""
+    fuel = _run_fuel(plan, choice.stretch.from_m)
+    if fuel == choice.fuel.name:
+        return choice.reason
+    stay = [n for n in plan.notes if n.startswith(f"Stay on {fuel} ")]
+    return stay[0] if stay else choice.reason
 
 
 def _run_fuel(plan: Plan, from_m: float) -> str:

@@ -138,6 +138,7 @@ def test_close_areas_stay_on_compliant_fuel_and_say_why():
     assert [s["fuel"] for s in doc["stretches"]] == ["hfo", "mgo", "mgo", "mgo", "hfo"]
     (note,) = doc["notes"]
     assert note.startswith("Stay on mgo from the exit of West Close ECA to East Close ECA")
+    assert doc["stretches"][2]["fuel_choice"] == note  # the gap says why it burns mgo
     # why: a switch back at 4°E would complete after the next changeover must start
     done = at_lon(doc, 4.0) + timedelta(hours=BACK_12_H)
     must_start = at_lon(doc, 4.2) - timedelta(hours=FLUSH_12_H + 1.0)
