@@ -75,7 +75,7 @@ def input_defs(nodes: CircuitNodes, fuels, spec: UncertaintySpec) -> tuple[Input
         out.append(InputDef(f"sulphur:{f.name}", f"sulphur {f.name}", "sulphur", f.name,
                             f.sulphur_pct, spec.sulphur_sd(f.name, f.sulphur_pct), "normal",
                             "% m/m"))
-    out.append(InputDef("boundary", "boundary reached early by", "boundary", None, 0.0,
+    out.append(InputDef("boundary", "time of arrival at the boundary", "boundary", None, 0.0,
                         spec.boundary_time_min / 60.0 / Z95, "normal", "h"))
     for n in nodes.stirred:
         out.append(InputDef(f"stagnant:{n}", f"stagnant part {n}", "stagnant", n, 0.0,
