@@ -78,10 +78,14 @@ class RouteCheck:
 
     def limit_at(self, distance_m: float) -> float:
         """The limit (% m/m) at a distance along the route (the stretch that holds it)."""
-        for st in self.stretches:
-            if distance_m < st.to_m:
-                return st.limit_pct
-        return self.stretches[-1].limit_pct
+        return _limit_at(self.stretches, distance_m)
+
+
+def _limit_at(stretches, distance_m: float) -> float:
+    for st in stretches:
+        if distance_m < st.to_m:
+            return st.limit_pct
+    return stretches[-1].limit_pct
 
 
 def _inside_at(track: AreaTrack, d: np.ndarray) -> np.ndarray:
@@ -145,14 +149,13 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
     if schedule is not None:
         stretches = [Stretch(s.from_m, s.to_m, s.limit_pct, s.areas, schedule.time_at(s.from_m),
                              schedule.time_at(s.to_m)) for s in stretches]
-    check = RouteCheck(path, schedule, on, tuple(tracks), (), tuple(stretches), ())
     timed = []
     for t in tracks:
         for c in t.events:
             when = schedule.time_at(c.distance_m) if schedule is not None else None
             live = t.area.in_force_at(when) if when else t.area.in_force_on(on)
             after = c.distance_m + 1e-3
-            timed.append(TimedCrossing(c, when, live, check.limit_at(after)))
+            timed.append(TimedCrossing(c, when, live, _limit_at(stretches, after)))
     timed.sort(key=lambda x: (x.crossing.distance_m, x.crossing.event != "exit"))
     passages = []
     for t in tracks:

@@ -74,6 +74,7 @@ class AreaTrack:
     """
 
     area: Area
+    shape: AreaShape
     breaks_m: NDArray[np.float64]
     inside: NDArray[np.bool_]
     start_inside: bool
@@ -232,4 +233,4 @@ def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
         lat1, lon1 = path.position([path.length_m])
         events.append(Crossing(name, "enter", path.n_legs - 1, path.length_m, float(lat1[0]),
                                float(rhumb.wrap180(lon1[0]))))
-    return AreaTrack(shape.area, d, inside, start_inside, tuple(events), path.length_m)
+    return AreaTrack(shape.area, shape, d, inside, start_inside, tuple(events), path.length_m)

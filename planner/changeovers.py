@@ -35,6 +35,10 @@ _TOL_S = 10.0
 _MAX_ITER = 12
 
 
+class TargetUnreachable(ValueError):
+    """The inlet never gets to the sulphur target (the new fuel is at or above it)."""
+
+
 @dataclass(frozen=True, eq=False)
 class CircuitChange:
     """One circuit's changeover, times in epoch seconds (UTC)."""
@@ -73,7 +77,7 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
         st = _run(system, timeline, circuit, from_tank, to_tank, t, limit_pct, target_pct, False)
         d = st.summary.time_to_target_h
         if d is None:
-            raise ValueError(f"circuit {circuit}: the target {target_pct:.3f} % is never "
+            raise TargetUnreachable(f"circuit {circuit}: the target {target_pct:.3f} % is never "
                              "reached (check the fuels and tanks)")
         return d * 3600.0
 

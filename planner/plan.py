@@ -21,7 +21,12 @@ from __future__ import annotations
 from dataclasses import dataclass, field, replace
 
 from geo.compliance import RouteCheck
-from planner.changeovers import CircuitChange, plan_to_compliant, plan_to_regular
+from planner.changeovers import (
+    CircuitChange,
+    TargetUnreachable,
+    plan_to_compliant,
+    plan_to_regular,
+)
 from planner.fuel_choice import FuelChoice, choose_fuels
 from planner.fuels import Fuel
 from planner.system import FuelSystem
@@ -195,6 +200,9 @@ def _simulated(voyage: Voyage, fn, *args):
         raise InputError(voyage.file, "changeover simulation", str(exc),
                          "tanks that hold enough fuel, and pumps that cover the consumption, "
                          "for every changeover") from None
+    except TargetUnreachable as exc:
+        raise InputError(voyage.file, "margins.sulphur_target_fraction", str(exc),
+                         "a sulphur target above the compliant fuel's own sulphur") from None
 
 
 def _merge_same_fuel(runs: list[Run]) -> list[Run]:

@@ -60,19 +60,14 @@ def valve_periods(plan) -> list[tuple[str, float, float, object]]:
         fuel = plan.runs[0].fuel
         for ch in plan.changes:
             part = next(c for c in ch.circuits if c.circuit == circuit)
-            if ch.before_departure:
+            if ch.before_departure:  # on the compliant fuel from its (earlier) start on
                 t = min(t, part.start_s)
-                fuel = plan.voyage.fuel(part.to_fuel) if _has(plan, part.to_fuel) else fuel
-                continue
-            out.append((circuit, t, part.start_s, fuel))
-            t = part.start_s
+            else:
+                out.append((circuit, t, part.start_s, fuel))
+                t = part.start_s
             fuel = plan.voyage.fuel(part.to_fuel)
         out.append((circuit, t, t_end, fuel))
     return out
-
-
-def _has(plan, name: str) -> bool:
-    return any(f.name == name for f in plan.voyage.fuels)
 
 
 def fuel_needs(plan) -> list[FuelNeed]:

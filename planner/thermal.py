@@ -118,9 +118,6 @@ class InletPath:
                       for i, j in zip(starts, ends, strict=True)]
         return sorted(spans)
 
-    @property
-    def hours_outside(self) -> float:
-        return sum(b - a for a, b, _ in self.outside())
 
 
 def inlet_path(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: ArrayLike,

@@ -35,7 +35,7 @@ def draw_flush_chart(studies, out: str | Path, title: str = "") -> None:
     ax1.grid(True, lw=0.3)
     ax1.legend(fontsize=7, loc="upper right")
     if any(st.paths for st in studies):
-        window = studies[0].result and next(iter(studies[0].paths.values())).window
+        window = next(p.window for st in studies for p in st.paths.values())
         ax2.axhline(window.min_cst, color="crimson", lw=1.0, ls="--",
                     label=f"minimum {window.min_cst:g} cSt")
         ax2.axhline(window.max_cst, color="crimson", lw=1.0, ls="--",

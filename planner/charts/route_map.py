@@ -44,9 +44,7 @@ def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
     x0, x1 = lon.min() - pad, lon.max() + pad
     y0, y1 = lat.min() - pad, lat.max() + pad
     window = shapely.box(x0, -90.0, x1, 90.0)
-    from geo.plane import area_shape
-
-    shapes = [area_shape(t.area) for t in check.tracks]
+    shapes = [t.shape for t in check.tracks]
     for shape in shapes:
         part = shapely.intersection(shape.union, window)
         if not part.is_empty:
