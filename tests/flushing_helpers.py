@@ -8,9 +8,9 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from planner.consumers import Boiler, MainEngine
 from planner.fuels import Fuel
-from planner.system import Circuit, Flow, FuelSystem, Link, Pipe, ShipIdentity, Stirred, Tank
+from planner.ship.consumers import Boiler, MainEngine
+from planner.ship.system import Circuit, Flow, FuelSystem, Link, Pipe, ShipIdentity, Stirred, Tank
 
 SHIPS = Path(__file__).parent / "data" / "ships"
 

@@ -90,8 +90,8 @@ def seconds(a: datetime | str, b: datetime | str) -> float:
 
 def plan_doc(name_or_path: str | Path):
     """``(plan, plan_json(plan))`` of a voyage file (a fixture name or a path)."""
-    from planner.cmd_plan import build_plan
-    from planner.plan_report import plan_json
+    from planner.voyage.report import plan_json
+    from planner.voyage.run import build_plan
 
     p = Path(name_or_path)
     if not p.suffix:

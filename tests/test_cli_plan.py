@@ -156,7 +156,7 @@ def test_bad_voyage_exit_2_one_line_nothing_written(tmp_path, edit, key):
 
 def test_tank_that_runs_dry_in_the_flush_is_bad_input(tmp_path):
     # 2 m³ of mgo cannot even flush the T1 ship's volume: one line naming the voyage file,
-    # not a traceback (fixed in planner/plan.py)
+    # not a traceback (fixed in planner/voyage/plan.py)
     text = (VOYAGES / "short_fuel.toml").read_text(encoding="utf-8")
     for name in ("ship_t1.toml", "short_east.csv", "meridian_5e.geojson"):
         text = text.replace(f'"{name}"', json.dumps(str(VOYAGES / name)))

@@ -18,7 +18,7 @@ from scipy.integrate import solve_ivp
 
 from planner.flushing import ConsumptionSchedule, Switch, simulate
 from planner.flushing.expm import expm
-from planner.system import Flow, Link, Pipe, Stirred
+from planner.ship.system import Flow, Link, Pipe, Stirred
 
 M_T_H = 1.2
 SECOND_H = 1.0 / 3600.0

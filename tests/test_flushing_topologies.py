@@ -8,7 +8,7 @@ from flushing_helpers import SHIPS, fuel
 from scipy.optimize import brentq
 
 from planner.flushing import ConsumptionSchedule, flush, make_switch, schedule_at, simulate
-from planner.ship_file import load_ship
+from planner.ship.ship_file import load_ship
 
 M_T_H = 1.3
 HOUR_S = 3600.0

@@ -28,8 +28,8 @@ from plan_helpers import (
     washout_log,
 )
 
-from planner.changeovers import SWITCH_BACK_COMPLETE
-from planner.timefmt import format_utc
+from planner.common.timefmt import format_utc
+from planner.voyage.changeovers import SWITCH_BACK_COMPLETE
 
 TIME_TOL_S = 3.0
 Q12 = flow_m3_h(12.0)  # m³/h through the stirred volume at 12 kn (propeller law)

@@ -26,13 +26,13 @@ from pathlib import Path
 
 import pytest
 
-from planner import procedure_steps as steps
-from planner.consumers import MainEngine
 from planner.documents.procedure_pdf import SECTIONS, write_procedure_pdf
-from planner.flush_study import duration_table
 from planner.flushing import flush, schedule_at
-from planner.procedure import ViscosityCheck, facts_json, gather, table_loads
-from planner.ship_file import load_ship
+from planner.flushing.study import duration_table
+from planner.procedure import steps
+from planner.procedure.facts import ViscosityCheck, facts_json, gather, table_loads
+from planner.ship.consumers import MainEngine
+from planner.ship.ship_file import load_ship
 
 ROOT = Path(__file__).resolve().parents[1]
 SAMPLE = ROOT / "areas_sample"

@@ -8,10 +8,10 @@ import pytest
 from flushing_helpers import SHIPS
 
 from geo.errors import InputError
-from planner.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG
-from planner.ship_file import load_ship, parse_ship
-from planner.system import Pipe, Stirred
+from planner.ship.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
+from planner.ship.ship_file import load_ship, parse_ship
+from planner.ship.system import Pipe, Stirred
 
 SAMPLE = Path("areas_sample/ship.toml")
 

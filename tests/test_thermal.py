@@ -14,7 +14,7 @@ import numpy as np
 import pytest
 
 from planner.fuels import Fuel
-from planner.thermal import InletWindow, inlet_path, lead_needed_h
+from planner.ship.thermal import InletWindow, inlet_path, lead_needed_h
 
 HFO = Fuel(name="HFO", grade="RMG 380", sulphur_pct=0.48, density_kg_m3=991.0,
            viscosity_cst=380.0, viscosity_ref_c=50.0, viscosity2_cst=30.0,

@@ -14,10 +14,10 @@ import pytest
 from geo.path import route_path
 from geo.route import Route, Waypoint
 from geo.schedule import make_schedule, to_epoch
-from planner.consumers import MainEngine
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG
-from planner.ship_file import load_ship
-from planner.timeline import Timeline
+from planner.ship.consumers import MainEngine
+from planner.ship.ship_file import load_ship
+from planner.voyage.timeline import Timeline
 
 T0 = datetime(2027, 1, 1, tzinfo=UTC)
 

@@ -16,7 +16,7 @@ import pytest
 from flushing_helpers import HFO_EQ, MGO_EQ, series
 
 from planner.flushing import ConsumptionSchedule, flush, make_switch, schedule_at, simulate
-from planner.ship_file import load_ship
+from planner.ship.ship_file import load_ship
 from planner.uncertainty import UncertaintySpec, analyse
 from planner.uncertainty.inputs import Z95
 from planner.uncertainty.model import BlendCurve, scale_all

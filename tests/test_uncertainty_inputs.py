@@ -9,7 +9,7 @@ from pathlib import Path
 import pytest
 
 from geo.errors import InputError
-from planner.ship_file import load_ship, parse_ship
+from planner.ship.ship_file import load_ship, parse_ship
 from planner.uncertainty import UncertaintySpec, load_uncertainty, parse_uncertainty
 from planner.uncertainty.inputs import (
     DEFAULTS,

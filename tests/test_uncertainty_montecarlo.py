@@ -14,7 +14,7 @@ from flushing_helpers import HFO_EQ, MGO_EQ, series
 from scipy.stats import spearmanr
 
 from planner.flushing import ConsumptionSchedule, flush, schedule_at
-from planner.ship_file import load_ship
+from planner.ship.ship_file import load_ship
 from planner.uncertainty import UncertaintySpec, analyse, start_quantiles, uncertainty_json
 from planner.uncertainty.sensitivity import ranks, spearman
 from planner.uncertainty.surrogate import Case, run_case

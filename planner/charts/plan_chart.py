@@ -6,7 +6,7 @@ from pathlib import Path
 
 import numpy as np
 
-from planner.outputs import write_atomic
+from planner.common.outputs import write_atomic
 
 
 def inlet_sulphur_along_voyage(plan, circuit: str) -> tuple[np.ndarray, np.ndarray]:

@@ -13,7 +13,7 @@ import numpy as np
 
 from geo.compliance import RouteCheck
 from geo.ellipsoid import NM_M
-from planner.outputs import write_atomic
+from planner.common.outputs import write_atomic
 
 AREA_COLOURS = ("#1b9e77", "#7570b3", "#d95f02", "#e7298a", "#66a61e", "#e6ab02")
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from planner.outputs import write_atomic
+from planner.common.outputs import write_atomic
 
 TOP = 10
 

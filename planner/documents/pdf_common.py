@@ -25,8 +25,8 @@ from datetime import datetime
 from pathlib import Path
 from xml.sax.saxutils import escape
 
-from planner.outputs import write_atomic
-from planner.timefmt import format_utc
+from planner.common.outputs import write_atomic
+from planner.common.timefmt import format_utc
 
 MARGINS_MM = {"left": 16.0, "right": 16.0, "top": 22.0, "bottom": 20.0}
 """Page margins, mm (the header and footer sit inside the top and bottom margins)."""

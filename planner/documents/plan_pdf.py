@@ -1,7 +1,7 @@
 """The voyage changeover plan as a PDF for the master and the chief engineer to sign.
 
 Built from the ``changeover plan --json`` document alone (see
-:func:`planner.plan_report.plan_json`), so what is printed is exactly what the
+:func:`planner.voyage.report.plan_json`), so what is printed is exactly what the
 JSON says. Page one names the ship, the voyage, the route, departure and
 arrival, the ship's time and the planning margins; then the changeovers,
 grouped by boundary: each boundary (area, entry or exit, time in UTC and
@@ -28,6 +28,7 @@ from pathlib import Path
 
 from geo.errors import InputError
 from geo.position import format_lat, format_lon
+from planner.common.timefmt import format_utc, parse_offset
 from planner.documents.pdf_common import (
     FRAME_WIDTH_MM,
     INK,
@@ -43,7 +44,6 @@ from planner.documents.pdf_common import (
     styles,
     title_block,
 )
-from planner.timefmt import format_utc, parse_offset
 
 TITLE = "Voyage fuel changeover plan"
 SUBTITLE = ("MARPOL Annex VI regulation 14: when and where each fuel changeover starts so that "

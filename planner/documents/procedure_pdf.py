@@ -1,6 +1,6 @@
 """The ship's written fuel changeover procedure (MARPOL Annex VI regulation 14.6), as a PDF.
 
-Printed from :class:`planner.procedure.ProcedureFacts`: a title block with the
+Printed from :class:`planner.procedure.facts.ProcedureFacts`: a title block with the
 ship, the limit and the revision; the cautions; then, numbered, what the
 procedure is for and who does what, the fuel system's volumes, how long a
 changeover takes against engine load, the engine's limits, the checks before
@@ -17,7 +17,7 @@ from collections.abc import Sequence
 from datetime import UTC, datetime
 from pathlib import Path
 
-from planner import procedure_steps as steps
+from planner.common.timefmt import format_utc
 from planner.documents.pdf_common import (
     FRAME_WIDTH_MM,
     Markup,
@@ -30,9 +30,9 @@ from planner.documents.pdf_common import (
     styles,
     title_block,
 )
-from planner.procedure import CircuitFacts, DurationRow, ProcedureFacts
-from planner.procedure_steps import celsius, changing, dur, hm, names
-from planner.timefmt import format_utc
+from planner.procedure import steps
+from planner.procedure.facts import CircuitFacts, DurationRow, ProcedureFacts
+from planner.procedure.steps import celsius, changing, dur, hm, names
 
 TITLE = "Fuel changeover procedure"
 SECTIONS = ("Purpose and responsibilities", "The fuel system", "How long a changeover takes",

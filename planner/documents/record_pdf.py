@@ -17,6 +17,7 @@ from __future__ import annotations
 from datetime import UTC, datetime
 from pathlib import Path
 
+from planner.common.timefmt import format_offset, format_utc
 from planner.documents.pdf_common import (
     FRAME_WIDTH_MM,
     Markup,
@@ -47,7 +48,6 @@ from planner.journal.entries import (
     Record,
 )
 from planner.journal.verify import VerifyReport
-from planner.timefmt import format_offset, format_utc
 
 TITLE = "Fuel changeover record"
 SUBTITLE = ("MARPOL Annex VI regulation 14.6: the changeover to compliant fuel completed before "

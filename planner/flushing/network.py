@@ -8,7 +8,7 @@ the switch (the valve and ``tank_in_use`` on the from-tank, used for the
 steady state the system starts from) and after it (on the to-tank).
 
 Link flows are affine in the consumers' volumetric consumption
-(:mod:`planner.flushing.flows`): ``q = a + B @ v``, m³/h.
+(:mod:`planner.ship.flows`): ``q = a + B @ v``, m³/h.
 """
 
 from __future__ import annotations
@@ -18,9 +18,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from planner.flushing.flows import circuit_flows
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG, Fuel
-from planner.system import TANK_IN_USE, VALVE, FuelSystem, FuelSystemError
+from planner.ship.flows import circuit_flows
+from planner.ship.system import TANK_IN_USE, VALVE, FuelSystem, FuelSystemError
 
 STIRRED, PIPE, CONSUMER = 0, 1, 2
 

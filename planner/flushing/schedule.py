@@ -20,8 +20,8 @@ from types import MappingProxyType
 
 import numpy as np
 
-from planner.consumers import iso_demand_t_h
-from planner.system import FuelSystem
+from planner.ship.consumers import iso_demand_t_h
+from planner.ship.system import FuelSystem
 
 BASES = ("energy", "mass")
 

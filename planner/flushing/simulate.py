@@ -30,7 +30,7 @@ from planner.flushing.pipes import PipeQueue
 from planner.flushing.result import FlushResult, build_result
 from planner.flushing.schedule import ConsumptionSchedule
 from planner.flushing.step import Propagators, commit_step, compute_step
-from planner.system import FuelSystem
+from planner.ship.system import FuelSystem
 
 
 class FlushError(ValueError):

@@ -19,7 +19,7 @@ from planner.flushing.network import Switch, make_switch
 from planner.flushing.result import FlushResult
 from planner.flushing.schedule import ConsumptionSchedule
 from planner.flushing.simulate import simulate
-from planner.system import FuelSystem
+from planner.ship.system import FuelSystem
 
 
 @dataclass(frozen=True)

@@ -11,6 +11,7 @@ ship's set-up.
 from __future__ import annotations
 
 from geo.errors import InputError
+from planner.common.timefmt import format_utc
 from planner.journal.entries import (
     CORRECTABLE,
     CORRECTION,
@@ -21,7 +22,6 @@ from planner.journal.entries import (
     Record,
 )
 from planner.journal.state import JournalState
-from planner.timefmt import format_utc
 
 
 def check_entry(state: JournalState, entry: Entry) -> None:

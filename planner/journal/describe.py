@@ -9,6 +9,7 @@ from __future__ import annotations
 from datetime import datetime
 
 from geo.position import format_position
+from planner.common.timefmt import format_ship, format_utc
 from planner.journal.details import FuelUse, TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -22,7 +23,6 @@ from planner.journal.entries import (
     Record,
 )
 from planner.journal.state import JournalState, Stored
-from planner.timefmt import format_ship, format_utc
 
 
 def position_text(p: Position | None) -> str:

@@ -20,13 +20,13 @@ import csv
 import io
 from collections.abc import Iterable
 
+from planner.common.timefmt import format_ship
 from planner.journal.codec import encode, iso
 from planner.journal.describe import position_text
 from planner.journal.details import FuelUse
 from planner.journal.entries import LABELS, Record
 from planner.journal.state import JournalState, Stored
 from planner.journal.verify import VerifyReport
-from planner.timefmt import format_ship
 
 HASH_RULE = ("hash = SHA-256 hex of UTF-8 (prev_hash + '\\n' + str(seq) + '\\n' + body), body = "
              "JSON of entry with keys sorted, separators ',' ':', non-ASCII as is; entry 1's "

@@ -23,8 +23,8 @@ from datetime import datetime, timedelta, timezone
 
 from geo.errors import InputError
 from geo.position import parse_lat, parse_lon
+from planner.common.timefmt import parse_moment, parse_offset
 from planner.journal.entries import Position
-from planner.timefmt import parse_moment, parse_offset
 
 POS_EXPECTED = ("a position: latitude then longitude, e.g. \"54°12.3'N 003°30.0'W\" or "
                 "\"54.205, -3.5\"")

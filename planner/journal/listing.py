@@ -11,6 +11,7 @@ from dataclasses import dataclass
 from datetime import date
 
 from geo.errors import InputError
+from planner.common.timefmt import format_ship, format_utc
 from planner.journal.codec import encode
 from planner.journal.describe import position_text, sample_and_text
 from planner.journal.details import TankReading
@@ -29,7 +30,6 @@ from planner.journal.entries import (
 )
 from planner.journal.state import JournalState, Stored
 from planner.journal.verify import VerifyReport
-from planner.timefmt import format_ship, format_utc
 
 COMMAND_KINDS = {"start": STARTED, "complete": COMPLETED, "back": BACK_COMMENCED,
                  "back-complete": BACK_COMPLETED, "tanks": TANKS, "sample": SAMPLE, "note": NOTE,
@@ -52,7 +52,7 @@ def parse_kinds(names: Iterable[str]) -> set[str]:
 
 
 def parse_day_opt(text: str | None, option: str) -> date | None:
-    from planner.timefmt import parse_day
+    from planner.common.timefmt import parse_day
 
     return parse_day(text, file=option) if text else None
 

@@ -28,6 +28,7 @@ from datetime import datetime
 from pathlib import Path
 
 from geo.errors import InputError
+from planner.common.timefmt import parse_moment
 from planner.journal.entries import (
     BACK_COMMENCED,
     DIRECTION,
@@ -35,7 +36,6 @@ from planner.journal.entries import (
     Planned,
     Position,
 )
-from planner.timefmt import parse_moment
 
 
 def load_changeovers(path: str | Path) -> list[dict]:

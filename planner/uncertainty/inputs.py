@@ -195,7 +195,7 @@ def parse_uncertainty(table: object, file: str, system=None,
                       base: UncertaintySpec | None = None) -> UncertaintySpec:
     """The :class:`UncertaintySpec` of an ``[uncertainty]`` table (TOML already parsed).
 
-    ``system`` (a :class:`~planner.system.FuelSystem`), when given, checks the
+    ``system`` (a :class:`~planner.ship.system.FuelSystem`), when given, checks the
     names in per-volume, per-tank and per-fuel tables. ``base`` is the spec the
     table's keys override (default: the built-in defaults).
     """

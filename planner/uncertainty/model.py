@@ -37,7 +37,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from planner.flushing import ConsumptionSchedule, FlushResult
-from planner.system import TANK_IN_USE, Flow, FuelSystem, Link, Pipe, Stirred, Tank
+from planner.ship.system import TANK_IN_USE, Flow, FuelSystem, Link, Pipe, Stirred, Tank
 
 _LINE_TOL = 1e-6  # largest departure of an inlet composition from the A-B line
 

@@ -34,7 +34,7 @@ import numpy as np
 from planner.flushing import CircuitSummary, ConsumptionSchedule, flush, make_switch
 from planner.flushing.network import compile_network
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG
-from planner.system import FuelSystem
+from planner.ship.system import FuelSystem
 from planner.uncertainty.inputs import Z95, UncertaintySpec
 from planner.uncertainty.model import circuit_nodes
 from planner.uncertainty.sampling import InputDef, Samples, draw, input_defs

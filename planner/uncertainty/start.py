@@ -13,7 +13,7 @@ from collections.abc import Callable
 from typing import NamedTuple
 
 from planner.flushing import ConsumptionSchedule, flush
-from planner.system import FuelSystem
+from planner.ship.system import FuelSystem
 from planner.uncertainty.inputs import UncertaintySpec
 from planner.uncertainty.montecarlo import (
     DEFAULT_SAMPLES,

@@ -35,7 +35,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from planner.flushing import ConsumptionSchedule, FlushError, make_switch, simulate
-from planner.system import FuelSystem
+from planner.ship.system import FuelSystem
 from planner.uncertainty.model import BlendCurve, perturbed, scaled_schedule
 from planner.uncertainty.sampling import InputDef, Samples, fit_points
 

@@ -19,7 +19,7 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
 from planner.flushing import flush, make_switch, schedule_at, simulate  # noqa: E402
-from planner.ship_file import load_ship  # noqa: E402
+from planner.ship.ship_file import load_ship  # noqa: E402
 
 
 def timed(fn, repeat: int = 7):

@@ -21,7 +21,7 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
 from planner.flushing import schedule_at  # noqa: E402
-from planner.ship_file import load_ship  # noqa: E402
+from planner.ship.ship_file import load_ship  # noqa: E402
 from planner.uncertainty import analyse, load_uncertainty  # noqa: E402
 from planner.uncertainty.surrogate import Case, run_case  # noqa: E402
 

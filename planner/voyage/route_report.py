@@ -11,7 +11,7 @@ from datetime import timezone
 from geo.compliance import RouteCheck
 from geo.ellipsoid import NM_M
 from geo.rhumb import wrap180
-from planner.timefmt import format_offset, iso_utc
+from planner.common.timefmt import format_offset, iso_utc
 
 
 def route_json(check: RouteCheck, tz: timezone | None = None) -> dict:

@@ -2,7 +2,7 @@
 
 MARPOL Annex VI regulation 14.6 asks the ship to carry a written procedure
 showing how the changeover is done. This command gathers the ship's facts
-(:mod:`planner.procedure`) and prints them (:mod:`planner.documents.procedure_pdf`);
+(:mod:`planner.procedure.facts`) and prints them (:mod:`planner.documents.procedure_pdf`);
 everything is computed before anything is written, and bad input writes nothing.
 """
 
@@ -13,8 +13,6 @@ from typing import Annotated
 
 import typer
 
-from planner.cli import app
-
 
 def _sha256(path: Path) -> str:
     import hashlib
@@ -22,7 +20,6 @@ def _sha256(path: Path) -> str:
     return hashlib.sha256(path.read_bytes()).hexdigest()
 
 
-@app.command("procedure")
 def procedure_cmd(
     ship: Annotated[Path, typer.Argument(help="Ship file, or a voyage file (its fuels and tank "
                                          "contents are used).")],
@@ -41,8 +38,13 @@ def procedure_cmd(
     """The ship-specific written changeover procedure (regulation 14.6) as a PDF."""
     from geo.errors import InputError
     from planner.flushing import FlushError
-    from planner.onboard import load_ship_or_voyage
-    from planner.procedure import DEFAULT_MARGIN_H, DEFAULT_TARGET_FRACTION, facts_json, gather
+    from planner.procedure.facts import (
+        DEFAULT_MARGIN_H,
+        DEFAULT_TARGET_FRACTION,
+        facts_json,
+        gather,
+    )
+    from planner.voyage.onboard import load_ship_or_voyage
 
     if pdf is None and not json_out:
         raise InputError("--pdf", "", None, "the PDF file to write, e.g. --pdf procedure.pdf")
@@ -75,7 +77,7 @@ def procedure_cmd(
 
         write_procedure_pdf(pdf, facts, revision=revision.strip(), sources=sources)
     if json_out:
-        from planner.outputs import dumps
+        from planner.common.outputs import dumps
 
         doc = facts_json(facts)
         doc["sources"] = [{"file": n, "sha256": h} for n, h in sources]

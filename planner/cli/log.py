@@ -13,14 +13,11 @@ from typing import Annotated
 
 import typer
 
-from planner.cli import app
-
 log_app = typer.Typer(
     name="log", no_args_is_help=True,
     help="The ship's changeover journal: record each changeover (the regulation 14.6 items), "
          "tank soundings, samples and notes; list, verify, export and print it. Entries are "
          "never changed: a correction is a new entry that points at the one it corrects.")
-app.add_typer(log_app, name="log")
 
 JournalOpt = Annotated[Path | None, typer.Option(
     "--journal", "-j", envvar="CHANGEOVER_JOURNAL", show_envvar=False,
@@ -77,7 +74,7 @@ def _path(journal: Path | None) -> Path:
         raise InputError("--journal", "", None, "the journal file or the ship file (or set "
                          "CHANGEOVER_JOURNAL or CHANGEOVER_SHIP)")
     if journal.suffix.lower() == ".toml":
-        from planner.ship_file import load_ship
+        from planner.ship.ship_file import load_ship
 
         ship = load_ship(journal)
         if not ship.ship.journal:
@@ -278,9 +275,9 @@ def show_cmd(
     json_out: Annotated[bool, typer.Option("--json", help="Print JSON.")] = False,
 ) -> None:
     """List entries (filtered by voyage, area, dates or kind), corrections beside originals."""
+    from planner.common.outputs import dumps
     from planner.journal import Journal
     from planner.journal.listing import list_rows, parse_day_opt, parse_kinds, rows_json
-    from planner.outputs import dumps
 
     kinds = parse_kinds(kind or [])
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
@@ -291,7 +288,7 @@ def show_cmd(
         typer.echo(dumps({"ship": {"name": state.ship_name, "imo": state.imo_number},
                           "entries": rows_json(state, rows)}))
         return
-    from planner.console import console, table
+    from planner.cli.console import console, table
 
     t = table(f"{state.ship_name} (IMO {state.imo_number}): {len(rows)} of "
               f"{state.last_seq} entries", [
@@ -315,10 +312,10 @@ def verify_cmd(
 ) -> None:
     """Check the hash chain: names every changed, removed or moved entry (exit 1 if any)."""
     from geo.errors import InputError
+    from planner.common.outputs import dumps
     from planner.journal import Journal
     from planner.journal.canonical import is_hash
     from planner.journal.listing import verify_json, verify_lines
-    from planner.outputs import dumps
 
     if hash_ is not None and not is_hash(hash_.strip().lower()):
         raise InputError("--hash", "", hash_, "a SHA-256 hash: 64 hexadecimal digits")
@@ -345,11 +342,11 @@ def export_cmd(
 ) -> None:
     """Export entries as CSV or JSON (a whole-journal JSON can be re-checked without us)."""
     from geo.errors import InputError
+    from planner.common.outputs import dumps, write_atomic
     from planner.journal import Journal
     from planner.journal.book import describe_selection
     from planner.journal.export import export_csv, export_json
     from planner.journal.listing import list_rows, parse_day_opt
-    from planner.outputs import dumps, write_atomic
 
     kind = (fmt or (out.suffix.lstrip(".") if out else "json")).lower()
     if kind not in ("csv", "json"):

@@ -24,9 +24,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from planner.flush_study import FlushStudy, study
-from planner.system import FuelSystem
-from planner.timeline import Timeline
+from planner.flushing.study import FlushStudy, study
+from planner.ship.system import FuelSystem
+from planner.voyage.timeline import Timeline
 
 SWITCH_BACK_COMPLETE = 0.05
 """A switch back is complete when the inlet is within 5 % of the fuels' sulphur difference

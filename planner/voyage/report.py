@@ -8,9 +8,9 @@ offset; positions in decimal degrees (tables show degrees and minutes).
 from __future__ import annotations
 
 from geo.ellipsoid import NM_M
-from planner.plan import Plan
-from planner.plan_checks import fuel_needs, on_board_t, so2_by_area, stretch_so2, totals_t
-from planner.timefmt import format_offset, iso_utc
+from planner.common.timefmt import format_offset, iso_utc
+from planner.voyage.checks import fuel_needs, on_board_t, so2_by_area, stretch_so2, totals_t
+from planner.voyage.plan import Plan
 
 CAUTIONS = (
     "Advisory only: the engine and boiler makers' instructions and the ship's safety "
@@ -166,7 +166,7 @@ def _run_fuel(plan: Plan, from_m: float) -> str:
 
 def plan_geojson(plan: Plan, doc: dict | None = None) -> dict:
     """The route check's GeoJSON plus each changeover's start, compliant and boundary points."""
-    from planner.route_report import route_geojson
+    from planner.voyage.route_report import route_geojson
 
     gj = route_geojson(plan.check)
     for row in (doc or plan_json(plan))["changeovers"]:

@@ -39,8 +39,8 @@ from datetime import datetime, timezone
 from pathlib import Path
 
 from geo.errors import InputError
+from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
-from planner.timefmt import parse_moment, parse_offset
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",

@@ -12,7 +12,7 @@ instead, and the plan says so.
 
 from __future__ import annotations
 
-from planner.timefmt import iso_utc
+from planner.common.timefmt import iso_utc
 
 
 def add_uncertainty(plan, doc: dict, confidence: float, samples: int, seed: int,

@@ -7,33 +7,7 @@ from typing import Annotated
 
 import typer
 
-from planner.cli import app
 
-
-def build_plan(voyage_file: Path, progress=None):
-    """Load the voyage and everything it names, and plan it (no printing)."""
-    from geo.area_files import load_areas
-    from geo.compliance import check_route
-    from geo.path import route_path
-    from geo.route_loader import load_route
-    from geo.schedule import make_schedule
-    from planner.onboard import ship_for_voyage
-    from planner.plan import plan_voyage
-    from planner.voyage_file import load_voyage
-
-    step = progress or (lambda text: None)
-    step("reading the voyage, ship, route and areas")
-    voyage = load_voyage(voyage_file)
-    system = ship_for_voyage(voyage)
-    path = route_path(load_route(voyage.route_file))
-    schedule = make_schedule(path, voyage.depart_utc, voyage.speed_kn)
-    step("finding the boundary crossings")
-    check = check_route(path, load_areas(voyage.area_paths), schedule, voyage.depart_utc.date())
-    step("simulating every changeover on the voyage timeline")
-    return plan_voyage(voyage, system, check)
-
-
-@app.command("plan")
 def plan_cmd(
     voyage: Annotated[Path, typer.Argument(help="Voyage file (TOML).")],
     json_out: Annotated[bool, typer.Option("--json", help="Print JSON (documented keys).")]
@@ -55,30 +29,32 @@ def plan_cmd(
     import sys
 
     from geo.errors import InputError
-    from planner.outputs import dumps, write_json
-    from planner.plan_report import plan_geojson
+    from planner.common.outputs import dumps, write_json
+    from planner.voyage import run
+    from planner.voyage.report import plan_geojson
 
     if confidence is not None and not 0.5 <= confidence < 1.0:
         raise InputError("--confidence", "", confidence, "a confidence from 0.5 to below 1")
     if samples < 100:
         raise InputError("--samples", "", samples, "at least 100 samples")
     if sys.stderr.isatty() and not json_out:
-        from planner.console import console
+        from planner.cli.console import console
 
         with console(stderr=True).status("planning") as status:
-            plan = build_plan(voyage, lambda text: status.update(text))
+            plan = run.build_plan(voyage, lambda text: status.update(text))
             doc = _document(plan, confidence, samples, seed, status.update)
     else:
-        plan = build_plan(voyage)
+        plan = run.build_plan(voyage)
         doc = _document(plan, confidence, samples, seed)
     if chart is not None:
         from planner.charts.plan_chart import draw_plan_chart
 
         draw_plan_chart(plan, chart)
     if map_png is not None:
+        from planner.charts.plan_marks import plan_marks
         from planner.charts.route_map import draw_route_map
 
-        draw_route_map(plan.check, map_png, extra=_changeover_marks(doc, plan))
+        draw_route_map(plan.check, map_png, extra=plan_marks(plan, doc))
     if pdf is not None:
         from planner.documents.plan_pdf import write_plan_pdf
 
@@ -95,44 +71,15 @@ def plan_cmd(
 
 
 def _document(plan, confidence, samples, seed, progress=None) -> dict:
-    from planner.plan_report import plan_json
+    from planner.voyage.report import plan_json
 
     doc = plan_json(plan)
     conf = confidence if confidence is not None else plan.voyage.confidence
     if conf is not None:
-        from planner.plan_uncertainty import add_uncertainty
+        from planner.voyage.confidence import add_uncertainty
 
         add_uncertainty(plan, doc, conf, samples, seed, progress)
     return doc
-
-
-def _changeover_marks(doc: dict, plan):
-    """Extra drawing for the route map: caution zones and every changeover start."""
-    def draw(ax):
-        import numpy as np
-        import shapely
-
-        from planner.plan_checks import _zones
-
-        lon_mid = float(np.mean(ax.get_xlim()))
-        x0, x1 = ax.get_xlim()
-        window = shapely.box(x0 - 5, -90, x1 + 5, 90)
-        for k, shape in enumerate(_zones(plan)):
-            for poly in shapely.get_parts(shapely.intersection(shape.union, window)):
-                if poly.geom_type != "Polygon":
-                    continue
-                xs, ys = poly.exterior.xy
-                ax.fill(xs, ys, facecolor="none", edgecolor="dimgrey", hatch="////", lw=0.8,
-                        label="caution zone" if k == 0 else None)
-        first = True
-        for r in doc["changeovers"]:
-            if r["direction"] != "to_compliant" or r["start_lat"] is None:
-                continue
-            lon = r["start_lon"] + 360.0 * round((lon_mid - r["start_lon"]) / 360.0)
-            ax.plot(lon, r["start_lat"], "o", color="darkorange", ms=6, mec="black",
-                    label="changeover start" if first else None)
-            first = False
-    return draw
 
 
 def _dm(lat: float | None, lon: float | None) -> str:
@@ -147,7 +94,7 @@ def _t(iso: str | None) -> str:
 
 def print_plan(doc: dict) -> None:
     """The plan as tables on the terminal."""
-    from planner.console import console, table
+    from planner.cli.console import console, table
 
     con = console()
     v = doc["voyage"]

@@ -3,7 +3,7 @@
 - Quantities: each circuit draws the fuel its changeover valve is set to, from
   the moment the valve is switched (a changeover's start) to the next
   switch; the mass is the timeline's consumption scaled to the fuel's net
-  specific energy (:meth:`planner.timeline.Timeline.burnt_t`), and m³ at
+  specific energy (:meth:`planner.voyage.timeline.Timeline.burnt_t`), and m³ at
   15 °C is mass / density at 15 °C. Compared with what the tanks hold.
 - SO₂: 64.066/32.06 kg per kg of sulphur burnt (REFERENCE.md section 4 [D])
   on every stretch, against what the regular fuel would have formed for the
@@ -21,8 +21,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from planner.common.timefmt import format_utc
 from planner.fuels import so2_from_fuel_kg
-from planner.timefmt import format_utc
 
 _ZONE_STEP_S = 60.0
 
@@ -125,7 +125,8 @@ def so2_by_area(rows: list[StretchSO2]) -> dict[str, tuple[float, float]]:
     return out
 
 
-def _zones(plan):
+def caution_zone_shapes(plan) -> list:
+    """The voyage's caution zones as united plane shapes (empty when it names none)."""
     if plan.voyage.caution_zones is None:
         return []
     from geo.area_files import load_caution_zones
@@ -142,10 +143,10 @@ def _inside(shape, plan, times: np.ndarray) -> np.ndarray:
 
 def zone_warnings(plan) -> list[str]:
     """Changeovers under way inside a caution zone, with the start that clears it."""
-    from planner.changeovers import plan_to_compliant
+    from planner.voyage.changeovers import plan_to_compliant
 
     out = []
-    shapes = _zones(plan)
+    shapes = caution_zone_shapes(plan)
     for ch in plan.changes:
         for part in ch.circuits:
             if part.done_s is None or ch.before_departure:

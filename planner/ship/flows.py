@@ -18,10 +18,14 @@ holds their level.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 
-from planner.system import TANK_IN_USE, Circuit, FuelSystem, FuelSystemError, Link
+from planner.ship.components import TANK_IN_USE, Circuit, FuelSystemError, Link
+
+if TYPE_CHECKING:
+    from planner.ship.system import FuelSystem
 
 _TOL = 1e-9
 

@@ -7,13 +7,11 @@ from typing import Annotated
 
 import typer
 
-from planner.cli import app
-
 
 def _tanks(system, circuit: str, from_: str | None, to: str | None) -> tuple[str, str]:
     from geo.errors import InputError
-    from planner.flush_study import default_tanks
-    from planner.system import FuelSystemError
+    from planner.flushing.study import default_tanks
+    from planner.ship.system import FuelSystemError
 
     a, b = default_tanks(system, circuit)
     try:
@@ -24,7 +22,6 @@ def _tanks(system, circuit: str, from_: str | None, to: str | None) -> tuple[str
     return a, b
 
 
-@app.command("flush")
 def flush_cmd(
     ship: Annotated[Path, typer.Argument(help="Ship file, or a voyage file (its fuels and "
                                          "tank contents are used).")],
@@ -59,10 +56,10 @@ def flush_cmd(
 ) -> None:
     """Flushing time of each circuit after the changeover valve is switched."""
     from geo.errors import InputError
-    from planner.flush_study import duration_table, flush_json, study
+    from planner.common.outputs import dumps
     from planner.flushing import FlushError, schedule_at
-    from planner.onboard import load_ship_or_voyage
-    from planner.outputs import dumps
+    from planner.flushing.study import duration_table, flush_json, study
+    from planner.voyage.onboard import load_ship_or_voyage
 
     system, voyage = load_ship_or_voyage(ship)
     if not 0.0 < limit <= 5.0:
@@ -193,7 +190,7 @@ class _Progress:
                 return
             from rich.progress import Progress
 
-            from planner.console import console
+            from planner.cli.console import console
 
             self._bar = Progress(console=console(stderr=True), transient=True)
             self._bar.start()
@@ -208,7 +205,7 @@ class _Progress:
 
 
 def _has_main_engine(system, circuit: str) -> bool:
-    from planner.consumers import MainEngine
+    from planner.ship.consumers import MainEngine
 
     return any(isinstance(system.consumers[c], MainEngine)
                for c in system.circuits[circuit].consumers)
@@ -221,7 +218,7 @@ def _h(x: float | None) -> str:
 
 
 def _print(system, studies, tables, load, mc=None, margin_h: float = 1.0) -> None:
-    from planner.console import console, table
+    from planner.cli.console import console, table
 
     con = console()
     con.print(f"{system.ship.name}: flushing after the changeover valve is switched "
@@ -268,7 +265,7 @@ def _short(x: float | None) -> str:
 
 def _print_uncertainty(con, mc, margin_h: float) -> None:
     """The Monte Carlo tables: quantiles and lead per circuit, then each circuit's swings."""
-    from planner.console import table
+    from planner.cli.console import table
     from planner.uncertainty.report import leads_to_show
 
     c = mc[0].confidence

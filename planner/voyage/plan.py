@@ -4,16 +4,16 @@ Steps (DESIGN.md data flow):
 
 1. the route check gives the limit on every stretch (:mod:`geo.compliance`);
 2. each stretch gets the highest-sulphur fuel on board that meets its limit
-   with the sulphur margin (:mod:`planner.fuel_choice`); neighbouring
+   with the sulphur margin (:mod:`planner.voyage.fuel_choice`); neighbouring
    stretches on the same fuel form one *run*;
 3. between runs, each circuit changes over: latest start before a step down,
-   commenced at the exit after a step up (:mod:`planner.changeovers`);
+   commenced at the exit after a step up (:mod:`planner.voyage.changeovers`);
 4. a switch back and forth that cannot finish before the next step down's
    start is dropped: the ship stays on the compliant fuel, and the plan says
    why; a voyage that departs inside an area must be on compliant fuel before
    departure, and the plan says so;
 5. quantities, SO₂, caution zones and the inlet viscosity path are checked
-   (:mod:`planner.plan_checks`).
+   (:mod:`planner.voyage.checks`).
 """
 
 from __future__ import annotations
@@ -21,18 +21,18 @@ from __future__ import annotations
 from dataclasses import dataclass, field, replace
 
 from geo.compliance import RouteCheck
-from planner.changeovers import (
+from planner.common.timefmt import format_utc
+from planner.fuels import Fuel
+from planner.ship.system import FuelSystem
+from planner.voyage.changeovers import (
     CircuitChange,
     TargetUnreachable,
     plan_to_compliant,
     plan_to_regular,
 )
-from planner.fuel_choice import FuelChoice, choose_fuels
-from planner.fuels import Fuel
-from planner.system import FuelSystem
-from planner.timefmt import format_utc
-from planner.timeline import Timeline
-from planner.voyage_file import Voyage
+from planner.voyage.fuel_choice import FuelChoice, choose_fuels
+from planner.voyage.timeline import Timeline
+from planner.voyage.voyage_file import Voyage
 
 
 @dataclass(frozen=True)
@@ -172,7 +172,7 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
             "sea consumption: alongside it burns less, so start earlier still).")
     plan = Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
                 notes, warnings)
-    from planner.plan_checks import run_checks
+    from planner.voyage.checks import run_checks
 
     run_checks(plan)
     return plan

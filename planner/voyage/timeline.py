@@ -21,10 +21,10 @@ import numpy as np
 
 from geo.ellipsoid import NM_M
 from geo.schedule import Schedule, from_epoch
-from planner.consumers import MainEngine
 from planner.flushing import ConsumptionSchedule
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG, Fuel
-from planner.system import FuelSystem
+from planner.ship.consumers import MainEngine
+from planner.ship.system import FuelSystem
 
 
 @dataclass(frozen=True, eq=False)

@@ -2,7 +2,7 @@
 
 Each function returns the numbered steps of one section of the procedure as
 plain strings (not yet escaped for reportlab), with the ship's own names and
-figures from :class:`planner.procedure.ProcedureFacts` written in: tanks,
+figures from :class:`planner.procedure.facts.ProcedureFacts` written in: tanks,
 circuits, fuels, the inlet limits, the modelled durations and viscosity path.
 :mod:`planner.documents.procedure_pdf` lays them out. Durations in running
 text are ``1 h 05 min``; in tables ``h:mm``.
@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from planner.procedure import CircuitFacts, ProcedureFacts
+from planner.procedure.facts import CircuitFacts, ProcedureFacts
 
 
 def hm(hours: float | None) -> str:

@@ -13,9 +13,9 @@ from pathlib import Path
 
 from geo.errors import InputError
 from planner.fuels import standard_volume_m3
-from planner.ship_file import load_ship
-from planner.system import FuelSystem, FuelSystemError
-from planner.voyage_file import Voyage, load_voyage
+from planner.ship.ship_file import load_ship
+from planner.ship.system import FuelSystem, FuelSystemError
+from planner.voyage.voyage_file import Voyage, load_voyage
 
 
 def is_voyage_file(path: str | Path) -> bool:

@@ -1,7 +1,7 @@
 """One circuit's changeover studied whole: sulphur, viscosity path, and the load table.
 
 Joins the flushing simulation (:mod:`planner.flushing`) with the inlet
-temperature and viscosity path (:mod:`planner.thermal`). Pure computation;
+temperature and viscosity path (:mod:`planner.ship.thermal`). Pure computation;
 the ``flush`` command and the voyage plan print it.
 """
 
@@ -13,8 +13,8 @@ import numpy as np
 
 from planner.flushing import CircuitSummary, FlushResult, flush, schedule_at
 from planner.flushing.schedule import ConsumptionSchedule
-from planner.system import FuelSystem
-from planner.thermal import InletPath, inlet_path, lead_needed_h
+from planner.ship.system import FuelSystem
+from planner.ship.thermal import InletPath, inlet_path, lead_needed_h
 
 TABLE_LOADS_PCT = (25.0, 50.0, 75.0, 100.0)
 CURVE_POINTS = 400
@@ -93,7 +93,7 @@ def duration_table(system: FuelSystem, circuit: str, from_: str, to: str, limit_
                    target_pct: float,
                    loads_pct: tuple[float, ...] = TABLE_LOADS_PCT) -> list[TableRow]:
     """The changeover duration against main-engine load (the table posted in the engine room)."""
-    from planner.consumers import MainEngine
+    from planner.ship.consumers import MainEngine
 
     mains = [c for c in system.consumers.values() if isinstance(c, MainEngine)]
     rows = []

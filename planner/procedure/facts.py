@@ -1,6 +1,6 @@
 """The facts of the ship's written changeover procedure (MARPOL Annex VI regulation 14.6).
 
-Pure computation over a :class:`planner.system.FuelSystem`: what the printed
+Pure computation over a :class:`planner.ship.system.FuelSystem`: what the printed
 procedure (:mod:`planner.documents.procedure_pdf`) and ``changeover procedure
 --json`` show, gathered in plain dataclasses so it is testable without
 reportlab.
@@ -11,8 +11,8 @@ reportlab.
   volumes in flow order with the flow through each at the reference load
   (on the regular fuel) and the time that volume holds, V / q;
 - for every circuit with a main engine, the changeover duration against
-  engine load (:func:`planner.flush_study.duration_table`) with the viscosity
-  path at each load (:func:`planner.flush_study.study`); for any other
+  engine load (:func:`planner.flushing.study.duration_table`) with the viscosity
+  path at each load (:func:`planner.flushing.study.study`); for any other
   circuit (boiler, generators) its one duration at its running rate;
 - the rule for the start: at least the time to the sulphur target at the
   load to be run, plus the planning margin, before the boundary.
@@ -26,12 +26,12 @@ from __future__ import annotations
 
 from dataclasses import asdict, dataclass, field
 
-from planner.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
-from planner.flush_study import TABLE_LOADS_PCT, default_tanks, duration_table, study
 from planner.flushing import schedule_at
-from planner.flushing.flows import circuit_flows
-from planner.system import TANK_IN_USE, FuelSystem, ShipIdentity
-from planner.thermal import InletWindow
+from planner.flushing.study import TABLE_LOADS_PCT, default_tanks, duration_table, study
+from planner.ship.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
+from planner.ship.flows import circuit_flows
+from planner.ship.system import TANK_IN_USE, FuelSystem, ShipIdentity
+from planner.ship.thermal import InletWindow
 
 DEFAULT_LIMIT_PCT = 0.10
 """Sulphur limit in an emission control area from 2015-01-01, % m/m (REFERENCE.md section 1)."""

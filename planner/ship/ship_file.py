@@ -1,4 +1,4 @@
-"""Load a ship file (TOML) into a :class:`planner.system.FuelSystem`.
+"""Load a ship file (TOML) into a :class:`planner.ship.system.FuelSystem`.
 
 The format is documented in the README ("The ship file") and annotated in
 ``areas_sample/ship.toml``. Tables: ``[ship]``, ``[fuels.NAME]``,
@@ -19,9 +19,9 @@ from typing import Any
 import numpy as np
 
 from geo.errors import InputError
-from planner.consumers import CONSUMER_KINDS, MainEngine, iso_demand_t_h
 from planner.fuels import Fuel
-from planner.system import (
+from planner.ship.consumers import CONSUMER_KINDS, MainEngine, iso_demand_t_h
+from planner.ship.system import (
     VALVE,
     Circuit,
     Flow,
@@ -33,7 +33,7 @@ from planner.system import (
     Stirred,
     Tank,
 )
-from planner.thermal import InletWindow
+from planner.ship.thermal import InletWindow
 
 MAX_FILE_BYTES = 1024 * 1024
 
@@ -349,7 +349,7 @@ def _link(r: _Reader, place: str, x: object) -> Link:
 
 def _check_pumps(r: _Reader, system: FuelSystem) -> None:
     """Every link flow must be >= 0 with main engines at 100 % MCR on the lightest valve fuel."""
-    from planner.flushing.flows import circuit_flows
+    from planner.ship.flows import circuit_flows
 
     for circuit in system.circuits.values():
         fuels = {f for t in circuit.tanks for f in system.tanks[t].content_m3}

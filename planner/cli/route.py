@@ -6,13 +6,11 @@ imported only here, and matplotlib only when a map is asked for.
 
 from __future__ import annotations
 
-from datetime import UTC, date, datetime, timezone
+from datetime import UTC, datetime, timezone
 from pathlib import Path
 from typing import Annotated
 
 import typer
-
-from planner.cli import app
 
 AreasOpt = Annotated[list[Path], typer.Option("--areas", "-a", help="Area GeoJSON file or folder "
                                               "of .geojson files (repeatable).")]
@@ -20,42 +18,6 @@ JsonOpt = Annotated[bool, typer.Option("--json", help="Print JSON (the documente
                                        "of tables.")]
 
 
-def ship_zone(tz: str | None, depart: str | None) -> timezone:
-    """The ship's time zone: ``--tz``, else the offset written on ``--depart``, else UTC."""
-    from planner.timefmt import parse_offset
-
-    if tz:
-        return parse_offset(tz)
-    if depart:
-        try:
-            written = datetime.fromisoformat(depart.strip().replace("z", "Z"))
-        except ValueError:
-            return UTC  # reported when --depart itself is parsed
-        if isinstance(written.tzinfo, timezone):
-            return written.tzinfo
-    return UTC
-
-
-def run_route_check(route_file: Path, areas: list[Path], depart: str | None, speed: float | None,
-                    on: str | None):
-    """Load the inputs and run the route check (no printing)."""
-    from geo.area_files import load_areas
-    from geo.compliance import check_route
-    from geo.path import route_path
-    from geo.route_loader import load_route
-    from geo.schedule import make_schedule
-    from planner.timefmt import parse_day, parse_moment
-
-    route = load_route(route_file)
-    area_list = load_areas(areas)
-    depart_utc = parse_moment(depart) if depart else None
-    day = parse_day(on) if on else date.today()
-    path = route_path(route)
-    schedule = make_schedule(path, depart_utc, speed)
-    return check_route(path, area_list, schedule, day)
-
-
-@app.command("route")
 def route_cmd(
     route_file: Annotated[Path, typer.Argument(help="Route file: CSV, GeoJSON, GPX or RTZ.")],
     areas: AreasOpt,
@@ -74,11 +36,12 @@ def route_cmd(
                                                  "and crossings.")] = None,
 ) -> None:
     """Where and when the route enters and leaves each area, and the limit on every stretch."""
-    from planner.outputs import dumps, write_json
-    from planner.route_report import route_geojson, route_json
+    from planner.common.outputs import dumps, write_json
+    from planner.voyage import run
+    from planner.voyage.route_report import route_geojson, route_json
 
-    zone = ship_zone(tz, depart)
-    check = run_route_check(route_file, areas, depart, speed, on)
+    zone = run.ship_zone(tz, depart)
+    check = run.run_route_check(route_file, areas, depart, speed, on)
     doc = route_json(check, zone)
     if map_png is not None:
         from planner.charts.route_map import draw_route_map
@@ -98,8 +61,8 @@ def route_cmd(
 def print_route_check(check, zone: timezone) -> None:
     """Tables of crossings, stretches and time inside each area."""
     from geo.position import format_position
-    from planner.console import console, table
-    from planner.timefmt import format_offset, format_ship, format_utc
+    from planner.cli.console import console, table
+    from planner.common.timefmt import format_offset, format_ship, format_utc
 
     con = console()
     path = check.path
@@ -143,7 +106,6 @@ def print_route_check(check, zone: timezone) -> None:
               "Annex VI and national law.[/dim]")
 
 
-@app.command("areas")
 def areas_cmd(
     paths: Annotated[list[Path], typer.Argument(help="Area GeoJSON files or folders.")],
     json_out: JsonOpt = False,
@@ -152,15 +114,15 @@ def areas_cmd(
     """List the control areas in files or folders, with their limits, dates and size."""
     from geo.area_files import load_areas
     from geo.area_measure import describe
-    from planner.outputs import dumps
-    from planner.timefmt import parse_day
+    from planner.common.outputs import dumps
+    from planner.common.timefmt import parse_day
 
     day = parse_day(on) if on else datetime.now(UTC).date()
     rows = [describe(a, day) for a in load_areas(paths)]
     if json_out:
         typer.echo(dumps({"on": day.isoformat(), "areas": rows}))
         return
-    from planner.console import console, table
+    from planner.cli.console import console, table
 
     t = table(f"Control areas (in force judged on {day.isoformat()})", [
         ("Name", "w"), ("Limit % m/m", "r"), ("From", "l"), ("Until", "l"), ("Edges", "l"),

@@ -1,8 +1,13 @@
 """The ``changeover`` command line.
 
-Each command lives in its own module (``planner.cmd_*``) and registers itself
-on :data:`app`. Bad input anywhere surfaces as :class:`geo.errors.InputError`:
-one line on standard error, exit status 2, no output written.
+Each command is a plain function in its own module (``planner.cli.route``,
+``planner.cli.plan``, ...); this module builds :data:`app` and registers them,
+so imports run one way (the commands never import this module). Command
+modules import only typer at their top; the computing packages, rich,
+matplotlib and reportlab are imported inside the commands that use them, so
+``changeover --help`` stays quick. Bad input anywhere surfaces as
+:class:`geo.errors.InputError`: one line on standard error, exit status 2,
+no output written.
 """
 
 from __future__ import annotations
@@ -12,6 +17,7 @@ import sys
 import typer
 
 from geo.errors import InputError
+from planner.cli import flush, log, plan, procedure, route
 
 app = typer.Typer(
     name="changeover",
@@ -23,10 +29,12 @@ app = typer.Typer(
     pretty_exceptions_enable=False,
 )
 
-
-def _register() -> None:
-    # commands register themselves on import
-    from planner import cmd_flush, cmd_log, cmd_plan, cmd_procedure, cmd_route  # noqa: F401
+app.command("flush")(flush.flush_cmd)
+app.command("plan")(plan.plan_cmd)
+app.command("procedure")(procedure.procedure_cmd)
+app.command("route")(route.route_cmd)
+app.command("areas")(route.areas_cmd)
+app.add_typer(log.log_app, name="log")
 
 
 def main() -> None:
@@ -38,7 +46,6 @@ def main() -> None:
     except RuntimeError as exc:
         sys.stderr.write(f"changeover: {exc}\n")
         sys.exit(1)
-    _register()
     try:
         app()
     except InputError as exc:
