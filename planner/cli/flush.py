@@ -7,6 +7,8 @@ from typing import Annotated
 
 import typer
 
+from planner.common.defaults import DEFAULT_MARGIN_H
+
 
 def _tanks(system, circuit: str, from_: str | None, to: str | None) -> tuple[str, str]:
     from geo.errors import InputError
@@ -217,7 +219,7 @@ def _h(x: float | None) -> str:
     return f"{x:.2f} h ({x * 60:.0f} min)"
 
 
-def _print(system, studies, tables, load, mc=None, margin_h: float = 1.0) -> None:
+def _print(system, studies, tables, load, mc=None, margin_h: float = DEFAULT_MARGIN_H) -> None:
     from planner.cli.console import console, table
 
     con = console()

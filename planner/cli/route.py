@@ -36,11 +36,12 @@ def route_cmd(
                                                  "and crossings.")] = None,
 ) -> None:
     """Where and when the route enters and leaves each area, and the limit on every stretch."""
+    from planner.cli.options import ship_zone
     from planner.common.outputs import dumps, write_json
     from planner.voyage import run
     from planner.voyage.route_report import route_geojson, route_json
 
-    zone = run.ship_zone(tz, depart)
+    zone = ship_zone(tz, depart)
     check = run.run_route_check(route_file, areas, depart, speed, on)
     doc = route_json(check, zone)
     if map_png is not None:

@@ -26,21 +26,13 @@ from __future__ import annotations
 
 from dataclasses import asdict, dataclass, field
 
+from planner.common.defaults import DEFAULT_LIMIT_PCT, DEFAULT_MARGIN_H, DEFAULT_TARGET_FRACTION
 from planner.flushing import schedule_at
 from planner.flushing.study import TABLE_LOADS_PCT, default_tanks, duration_table, study
 from planner.ship.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
 from planner.ship.flows import circuit_flows
 from planner.ship.system import TANK_IN_USE, FuelSystem, ShipIdentity
 from planner.ship.thermal import InletWindow
-
-DEFAULT_LIMIT_PCT = 0.10
-"""Sulphur limit in an emission control area from 2015-01-01, % m/m (REFERENCE.md section 1)."""
-
-DEFAULT_TARGET_FRACTION = 0.9
-"""Aim at this fraction of the limit (the planning margin on sulphur, as the voyage file)."""
-
-DEFAULT_MARGIN_H = 1.0
-"""Be compliant this long before the boundary, h (the voyage file's default)."""
 
 
 @dataclass(frozen=True)

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+from planner.common.defaults import DEFAULT_MARGIN_H
 from planner.uncertainty.montecarlo import QUANTILES, CircuitUncertainty
 
 METHOD = (
@@ -32,7 +33,7 @@ def leads_to_show(u: CircuitUncertainty, margin_h: float) -> list[float]:
     return out
 
 
-def uncertainty_json(u: CircuitUncertainty, margin_h: float = 1.0) -> dict:
+def uncertainty_json(u: CircuitUncertainty, margin_h: float = DEFAULT_MARGIN_H) -> dict:
     """The document of one circuit's Monte Carlo (keys are added to, never renamed)."""
     lo, hi = u.lead_at_confidence_interval_h
     sens = u.sensitivity

@@ -7,24 +7,8 @@ and writes the result. Nothing here imports rich, matplotlib or reportlab.
 from __future__ import annotations
 
 from collections.abc import Callable
-from datetime import UTC, date, datetime, timezone
+from datetime import date
 from pathlib import Path
-
-
-def ship_zone(tz: str | None, depart: str | None) -> timezone:
-    """The ship's time zone: ``--tz``, else the offset written on ``--depart``, else UTC."""
-    from planner.common.timefmt import parse_offset
-
-    if tz:
-        return parse_offset(tz)
-    if depart:
-        try:
-            written = datetime.fromisoformat(depart.strip().replace("z", "Z"))
-        except ValueError:
-            return UTC  # reported when --depart itself is parsed
-        if isinstance(written.tzinfo, timezone):
-            return written.tzinfo
-    return UTC
 
 
 def run_route_check(route_file: Path, areas: list[Path], depart: str | None, speed: float | None,

@@ -39,6 +39,12 @@ from datetime import datetime, timezone
 from pathlib import Path
 
 from geo.errors import InputError
+from planner.common.defaults import (
+    DEFAULT_MARGIN_H,
+    DEFAULT_TARGET_FRACTION,
+    MAX_CONFIDENCE,
+    MIN_CONFIDENCE,
+)
 from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
 
@@ -72,8 +78,8 @@ class Voyage:
     tanks: dict[str, TankContent] = field(default_factory=dict)
     zone_changes: tuple[tuple[datetime, timezone], ...] = ()
     caution_zones: Path | None = None
-    time_margin_h: float = 1.0
-    sulphur_target_fraction: float = 0.9
+    time_margin_h: float = DEFAULT_MARGIN_H
+    sulphur_target_fraction: float = DEFAULT_TARGET_FRACTION
     confidence: float | None = None
 
     def fuel(self, name: str) -> Fuel:
@@ -215,10 +221,11 @@ def load_voyage(path: str | Path) -> Voyage:
         tanks[tname] = TankContent(fuel, vol, temp)
     m = _table(doc, "margins", file, required=False)
     margin_h = _number(m, "time_before_boundary_h", file, "margins", required=False,
-                       default=1.0, low=0.0, high=48.0)
-    frac = _number(m, "sulphur_target_fraction", file, "margins", required=False, default=0.9,
-                   low=0.1, high=1.0)
-    conf = _number(m, "confidence", file, "margins", required=False, low=0.5, high=0.9999)
+                       default=DEFAULT_MARGIN_H, low=0.0, high=48.0)
+    frac = _number(m, "sulphur_target_fraction", file, "margins", required=False,
+                   default=DEFAULT_TARGET_FRACTION,                   low=0.1, high=1.0)
+    conf = _number(m, "confidence", file, "margins", required=False, low=MIN_CONFIDENCE,
+                   high=MAX_CONFIDENCE)
     return Voyage(file, _text(v, "name", file, "voyage", required=False) or p.stem, ship, route,
                   areas, depart, tz, speed, fuels, tanks, tuple(changes), cautions, margin_h,
                   frac, conf)

@@ -1,0 +1,25 @@
+"""Planning defaults shared by the voyage file, the procedure and the commands.
+
+One definition each, so a command-line default, a ship-file default and the
+printed procedure can never disagree.
+"""
+
+from __future__ import annotations
+
+DEFAULT_LIMIT_PCT = 0.10
+"""Sulphur limit in an emission control area from 2015-01-01 [% m/m] ([MARPOL-VI] reg. 14)."""
+
+DEFAULT_TARGET_FRACTION = 0.9
+"""Flush to this fraction of the limit [-]: the planning margin on sulphur (common practice)."""
+
+DEFAULT_MARGIN_H = 1.0
+"""Be compliant this long before the boundary [h] (common practice)."""
+
+MIN_CONFIDENCE = 0.5
+"""Lowest confidence a Monte Carlo start may be asked for [-] (below it is not a margin)."""
+
+MAX_CONFIDENCE = 0.9999
+"""Highest confidence [-]: beyond it the Monte Carlo tail has too few samples to mean much."""
+
+MIN_SAMPLES = 100
+"""Fewest Monte Carlo samples per changeover [-]."""

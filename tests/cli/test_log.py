@@ -1,0 +1,225 @@
+"""``changeover log ...`` end to end, as the crew runs it: the sample voyage's changeovers.
+
+Refusals: exit status 2, one line on standard error, and the journal unchanged.
+"""
+
+from __future__ import annotations
+
+import csv
+import hashlib
+import io
+import json
+import os
+import shutil
+import sqlite3
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from planner.journal.canonical import GENESIS_HASH, canonical_json
+from tests.helpers.paths import ROOT
+
+PLAN = ROOT / "tests" / "data" / "journal" / "plan_sample.json"
+VOYAGE = "V27-05 Aldmere-Skarvik"
+
+
+def run(journal: Path | None, *args: str, env_journal: bool = True) -> subprocess.CompletedProcess:
+    env = {k: v for k, v in os.environ.items() if not k.startswith("CHANGEOVER_")}
+    env.update(CHANGEOVER_RANK="Chief Engineer", CHANGEOVER_NAME="R. Halvorsen")
+    if journal is not None and env_journal:
+        env["CHANGEOVER_JOURNAL"] = str(journal)
+    return subprocess.run([sys.executable, "-m", "planner", "log", *args], cwd=ROOT, env=env,
+                          capture_output=True, text=True, timeout=60)
+
+
+def ok(journal: Path, *args: str) -> str:
+    r = run(journal, *args)
+    assert r.returncode == 0, r.stderr
+    return r.stdout
+
+
+@pytest.fixture(scope="module")
+def flow(tmp_path_factory) -> dict:
+    d = tmp_path_factory.mktemp("flow")
+    j = d / "aurora.db"
+    out = {"journal": j, "dir": d}
+    out["init"] = ok(j, "init", "--ship", "MV Aurora Tern", "--imo", "IMO 1234567", "--tz",
+                     "+12:00", "--tank", "MGO service", "--tank", "MGO settling",
+                     "--tank", "MGO storage 3S")
+    ok(j, "fuel", "MGO", "--grade", "DMA", "--sulphur", "0.07", "--density", "848.5",
+       "--bdn", "ALD-2027-0528-01")
+    ok(j, "fuel", "VLSFO", "--grade", "RMG 380", "--sulphur", "0.48", "--density", "989.2",
+       "--bdn", "ALD-2027-0528-02")
+    out["start"] = ok(j, "start", "--voyage", VOYAGE, "--from-plan", str(PLAN),
+                      "--changeover", "1", "--at", "2027-05-31T17:35+12:00",
+                      "--pos", "39°19.9'S 176°24.8'E", "--fuel", "MGO", "--from-fuel", "VLSFO",
+                      "--rank", "2nd Engineer", "--name", "T. Okafor")
+    out["complete"] = ok(j, "complete", "--from-plan", str(PLAN), "--changeover", "1",
+                         "--at", "2027-05-31T10:05Z", "--pos", "39 11.6 S 178 00.4 E",
+                         "--tank", "MGO service=24.6@38", "--tank", "MGO settling=31.2@30",
+                         "--tank", "MGO storage 3S=92.7@22")
+    out["correct"] = ok(j, "correct", "5", "--reason", "settling tank sounding misread",
+                        "--tank", "MGO service=24.6@38", "--tank", "MGO settling=13.2@30",
+                        "--tank", "MGO storage 3S=92.7@22")
+    ok(j, "sample", "--number", "MR-0531-1", "--seal", "A 448812", "--point", "ME inlet",
+       "--fuel", "MGO", "--at", "2027-05-31T10:30Z")
+    out["back"] = ok(j, "back", "--from-plan", str(PLAN), "--changeover", "2", "--as-planned",
+                     "--fuel", "VLSFO", "--tank", "MGO service=18.1@37",
+                     "--tank", "MGO storage 3S=70.3@22")
+    ok(j, "back-complete", "--at", "2027-06-01T11:40Z", "--pos", "-38.8633, -175.1367",
+       "--fuel", "VLSFO")
+    ok(j, "note", "Engine room manned throughout; no alarms.", "--at", "2027-06-01T12:00Z")
+    shutil.copy(j, d / "snapshot.db")
+    return out
+
+
+def test_entries_as_written(flow):
+    assert "entry 1 written: journal set-up" in flow["init"]
+    assert "ship's time 2027-05-31 17:35 (+12:00)" in flow["start"]
+    c = flow["complete"]
+    assert "entry 5 written: changeover to compliant fuel completed (before entry)" in c
+    assert "39°11.6'S 178°00.4'E" in c and "Meridian Reach ECA" in c and "follows entry 4" in c
+    assert "MGO service 24.600 m³ @ 38.0 °C" in c and "fuel to: MGO (DMA), 0.07 % m/m S" in c
+    assert "planned (plan_sample.json, changeover 1): 2027-05-31 10:20Z; 15 min earlier" in c
+    assert "planned boundary entry 2027-05-31 11:46Z" in c and "completed 1 h 42 min before" in c
+    assert "correction of entry 5" in flow["correct"] and "13.200 m³" in flow["correct"]
+    b = flow["back"]
+    assert "time and position confirmed from the plan" in b
+    assert "fuel from: MGO" in b and "fuel to: VLSFO" in b
+    assert "commenced 16 min after it" in b
+
+
+def test_verify_show_and_filters(flow):
+    j = flow["journal"]
+    v = ok(j, "verify")
+    assert "10 entries, chain intact" in v
+    last = v.split("hash ")[-1].strip()
+    assert "entries 1 to 10 are as they were" in ok(j, "verify", "--hash", last)
+    doc = json.loads(ok(j, "show", "--json", "--kind", "complete", "--kind", "correction"))
+    assert [e["seq"] for e in doc["entries"]] == [5, 6]
+    assert doc["entries"][0]["status"] == "corrected by 6"
+    assert doc["entries"][1]["entry"]["correction"]["corrects"] == 5
+    doc = json.loads(ok(j, "show", "--json", "--since", "2027-06-01", "--area",
+                        "Meridian Reach ECA"))
+    assert [e["seq"] for e in doc["entries"]] == [8, 9]
+    table = ok(j, "show", "--voyage", VOYAGE)
+    assert "MV Aurora Tern (IMO 1234567)" in table and "corrected by 6" in table
+
+
+def test_export_json_can_be_checked_without_the_program(flow, tmp_path):
+    j = flow["journal"]
+    out = tmp_path / "journal.json"
+    assert "10 entries" in ok(j, "export", "--out", str(out))
+    doc = json.loads(out.read_text(encoding="utf-8"))
+    assert doc["verified"] is True and doc["count"] == 10
+    prev = GENESIS_HASH
+    for item in doc["entries"]:  # the rule stated in doc["hash_rule"]
+        body = canonical_json(item["entry"])
+        h = hashlib.sha256(f"{prev}\n{item['seq']}\n{body}".encode()).hexdigest()
+        assert h == item["hash"] and item["prev_hash"] == prev
+        prev = h
+    assert prev == doc["last_hash"]
+
+
+def test_export_csv(flow, tmp_path):
+    out = tmp_path / "journal.csv"
+    ok(flow["journal"], "export", "--out", str(out), "--voyage", VOYAGE)
+    rows = list(csv.DictReader(io.StringIO(out.read_text(encoding="utf-8"))))
+    done = next(r for r in rows if r["seq"] == "5")
+    assert done["kind"] == "changeover_completed" and done["corrected_by"] == "6"
+    assert done["position"] == "39°11.6'S 178°00.4'E" and done["area"] == "Meridian Reach ECA"
+    assert "MGO settling: 31.200 m³ @ 30.0 °C" in done["tanks"]
+    assert done["planned_time_utc"] == "2027-05-31T10:20:00Z"
+    assert float(done["total_volume15_m3"]) == pytest.approx(147.094, abs=0.001)
+    assert next(r for r in rows if r["seq"] == "6")["corrects"] == "5"
+
+
+def test_print_pdf(flow, tmp_path):
+    out = tmp_path / "record.pdf"
+    r = run(flow["journal"], "print", "--pdf", str(out), "--voyage", VOYAGE)
+    assert r.returncode == 0, r.stderr
+    assert "3 changeovers" not in r.stdout and "2 changeovers" in r.stdout
+    assert out.read_bytes().startswith(b"%PDF")
+
+
+@pytest.mark.parametrize(("args", "needle"), [
+    (["complete", "--at", "2027-06-01T22:20Z", "--pos", "38°44.0'S 171°41.5'W", "--area",
+      "Skarvik Basin ECA", "--fuel", "MGO", "--tank", "MGO servce=23.9@38"],
+     "--tank: 'MGO servce': expected one of the journal's tanks"),
+    (["tanks", "--fuel", "MGO", "--tank", "MGO service=-3@30"], "a volume of 0 m³ or more"),
+    (["start", "--pos", "95°00.0'N 010°00.0'E", "--area", "X", "--fuel", "MGO"],
+     "(latitude \"95°00.0'N\": at most 90°)"),
+    (["start", "--pos", "45.0, 181.5", "--area", "X", "--fuel", "MGO"],
+     "(longitude within ±180°)"),
+    (["back-complete", "--at", "2027-06-01T06:00Z", "--pos", "38 51.8 S 175 08.2 W", "--fuel",
+      "VLSFO", "--follows", "8"], "expected a time at or after the start of this changeover "
+                                 "(entry 8, 2027-06-01 06:30Z)"),
+    (["correct", "99", "--reason", "typo", "--at", "2027-06-01T06:00Z"],
+     "correct: entry number: 99: expected the number of an entry in this journal (1 to 10)"),
+    (["correct", "2", "--reason", "typo", "--at", "2027-06-01T06:00Z"], "superseded"),
+    (["tanks", "--fuel", "HFO", "--tank", "MGO service=3@30"], "--fuel: 'HFO'"),
+    (["start", "--at", "2027-06-01 17:10", "--pos", "1 1", "--area", "X", "--fuel", "MGO"],
+     "--at: '2027-06-01 17:10': expected a time with its UTC offset"),
+    (["start", "--from-plan", str(PLAN), "--changeover", "2", "--as-planned", "--fuel", "MGO"],
+     "--changeover: 2: expected a to_compliant changeover of the plan"),
+    (["complete", "--as-planned", "--pos", "1 1"], "--from-plan: missing"),
+    (["note", "x", "--tz", "+15:00"], "--tz: '+15:00'"),
+    (["show", "--kind", "bunkering"], "--kind: 'bunkering'"),
+    (["verify", "--hash", "abc"], "--hash: 'abc': expected a SHA-256 hash"),
+    (["export", "--format", "xml"], "--format: 'xml': expected csv or json"),
+    (["print"], "--pdf: missing"),
+    (["fuel", "ULSFO", "--density", "920", "--bdn", "X-1"], "--sulphur: missing"),
+    (["fuel", "ULSFO", "--sulphur", "0.09", "--density", "1100", "--bdn", "X-1"],
+     "--density: 1100.0: expected kg/m³ at 15 °C"),
+])
+def test_bad_input_exits_2_one_line_nothing_written(flow, tmp_path, args, needle):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    before = j.read_bytes()
+    r = run(j, *args)
+    assert r.returncode == 2, (r.stdout, r.stderr)
+    lines = r.stderr.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("changeover: error: "), r.stderr
+    assert needle in lines[0], lines[0]
+    assert r.stdout == ""
+    assert j.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["ship.db"]
+
+
+def test_journal_path_refusals(tmp_path):
+    r = run(None, "show")
+    assert r.returncode == 2
+    assert r.stderr.strip() == ("changeover: error: --journal: missing: expected the journal "
+                                "file or the ship file (or set CHANGEOVER_JOURNAL or "
+                                "CHANGEOVER_SHIP)")
+    r = run(tmp_path / "none.db", "show")
+    assert r.returncode == 2 and "existing journal file" in r.stderr
+    bad = tmp_path / "new.db"
+    r = run(bad, "init", "--ship", "MV X", "--imo", "1234568", "--tz", "Z")
+    assert r.returncode == 2 and len(r.stderr.strip().splitlines()) == 1
+    assert "--imo: '1234568': expected a 7-digit IMO number" in r.stderr
+    assert not bad.exists() and list(tmp_path.iterdir()) == []
+    r = run(bad, "init", "--ship", "MV X", "--imo", "1234567", "--tz", "Z", "--journal",
+            str(bad), env_journal=False)
+    assert r.returncode == 0 and bad.exists()
+    r = run(bad, "init", "--ship", "MV Y", "--imo", "1234567", "--tz", "Z")
+    assert r.returncode == 2 and "never overwritten" in r.stderr
+
+
+def test_verify_fails_naming_the_entry_after_tampering(flow, tmp_path):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    conn = sqlite3.connect(j)
+    conn.executescript("DROP TRIGGER entries_never_updated;")
+    conn.execute("UPDATE entries SET body = json_set(body, '$.record.details.tanks[1].volume_m3',"
+                 " 3.2) WHERE seq = 6")
+    conn.commit()
+    conn.close()
+    r = run(j, "verify")
+    assert r.returncode == 1
+    assert "FAILED verification" in r.stdout
+    assert "entry 6: its content does not match its hash" in r.stdout
+    doc = json.loads(run(j, "verify", "--json").stdout)
+    assert doc["ok"] is False and {p["seq"] for p in doc["problems"]} == {6}

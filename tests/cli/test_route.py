@@ -1,0 +1,135 @@
+"""``changeover route`` and ``changeover areas`` end to end, as a user runs them.
+
+The JSON keys checked are the contract in DESIGN.md. Positions are checked
+against the sample areas' own vertices (the route crosses meridian edges
+at 170°E, 173°E, 175°E, 178°E, 178.5°E, 176°W and 171°W).
+"""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from tests.helpers.paths import ROOT
+
+SAMPLE = ROOT / "areas_sample"
+ROUTE = SAMPLE / "aldmere_to_skarvik.csv"
+
+
+def run(*args: str, cwd: Path = ROOT) -> subprocess.CompletedProcess:
+    return subprocess.run([sys.executable, "-m", "planner", *args], cwd=cwd,
+                          capture_output=True, text=True, timeout=120)
+
+
+@pytest.fixture(scope="module")
+def timed() -> dict:
+    r = run("route", str(ROUTE), "--areas", str(SAMPLE), "--depart", "2027-05-30T06:00+12:00",
+            "--json")
+    assert r.returncode == 0, r.stderr
+    return json.loads(r.stdout)
+
+
+def test_route_json_contract(timed):
+    assert set(timed) >= {"route", "crossings", "stretches", "areas"}
+    assert set(timed["route"]) >= {"distance_nm", "legs"}
+    assert timed["route"]["legs"] == 4
+    for c in timed["crossings"]:
+        assert set(c) >= {"area", "event", "leg", "lat", "lon", "distance_nm", "time_utc",
+                          "in_force"}
+        assert c["event"] in ("enter", "exit")
+    d = [c["distance_nm"] for c in timed["crossings"]]
+    assert d == sorted(d)
+    for s in timed["stretches"]:
+        assert set(s) >= {"from_nm", "to_nm", "limit_pct", "areas"}
+    for a in timed["areas"]:
+        assert set(a) >= {"name", "inside_nm", "inside_h"}
+
+
+def test_sample_events(timed):
+    events = [(c["area"], c["event"], round(c["lon"], 9)) for c in timed["crossings"]]
+    assert events == [
+        ("Corran Sea ECA", "enter", 170.0), ("Corran Sea ECA", "exit", 173.0),  # hole
+        ("Corran Sea ECA", "enter", 175.0), ("Corran Sea ECA", "exit", 178.0),
+        ("Meridian Reach ECA", "enter", 178.5), ("Meridian Reach ECA", "exit", -176.0),
+        ("Skarvik Basin ECA", "enter", -171.0),
+    ]
+    assert all(c["in_force"] for c in timed["crossings"])
+    assert all(c["time_utc"].endswith("Z") for c in timed["crossings"])
+    stretches = timed["stretches"]
+    assert stretches[0]["from_nm"] == 0.0
+    assert stretches[-1]["to_nm"] == pytest.approx(timed["route"]["distance_nm"])
+    assert [s["limit_pct"] for s in stretches] == [0.5, 0.1, 0.5, 0.1, 0.5, 0.1, 0.5, 0.1]
+    for a, b in zip(stretches, stretches[1:], strict=False):
+        assert a["to_nm"] == b["from_nm"]
+
+
+def test_without_times_the_date_decides():
+    r = run("route", str(ROUTE), "--areas", str(SAMPLE), "--on", "2027-01-01", "--json")
+    assert r.returncode == 0, r.stderr
+    doc = json.loads(r.stdout)
+    sk = [c for c in doc["crossings"] if c["area"] == "Skarvik Basin ECA"]
+    assert [c["in_force"] for c in sk] == [False]  # in force from 2027-06-01
+    assert all(c["time_utc"] is None for c in doc["crossings"])
+    assert doc["stretches"][-1]["limit_pct"] == 0.5
+    assert all(a["inside_h"] is None for a in doc["areas"])
+
+
+def test_tables_geojson_and_map(tmp_path):
+    gj, png = tmp_path / "r.geojson", tmp_path / "m.png"
+    r = run("route", str(ROUTE), "--areas", str(SAMPLE), "--depart", "2027-05-30T06:00+12:00",
+            "--geojson", str(gj), "--map", str(png))
+    assert r.returncode == 0, r.stderr
+    assert "Boundary crossings" in r.stdout and "39°54.0'S 170°00.0'E" in r.stdout
+    assert "Ship's time +12:00" in r.stdout and "nm" in r.stdout
+    doc = json.loads(gj.read_text())
+    kinds = [f["properties"]["kind"] for f in doc["features"]]
+    assert kinds.count("route") == 1 and kinds.count("crossing") == 7
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+@pytest.mark.parametrize("args, needle", [
+    (["--depart", "2027-05-30 06:00"], "--depart"),
+    (["--depart", "2027-05-30T06:00Z", "--speed", "-3"], "--speed"),
+    (["--tz", "+25:00"], "--tz"),
+    (["--on", "2027-13-01"], "--on"),
+])
+def test_bad_options_exit_2_and_write_nothing(tmp_path, args, needle):
+    gj = tmp_path / "r.geojson"
+    r = run("route", str(ROUTE), "--areas", str(SAMPLE), "--geojson", str(gj), *args)
+    assert r.returncode == 2
+    lines = r.stderr.strip().splitlines()
+    assert len(lines) == 1 and needle in lines[0], r.stderr
+    assert not gj.exists() and list(tmp_path.iterdir()) == []
+
+
+def test_bad_area_file_names_file_and_place(tmp_path):
+    bad = tmp_path / "bad.geojson"
+    bad.write_text(json.dumps({"type": "Feature", "properties": {
+        "name": "B", "sulphur_limit_pct": "low", "effective_from": "2020-01-01"},
+        "geometry": {"type": "Polygon", "coordinates": [[[0, 0], [1, 0], [1, 1], [0, 0]]]}}))
+    r = run("route", str(ROUTE), "--areas", str(bad))
+    assert r.returncode == 2
+    assert "bad.geojson" in r.stderr and "sulphur_limit_pct" in r.stderr
+    assert len(r.stderr.strip().splitlines()) == 1
+
+
+def test_missing_route_file():
+    r = run("route", "nowhere.csv", "--areas", str(SAMPLE))
+    assert r.returncode == 2 and "nowhere.csv" in r.stderr
+
+
+def test_areas_listing():
+    r = run("areas", str(SAMPLE), "--on", "2027-01-01", "--json")
+    assert r.returncode == 0, r.stderr
+    doc = json.loads(r.stdout)
+    names = {a["name"]: a for a in doc["areas"]}
+    assert set(names) == {"Corran Sea ECA", "Meridian Reach ECA", "Skarvik Basin ECA"}
+    assert names["Skarvik Basin ECA"]["in_force_today"] is False
+    assert names["Corran Sea ECA"]["in_force_today"] is True
+    assert all(a["area_km2"] > 1e5 for a in doc["areas"])
+    table = run("areas", str(SAMPLE))
+    assert table.returncode == 0 and "km²" in table.stdout
