@@ -3,8 +3,9 @@
 Rings are lists of ``(lon, lat)`` vertices in degrees, open (the closing
 vertex of the GeoJSON ring removed). How consecutive vertices are joined is
 the area's ``edges``: ``"geodesic"`` (the default, as MARPOL Annex VI
-Appendix VII defines its boundaries), ``"rhumb"`` or ``"lonlat"`` (straight
-in longitude and latitude, the plain RFC 7946 reading).
+Appendix VII defines its boundaries [MARPOL-VI] [P]), ``"rhumb"`` or
+``"lonlat"`` (straight in longitude and latitude, the plain RFC 7946 reading
+[RFC-7946]).
 
 An area is in force from 00:00 UTC on ``effective_from`` up to the end
 (24:00 UTC) of ``effective_until`` when that is given.

@@ -1,4 +1,4 @@
-"""Load sulphur control areas from GeoJSON files (RFC 7946).
+"""Load sulphur control areas from GeoJSON files (RFC 7946 [RFC-7946] [P]).
 
 Each path is a ``.geojson`` / ``.json`` file or a folder (its ``*.geojson``
 files, sorted by name). A file holds a Feature or a FeatureCollection whose
@@ -33,7 +33,7 @@ from datetime import date
 from numbers import Real
 from pathlib import Path
 
-from geo.area import EDGE_KINDS, Area, Polygon
+from geo.area import EDGE_KINDS, Area, Polygon, Ring
 from geo.area_checks import Text, check_area
 from geo.errors import InputError
 
@@ -231,7 +231,8 @@ def _date(path: Path, place: str, props: dict, key: str, *, required: bool) -> d
     )
 
 
-def _geometry(path: Path, place: str, geom: object):
+def _geometry(path: Path, place: str,
+              geom: object) -> tuple[tuple[Polygon, ...], dict[tuple[int, int], list[int]]]:
     """Polygons of a Polygon or MultiPolygon, and the file's vertex numbers per stored vertex."""
     kind = geom.get("type") if isinstance(geom, dict) else None
     coords = geom.get("coordinates") if isinstance(geom, dict) else None
@@ -263,7 +264,7 @@ def _geometry(path: Path, place: str, geom: object):
     return tuple(polygons), numbers
 
 
-def _ring(path: Path, where: str, ring: object):
+def _ring(path: Path, where: str, ring: object) -> tuple[Ring, list[int]]:
     """An open ring of (lon, lat) from a closed GeoJSON ring, and each vertex's number (1-based)."""
     if not isinstance(ring, list):
         raise InputError(path, where, Text(type(ring).__name__), "a list of [lon, lat] positions")

@@ -1,16 +1,18 @@
 """The route check: crossings with their times, the limit on every stretch, time inside.
 
 Joins :mod:`geo.crossings` (where), :mod:`geo.schedule` (when) and the
-areas' dates and the global cap (:mod:`geo.limits`). On each stretch the
-limit is the strictest among the areas the ship is inside *and* that are in
-force at that moment, else the global cap of the day. With a schedule,
-moments when an area comes into or goes out of force, or the global cap
-changes, split the stretches at the place the ship is then; without one,
-everything is judged on one date (``on``).
+areas' dates and the global cap (:mod:`geo.limits`) of MARPOL Annex VI
+regulation 14 [MARPOL-VI] [P]. On each stretch the limit is the strictest
+among the areas the ship is inside *and* that are in force at that moment,
+else the global cap of the day. With a schedule, moments when an area comes
+into or goes out of force, or the global cap changes, split the stretches at
+the place the ship is then; without one, everything is judged on one date
+(``on``).
 """
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 from datetime import date, datetime
 
@@ -27,7 +29,11 @@ from geo.schedule import Schedule, from_epoch, to_epoch
 
 @dataclass(frozen=True)
 class TimedCrossing:
-    """A crossing with its time (None without a schedule) and whether the area is in force."""
+    """A crossing with its moment and whether the area is in force.
+
+    ``time_utc`` is a UTC datetime (None without a schedule); ``limit_pct``
+    [% m/m] is the limit on the stretch just after the crossing.
+    """
 
     crossing: Crossing
     time_utc: datetime | None
@@ -37,7 +43,12 @@ class TimedCrossing:
 
 @dataclass(frozen=True)
 class Stretch:
-    """A part of the route under one limit. Distances in metres along the route."""
+    """A part of the route under one limit.
+
+    ``from_m``, ``to_m`` [m] along the route; ``limit_pct`` [% m/m]; ``areas``
+    the names of the areas in force there; ``from_utc``, ``to_utc`` UTC
+    datetimes when the ship reaches its ends (None without a schedule).
+    """
 
     from_m: float
     to_m: float
@@ -48,16 +59,18 @@ class Stretch:
 
     @property
     def from_nm(self) -> float:
+        """Start along the route [nm]."""
         return self.from_m / NM_M
 
     @property
     def to_nm(self) -> float:
+        """End along the route [nm]."""
         return self.to_m / NM_M
 
 
 @dataclass(frozen=True)
 class AreaPassage:
-    """Distance (nm) and hours (None without a schedule) inside one area."""
+    """Distance [nm] and duration [h] (None without a schedule) inside one area."""
 
     area: Area
     inside_nm: float
@@ -66,7 +79,11 @@ class AreaPassage:
 
 @dataclass(frozen=True, eq=False)
 class RouteCheck:
-    """Everything the master asks of a route and a set of areas."""
+    """Everything the master asks of a route and a set of areas.
+
+    ``on`` is the UTC calendar day used to judge which areas are in force
+    when there is no schedule.
+    """
 
     path: RoutePath
     schedule: Schedule | None
@@ -77,11 +94,14 @@ class RouteCheck:
     passages: tuple[AreaPassage, ...]
 
     def limit_at(self, distance_m: float) -> float:
-        """The limit (% m/m) at a distance along the route (the stretch that holds it)."""
+        """The limit [% m/m] at ``distance_m`` [m] along the route (the stretch that holds it).
+
+        A distance at the join of two stretches belongs to the later one.
+        """
         return _limit_at(self.stretches, distance_m)
 
 
-def _limit_at(stretches, distance_m: float) -> float:
+def _limit_at(stretches: Sequence[Stretch], distance_m: float) -> float:
     for st in stretches:
         if distance_m < st.to_m:
             return st.limit_pct
@@ -104,10 +124,52 @@ def _regime_moments(areas: list[Area]) -> list[datetime]:
 
 def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, on: date,
                 shapes: list[AreaShape] | None = None) -> RouteCheck:
-    """Crossings, stretches and time inside for a route against areas.
+    """Crossings with their times, the limit on every stretch, and time inside each area.
 
-    ``on`` is the date used when there is no schedule. ``shapes`` may be
-    passed when already built (one per area, same order).
+    Parameters
+    ----------
+    path : RoutePath
+        The route's legs.
+    areas : list of Area
+        The control areas, with their limits and dates in force.
+    schedule : Schedule or None
+        Times along the route; None judges everything on the day ``on``.
+    on : date
+        UTC calendar day used when there is no schedule (an area is in force
+        if it is in force at any time that day; the global cap of that day).
+    shapes : list of AreaShape, optional
+        The areas' plane geometry when already built (one per area, same order).
+
+    Returns
+    -------
+    RouteCheck
+        Tracks per area; crossings sorted by distance (an exit before an entry
+        at one place), each with its UTC datetime; stretches [m] with their
+        limit [% m/m] and UTC datetimes; passages with distance [nm] and
+        duration [h] inside each area.
+
+    Notes
+    -----
+    With a schedule, the stretches are split where the ship is when an area
+    comes into force (00:00 UTC on ``effective_from``), goes out of force
+    (24:00 UTC on ``effective_until``) or the global cap changes (00:00 UTC,
+    [MARPOL-VI] [P]); each stretch is judged at its midpoint's moment.
+
+    Examples
+    --------
+    Due north along 5°E from the equator at 10 kn on 2019-12-31T12:00Z: the
+    global cap falls from 3.50 % to 0.50 % at midnight UTC [MARPOL-VI] [P],
+    12 h × 10 kn = 120 nm out:
+
+    >>> from datetime import UTC, datetime
+    >>> from geo.path import route_path
+    >>> from geo.route import Route, Waypoint
+    >>> from geo.schedule import make_schedule
+    >>> path = route_path(Route("m", (Waypoint("A", 0.0, 5.0), Waypoint("B", 10.0, 5.0))))
+    >>> sched = make_schedule(path, datetime(2019, 12, 31, 12, tzinfo=UTC), 10.0)
+    >>> check = check_route(path, [], sched, date(2019, 12, 31))
+    >>> [(round(st.from_nm, 6), st.limit_pct) for st in check.stretches]
+    [(0.0, 3.5), (120.0, 0.5)]
     """
     shapes = shapes if shapes is not None else [area_shape(a) for a in areas]
     tracks = [track_area(path, s) for s in shapes]
@@ -115,7 +177,7 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
     for t in tracks:
         breaks.extend(t.breaks_m.tolist())
     if schedule is not None:
-        t0, t1 = schedule.knot_s[0], schedule.knot_s[-1]
+        t0, t1 = schedule.knot_epoch_s[0], schedule.knot_epoch_s[-1]
         for m in _regime_moments(areas):
             e = to_epoch(m)
             if t0 < e < t1:
@@ -124,7 +186,7 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
     mids = 0.5 * (edges[:-1] + edges[1:])
     inside = np.array([_inside_at(t, mids) for t in tracks]).reshape(len(tracks), len(mids))
 
-    def rule(d: np.ndarray) -> list:
+    def rule(d: np.ndarray) -> list[datetime] | list[date]:
         if schedule is not None:
             return [from_epoch(s) for s in schedule.epoch_at(d)]
         return [on] * len(d)

@@ -5,14 +5,15 @@ area edges (geodesic, rhumb, lonlat), so the crossing solver treats every
 leg type × edge type alike. Each curve is evaluated at a parameter ``t``:
 
 - geodesic and rhumb: ``t`` is the distance from the start in metres, exact
-  (pyproj.Geod for geodesics, :mod:`geo.rhumb` for rhumb lines);
+  to round-off (pyproj.Geod for geodesics [KARNEY-2013] [P], :mod:`geo.rhumb`
+  for rhumb lines [KARNEY-RHUMB] [P]);
 - lonlat: longitude and latitude linear in ``t`` over ``[0, length_m]``,
   where ``length_m`` is the geodesic distance between the ends (only a scale).
 
 Longitudes are unwrapped: ``lon2`` is written continuously from ``lon1``
 (geodesic and rhumb edges take the shorter way; lonlat takes the
-coordinates literally, as RFC 7946 does), and points along a curve are
-returned continuous between its ends, never folded into ±180.
+coordinates literally, as RFC 7946 does [RFC-7946] [P]), and points along a
+curve are returned continuous between its ends, never folded into ±180.
 """
 
 from __future__ import annotations
@@ -29,19 +30,44 @@ GEODESIC, RHUMB, LONLAT = 0, 1, 2
 KIND_CODES = {"geodesic": GEODESIC, "great_circle": GEODESIC, "rhumb": RHUMB, "lonlat": LONLAT}
 
 
-def _arr(x: ArrayLike, dtype=np.float64) -> NDArray:
+def _arr(x: ArrayLike, dtype: type = np.float64) -> NDArray:
     return np.atleast_1d(np.asarray(x, dtype=dtype))
 
 
 def unwrap_near(lon_deg: ArrayLike, ref_deg: ArrayLike) -> NDArray[np.float64]:
-    """The longitude equal to ``lon_deg`` modulo 360 that lies within 180° of ``ref_deg``."""
+    """The longitude equal to ``lon_deg`` modulo 360 that lies within 180° of ``ref_deg``.
+
+    Parameters
+    ----------
+    lon_deg : array_like of float [deg]
+        Longitude, any turn.
+    ref_deg : array_like of float [deg]
+        Reference longitude, unwrapped (any value).
+
+    Returns
+    -------
+    ndarray of float [deg]
+        ``ref_deg + wrap180(lon_deg - ref_deg)``, in [ref_deg − 180, ref_deg + 180).
+
+    Examples
+    --------
+    >>> float(unwrap_near(-175.0, 170.0)), float(unwrap_near(10.0, -350.0))
+    (185.0, -350.0)
+    """
     ref = np.asarray(ref_deg, dtype=np.float64)
     return ref + rhumb.wrap180(np.asarray(lon_deg, dtype=np.float64) - ref)
 
 
 @dataclass(frozen=True, eq=False)
 class Curves:
-    """``n`` curves as parallel arrays (degrees, metres). Build with :meth:`between`."""
+    """``n`` curves as parallel arrays. Build with :meth:`between`.
+
+    ``kind`` holds the codes ``GEODESIC``, ``RHUMB``, ``LONLAT``; ``lat1``,
+    ``lon1``, ``lat2``, ``lon2`` the ends [deg] (``lon2`` continuous from
+    ``lon1``); ``azi_deg`` the azimuth at the start [deg] (the constant course
+    of a rhumb line, NaN for lonlat); ``length_m`` the length [m] (for lonlat,
+    the geodesic distance between the ends, a scale for ``t``).
+    """
 
     kind: NDArray[np.int8]
     lat1: NDArray[np.float64]
@@ -55,12 +81,27 @@ class Curves:
         return len(self.kind)
 
     @classmethod
-    def between(cls, kind: ArrayLike, lat1, lon1, lat2, lon2, *, literal_lon: bool = False):
-        """Curves from point 1 to point 2 of the given kinds (codes or names).
+    def between(cls, kind: ArrayLike, lat1: ArrayLike, lon1: ArrayLike, lat2: ArrayLike,
+                lon2: ArrayLike, *, literal_lon: bool = False) -> Curves:
+        """Curves from point 1 to point 2 of the given kinds.
 
-        Geodesic and rhumb curves take the shorter way in longitude unless
-        ``literal_lon`` (then ``lon2`` must already be continuous from ``lon1``);
-        lonlat curves always take the longitudes as written.
+        Parameters
+        ----------
+        kind : array_like of int or str [-]
+            Codes (``GEODESIC``, ``RHUMB``, ``LONLAT``) or names (keys of
+            ``KIND_CODES``), one per curve or one for all.
+        lat1, lon1, lat2, lon2 : array_like of float [deg]
+            The ends on WGS84.
+        literal_lon : bool
+            Take ``lon2`` as written for geodesic and rhumb curves too (it must
+            then be continuous from ``lon1``); otherwise they take the shorter
+            way in longitude. Lonlat curves always take the longitudes as written.
+
+        Returns
+        -------
+        Curves
+            Lengths and start azimuths from pyproj.Geod [KARNEY-2013] and
+            :func:`geo.rhumb.inverse`, exact to round-off.
         """
         kind = np.asarray(kind)
         if kind.dtype.kind in "US":
@@ -82,12 +123,27 @@ class Curves:
         return cls(kind, lat1, lon1, lat2, lon2, azi, length)
 
     def subset(self, idx: ArrayLike) -> Curves:
-        """The curves at ``idx`` (an index array), in that order."""
+        """The curves at ``idx`` (an index array [-]), in that order."""
         i = np.asarray(idx)
         return Curves(*(getattr(self, f)[i] for f in self.__dataclass_fields__))
 
     def point(self, idx: ArrayLike, t_m: ArrayLike) -> tuple[NDArray, NDArray]:
-        """Latitude and unwrapped longitude of curve ``idx`` at parameter ``t_m``."""
+        """Points on the curves at a parameter.
+
+        Parameters
+        ----------
+        idx : array_like of int [-]
+            Curve index of each point.
+        t_m : array_like of float [m]
+            Parameter along the curve: distance from its start (geodesic,
+            rhumb), or that fraction of ``length_m`` (lonlat).
+
+        Returns
+        -------
+        lat, lon : ndarray of float [deg]
+            Latitude, and longitude unwrapped near the curve's own longitudes;
+            the ends are the vertices exactly as written.
+        """
         idx = np.asarray(idx)
         t = np.asarray(t_m, dtype=np.float64)
         idx, t = np.broadcast_arrays(idx, t)
@@ -119,11 +175,24 @@ class Curves:
         lon = np.where(at_start, lon1, np.where(at_end, lon2, lon))
         return lat, lon
 
-    def sample(self, max_step_m: float):
+    def sample(self, max_step_m: float) -> tuple[NDArray, NDArray, NDArray, NDArray, NDArray]:
         """Points along every curve at most ``max_step_m`` apart, ends included.
 
-        Returns ``(lat, lon, curve_index, t_m, offsets)``: curve ``i`` owns
-        ``[offsets[i], offsets[i+1])`` of the flat arrays.
+        Parameters
+        ----------
+        max_step_m : float [m]
+            Largest parameter step between samples.
+
+        Returns
+        -------
+        lat, lon : ndarray of float [deg]
+            The samples, flat, curve after curve.
+        curve_index : ndarray of int [-]
+            The curve of each sample.
+        t_m : ndarray of float [m]
+            The parameter of each sample.
+        offsets : ndarray of int [-]
+            Curve ``i`` owns ``[offsets[i], offsets[i+1])`` of the flat arrays.
         """
         n_seg = np.maximum(1, np.ceil(self.length_m / max_step_m).astype(np.int64))
         counts = n_seg + 1
@@ -136,6 +205,24 @@ class Curves:
 
 
 def concat(parts: list[Curves]) -> Curves:
-    """All curves of several batches, in order, as one batch."""
+    """All curves of several batches, in order, as one batch.
+
+    Parameters
+    ----------
+    parts : list of Curves
+        The batches.
+
+    Returns
+    -------
+    Curves
+        Every curve of ``parts[0]``, then of ``parts[1]``, and so on.
+
+    Examples
+    --------
+    >>> both = concat([Curves.between("geodesic", [0.0], [0.0], [1.0], [1.0]),
+    ...                Curves.between("rhumb", [5.0], [5.0], [5.0], [6.0])])
+    >>> both.kind.tolist(), len(both)
+    ([0, 1], 2)
+    """
     fields = Curves.__dataclass_fields__
     return Curves(*(np.concatenate([getattr(p, f) for p in parts]) for f in fields))

@@ -1,9 +1,10 @@
 """A route as a continuous path on the ellipsoid: legs, distance along it, positions.
 
-Each leg is a rhumb line or a great circle (a geodesic on WGS84, through
-pyproj.Geod). Longitudes are unwrapped along the route (each leg the shorter
-way), so a route across 180° stays continuous. Distances in nautical miles
-(1852 m) at the edges, metres inside the solvers.
+Each leg is a rhumb line [KARNEY-RHUMB] or a great circle (a geodesic on
+WGS84 [WGS84], through pyproj.Geod [KARNEY-2013]). Longitudes are unwrapped
+along the route (each leg the shorter way), so a route across 180° stays
+continuous. Distances in nautical miles (1852 m [NM-1852] [P]) at the edges,
+metres inside the solvers.
 """
 
 from __future__ import annotations
@@ -27,7 +28,7 @@ class RoutePath:
     """The legs of a route as curves, with cumulative distances.
 
     ``curves`` holds leg ``i`` (from waypoint ``i`` to ``i + 1``) at index ``i``;
-    ``start_m[i]`` is the distance along the route where leg ``i`` begins.
+    ``start_m[i]`` is the distance along the route where leg ``i`` begins [m].
     """
 
     route: Route
@@ -36,33 +37,44 @@ class RoutePath:
 
     @property
     def length_m(self) -> float:
+        """Length of the whole route [m]."""
         return float(self.start_m[-1] + self.curves.length_m[-1])
 
     @property
     def length_nm(self) -> float:
+        """Length of the whole route [nm]."""
         return self.length_m / NM_M
 
     @property
     def n_legs(self) -> int:
+        """Number of legs [-]."""
         return len(self.curves)
 
     @property
     def leg_length_nm(self) -> NDArray[np.float64]:
+        """Length of each leg [nm]."""
         return self.curves.length_m / NM_M
 
     def locate(self, distance_m: ArrayLike) -> tuple[NDArray[np.int64], NDArray[np.float64]]:
-        """Leg index and distance into that leg (m) for distances along the route (m)."""
+        """Leg index [-] and distance into that leg [m] for distances along the route [m].
+
+        Distances are clamped to the route; a distance at a waypoint belongs
+        to the leg leaving it (the last waypoint to the last leg).
+        """
         d = np.clip(np.asarray(distance_m, dtype=np.float64), 0.0, self.length_m)
         leg = np.clip(np.searchsorted(self.start_m, d, side="right") - 1, 0, self.n_legs - 1)
         return leg, d - self.start_m[leg]
 
     def position(self, distance_m: ArrayLike) -> tuple[NDArray, NDArray]:
-        """Latitude and unwrapped longitude (degrees) at distances along the route (m)."""
+        """Latitude and unwrapped longitude [deg] at distances along the route [m]."""
         leg, s = self.locate(distance_m)
         return self.curves.point(leg, s)
 
     def course_deg(self, distance_m: ArrayLike) -> NDArray[np.float64]:
-        """Course over ground (degrees true, 0..360) at distances along the route (m)."""
+        """Course over ground [deg], true, in [0, 360), at distances along the route [m].
+
+        The geodesic azimuth to the point one metre further along the leg.
+        """
         leg, s = self.locate(distance_m)
         lat, lon = self.curves.point(leg, s)
         lat2, lon2 = self.curves.point(leg, s + 1.0)
@@ -73,9 +85,35 @@ class RoutePath:
 def route_path(route: Route) -> RoutePath:
     """Build the path of a route, refusing legs that cannot be sailed.
 
-    Refused (``InputError`` naming the leg): a longitude change of exactly
-    180° (no shorter way), any leg coming within 1° of a pole, a leg of zero
-    length.
+    Parameters
+    ----------
+    route : Route
+        Waypoints in degrees on WGS84; each waypoint's ``leg`` is the kind of
+        the leg arriving at it (``"rhumb"`` or ``"great_circle"``).
+
+    Returns
+    -------
+    RoutePath
+        The legs as :class:`geo.curves.Curves` with longitudes unwrapped along
+        the route, and the distance where each leg starts [m]. Lengths are exact
+        to round-off (:func:`geo.rhumb.inverse`, pyproj.Geod [KARNEY-2013]).
+
+    Raises
+    ------
+    InputError
+        Naming the leg: a longitude change of exactly 180° (no shorter way),
+        any leg coming within 1° of a pole (a great circle is sampled every
+        10 km to see it), a leg of zero length.
+
+    Examples
+    --------
+    One degree of the equator, 111319.490793 m (``RhumbSolve -i -p 9``
+    [KARNEY-RHUMB]), is 60.107716 nm of 1852 m [NM-1852]:
+
+    >>> from geo.route import Waypoint
+    >>> path = route_path(Route("r", (Waypoint("A", 0.0, 0.0), Waypoint("B", 0.0, 1.0))))
+    >>> round(path.length_m, 6), round(path.length_nm, 6)
+    (111319.490793, 60.107716)
     """
     wps = route.waypoints
     lat = np.array([w.lat for w in wps])

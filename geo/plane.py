@@ -10,30 +10,34 @@ then shapely polygons; the parts of an area, and its copies shifted by
 and the overlaps of MultiPolygon parts.
 
 Sampling error: a chord of length L deviates from the curve it samples by
-about L²/(8R); with L = 200 m and R down to ~560 km (a rhumb line at 85°
-latitude seen in the plane) that is under 1 cm. Crossings themselves are
-never taken from the plane: they are solved on the true curves.
+about L²/(8R) (the sagitta, common practice); with L = 200 m and R down to
+~560 km (a rhumb line at 85° latitude seen in the plane) that is under 1 cm.
+Crossings themselves are never taken from the plane: they are solved on the
+true curves (:mod:`geo.roots`). Polygons, unions and inside tests are
+shapely's (GEOS).
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
 import shapely
-from numpy.typing import NDArray
+from numpy.typing import ArrayLike, NDArray
 
 from geo.area import Area, Ring
 from geo.curves import KIND_CODES, Curves
 
 STEP_M = 200.0
+"""Sampling step along the true edges [m]."""
 
 
 @dataclass(frozen=True, eq=False)
 class PlaneRing:
     """One ring: its edge curves and its closed plane outline.
 
-    ``xy`` is closed (first point repeated last), longitude first.
+    ``xy`` [deg] is closed (first point repeated last), longitude first.
     ``pole`` is +1 / -1 when the ring circles the north / south pole, else 0.
     """
 
@@ -45,10 +49,36 @@ class PlaneRing:
 def ring_curves(ring: Ring, edges: str) -> tuple[Curves, int]:
     """The edge curves of an open ring and its winding: 0, or ±1 around a pole.
 
+    Parameters
+    ----------
+    ring : Ring
+        Open ring of (lon, lat) vertices [deg] (the closing vertex left out).
+    edges : str
+        How vertices are joined: ``"geodesic"``, ``"rhumb"`` or ``"lonlat"``.
+
+    Returns
+    -------
+    curves : Curves
+        Edge ``i`` from vertex ``i`` to the next (the last back to the first),
+        longitudes unwrapped along the ring; each edge ends exactly where the
+        next begins.
+    winding : int [-]
+        Turns of longitude round the ring: 0, or ±1 for a ring round a pole.
+
+    Notes
+    -----
     Geodesic and rhumb edges take the shorter way in longitude; an edge
     between two pole points is taken literally (it runs along the pole).
-    Lonlat rings take every longitude as written, so their steps always sum
-    to zero: a lonlat polar area must be written with explicit pole vertices.
+    Lonlat rings take every longitude as written [RFC-7946], so their steps
+    always sum to zero: a lonlat polar area must be written with explicit
+    pole vertices.
+
+    Examples
+    --------
+    >>> polar = tuple((float(lon), 70.0) for lon in range(0, 360, 90))
+    >>> curves, winding = ring_curves(polar, "rhumb")
+    >>> curves.lon2.tolist(), winding
+    ([90.0, 180.0, 270.0, 360.0], 1)
     """
     lon = np.array([p[0] for p in ring], dtype=np.float64)
     lat = np.array([p[1] for p in ring], dtype=np.float64)
@@ -70,7 +100,29 @@ def ring_curves(ring: Ring, edges: str) -> tuple[Curves, int]:
 
 
 def plane_ring(ring: Ring, edges: str) -> PlaneRing:
-    """Sample a ring into the plane (see module notes), closing it at a pole if it circles one."""
+    """Sample a ring into the plane (see the module notes), closing it at a pole if it circles one.
+
+    Parameters
+    ----------
+    ring : Ring
+        Open ring of (lon, lat) vertices [deg].
+    edges : str
+        ``"geodesic"``, ``"rhumb"`` or ``"lonlat"``.
+
+    Returns
+    -------
+    PlaneRing
+        The edge curves and the closed outline sampled every :data:`STEP_M`
+        (200 m) along the true edges, within 1 cm of them; a ring round a pole
+        is closed along the pole on the side of its mean latitude.
+
+    Examples
+    --------
+    >>> polar = tuple((float(lon), 70.0) for lon in range(0, 360, 90))
+    >>> ring = plane_ring(polar, "rhumb")
+    >>> ring.pole, ring.xy[-3:].tolist()
+    (1, [[360.0, 90.0], [0.0, 90.0], [0.0, 70.0]])
+    """
     curves, winding = ring_curves(ring, edges)
     lat, lon, _, _, _ = curves.sample(STEP_M)
     xy = np.column_stack([lon, lat])
@@ -107,15 +159,15 @@ class AreaShape:
     def _shifts(self) -> NDArray[np.float64]:
         return 360.0 * np.arange(-3, 4)
 
-    def contains(self, lat, lon) -> NDArray[np.bool_]:
-        """Strictly inside (boundary excluded), for arrays of points."""
+    def contains(self, lat: ArrayLike, lon: ArrayLike) -> NDArray[np.bool_]:
+        """Strictly inside (boundary excluded), for arrays of points [deg]."""
         return self._test(shapely.contains_xy, lat, lon)
 
-    def covers(self, lat, lon) -> NDArray[np.bool_]:
-        """Inside or on the boundary, for arrays of points."""
+    def covers(self, lat: ArrayLike, lon: ArrayLike) -> NDArray[np.bool_]:
+        """Inside or on the boundary, for arrays of points [deg]."""
         return self._test(shapely.intersects_xy, lat, lon)
 
-    def _test(self, fn, lat, lon) -> NDArray[np.bool_]:
+    def _test(self, fn: Callable, lat: ArrayLike, lon: ArrayLike) -> NDArray[np.bool_]:
         lat = np.atleast_1d(np.asarray(lat, dtype=np.float64))
         lon = np.atleast_1d(np.asarray(lon, dtype=np.float64))
         out = np.zeros(lat.shape, dtype=bool)
@@ -128,7 +180,32 @@ class AreaShape:
 
 
 def area_shape(area: Area) -> AreaShape:
-    """Build the plane geometry of an area (all parts united, seams at 180° removed)."""
+    """Build the plane geometry of an area: all parts united, seams at 180° removed.
+
+    Parameters
+    ----------
+    area : Area
+        The area as loaded (rings of (lon, lat) [deg], its ``edges`` kind).
+
+    Returns
+    -------
+    AreaShape
+        Every ring (for the root solver) and the united plane geometry, with
+        copies one turn either side, covering ``[lon_min, lon_max]`` [deg].
+        Overlapping parts count once and holes are cut out.
+
+    Examples
+    --------
+    A box split at 180° [RFC-7946] covers the seam once it is united:
+
+    >>> from geo.area import Area, Polygon
+    >>> from datetime import date
+    >>> west = Polygon(((170.0, -10.0), (180.0, -10.0), (180.0, 10.0), (170.0, 10.0)))
+    >>> east = Polygon(((-180.0, -10.0), (-170.0, -10.0), (-170.0, 10.0), (-180.0, 10.0)))
+    >>> shape = area_shape(Area("A", 0.1, date(2020, 1, 1), (west, east), edges="rhumb"))
+    >>> shape.contains([0.0, 0.0, 0.0], [180.0, -180.0, 160.0]).tolist()
+    [True, True, False]
+    """
     rings: list[PlaneRing] = []
     polys = []
     for poly in area.polygons:

@@ -3,8 +3,8 @@
 Plain data, checked on creation. Latitudes and longitudes in degrees
 (longitude as written, any value; sailings take the shorter way). The leg
 type, speed and schedule of a waypoint describe the leg that *arrives* at it
-(the convention of IEC 61174 RTZ and of our CSV), so the first waypoint's
-are ignored.
+(the convention of IEC 61174 RTZ [IEC-61174-RTZ] [M] and of our CSV), so the
+first waypoint's are ignored.
 """
 
 from __future__ import annotations

@@ -1,5 +1,5 @@
 """Route from GeoJSON (RFC 7946): one LineString, as a Feature, in a FeatureCollection,
-or as a bare geometry.
+or as a bare geometry [RFC-7946] [P].
 
 Coordinates are ``[lon, lat]`` in decimal degrees (a third value, altitude, is
 ignored). Longitudes may jump across ±180° between vertices: each leg takes the

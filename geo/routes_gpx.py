@@ -1,8 +1,8 @@
 """Route from a GPX file: the first ``gpx/rte``, its ``rtept`` waypoints.
 
-GPX 1.1 (namespace ``http://www.topografix.com/GPX/1/1``), GPX 1.0, or no
-namespace. Each ``rtept`` has ``lat`` and ``lon`` attributes in decimal
-degrees and an optional ``name`` child. GPX has no leg type or speed: every
+GPX 1.1 [GPX-11] [P] (namespace ``http://www.topografix.com/GPX/1/1``), GPX
+1.0, or no namespace. Each ``rtept`` has ``lat`` and ``lon`` attributes in
+decimal degrees and an optional ``name`` child. GPX has no leg type or speed: every
 leg is a rhumb line with no planned speed. Tracks (``trk``) are not routes.
 """
 

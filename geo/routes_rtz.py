@@ -1,5 +1,7 @@
 """Route from an IEC 61174 route exchange file (RTZ), versions 1.0, 1.1 and 1.2.
 
+Element names and the leg-arriving convention: [IEC-61174-RTZ] [M].
+
 Read: ``routeInfo@routeName``; ``waypoints/waypoint`` (``id``, ``name``,
 ``position@lat``/``@lon`` in decimal degrees, optional ``leg`` with
 ``geometryType`` Loxodrome | Orthodrome and ``speedMax`` in knots);
@@ -7,9 +9,9 @@ Read: ``routeInfo@routeName``; ``waypoints/waypoint`` (``id``, ``name``,
 own values; and the first ``schedules/schedule``, its ``manual`` schedule if
 it has one, else its ``calculated`` one, whose ``scheduleElement`` entries
 (``waypointId``, ``eta``, ``etd``, ``speed`` in knots) give the times at each
-waypoint (ISO 8601 with Z or an offset, stored in UTC). A waypoint's ``leg``
-and a schedule ``speed`` describe the leg *arriving* at that waypoint; the
-schedule speed overrides ``speedMax``. Everything else (cross-track limits,
+waypoint (ISO 8601 [ISO-8601] with Z or an offset, stored in UTC). A
+waypoint's ``leg`` and a schedule ``speed`` describe the leg *arriving* at that
+waypoint; the schedule speed overrides ``speedMax``. Everything else (cross-track limits,
 turn radii, extensions) is ignored.
 """
 
@@ -43,7 +45,7 @@ RTZ_NAMESPACES = {
 GEOMETRY_WORDS = {"loxodrome": "rhumb", "orthodrome": "great_circle"}
 GEOMETRY_EXPECTED = "geometryType Loxodrome or Orthodrome"
 # IEC 61174 RTZ schema 1.0 spells it sheduleElement; 1.1 corrected it to
-# scheduleElement (from memory, REFERENCE.md section 5 [M]). Both are accepted.
+# scheduleElement (from memory, [IEC-61174-RTZ] [M]). Both are accepted.
 SCHEDULE_ELEMENTS = ("scheduleElement", "sheduleElement")
 TIME_EXPECTED = "an ISO 8601 time with Z or a UTC offset, such as 2025-06-01T08:00:00Z"
 SPEED_EXPECTED = "a speed in knots, a number above 0"

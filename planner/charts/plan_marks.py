@@ -6,20 +6,25 @@ A drawing callback for :func:`planner.charts.route_map.draw_route_map`
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from planner.voyage.checks import caution_zone_shapes
+from planner.voyage.plan import Plan
 
 
-def plan_marks(plan, doc: dict):
-    """Extra drawing for the route map: caution zones and every changeover start."""
-    def draw(ax):
+def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
+    """Extra drawing for the route map: caution zones and every changeover start.
+
+    ``doc`` is the plan's ``--json`` document (the starts are read from its rows).
+    """
+    def draw(ax) -> None:
         import numpy as np
         import shapely
-
 
         lon_mid = float(np.mean(ax.get_xlim()))
         x0, x1 = ax.get_xlim()
         window = shapely.box(x0 - 5, -90, x1 + 5, 90)
-        for k, shape in enumerate(caution_zone_shapes(plan)):
+        for k, shape in enumerate(caution_zone_shapes(plan.voyage)):
             for poly in shapely.get_parts(shapely.intersection(shape.union, window)):
                 if poly.geom_type != "Polygon":
                     continue

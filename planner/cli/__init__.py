@@ -2,10 +2,12 @@
 
 Each command is a plain function in its own module (``planner.cli.route``,
 ``planner.cli.plan``, ...); this module builds :data:`app` and registers them,
-so imports run one way (the commands never import this module). Command
-modules import only typer at their top; the computing packages, rich,
-matplotlib and reportlab are imported inside the commands that use them, so
-``changeover --help`` stays quick. Bad input anywhere surfaces as
+so imports run one way (the commands never import this module). The options
+several commands share are declared and checked once, in
+:mod:`planner.cli.options`. Command modules import only typer,
+:mod:`planner.common` and their sibling modules at their top; the computing
+packages, rich, matplotlib and reportlab are imported inside the commands that
+use them, so ``changeover --help`` stays quick. Bad input anywhere surfaces as
 :class:`geo.errors.InputError`: one line on standard error, exit status 2,
 no output written.
 """

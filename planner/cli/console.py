@@ -7,11 +7,16 @@ out up to 160 columns wide rather than wrapped at 80.
 from __future__ import annotations
 
 import sys
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from rich.console import Console
+    from rich.table import Table
 
 PRINT_WIDTH = 160
 
 
-def console(stderr: bool = False):
+def console(stderr: bool = False) -> Console:
     """A rich Console; wide when writing to a file or a pipe."""
     from rich.console import Console
 
@@ -21,8 +26,9 @@ def console(stderr: bool = False):
     return Console(stderr=stderr, width=PRINT_WIDTH)
 
 
-def table(title: str, columns: list[tuple[str, str]], **kw):
-    """A rich Table with a simple rule under the head; ``columns`` are (header, "l"|"r")."""
+def table(title: str, columns: list[tuple[str, str]], **kw: object) -> Table:
+    """A rich Table with a simple rule under the head; ``columns`` are (header, side): "l"
+    or "r" (kept on one line), or "w" (left, folded when too long)."""
     from rich import box
     from rich.table import Table
 

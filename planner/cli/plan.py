@@ -1,17 +1,39 @@
-"""``changeover plan``: the voyage's changeovers, quantities and warnings (the main job)."""
+"""``changeover plan``: the voyage's changeovers, quantities and warnings (the main job).
+
+Holds the command (:func:`plan_cmd`: check the options, build the plan and its
+document, write the files asked for, print) and the tables it prints
+(:func:`print_plan`). The shared options come from :mod:`planner.cli.options`.
+"""
 
 from __future__ import annotations
 
 from pathlib import Path
-from typing import Annotated
+from typing import TYPE_CHECKING, Annotated
 
 import typer
+
+from planner.cli.options import (
+    PLAN_SAMPLES,
+    ConfidenceOpt,
+    JsonOpt,
+    SamplesOpt,
+    SeedOpt,
+    check_confidence,
+    check_samples,
+    check_seed,
+)
+
+if TYPE_CHECKING:
+    from collections.abc import Callable
+
+    from rich.console import Console
+
+    from planner.voyage.plan import Plan
 
 
 def plan_cmd(
     voyage: Annotated[Path, typer.Argument(help="Voyage file (TOML).")],
-    json_out: Annotated[bool, typer.Option("--json", help="Print JSON (documented keys).")]
-    = False,
+    json_out: JsonOpt = False,
     geojson: Annotated[Path | None, typer.Option(help="Write route, crossings and changeover "
                                                  "points as GeoJSON.")] = None,
     chart: Annotated[Path | None, typer.Option(help="Chart of sulphur at each inlet along the "
@@ -19,33 +41,50 @@ def plan_cmd(
     map_png: Annotated[Path | None, typer.Option("--map", help="Map of areas, route and "
                                                  "changeover points (PNG).")] = None,
     pdf: Annotated[Path | None, typer.Option(help="The plan for signature (PDF).")] = None,
-    confidence: Annotated[float | None, typer.Option(help="Also the starts at this confidence "
-                                                     "(Monte Carlo), e.g. 0.99 (default: the "
-                                                     "voyage file's, if any).")] = None,
-    samples: Annotated[int, typer.Option(help="Monte Carlo samples per changeover.")] = 4000,
-    seed: Annotated[int, typer.Option(help="Random seed (same seed, same numbers).")] = 0,
+    confidence: ConfidenceOpt = None,
+    samples: SamplesOpt = None,
+    seed: SeedOpt = None,
 ) -> None:
     """When and where each changeover starts, what it needs, and what to watch."""
+    from planner.common.outputs import dumps
+
+    check_confidence(confidence)
+    n_samples, n_seed = check_samples(samples, PLAN_SAMPLES), check_seed(seed)
+    plan, doc = _build(voyage, confidence, n_samples, n_seed, status=not json_out)
+    _write(plan, doc, geojson, chart, map_png, pdf)
+    if json_out:
+        typer.echo(dumps(doc))
+        return
+    print_plan(doc)
+    for p in (geojson, chart, map_png, pdf):
+        if p is not None:
+            typer.echo(f"wrote {p}")
+
+
+def _build(voyage: Path, confidence: float | None, samples: int, seed: int,
+           status: bool) -> tuple[Plan, dict]:
+    """The plan and its document; with ``status``, what is being done is shown on standard
+    error while it runs, when that is a terminal."""
     import sys
 
-    from geo.errors import InputError
-    from planner.common.outputs import dumps, write_json
     from planner.voyage import run
-    from planner.voyage.report import plan_geojson
 
-    if confidence is not None and not 0.5 <= confidence < 1.0:
-        raise InputError("--confidence", "", confidence, "a confidence from 0.5 to below 1")
-    if samples < 100:
-        raise InputError("--samples", "", samples, "at least 100 samples")
-    if sys.stderr.isatty() and not json_out:
+    if status and sys.stderr.isatty():
         from planner.cli.console import console
 
-        with console(stderr=True).status("planning") as status:
-            plan = run.build_plan(voyage, lambda text: status.update(text))
-            doc = _document(plan, confidence, samples, seed, status.update)
-    else:
-        plan = run.build_plan(voyage)
-        doc = _document(plan, confidence, samples, seed)
+        with console(stderr=True).status("planning") as shown:
+            plan = run.build_plan(voyage, lambda text: shown.update(text))
+            return plan, _document(plan, confidence, samples, seed, shown.update)
+    plan = run.build_plan(voyage)
+    return plan, _document(plan, confidence, samples, seed)
+
+
+def _write(plan: Plan, doc: dict, geojson: Path | None, chart: Path | None,
+           map_png: Path | None, pdf: Path | None) -> None:
+    """The files asked for: chart, map, PDF and GeoJSON."""
+    from planner.common.outputs import write_json
+    from planner.voyage.report import plan_geojson
+
     if chart is not None:
         from planner.charts.plan_chart import draw_plan_chart
 
@@ -61,16 +100,12 @@ def plan_cmd(
         write_plan_pdf(pdf, doc)
     if geojson is not None:
         write_json(geojson, plan_geojson(plan, doc))
-    if json_out:
-        typer.echo(dumps(doc))
-        return
-    print_plan(doc)
-    for p in (geojson, chart, map_png, pdf):
-        if p is not None:
-            typer.echo(f"wrote {p}")
 
 
-def _document(plan, confidence, samples, seed, progress=None) -> dict:
+def _document(plan: Plan, confidence: float | None, samples: int, seed: int,
+              progress: Callable[[str], object] | None = None) -> dict:
+    """The plan's JSON document, with the confidence starts when a confidence is given (by
+    ``--confidence``, else by the voyage file)."""
     from planner.voyage.report import plan_json
 
     doc = plan_json(plan)
@@ -94,7 +129,7 @@ def _t(iso: str | None) -> str:
 
 def print_plan(doc: dict) -> None:
     """The plan as tables on the terminal."""
-    from planner.cli.console import console, table
+    from planner.cli.console import console
 
     con = console()
     v = doc["voyage"]
@@ -102,6 +137,22 @@ def print_plan(doc: dict) -> None:
               f"{_t(v['depart_utc'])}, arrives {_t(v['arrive_utc'])}; compliant "
               f"{v['time_margin_h']:g} h before each boundary, sulphur target "
               f"{v['sulphur_target_fraction']:.0%} of the limit")
+    _print_changeovers(con, doc)
+    if "uncertainty" in doc:
+        _print_confidence(con, doc)
+    _print_fuel(con, doc)
+    for n in doc["notes"]:
+        con.print(f"[cyan]Note:[/cyan] {n}")
+    for w in doc["warnings"]:
+        con.print(f"[yellow]Warning:[/yellow] {w}")
+    for c in doc["cautions"]:
+        con.print(f"[dim]{c}[/dim]")
+
+
+def _print_changeovers(con: Console, doc: dict) -> None:
+    """The changeovers table: start, compliant and boundary, times and positions."""
+    from planner.cli.console import table
+
     t = table("Changeovers", [("#", "r"), ("Area", "w"), ("Circuit", "l"), ("Change", "l"),
                               ("Start UTC", "l"), ("Start ship's time", "l"),
                               ("Start position", "l"), ("Compliant / done UTC", "l"),
@@ -116,22 +167,33 @@ def print_plan(doc: dict) -> None:
                   _dm(r["boundary_lat"], r["boundary_lon"]), f"{r['margin_h']:.2f}",
                   "—" if r["duration_h"] is None else f"{r['duration_h']:.2f}")
     con.print(t)
-    if "uncertainty" in doc:
-        u = doc["uncertainty"]
-        ut = table(f"Start at {u['confidence']:.0%} confidence ({u['samples']} samples, seed "
-                   f"{u['seed']}; main driver: {u['main_driver'] or '—'})",
-                   [("#", "r"), ("Circuit", "l"), ("P50 start UTC", "l"),
-                    (f"{u['confidence']:.0%} start UTC", "l"), ("Lead h", "r"),
-                    ("Extra compliant t", "r"), ("Driver", "w")])
-        for r in doc["changeovers"]:
-            if "start_p50_utc" in r:
-                ut.add_row(str(r["number"]), r["circuit"], _t(r["start_p50_utc"]),
-                           _t(r["start_confidence_utc"]),
-                           "—" if r["lead_confidence_h"] is None else
-                           f"{r['lead_confidence_h']:.2f}",
-                           "—" if r["extra_compliant_t"] is None else
-                           f"{r['extra_compliant_t']:.2f}", r["main_driver"] or "—")
-        con.print(ut)
+
+
+def _print_confidence(con: Console, doc: dict) -> None:
+    """The starts at the confidence (Monte Carlo), changeovers to compliant fuel only."""
+    from planner.cli.console import table
+
+    u = doc["uncertainty"]
+    ut = table(f"Start at {u['confidence']:.0%} confidence ({u['samples']} samples, seed "
+               f"{u['seed']}; main driver: {u['main_driver'] or '—'})",
+               [("#", "r"), ("Circuit", "l"), ("P50 start UTC", "l"),
+                (f"{u['confidence']:.0%} start UTC", "l"), ("Lead h", "r"),
+                ("Extra compliant t", "r"), ("Driver", "w")])
+    for r in doc["changeovers"]:
+        if "start_p50_utc" in r:
+            ut.add_row(str(r["number"]), r["circuit"], _t(r["start_p50_utc"]),
+                       _t(r["start_confidence_utc"]),
+                       "—" if r["lead_confidence_h"] is None else
+                       f"{r['lead_confidence_h']:.2f}",
+                       "—" if r["extra_compliant_t"] is None else
+                       f"{r['extra_compliant_t']:.2f}", r["main_driver"] or "—")
+    con.print(ut)
+
+
+def _print_fuel(con: Console, doc: dict) -> None:
+    """Fuel on each stretch, fuel needed against on board, and the SO₂ formed in each area."""
+    from planner.cli.console import table
+
     s = table("Fuel on each stretch", [("From nm", "r"), ("To nm", "r"), ("Limit %", "r"),
                                        ("Under", "w"), ("Fuel", "l"), ("From UTC", "l")])
     for st in doc["stretches"]:
@@ -150,9 +212,3 @@ def print_plan(doc: dict) -> None:
     for a, x in doc["so2"]["areas"].items():
         so.add_row(a, f"{x['so2_kg']:,.0f}", f"{x['so2_on_regular_kg']:,.0f}")
     con.print(so)
-    for n in doc["notes"]:
-        con.print(f"[cyan]Note:[/cyan] {n}")
-    for w in doc["warnings"]:
-        con.print(f"[yellow]Warning:[/yellow] {w}")
-    for c in doc["cautions"]:
-        con.print(f"[dim]{c}[/dim]")

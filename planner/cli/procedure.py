@@ -4,17 +4,37 @@ MARPOL Annex VI regulation 14.6 asks the ship to carry a written procedure
 showing how the changeover is done. This command gathers the ship's facts
 (:mod:`planner.procedure.facts`) and prints them (:mod:`planner.documents.procedure_pdf`);
 everything is computed before anything is written, and bad input writes nothing.
+The module holds the command, its two parts (gather the facts, name the source
+files with their hashes) and takes the shared options from
+:mod:`planner.cli.options`.
 """
 
 from __future__ import annotations
 
 from pathlib import Path
-from typing import Annotated
+from typing import TYPE_CHECKING, Annotated
 
 import typer
 
+from planner.cli.options import (
+    JsonOpt,
+    LimitOpt,
+    MarginOpt,
+    TargetOpt,
+    check_limit,
+    check_margin,
+    check_target,
+)
+from planner.common.defaults import DEFAULT_LIMIT_PCT
+
+if TYPE_CHECKING:
+    from planner.procedure.facts import ProcedureFacts
+    from planner.ship.system import FuelSystem
+    from planner.voyage.voyage_file import Voyage
+
 
 def _sha256(path: Path) -> str:
+    """The file's SHA-256, hexadecimal."""
     import hashlib
 
     return hashlib.sha256(path.read_bytes()).hexdigest()
@@ -24,60 +44,34 @@ def procedure_cmd(
     ship: Annotated[Path, typer.Argument(help="Ship file, or a voyage file (its fuels and tank "
                                          "contents are used).")],
     pdf: Annotated[Path | None, typer.Option(help="The PDF to write.")] = None,
-    limit: Annotated[float, typer.Option(help="Sulphur limit in the area, % m/m.")] = 0.10,
-    target_pct: Annotated[float | None, typer.Option(help="Sulphur to aim at, % m/m (default "
-                                                     "90 % of the limit, or the voyage's "
-                                                     "margin).")] = None,
-    margin: Annotated[float | None, typer.Option(help="Be compliant this long before the "
-                                                 "boundary, h (default 1, or the voyage's).")]
-    = None,
-    revision: Annotated[str, typer.Option(help="Revision of the procedure, as printed.")] = "0",
-    json_out: Annotated[bool, typer.Option("--json", help="Print the procedure's figures as "
-                                           "JSON.")] = False,
+    limit: LimitOpt = DEFAULT_LIMIT_PCT,
+    target_pct: TargetOpt = None,
+    margin: MarginOpt = None,
+    revision: Annotated[str, typer.Option(help="Revision of the procedure, as printed: up to "
+                                          "20 characters.")] = "0",
+    json_out: JsonOpt = False,
 ) -> None:
     """The ship-specific written changeover procedure (regulation 14.6) as a PDF."""
     from geo.errors import InputError
-    from planner.flushing import FlushError
-    from planner.procedure.facts import (
-        DEFAULT_MARGIN_H,
-        DEFAULT_TARGET_FRACTION,
-        facts_json,
-        gather,
-    )
     from planner.voyage.onboard import load_ship_or_voyage
 
     if pdf is None and not json_out:
         raise InputError("--pdf", "", None, "the PDF file to write, e.g. --pdf procedure.pdf")
-    system, voyage = load_ship_or_voyage(ship)
-    if not 0.0 < limit <= 5.0:
-        raise InputError("--limit", "", limit, "a sulphur limit in % m/m, above 0 and at most 5")
-    fraction = voyage.sulphur_target_fraction if voyage else DEFAULT_TARGET_FRACTION
-    target = target_pct if target_pct is not None else fraction * limit
-    if not 0.0 < target <= limit:
-        raise InputError("--target-pct", "", target_pct, f"a target above 0 and at most the "
-                         f"limit {limit} % m/m")
-    margin_h = margin if margin is not None else (voyage.time_margin_h if voyage
-                                                  else DEFAULT_MARGIN_H)
-    if not 0.0 <= margin_h <= 48.0:
-        raise InputError("--margin", "", margin, "hours, 0 to 48")
+    check_limit(limit)
     if not revision.strip() or len(revision) > 20:
         raise InputError("--revision", "", revision, "a short revision mark, e.g. 0, 1 or B")
-    try:
-        facts = gather(system, limit_pct=limit, target_pct=target, margin_h=margin_h,
-                       voyage=voyage.name if voyage else "")
-    except FlushError as e:
-        raise InputError(str(ship), "fuel system", str(e), "a system that can run the "
-                         "changeover (tanks not running dry, pumps above consumption)") from None
-    sources = [(ship.name, _sha256(ship))]
-    if voyage is not None:
-        ship_file = Path(voyage.ship_file)
-        sources.append((ship_file.name, _sha256(ship_file)))
+    system, voyage = load_ship_or_voyage(ship)
+    target = check_target(target_pct, limit, voyage)
+    margin_h = check_margin(margin, voyage)
+    facts = _gather(ship, system, voyage, limit, target, margin_h)
+    sources = _sources(ship, voyage)
     if pdf is not None:
         from planner.documents.procedure_pdf import write_procedure_pdf
 
         write_procedure_pdf(pdf, facts, revision=revision.strip(), sources=sources)
     if json_out:
         from planner.common.outputs import dumps
+        from planner.procedure.facts import facts_json
 
         doc = facts_json(facts)
         doc["sources"] = [{"file": n, "sha256": h} for n, h in sources]
@@ -87,3 +81,27 @@ def procedure_cmd(
                f"{revision.strip()}, {len(facts.circuits)} circuit(s)")
     for w in facts.warnings:
         typer.echo(f"note: {w}")
+
+
+def _gather(ship: Path, system: FuelSystem, voyage: Voyage | None, limit: float, target: float,
+            margin_h: float) -> ProcedureFacts:
+    """The procedure's facts (InputError when the system cannot run the changeover)."""
+    from geo.errors import InputError
+    from planner.flushing import FlushError
+    from planner.procedure.facts import gather
+
+    try:
+        return gather(system, limit_pct=limit, target_pct=target, margin_h=margin_h,
+                      voyage=voyage.name if voyage else "")
+    except FlushError as e:
+        raise InputError(str(ship), "fuel system", str(e), "a system that can run the "
+                         "changeover (tanks not running dry, pumps above consumption)") from None
+
+
+def _sources(ship: Path, voyage: Voyage | None) -> list[tuple[str, str]]:
+    """The files the procedure is made from, with their SHA-256, as printed on it."""
+    sources = [(ship.name, _sha256(ship))]
+    if voyage is not None:
+        ship_file = Path(voyage.ship_file)
+        sources.append((ship_file.name, _sha256(ship_file)))
+    return sources

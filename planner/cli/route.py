@@ -1,32 +1,35 @@
 """``changeover route`` and ``changeover areas``: the master's route check.
 
-Computes everything first, then prints and writes; rich and matplotlib are
-imported only here, and matplotlib only when a map is asked for.
+Holds both commands and the tables the route check prints. Each computes
+everything first, then prints and writes; rich and matplotlib are imported
+inside the functions, and matplotlib only when a map is asked for. ``--json``,
+``--depart`` and ``--tz`` come from :mod:`planner.cli.options`.
 """
 
 from __future__ import annotations
 
 from datetime import UTC, datetime, timezone
 from pathlib import Path
-from typing import Annotated
+from typing import TYPE_CHECKING, Annotated
 
 import typer
 
+from planner.cli.options import DepartOpt, JsonOpt, TzOpt
+
+if TYPE_CHECKING:
+    from geo.compliance import RouteCheck
+
 AreasOpt = Annotated[list[Path], typer.Option("--areas", "-a", help="Area GeoJSON file or folder "
                                               "of .geojson files (repeatable).")]
-JsonOpt = Annotated[bool, typer.Option("--json", help="Print JSON (the documented keys) instead "
-                                       "of tables.")]
 
 
 def route_cmd(
     route_file: Annotated[Path, typer.Argument(help="Route file: CSV, GeoJSON, GPX or RTZ.")],
     areas: AreasOpt,
-    depart: Annotated[str | None, typer.Option(help="Departure, ISO 8601 with offset, e.g. "
-                                               "2027-05-29T08:00+12:00.")] = None,
+    depart: DepartOpt = None,
     speed: Annotated[float | None, typer.Option(help="Speed over ground for legs without their "
                                                 "own, knots.")] = None,
-    tz: Annotated[str | None, typer.Option(help="Ship's time as a UTC offset, e.g. +12:00 "
-                                           "(default: the offset written on --depart).")] = None,
+    tz: TzOpt = None,
     on: Annotated[str | None, typer.Option(help="Judge areas in force on this date when there "
                                            "are no times (default today).")] = None,
     json_out: JsonOpt = False,
@@ -59,7 +62,7 @@ def route_cmd(
             typer.echo(f"wrote {p}")
 
 
-def print_route_check(check, zone: timezone) -> None:
+def print_route_check(check: RouteCheck, zone: timezone) -> None:
     """Tables of crossings, stretches and time inside each area."""
     from geo.position import format_position
     from planner.cli.console import console, table

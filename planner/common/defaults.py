@@ -23,3 +23,6 @@ MAX_CONFIDENCE = 0.9999
 
 MIN_SAMPLES = 100
 """Fewest Monte Carlo samples per changeover [-]."""
+
+MAX_SAMPLES = 1_000_000
+"""Most Monte Carlo samples per changeover [-] (memory: a few arrays of this length)."""

@@ -101,8 +101,7 @@ class Markup(str):
 
 
 def data_table(header: Sequence[str], rows: Sequence[Sequence[object]],
-               widths_mm: Sequence[float], align: str | None = None, zebra: bool = True,
-               bold_last: bool = False):
+               widths_mm: Sequence[float], align: str | None = None, zebra: bool = True):
     """A table: bold head row repeated on each page, thin rules, optional zebra shading.
 
     ``align`` is one letter per column (``l`` or ``r``); cells are text,
@@ -137,8 +136,6 @@ def data_table(header: Sequence[str], rows: Sequence[Sequence[object]],
             for row in data:
                 if hasattr(row[i], "style"):
                     row[i].style = _right(row[i].style)
-    if bold_last:
-        cmds.append(("LINEABOVE", (0, -1), (-1, -1), 0.6, colors.HexColor(INK)))
     t.setStyle(TableStyle(cmds))
     return t
 
@@ -171,7 +168,7 @@ def title_block(title: str, subtitle: str, facts: Sequence[tuple[str, object]],
     return [para(title, "title"), para(subtitle, "subtitle"), t, Spacer(1, 4 * mm)]
 
 
-def signature_block(roles: Sequence[str], note: str = "") -> list:
+def signature_block(roles: Sequence[str]) -> list:
     """For each role side by side: a line to sign on, then name and date lines."""
     from reportlab.lib import colors
     from reportlab.lib.units import mm
@@ -198,10 +195,7 @@ def signature_block(roles: Sequence[str], note: str = "") -> list:
         c = 2 * i
         cmds += [("LINEBELOW", (c, r), (c, r), 0.6, colors.HexColor(INK)) for r in (1, 2, 3)]
     t.setStyle(TableStyle(cmds))
-    out = [Spacer(1, 3 * mm), t]
-    if note:
-        out += [Spacer(1, 1.5 * mm), para(note, "small")]
-    return out
+    return [Spacer(1, 3 * mm), t]
 
 
 def caution_box(title: str, lines: Sequence[str], markup: bool = False):

@@ -1,4 +1,5 @@
-"""The ship's written fuel changeover procedure (MARPOL Annex VI regulation 14.6), as a PDF.
+"""The ship's written fuel changeover procedure (MARPOL Annex VI regulation 14.6,
+[MARPOL-VI]), as a PDF.
 
 Printed from :class:`planner.procedure.facts.ProcedureFacts`: a title block with the
 ship, the limit and the revision; the cautions; then, numbered, what the

@@ -1,11 +1,12 @@
-"""The printed changeover record: regulation 14.6 items from the journal, ready to sign.
+"""The printed changeover record: regulation 14.6 items ([MARPOL-VI]) from the journal, ready
+to sign.
 
 Page one names the ship (name, IMO number), what the copy covers, the
 journal's entry count, its last hash and whether the chain verified when
 printed. Then the fuels named, with sulphur and delivery-note references;
 then each changeover: every step's entry number, date, time in UTC and in
 ship's time, position and what was planned; the fuel and its sulphur; the
-volume of compliant fuel in each tank (observed, at 15 °C by Table 54B, and
+volume of compliant fuel in each tank (observed, at 15 °C by Table 54B [TABLE-54B], and
 mass); the margin to the planned boundary crossing; and lines for the chief
 engineer and the master to sign. A corrected entry is printed struck through
 with the correction under it, never left out. Other entries (tank soundings,

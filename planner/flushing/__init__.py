@@ -1,6 +1,8 @@
 """Flushing: sulphur at each consumer inlet after the changeover valve is switched.
 
-Public API (see each module for the method and REFERENCE.md section 3):
+Public API (each module states its method and sources: [LEVENSPIEL-1999]
+for the well-stirred and plug-flow models, [HIGHAM-2005] for the matrix
+exponential):
 
 - :func:`simulate` (:mod:`~planner.flushing.simulate`): the simulation itself;
 - :class:`Switch`, :func:`make_switch` (:mod:`~planner.flushing.network`): which

@@ -19,8 +19,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG, Fuel
-from planner.ship.flows import circuit_flows
-from planner.ship.system import TANK_IN_USE, VALVE, FuelSystem, FuelSystemError
+from planner.ship.flows import CircuitFlows, circuit_flows
+from planner.ship.system import TANK_IN_USE, VALVE, Circuit, FuelSystem, FuelSystemError
 
 STIRRED, PIPE, CONSUMER = 0, 1, 2
 
@@ -39,7 +39,21 @@ class Switch:
 
 
 def make_switch(system: FuelSystem, circuit: str, from_: str, to: str) -> Switch:
-    """A :class:`Switch` from tank or fuel names (:meth:`FuelSystem.tank_for`)."""
+    """A :class:`Switch` from tank or fuel names.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+        Name of the circuit whose valve is switched.
+    from_, to : str
+        Tank names, or fuel names (the circuit's valve tank holding that fuel,
+        :meth:`~planner.ship.system.FuelSystem.tank_for`).
+
+    Returns
+    -------
+    Switch
+    """
     return Switch(circuit, system.tank_for(circuit, from_), system.tank_for(circuit, to))
 
 
@@ -79,38 +93,115 @@ class Network:
     switches: tuple[Switch, ...]
 
     def flows_m3h(self, consumption_m3h: np.ndarray) -> np.ndarray:
-        """Link flows, m³/h, for volumetric consumptions (C,) m³/h."""
+        """Link flows (L,), m³/h, for volumetric consumptions (C,), m³/h."""
         return self.flow_constant_m3h + self.flow_per_consumption @ consumption_m3h
 
-    def energy_density(self, basis: str) -> np.ndarray:
-        """Per fuel, what one m³ delivers: kg (mass basis) or kg at the ISO reference energy."""
+    def draw_density_kg_m3(self, basis: str) -> np.ndarray:
+        """What one m³ of each fuel counts for against the consumers' rates (F,), kg/m³.
+
+        Its density on the ``"mass"`` basis; on the ``"energy"`` basis the mass
+        at the ISO reference net specific energy, ``ρ·Q_net / 42.7``
+        ([ISO-3046] [M]).
+        """
         if basis == "mass":
             return self.density_kg_m3
         return self.density_kg_m3 * self.q_net_mj_kg / ISO_REFERENCE_Q_NET_MJ_KG
 
 
+@dataclass(frozen=True)
+class _Nodes:
+    """The nodes of the switched circuits, in first-seen order."""
+
+    stirred: tuple[str, ...]
+    pipes: tuple[str, ...]
+    consumers: tuple[str, ...]
+    consumer_circuit: tuple[str, ...]
+
+
+_Part = tuple[Switch, Circuit, CircuitFlows]  # one switched circuit
+
+
 def compile_network(system: FuelSystem, switches: Sequence[Switch]) -> Network:
-    """The :class:`Network` of the circuits in ``switches`` (each circuit at most once)."""
+    """The :class:`Network` of the circuits in ``switches``.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    switches : sequence of Switch
+        At least one; each circuit at most once.
+
+    Returns
+    -------
+    Network
+
+    Raises
+    ------
+    ValueError
+        No switch, or a circuit switched twice.
+    FuelSystemError
+        An unknown circuit, or a tank that is not one of its valve's.
+    """
     switches = tuple(switches)
     if not switches:
         raise ValueError("simulate needs at least one switch")
     circuits = [s.circuit for s in switches]
     if len(set(circuits)) != len(circuits):
         raise ValueError(f"each circuit may be switched once, got {circuits}")
+    nodes, parts = _collect_nodes(system, switches)
+    fuel_names = _fuel_names(system, nodes.stirred)
+    fuels = tuple(system.fuels[f] for f in fuel_names)
+    names, constant, per_consumption = _link_flows(parts, nodes.consumers)
+    after = _routing(parts, nodes, after=True)
+    return Network(
+        fuels=fuels,
+        density_kg_m3=np.array([f.density_kg_m3 for f in fuels]),
+        sulphur_pct=np.array([f.sulphur_pct for f in fuels]),
+        q_net_mj_kg=np.array([f.q_net for f in fuels]),
+        stirred=nodes.stirred,
+        is_tank=np.array([n in system.tanks for n in nodes.stirred]),
+        stirred_volume_m3=np.array([_volume_m3(system, n) for n in nodes.stirred]),
+        capacity_m3=np.array(
+            [system.tanks[n].capacity_m3 if n in system.tanks else np.inf for n in nodes.stirred]
+        ),
+        tank_fractions=_tank_fractions(system, nodes.stirred, fuel_names),
+        pipes=nodes.pipes,
+        pipe_volume_m3=np.array([system.volumes[n].volume_m3 for n in nodes.pipes]),
+        consumers=nodes.consumers,
+        consumer_circuit=nodes.consumer_circuit,
+        link_names=names,
+        flow_constant_m3h=constant,
+        flow_per_consumption=per_consumption,
+        before=_routing(parts, nodes, after=False),
+        after=after,
+        consumer_link=_consumer_links(after, len(nodes.consumers)),
+        switches=switches,
+    )
+
+
+def _check_switch(system: FuelSystem, sw: Switch) -> Circuit:
+    """The switched circuit, once its name and both tanks are known to be its valve's."""
+    if sw.circuit not in system.circuits:
+        raise FuelSystemError("circuit", sw.circuit, f"one of {sorted(system.circuits)}")
+    circuit = system.circuits[sw.circuit]
+    for t in (sw.from_tank, sw.to_tank):
+        if t not in circuit.tanks:
+            raise FuelSystemError(
+                f"circuits.{sw.circuit}.tanks", t, f"a tank of the valve: {list(circuit.tanks)}"
+            )
+    return circuit
+
+
+def _collect_nodes(
+    system: FuelSystem, switches: tuple[Switch, ...]
+) -> tuple[_Nodes, list[_Part]]:
+    """The nodes of every switched circuit, and each circuit with its link flows."""
     stirred: dict[str, None] = {}
     pipes: dict[str, None] = {}
     consumers: list[str] = []
     consumer_circuit: list[str] = []
-    per_circuit = []
+    parts: list[_Part] = []
     for sw in switches:
-        if sw.circuit not in system.circuits:
-            raise FuelSystemError("circuit", sw.circuit, f"one of {sorted(system.circuits)}")
-        circuit = system.circuits[sw.circuit]
-        for t in (sw.from_tank, sw.to_tank):
-            if t not in circuit.tanks:
-                raise FuelSystemError(
-                    f"circuits.{sw.circuit}.tanks", t, f"a tank of the valve: {list(circuit.tanks)}"
-                )
+        circuit = _check_switch(system, sw)
         stirred.setdefault(sw.from_tank)
         stirred.setdefault(sw.to_tank)
         for name in circuit.volume_names:
@@ -121,84 +212,81 @@ def compile_network(system: FuelSystem, switches: Sequence[Switch]) -> Network:
                 pipes.setdefault(name)
         consumers += circuit.consumers
         consumer_circuit += [sw.circuit] * len(circuit.consumers)
-        per_circuit.append((sw, circuit, circuit_flows(system, circuit)))
-    s_names, p_names = tuple(stirred), tuple(pipes)
-    fuel_names = sorted(
-        {f for n in s_names if n in system.tanks for f in system.tanks[n].content_m3}
-    )
-    fuels = tuple(system.fuels[f] for f in fuel_names)
-    is_tank = np.array([n in system.tanks for n in s_names])
-    vol = np.array(
-        [
-            system.tanks[n].volume_m3 if n in system.tanks else system.volumes[n].volume_m3
-            for n in s_names
-        ]
-    )
-    cap = np.array([system.tanks[n].capacity_m3 if n in system.tanks else np.inf for n in s_names])
-    frac = np.zeros((len(s_names), len(fuels)))
-    for i, n in enumerate(s_names):
+        parts.append((sw, circuit, circuit_flows(system, circuit)))
+    nodes = _Nodes(tuple(stirred), tuple(pipes), tuple(consumers), tuple(consumer_circuit))
+    return nodes, parts
+
+
+def _fuel_names(system: FuelSystem, stirred: tuple[str, ...]) -> list[str]:
+    """The distinct fuels in the tanks among ``stirred``, sorted by name."""
+    return sorted({f for n in stirred if n in system.tanks for f in system.tanks[n].content_m3})
+
+
+def _volume_m3(system: FuelSystem, name: str) -> float:
+    """Initial volume of a tank or a stirred volume, m³."""
+    return system.tanks[name].volume_m3 if name in system.tanks else system.volumes[name].volume_m3
+
+
+def _tank_fractions(
+    system: FuelSystem, stirred: tuple[str, ...], fuel_names: list[str]
+) -> np.ndarray:
+    """Volume fractions (S, F) of each tank's content (rows of fixed volumes 0)."""
+    frac = np.zeros((len(stirred), len(fuel_names)))
+    for i, n in enumerate(stirred):
         if n in system.tanks:
             t = system.tanks[n]
             for f, v in t.content_m3.items():
                 frac[i, fuel_names.index(f)] = v / t.volume_m3
+    return frac
 
-    def where(name: str, tank: str) -> tuple[int, int]:
-        if name in (VALVE, TANK_IN_USE):
-            name = tank
-        if name in stirred:
-            return STIRRED, s_names.index(name)
-        if name in pipes:
-            return PIPE, p_names.index(name)
-        return CONSUMER, consumers.index(name)
 
-    names, const, per = [], [], []
-    rows: dict[str, list[int]] = {k: [] for k in ("bk", "b", "bdk", "bd", "ak", "a", "adk", "ad")}
-    for sw, circuit, flows in per_circuit:
+def _link_flows(
+    parts: list[_Part], consumers: tuple[str, ...]
+) -> tuple[tuple[str, ...], np.ndarray, np.ndarray]:
+    """Link names, and the affine flows ``a`` (L,) m³/h and ``B`` (L, C) over all circuits."""
+    names, constant, per = [], [], []
+    for _, circuit, flows in parts:
         cols = [consumers.index(c) for c in circuit.consumers]
         for i, link in enumerate(circuit.links):
             names.append(f"{link.source} → {link.target}")
-            const.append(flows.constant_m3h[i])
+            constant.append(flows.constant_m3h[i])
             row = np.zeros(len(consumers))
             row[cols] = flows.per_consumption[i]
             per.append(row)
-            for tag, tank in (("b", sw.from_tank), ("a", sw.to_tank)):
-                k, j = where(link.source, tank)
-                rows[tag + "k"].append(k)
-                rows[tag].append(j)
-                k, j = where(link.target, tank)
-                rows[tag + "dk"].append(k)
-                rows[tag + "d"].append(j)
-    arr = {k: np.array(v, dtype=int) for k, v in rows.items()}
-    before = Routing(arr["bk"], arr["b"], arr["bdk"], arr["bd"])
-    after = Routing(arr["ak"], arr["a"], arr["adk"], arr["ad"])
-    consumer_link = np.array(
+    per_consumption = np.array(per, dtype=float).reshape(len(names), len(consumers))
+    return tuple(names), np.array(constant, dtype=float), per_consumption
+
+
+def _locate(name: str, tank: str, nodes: _Nodes) -> tuple[int, int]:
+    """Kind and index of a link end, the valve and ``tank_in_use`` standing for ``tank``."""
+    if name in (VALVE, TANK_IN_USE):
+        name = tank
+    if name in nodes.stirred:
+        return STIRRED, nodes.stirred.index(name)
+    if name in nodes.pipes:
+        return PIPE, nodes.pipes.index(name)
+    return CONSUMER, nodes.consumers.index(name)
+
+
+def _routing(parts: list[_Part], nodes: _Nodes, *, after: bool) -> Routing:
+    """Every link's ends with the valves on the to-tanks (``after``) or the from-tanks."""
+    ends: list[tuple[int, int, int, int]] = []
+    for sw, circuit, _ in parts:
+        tank = sw.to_tank if after else sw.from_tank
+        for link in circuit.links:
+            ends.append((*_locate(link.source, tank, nodes), *_locate(link.target, tank, nodes)))
+    src_kind, src, dst_kind, dst = (np.array([e[k] for e in ends], dtype=int) for k in range(4))
+    return Routing(src_kind, src, dst_kind, dst)
+
+
+def _consumer_links(routing: Routing, n_consumers: int) -> np.ndarray:
+    """Index of the link feeding each consumer (C,)."""
+    return np.array(
         [
-            int(np.flatnonzero((after.dst_kind == CONSUMER) & (after.dst == c))[0])
-            for c in range(len(consumers))
+            int(np.flatnonzero((routing.dst_kind == CONSUMER) & (routing.dst == c))[0])
+            for c in range(n_consumers)
         ],
         dtype=int,
-    )
-    return Network(
-        fuels=fuels,
-        density_kg_m3=np.array([f.density_kg_m3 for f in fuels]),
-        sulphur_pct=np.array([f.sulphur_pct for f in fuels]),
-        q_net_mj_kg=np.array([f.q_net for f in fuels]),
-        stirred=s_names,
-        is_tank=is_tank,
-        stirred_volume_m3=vol,
-        capacity_m3=cap,
-        tank_fractions=frac,
-        pipes=p_names,
-        pipe_volume_m3=np.array([system.volumes[n].volume_m3 for n in p_names]),
-        consumers=tuple(consumers),
-        consumer_circuit=tuple(consumer_circuit),
-        link_names=tuple(names),
-        flow_constant_m3h=np.array(const, dtype=float),
-        flow_per_consumption=np.array(per, dtype=float).reshape(len(names), len(consumers)),
-        before=before,
-        after=after,
-        consumer_link=consumer_link,
-        switches=switches,
     )
 
 
@@ -222,7 +310,21 @@ class FlowMatrices:
 
 
 def flow_matrices(net: Network, routing: Routing, q: np.ndarray) -> FlowMatrices:
-    """The :class:`FlowMatrices` of link flows ``q`` (L,) under ``routing``."""
+    """The :class:`FlowMatrices` of link flows under a routing.
+
+    Parameters
+    ----------
+    net : Network
+    routing : Routing
+        ``net.before`` or ``net.after``.
+    q : ndarray (L,) [m³/h]
+        Link flows.
+
+    Returns
+    -------
+    FlowMatrices
+        Connection matrices and totals [m³/h].
+    """
     s, p = len(net.stirred), len(net.pipes)
     ss, sp = np.zeros((s, s)), np.zeros((s, p))
     ps, pp = np.zeros((p, s)), np.zeros((p, p))

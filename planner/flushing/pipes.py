@@ -1,7 +1,8 @@
-"""Plug flow in a pipe: a first-in first-out queue of parcels (REFERENCE.md section 3).
+"""Plug flow in a pipe: a first-in first-out queue of parcels.
 
 A pipe of volume V delays its inlet by exactly the time its throughput takes
-to reach V, whatever the flow does meanwhile: the content is a queue of
+to reach V, whatever the flow does meanwhile ([LEVENSPIEL-1999] plug flow as
+a pure delay [P]): the content is a queue of
 parcels, each a volume with a quadratic composition profile along it, kept
 as shifted-Legendre coefficients over the parcel (``s`` from 0 at its outlet
 end to 1 at its inlet end): ``c(s) = m + g·(2s − 1) + k·(6s² − 6s + 1)``,
@@ -9,8 +10,9 @@ mean ``m``, slope ``g``, curvature ``k``. Composition is a vector of volume
 fractions of the distinct fuels. Volumes are in m³; positions ``ξ`` are
 measured from the outlet, in m³ of throughput.
 
-Windows and splits integrate the profiles exactly, so the pipe conserves every
-fuel to round-off.
+Windows and splits integrate the profiles exactly (three-point
+Gauss-Legendre quadrature is exact to degree 5, [GAUSS-LEGENDRE] [P]), so the
+pipe conserves every fuel to round-off.
 """
 
 from __future__ import annotations
@@ -18,7 +20,8 @@ from __future__ import annotations
 import numpy as np
 
 _WEIGHTS = np.array([1.0, 3.0, 5.0, 7.0])  # 2j + 1 for the Legendre coefficients
-_GAUSS_X = 0.5 + 0.5 * np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)])  # nodes on [0, 1]
+# three-point Gauss-Legendre rule on [0, 1] ([GAUSS-LEGENDRE] [P])
+_GAUSS_X = 0.5 + 0.5 * np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)])  # nodes
 _GAUSS_W = np.array([5.0, 8.0, 5.0]) / 18.0  # their weights (sum 1)
 
 
@@ -148,7 +151,8 @@ def _moments(
     :func:`_profile`) from ``s = 0`` to ``s = s_width / s_length``. Returns
     ``(2j + 1)·Σ ∫c·P_j(ξ/W) dξ / W`` for the shifted Legendre polynomials
     P0 … P3 (P3 = 20u³ − 30u² + 12u − 1). The integrands are polynomials of
-    degree ≤ 5, so three-point Gauss-Legendre quadrature on each piece is exact.
+    degree ≤ 5, so three-point Gauss-Legendre quadrature on each piece is
+    exact ([GAUSS-LEGENDRE]: n points are exact to degree 2n − 1 [P]).
     """
     w = 1.0 / throughput
     s = (s_width / s_length)[:, None] * _GAUSS_X  # (n, 3) positions along each parcel
@@ -188,14 +192,39 @@ _R_POWERS = np.arange(9)
 
 
 def fresh_moments(volume_m3: float, throughput_m3: float) -> np.ndarray:
-    """4×3 map from a step's inflow Legendre moments (I0, I1, I2) to its outflow's (O0 … O3).
+    """The map from a step's inflow Legendre moments to the part of its outflow they make.
 
-    The part of the inflow that also leaves within the step (when the step's
-    throughput W exceeds the pipe volume V): inflow entering at inlet position
-    ``ζ`` leaves at outlet position ``ζ + V``, so the quadratic inflow
-    ``Σ Ij·Pj(ζ/W)`` fills the outlet window ``[V, W]``, integrated exactly
-    (identity in the first three rows when V = 0, zero when V ≥ W). It depends
-    on ``r = V/W`` only.
+    When the step's throughput W exceeds the pipe volume V, part of the inflow
+    also leaves within the step: inflow entering at inlet position ``ζ`` leaves
+    at outlet position ``ζ + V`` ([LEVENSPIEL-1999] plug flow [P]), so the
+    quadratic inflow ``Σ Ij·Pj(ζ/W)`` fills the outlet window ``[V, W]``.
+
+    Parameters
+    ----------
+    volume_m3 : float [m³]
+        Pipe volume V.
+    throughput_m3 : float [m³]
+        Volume passed in the step, W.
+
+    Returns
+    -------
+    ndarray (4, 3) [-]
+        ``O_i = Σ_j map[i, j]·I_j`` from the inflow moments I0 … I2 (mean, slope,
+        curvature) to the outflow's O0 … O3 (mean, slope, curvature, cubic).
+        Identity in the first three rows when V = 0, zero when V ≥ W; it
+        depends on ``r = V/W`` only, through polynomials of degree ≤ 8 fitted
+        once at Chebyshev points: exact to round-off (the integrals are
+        exact, [GAUSS-LEGENDRE]).
+
+    Examples
+    --------
+    An empty pipe passes its inflow straight through; a pipe the step does not
+    flush delivers none of it:
+
+    >>> bool(np.allclose(fresh_moments(0.0, 2.0)[:3], np.eye(3), atol=1e-12))
+    True
+    >>> bool(np.all(fresh_moments(1.0, 0.5) == 0.0))
+    True
     """
     if throughput_m3 <= volume_m3:
         return np.zeros((4, 3))

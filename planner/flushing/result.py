@@ -3,7 +3,7 @@
 Array convention (as :mod:`planner.fuels`): the fuel (component) axis is the
 **first** axis, time the second: ``fractions`` has shape (n_fuels, n_times).
 Compositions are volume fractions at 15 °C; sulphur and density follow on a
-mass basis (REFERENCE.md section 3): ``S = Σ φᵢρᵢSᵢ / Σ φᵢρᵢ``,
+mass basis ([LEVENSPIEL-1999] mass balance [D]): ``S = Σ φᵢρᵢSᵢ / Σ φᵢρᵢ``,
 ``ρ = Σ φᵢρᵢ`` (ideal mixing).
 
 Crossing times are found on the recorded trace (every output time plus both
@@ -22,6 +22,7 @@ from types import MappingProxyType
 import numpy as np
 
 from planner.flushing.network import Network, Switch
+from planner.flushing.record import Recorder
 from planner.fuels import Fuel
 
 
@@ -173,10 +174,6 @@ class FlushResult:
     warnings: tuple[str, ...]
     n_steps: int
 
-    @property
-    def fuel_names(self) -> tuple[str, ...]:
-        return tuple(f.name for f in self.fuels)
-
     def circuit_inlets(self, circuit: str) -> list[InletCurve]:
         """The inlet curves of ``circuit``'s consumers."""
         return [c for c in self.inlets.values() if c.circuit == circuit]
@@ -203,18 +200,46 @@ class FlushResult:
 
 
 def build_result(
-    net: Network, rec, n_out: int, h_out: float, warnings: tuple[str, ...], n_steps: int
+    net: Network,
+    rec: Recorder,
+    n_out: int,
+    output_step_h: float,
+    warnings: tuple[str, ...],
+    n_steps: int,
 ) -> FlushResult:
-    """Assemble a :class:`FlushResult` from the simulator's record."""
-    grid = np.arange(n_out + 1) * h_out
-    trace_t = np.concatenate(rec.trace_t)
-    trace_phi = np.concatenate(rec.trace_phi, axis=1)  # (C, K, F)
+    """Assemble a :class:`FlushResult` from the simulator's record.
+
+    Parameters
+    ----------
+    net : Network
+    rec : Recorder
+        The record of every step.
+    n_out : int [-]
+        Number of output steps (the output times are ``0 … n_out·output_step_h``).
+    output_step_h : float [h]
+        Output step.
+    warnings : tuple of str
+        The simulation's warnings (a tank over its capacity).
+    n_steps : int [-]
+        Number of internal steps taken.
+
+    Returns
+    -------
+    FlushResult
+        Inlet compositions at the output times are the trace's samples there
+        (exact); burnt volumes and tank states are interpolated linearly
+        between step ends (exact at them).
+    """
+    grid = np.arange(n_out + 1) * output_step_h
+    trace_t = np.concatenate(rec.trace_time_h)
+    trace_phi = np.concatenate(rec.trace_fractions, axis=1)  # (C, K, F)
     idx = np.searchsorted(trace_t, grid * (1 + 1e-12) + 1e-15, side="right") - 1
-    step_t = np.array(rec.step_t)
-    burnt = np.array(rec.burnt)  # (steps+1, C, F)
+    step_t = np.array(rec.step_end_h)
+    burnt = np.array(rec.burnt_m3)  # (steps+1, C, F)
+    n_fuels = len(net.fuels)
     inlets = {}
     for c, name in enumerate(net.consumers):
-        b = np.array([np.interp(grid, step_t, burnt[:, c, f]) for f in range(len(net.fuels))])
+        b = np.array([np.interp(grid, step_t, burnt[:, c, f]) for f in range(n_fuels)])
         inlets[name] = InletCurve(
             name,
             net.consumer_circuit[c],
@@ -225,21 +250,21 @@ def build_result(
             trace_t,
             trace_phi[c].T,
         )
-    tv, tx = np.array(rec.tank_vol), np.array(rec.tank_x)
+    tv, tx = np.array(rec.tank_volume_m3), np.array(rec.tank_fractions)
     tanks = {}
     for i, name in enumerate(net.stirred):
         if net.is_tank[i]:
             vol = np.interp(grid, step_t, tv[:, i])
-            fr = np.array([np.interp(grid, step_t, tx[:, i, f]) for f in range(len(net.fuels))])
+            fr = np.array([np.interp(grid, step_t, tx[:, i, f]) for f in range(n_fuels)])
             tanks[name] = TankCurve(name, net.fuels, float(net.capacity_m3[i]), grid, vol, fr)
-    final = tv[-1] @ tx[-1] + sum((q.content_m3() for q in rec.queues), np.zeros(len(net.fuels)))
+    final = tv[-1] @ tx[-1] + sum((q.content_m3() for q in rec.queues), np.zeros(n_fuels))
     return FlushResult(
         fuels=net.fuels,
         switches=net.switches,
         time_h=grid,
         inlets=MappingProxyType(inlets),
         tanks=MappingProxyType(tanks),
-        inventory_initial_m3=rec.inventory0,
+        inventory_initial_m3=rec.inventory_m3,
         inventory_final_m3=final,
         burnt_m3=burnt[-1].sum(0),
         warnings=warnings,

@@ -3,12 +3,12 @@
 A :class:`ConsumptionSchedule` gives each consumer's fuel rate, t/h, in
 segments starting at ``times_h`` (the first at 0). With ``basis="energy"``
 (the default) a rate is the mass at the ISO reference net specific energy
-(42.7 MJ/kg) and the mass actually burnt is scaled by 42.7 / Q_net of the
-blend at the consumer's inlet (REFERENCE.md section 4): the engine keeps its
+(42.7 MJ/kg, [ISO-3046] [M]) and the mass actually burnt is scaled by
+42.7 / Q_net of the blend at the consumer's inlet: the engine keeps its
 power, so a leaner fuel needs more mass. With ``basis="mass"`` the rate is
 burnt as given, whatever the fuel. Either way the *volumetric* draw is that
-mass over the inlet blend's density (mass basis mixing, REFERENCE.md
-section 3).
+mass over the inlet blend's density (mixing by mass, [LEVENSPIEL-1999] mass
+balance [D]).
 """
 
 from __future__ import annotations
@@ -96,8 +96,26 @@ def schedule_at(
     speed_kn: float | None = None,
     circuits: Sequence[str] | None = None,
 ) -> ConsumptionSchedule:
-    """A constant schedule: main engines at ``load_pct`` % MCR or ``speed_kn`` (propeller law,
-    default their reference load), generators and boilers at their rates (energy basis)."""
+    """A constant schedule of every consumer at one main-engine operating point.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    load_pct : float, optional [% MCR]
+        Main-engine load (give this or ``speed_kn``, not both; neither: the
+        engines' reference load).
+    speed_kn : float, optional [kn]
+        Speed through the water, the load then by the propeller law
+        ([PROPELLER-LAW], common practice).
+    circuits : sequence of str, optional
+        Only these circuits' consumers (default: every consumer).
+
+    Returns
+    -------
+    ConsumptionSchedule
+        One segment, energy basis: main engines at that load, generators and
+        boilers at their stated rates [t/h at 42.7 MJ/kg].
+    """
     names = (
         [c for k in circuits for c in system.circuits[k].consumers]
         if circuits is not None

@@ -50,7 +50,21 @@ class FlushStudy:
 
 
 def default_tanks(system: FuelSystem, circuit: str) -> tuple[str, str]:
-    """From the circuit's highest-sulphur tank to its lowest (by main fuel)."""
+    """The changeover a circuit is studied for when none is named.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+        A circuit of ``system``.
+
+    Returns
+    -------
+    from_tank, to_tank : str
+        The valve's tank whose main fuel (largest volume) has the highest
+        sulphur, and the one whose main fuel has the lowest.
+    """
+
     def sulphur(tank: str) -> float:
         content = system.tanks[tank].content_m3
         fuel = max(content.items(), key=lambda kv: kv[1])[0]
@@ -62,7 +76,34 @@ def default_tanks(system: FuelSystem, circuit: str) -> tuple[str, str]:
 
 def study(system: FuelSystem, circuit: str, from_: str, to: str, schedule: ConsumptionSchedule,
           limit_pct: float, target_pct: float, *, thermal: bool = True) -> FlushStudy:
-    """Simulate the changeover and, unless ``thermal`` is False, each inlet's viscosity path."""
+    """Simulate a circuit's changeover and follow each inlet's viscosity path.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+        The circuit whose valve is switched.
+    from_, to : str
+        Tank or fuel names.
+    schedule : ConsumptionSchedule
+        The consumers' rates [t/h] from the switch.
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target.
+    thermal : bool, default True
+        Also each inlet's temperature and viscosity path and the lead it
+        needs (:mod:`planner.ship.thermal`); False leaves them out.
+
+    Returns
+    -------
+    FlushStudy
+        The simulation (:func:`~planner.flushing.summary.flush`), its summary,
+        and per consumer the viscosity path (blended by mass, [MAPLES-2000]
+        Refutas, at the inlet temperature by [ASTM-D341]; see
+        :mod:`planner.ship.thermal`) and the lead needed [h] (0 when the path
+        stays inside the engine's window).
+    """
     result, summary = flush(system, circuit, from_, to, schedule, limit_pct=limit_pct,
                             target_pct=target_pct)
     paths: dict[str, InletPath] = {}
@@ -92,7 +133,28 @@ class TableRow:
 def duration_table(system: FuelSystem, circuit: str, from_: str, to: str, limit_pct: float,
                    target_pct: float,
                    loads_pct: tuple[float, ...] = TABLE_LOADS_PCT) -> list[TableRow]:
-    """The changeover duration against main-engine load (the table posted in the engine room)."""
+    """The changeover duration against main-engine load (the table posted in the engine room).
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+        The circuit whose valve is switched.
+    from_, to : str
+        Tank or fuel names.
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target.
+    loads_pct : tuple of float, default (25, 50, 75, 100) [% MCR]
+        Main-engine loads, one row each.
+
+    Returns
+    -------
+    list of TableRow
+        Per load: the speed [kn] by the propeller law (None without a main
+        engine), the times to limit and target [h] and the fuel burnt [t].
+    """
     from planner.ship.consumers import MainEngine
 
     mains = [c for c in system.consumers.values() if isinstance(c, MainEngine)]
@@ -107,7 +169,22 @@ def duration_table(system: FuelSystem, circuit: str, from_: str, to: str, limit_
 
 
 def flush_json(studies: list[FlushStudy], load_pct: float | None) -> dict:
-    """The ``changeover flush --json`` document (DESIGN.md contract keys, and more)."""
+    """The ``changeover flush --json`` document.
+
+    Parameters
+    ----------
+    studies : list of FlushStudy
+        One per circuit.
+    load_pct : float or None [% MCR]
+        The main-engine load studied (None: the schedule's own).
+
+    Returns
+    -------
+    dict
+        Plain data: the keys of docs/json-contract.md, and more (times [h],
+        masses [t], viscosities [cSt], the worst-inlet curve
+        ``[[t_h, sulphur_pct], ...]``).
+    """
     out = []
     for st in studies:
         s = st.summary

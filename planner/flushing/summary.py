@@ -73,7 +73,29 @@ def _main_fuel(system: FuelSystem, tank: str) -> str:
 def summarize(
     system: FuelSystem, result: FlushResult, circuit: str, limit_pct: float, target_pct: float
 ) -> CircuitSummary:
-    """The :class:`CircuitSummary` of ``circuit`` in ``result``."""
+    """The headline figures of one circuit's changeover in a simulation.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The system simulated (for the tanks' main fuels).
+    result : FlushResult
+        The simulation, which switched ``circuit``.
+    circuit : str
+        The circuit summarised.
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target: under the limit going to compliant fuel, near the new
+        fuel's sulphur going back.
+
+    Returns
+    -------
+    CircuitSummary
+        Times [h after the switch] found on the recorded trace (exact for
+        its linear interpolant, :mod:`planner.flushing.result`); fuel burnt [t]
+        by linear interpolation between step ends.
+    """
     sw = next(s for s in result.switches if s.circuit == circuit)
     from_fuel, to_fuel = _main_fuel(system, sw.from_tank), _main_fuel(system, sw.to_tank)
     down = system.fuels[to_fuel].sulphur_pct <= system.fuels[from_fuel].sulphur_pct
@@ -128,11 +150,41 @@ def flush(
     others: Sequence[Switch] = (),
     **options: float,
 ) -> tuple[FlushResult, CircuitSummary]:
-    """Simulate ``circuit``'s changeover from ``from_`` to ``to`` (tank or fuel names).
+    """Simulate ``circuit``'s changeover until its target is reached, and summarise it.
 
-    The horizon doubles from ``horizon_h`` until the target is reached (or
-    ``max_horizon_h``). ``others``: more switches simulated alongside (other
-    circuits sharing tanks). ``options`` go to :func:`simulate`.
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+        The circuit whose valve is switched.
+    from_, to : str
+        Tank or fuel names (:func:`~planner.flushing.network.make_switch`).
+    schedule : ConsumptionSchedule
+        The consumers' rates [t/h] from the switch.
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target (:func:`summarize`).
+    horizon_h : float, default 6 [h]
+        First horizon; it doubles until the target is reached, or
+    max_horizon_h : float, default 96 [h]
+        this longest horizon is simulated.
+    others : sequence of Switch
+        More switches simulated alongside (other circuits sharing tanks).
+    **options : float
+        ``output_step_s`` [s], ``tolerance`` [-], ``max_step_h`` [h] of
+        :func:`~planner.flushing.simulate.simulate`.
+
+    Returns
+    -------
+    result : FlushResult
+        The last simulation.
+    summary : CircuitSummary
+        Its summary for ``circuit``; ``time_to_target_h`` None when the target
+        is not reached by ``max_horizon_h``. The models are the simulator's
+        ([LEVENSPIEL-1999] well-stirred washout and plug flow): exact for plug
+        flow, and within a second of the closed forms at the default tolerance
+        in the tests.
     """
     sw = make_switch(system, circuit, from_, to)
     while True:

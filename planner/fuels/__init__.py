@@ -3,10 +3,13 @@
 One module per physical concept, pure functions over floats or numpy arrays:
 
 - :mod:`planner.fuels.fuel`: :class:`Fuel`, the delivery-note data, checked;
-- :mod:`planner.fuels.blending`: sulphur and density by mass, Refutas viscosity;
-- :mod:`planner.fuels.viscosity`: ASTM D341 viscosity-temperature line;
-- :mod:`planner.fuels.energy`: ISO 8217 specific energy, CCAI, SFOC scaling, SO₂;
-- :mod:`planner.fuels.volume`: Table 54B volume correction to 15 °C and mass.
+- :mod:`planner.fuels.blending`: sulphur and density by mass, blends of fuels;
+- :mod:`planner.fuels.refutas`: Refutas viscosity blending ([MAPLES-2000]);
+- :mod:`planner.fuels.viscosity`: ASTM D341 viscosity-temperature line ([ASTM-D341]);
+- :mod:`planner.fuels.energy`: ISO 8217 specific energy, CCAI ([ISO-8217]), SFOC
+  scaling ([ISO-3046]), SO₂ ([IUPAC-2021], [MEPC-340]);
+- :mod:`planner.fuels.volume`: Table 54B volume correction to 15 °C and mass
+  ([TABLE-54B]).
 """
 
 from planner.fuels.blending import (
@@ -15,11 +18,8 @@ from planner.fuels.blending import (
     blend_density_from_masses_kg_m3,
     blend_density_kg_m3,
     blend_sulphur_pct,
-    blend_viscosity_cst,
     mass_fractions,
     mass_fractions_from_volumes,
-    viscosity_blending_number,
-    viscosity_from_blending_number,
 )
 from planner.fuels.energy import (
     ISO_REFERENCE_Q_NET_MJ_KG,
@@ -34,6 +34,11 @@ from planner.fuels.energy import (
     so2_from_fuel_kg,
 )
 from planner.fuels.fuel import Fuel
+from planner.fuels.refutas import (
+    blend_viscosity_cst,
+    viscosity_blending_number,
+    viscosity_from_blending_number,
+)
 from planner.fuels.viscosity import (
     DEFAULT_SLOPE_DISTILLATE,
     DEFAULT_SLOPE_RESIDUAL,

@@ -33,3 +33,25 @@ def require(condition: ArrayLike, message: str | Callable[[], str]) -> None:
     """
     if not bool(np.all(condition)):
         raise ValueError(message() if callable(message) else message)
+
+
+def component_amounts(amounts: ArrayLike, label: str) -> NDArray[np.float64]:
+    """``amounts`` of each component (first axis) as float64, checked: finite, >= 0, not all 0."""
+    w = f64(amounts)
+    require(w.ndim >= 1 and w.shape[0] >= 1, lambda: f"{label} needs at least one component")
+    require(
+        np.isfinite(w) & (w >= 0.0), lambda: f"{label} must be finite and >= 0, got {amounts!r}"
+    )
+    require(np.sum(w, axis=0) > 0.0, lambda: f"{label} must not all be zero")
+    return w
+
+
+def per_component(
+    values: ArrayLike, weights: NDArray[np.float64], label: str
+) -> NDArray[np.float64]:
+    """``values`` as float64, checked to give one value per component of ``weights``."""
+    v = f64(values)
+    require(
+        v.ndim >= 1 and v.shape[0] == weights.shape[0], lambda: f"{label}: one value per component"
+    )
+    return v

@@ -1,21 +1,13 @@
 """Blending fuels: sulphur and density on a mass basis, viscosity by the Refutas method.
 
 - Sulphur (% m/m) blends linearly by **mass**: ``S = Σ mᵢ·Sᵢ / Σ mᵢ``
-  (REFERENCE.md section 3, [D]). Volumes must first become masses with each
-  fuel's density (:func:`mass_fractions_from_volumes`).
+  (a mass balance, [LEVENSPIEL-1999] [D]). Volumes must first become masses
+  with each fuel's density (:func:`mass_fractions_from_volumes`).
 - Density of a blend = total mass / total volume, assuming ideal mixing (no
   volume change on mixing; an assumption: real blends may contract slightly,
   which this ignores).
-- Viscosity: Refutas viscosity blending number (REFERENCE.md section 4, [P];
-  Maples, *Petroleum Refinery Process Economics*)::
-
-      VBN = 14.534·ln(ln(ν + 0.8)) + 10.975          (natural logs, ν in cSt)
-      VBN_blend = Σ wᵢ·VBNᵢ                          (mass fractions wᵢ)
-      ν = exp(exp((VBN − 10.975)/14.534)) − 0.8
-
-  with every ν at one and the same temperature. Valid for ν above about
-  0.2 cSt (where ln(ν + 0.8) > 0); like any blending index it ignores
-  incompatibility: check compatibility before mixing fuels.
+- Viscosity: Refutas viscosity blending number ([MAPLES-2000] [P]), in
+  :mod:`planner.fuels.refutas`, with every ν at one and the same temperature.
 
 Array conventions: the component axis is the **first** axis; further axes
 broadcast (e.g. masses of shape (n_components, n_times)).
@@ -26,55 +18,73 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 import numpy as np
-from numpy.typing import ArrayLike, NDArray
+from numpy.typing import ArrayLike
 
-from planner.fuels._arrays import FloatOrArray, f64, out, require
+from planner.fuels._arrays import FloatOrArray, component_amounts, out, per_component, require
 from planner.fuels.fuel import Fuel
-
-_VBN_SCALE = 14.534
-_VBN_OFFSET = 10.975
-
-
-def _weights(amounts: ArrayLike, label: str) -> NDArray[np.float64]:
-    w = f64(amounts)
-    require(w.ndim >= 1 and w.shape[0] >= 1, lambda: f"{label} needs at least one component")
-    require(
-        np.isfinite(w) & (w >= 0.0), lambda: f"{label} must be finite and >= 0, got {amounts!r}"
-    )
-    require(np.sum(w, axis=0) > 0.0, lambda: f"{label} must not all be zero")
-    return w
-
-
-def _pair(values: ArrayLike, weights: NDArray[np.float64], label: str) -> NDArray[np.float64]:
-    v = f64(values)
-    require(
-        v.ndim >= 1 and v.shape[0] == weights.shape[0], lambda: f"{label}: one value per component"
-    )
-    return v
+from planner.fuels.refutas import blend_viscosity_cst
 
 
 def mass_fractions(masses: ArrayLike) -> FloatOrArray:
-    """Mass fractions ``mᵢ / Σ m`` (dimensionless) of components of masses ``masses`` (any unit)."""
-    m = _weights(masses, "masses")
+    """Mass fractions of the components of a blend.
+
+    ``wᵢ = mᵢ / Σ mⱼ``
+
+    Parameters
+    ----------
+    masses : array_like [t, or any one mass unit]
+        Mass of each component along the first axis, ≥ 0, not all zero;
+        further axes broadcast.
+
+    Returns
+    -------
+    w : float or ndarray [-]
+        Mass fraction of each component; they sum to 1 along the first axis.
+
+    Notes
+    -----
+    A mass balance ([LEVENSPIEL-1999] [D]); valid for any components.
+
+    Examples
+    --------
+    >>> mass_fractions([3.0, 1.0])
+    array([0.75, 0.25])
+    """
+    m = component_amounts(masses, "masses")
     return out(m / np.sum(m, axis=0))
 
 
 def mass_fractions_from_volumes(volumes_m3: ArrayLike, densities_kg_m3: ArrayLike) -> FloatOrArray:
-    """Mass fractions (dimensionless) of components given as volumes.
+    """Mass fractions of the components of a blend given as volumes.
 
-    ``wᵢ = Vᵢ·ρᵢ / Σ Vⱼ·ρⱼ``. Volumes and densities must refer to the same
-    temperature (normally volumes at 15 °C with densities at 15 °C; see
-    :func:`planner.fuels.volume.standard_volume_m3`).
+    ``wᵢ = Vᵢ·ρᵢ / Σ Vⱼ·ρⱼ``
 
     Parameters
     ----------
-    volumes_m3 : array
-        Volume of each component, m³ (≥ 0, not all zero).
-    densities_kg_m3 : array
-        Density of each component, kg/m³ (> 0).
+    volumes_m3 : array_like [m³]
+        Volume of each component, ≥ 0, not all zero.
+    densities_kg_m3 : array_like [kg/m³]
+        Density of each component, > 0, at the temperature of the volumes.
+
+    Returns
+    -------
+    w : float or ndarray [-]
+        Mass fraction of each component.
+
+    Notes
+    -----
+    A mass balance ([LEVENSPIEL-1999] [D]). Volumes and densities must refer
+    to the same temperature (normally volumes at 15 °C with densities at
+    15 °C; see :func:`planner.fuels.volume.standard_volume_m3`). Equal volumes
+    of a 991 and an 845 kg/m³ fuel weigh 991:845, not 1:1.
+
+    Examples
+    --------
+    >>> mass_fractions_from_volumes([1.0, 1.0], [991.0, 845.0]).round(4)
+    array([0.5398, 0.4602])
     """
-    v = _weights(volumes_m3, "volumes_m3")
-    rho = _pair(densities_kg_m3, v, "densities_kg_m3")
+    v = component_amounts(volumes_m3, "volumes_m3")
+    rho = per_component(densities_kg_m3, v, "densities_kg_m3")
     require(
         np.isfinite(rho) & (rho > 0.0),
         lambda: f"densities_kg_m3 must be positive, got {densities_kg_m3!r}",
@@ -83,20 +93,68 @@ def mass_fractions_from_volumes(volumes_m3: ArrayLike, densities_kg_m3: ArrayLik
 
 
 def blend_sulphur_pct(masses: ArrayLike, sulphur_pct: ArrayLike) -> FloatOrArray:
-    """Sulphur of a blend, % m/m: ``Σ mᵢ·Sᵢ / Σ mᵢ`` (masses in any one unit)."""
-    m = _weights(masses, "masses")
-    s = _pair(sulphur_pct, m, "sulphur_pct")
+    """Sulphur content of a blend, by mass.
+
+    ``S = Σ mᵢ·Sᵢ / Σ mᵢ``
+
+    Parameters
+    ----------
+    masses : array_like [t, or any one mass unit]
+        Mass of each component along the first axis, ≥ 0, not all zero.
+    sulphur_pct : array_like [% m/m]
+        Sulphur content of each component, ≥ 0.
+
+    Returns
+    -------
+    S : float or ndarray [% m/m]
+        Sulphur content of the blend.
+
+    Notes
+    -----
+    Sulphur mixes linearly by mass, a mass balance ([LEVENSPIEL-1999] [D]);
+    never average sulphur by volume.
+
+    Examples
+    --------
+    >>> round(blend_sulphur_pct([3.0, 1.0], [0.5, 0.1]), 6)
+    0.4
+    """
+    m = component_amounts(masses, "masses")
+    s = per_component(sulphur_pct, m, "sulphur_pct")
     require(np.isfinite(s) & (s >= 0.0), lambda: f"sulphur_pct must be >= 0, got {sulphur_pct!r}")
     return out(np.sum(m * s, axis=0) / np.sum(m, axis=0))
 
 
 def blend_density_kg_m3(volumes_m3: ArrayLike, densities_kg_m3: ArrayLike) -> FloatOrArray:
-    """Density of a blend of volumes, kg/m³: total mass / total volume (ideal mixing).
+    """Density of a blend of volumes: total mass over total volume.
 
-    ``ρ = Σ Vᵢ·ρᵢ / Σ Vᵢ``, volumes and densities at one temperature (15 °C).
+    ``ρ = Σ Vᵢ·ρᵢ / Σ Vᵢ``
+
+    Parameters
+    ----------
+    volumes_m3 : array_like [m³]
+        Volume of each component, ≥ 0, not all zero.
+    densities_kg_m3 : array_like [kg/m³]
+        Density of each component, > 0, at the temperature of the volumes
+        (normally 15 °C).
+
+    Returns
+    -------
+    rho : float or ndarray [kg/m³]
+        Density of the blend at that temperature.
+
+    Notes
+    -----
+    Mass balance ([D]) with ideal mixing: no volume change on mixing, an
+    assumption (real blends may contract slightly).
+
+    Examples
+    --------
+    >>> round(blend_density_kg_m3([1.0, 1.0], [991.0, 845.0]), 6)
+    918.0
     """
-    v = _weights(volumes_m3, "volumes_m3")
-    rho = _pair(densities_kg_m3, v, "densities_kg_m3")
+    v = component_amounts(volumes_m3, "volumes_m3")
+    rho = per_component(densities_kg_m3, v, "densities_kg_m3")
     require(
         np.isfinite(rho) & (rho > 0.0),
         lambda: f"densities_kg_m3 must be positive, got {densities_kg_m3!r}",
@@ -105,55 +163,39 @@ def blend_density_kg_m3(volumes_m3: ArrayLike, densities_kg_m3: ArrayLike) -> Fl
 
 
 def blend_density_from_masses_kg_m3(masses: ArrayLike, densities_kg_m3: ArrayLike) -> FloatOrArray:
-    """Density of a blend of masses, kg/m³: ``Σ mᵢ / Σ (mᵢ/ρᵢ)`` (ideal mixing)."""
-    m = _weights(masses, "masses")
-    rho = _pair(densities_kg_m3, m, "densities_kg_m3")
+    """Density of a blend of masses: total mass over total volume.
+
+    ``ρ = Σ mᵢ / Σ (mᵢ/ρᵢ)``
+
+    Parameters
+    ----------
+    masses : array_like [t, or any one mass unit]
+        Mass of each component, ≥ 0, not all zero.
+    densities_kg_m3 : array_like [kg/m³]
+        Density of each component, > 0 (normally at 15 °C).
+
+    Returns
+    -------
+    rho : float or ndarray [kg/m³]
+        Density of the blend at the temperature of the densities.
+
+    Notes
+    -----
+    Mass balance ([D]) with ideal mixing (no volume change on mixing, an
+    assumption).
+
+    Examples
+    --------
+    >>> round(blend_density_from_masses_kg_m3([991.0, 845.0], [991.0, 845.0]), 6)
+    918.0
+    """
+    m = component_amounts(masses, "masses")
+    rho = per_component(densities_kg_m3, m, "densities_kg_m3")
     require(
         np.isfinite(rho) & (rho > 0.0),
         lambda: f"densities_kg_m3 must be positive, got {densities_kg_m3!r}",
     )
     return out(np.sum(m, axis=0) / np.sum(m / rho, axis=0))
-
-
-def viscosity_blending_number(viscosity_cst: ArrayLike) -> FloatOrArray:
-    """Refutas viscosity blending number (dimensionless) of ``viscosity_cst`` cSt.
-
-    ``VBN = 14.534·ln(ln(ν + 0.8)) + 10.975``; ν > 0.2 cSt.
-    """
-    nu = f64(viscosity_cst)
-    require(
-        np.isfinite(nu) & (nu > 0.2),
-        lambda: f"viscosity_cst must be > 0.2 cSt, got {viscosity_cst!r}",
-    )
-    return out(_VBN_SCALE * np.log(np.log(nu + 0.8)) + _VBN_OFFSET)
-
-
-def viscosity_from_blending_number(vbn: ArrayLike) -> FloatOrArray:
-    """Kinematic viscosity, cSt, of Refutas blending number ``vbn``.
-
-    ``ν = exp(exp((VBN − 10.975)/14.534)) − 0.8``.
-    """
-    x = f64(vbn)
-    require(np.isfinite(x), lambda: f"vbn must be finite, got {vbn!r}")
-    return out(np.exp(np.exp((x - _VBN_OFFSET) / _VBN_SCALE)) - 0.8)
-
-
-def blend_viscosity_cst(masses: ArrayLike, viscosity_cst: ArrayLike) -> FloatOrArray:
-    """Viscosity of a blend, cSt, by Refutas with mass fractions.
-
-    Parameters
-    ----------
-    masses : array
-        Mass of each component (any one unit; only fractions matter).
-    viscosity_cst : array
-        Each component's kinematic viscosity, cSt, **all at one temperature**;
-        the result is the blend's viscosity at that temperature.
-    """
-    m = _weights(masses, "masses")
-    nu = _pair(viscosity_cst, m, "viscosity_cst")
-    w = m / np.sum(m, axis=0)
-    vbn = np.sum(w * f64(viscosity_blending_number(nu)), axis=0)
-    return viscosity_from_blending_number(vbn)
 
 
 def blend(
@@ -163,7 +205,7 @@ def blend(
     name: str = "blend",
     temperatures_c: tuple[float, float] | None = None,
 ) -> Fuel:
-    """The fuel formed by mixing ``masses`` of ``fuels``, as a :class:`Fuel`.
+    """The fuel formed by mixing masses of fuels, as a :class:`Fuel`.
 
     - sulphur, water, ash and net specific energy: mass-weighted (water and
       ash only when every component gives them, else None);
@@ -180,16 +222,38 @@ def blend(
     ----------
     fuels : sequence of Fuel
         The components.
-    masses : sequence of float
-        Mass of each component (any one unit, e.g. tonnes), ≥ 0, not all 0.
+    masses : sequence of float [t, or any one mass unit]
+        Mass of each component, ≥ 0, not all 0.
     name : str, default "blend"
         Name of the resulting fuel.
-    temperatures_c : (float, float), optional
-        The two common temperatures for viscosity blending, °C.
+    temperatures_c : (float, float) or None [°C]
+        The two common temperatures for viscosity blending; None for the
+        defaults above.
+
+    Returns
+    -------
+    Fuel
+        The blend, with a two-point viscosity line.
+
+    Notes
+    -----
+    Sulphur by mass balance ([LEVENSPIEL-1999] [D]); viscosity by Refutas
+    ([MAPLES-2000] [P]) and the [ASTM-D341] line through the two blended
+    points.
+
+    Examples
+    --------
+    >>> hfo = Fuel(name="HFO", grade="RMG 380", sulphur_pct=0.50,
+    ...            density_kg_m3=991.0, viscosity_cst=380.0, viscosity_ref_c=50.0)
+    >>> mgo = Fuel(name="MGO", grade="DMA", sulphur_pct=0.10,
+    ...            density_kg_m3=845.0, viscosity_cst=3.0, viscosity_ref_c=40.0)
+    >>> mix = blend([hfo, mgo], [3.0, 1.0])
+    >>> mix.grade, round(mix.sulphur_pct, 2)
+    ('blend (RMG 380 + DMA)', 0.4)
     """
     fuels = list(fuels)
     require(len(fuels) >= 1, "blend needs at least one fuel")
-    m = _weights(masses, "masses")
+    m = component_amounts(masses, "masses")
     require(m.ndim == 1 and m.shape[0] == len(fuels), "blend: one mass per fuel")
     w = m / np.sum(m)
     if temperatures_c is None:
@@ -233,9 +297,42 @@ def blend_by_volume(
     name: str = "blend",
     temperatures_c: tuple[float, float] | None = None,
 ) -> Fuel:
-    """:func:`blend` of volumes at 15 °C, m³ (masses ``Vᵢ·ρ15ᵢ``)."""
+    """The fuel formed by mixing volumes at 15 °C of fuels: :func:`blend` by volume.
+
+    The masses are ``mᵢ = Vᵢ·ρ15ᵢ`` (each fuel's density at 15 °C).
+
+    Parameters
+    ----------
+    fuels : sequence of Fuel
+        The components.
+    volumes15_m3 : sequence of float [m³]
+        Volume at 15 °C of each component, ≥ 0, not all 0.
+    name : str, default "blend"
+        Name of the resulting fuel.
+    temperatures_c : (float, float) or None [°C]
+        The two common temperatures for viscosity blending (see :func:`blend`).
+
+    Returns
+    -------
+    Fuel
+        The blend.
+
+    Notes
+    -----
+    As :func:`blend`; volumes become masses first (mass balance, [D]).
+
+    Examples
+    --------
+    >>> hfo = Fuel(name="HFO", grade="RMG 380", sulphur_pct=0.50,
+    ...            density_kg_m3=991.0, viscosity_cst=380.0, viscosity_ref_c=50.0)
+    >>> mgo = Fuel(name="MGO", grade="DMA", sulphur_pct=0.10,
+    ...            density_kg_m3=845.0, viscosity_cst=3.0, viscosity_ref_c=40.0)
+    >>> mix = blend_by_volume([hfo, mgo], [50.0, 50.0])
+    >>> round(mix.sulphur_pct, 4), round(mix.density_kg_m3, 6)
+    (0.3159, 918.0)
+    """
     fuels = list(fuels)
-    v = _weights(volumes15_m3, "volumes15_m3")
+    v = component_amounts(volumes15_m3, "volumes15_m3")
     require(v.ndim == 1 and v.shape[0] == len(fuels), "blend_by_volume: one volume per fuel")
     masses = v * np.array([f.density_kg_m3 for f in fuels])
     return blend(fuels, masses, name=name, temperatures_c=temperatures_c)

@@ -8,16 +8,16 @@ the value.
 
 Residual or distillate (:attr:`Fuel.is_residual`), the rule used:
 
-1. grade starting ``RM`` (ISO 8217 residual marine) → residual;
-2. grade starting ``DM`` (ISO 8217 distillate marine), or named ``MGO`` /
-   ``MDO`` → distillate;
+1. grade starting ``RM`` (ISO 8217 residual marine, [ISO-8217]) → residual;
+2. grade starting ``DM`` (ISO 8217 distillate marine, [ISO-8217]), or named
+   ``MGO`` / ``MDO`` (trade names, common practice) → distillate;
 3. anything else (``VLSFO``, ``ULSFO``, ``HSFO``, free text) by its
    properties: residual if density at 15 °C is above 900 kg/m³ or the
    viscosity at 40 °C is above 11 cSt, the largest limits of the ISO 8217
-   distillate grades (DMB) [M: limits from memory]; otherwise distillate. The
-   viscosity at 40 °C comes from the fuel's own D341 line, or with one point
-   from the distillate default slope (the question asked is "could this be a
-   distillate?").
+   distillate grades (DMB; [ISO-8217] [M], limits from memory); otherwise
+   distillate. The viscosity at 40 °C comes from the fuel's own D341 line,
+   or with one point from the distillate default slope (the question asked
+   is "could this be a distillate?").
 
 Grade matching ignores case and surrounding spaces.
 """
@@ -43,10 +43,10 @@ from planner.fuels.viscosity import (
 )
 
 DISTILLATE_MAX_DENSITY_KG_M3 = 900.0
-"""Largest density at 15 °C of an ISO 8217 distillate grade (DMB), kg/m³ [M]."""
+"""Largest density at 15 °C of an ISO 8217 distillate grade (DMB), kg/m³ ([ISO-8217] [M])."""
 
 DISTILLATE_MAX_VISCOSITY_40_CST = 11.0
-"""Largest viscosity at 40 °C of an ISO 8217 distillate grade (DMB), cSt [M]."""
+"""Largest viscosity at 40 °C of an ISO 8217 distillate grade (DMB), cSt ([ISO-8217] [M])."""
 
 MIN_VISCOSITY_POINT_SEPARATION_C = 5.0
 """Two viscosity points closer than this (°C) give an ill-conditioned D341 line; refused."""
@@ -94,17 +94,26 @@ class Fuel:
         Kinematic viscosity, cSt (mm²/s), ≥ 0.21, at ``viscosity_ref_c``.
     viscosity_ref_c : float
         Temperature of ``viscosity_cst``, °C, −40 to 200 (50 for residual, 40
-        for distillate grades by ISO 8217 convention).
+        for distillate grades by ISO 8217 convention, [ISO-8217] [M]).
     viscosity2_cst, viscosity2_ref_c : float or None
         Optional second viscosity point (both or neither), at least 5 °C from
         the first, with lower viscosity at the higher temperature. Without it
-        the D341 slope is assumed (:mod:`planner.fuels.viscosity`).
+        the [ASTM-D341] slope is assumed (:mod:`planner.fuels.viscosity`).
     water_pct, ash_pct : float or None
         Water and ash, % m/m, 0-10; used by the ISO 8217 specific-energy
         estimate (taken as 0 when not given).
     q_net_mj_kg : float or None
         Net specific energy, MJ/kg, 30-50, when measured or stated; otherwise
-        estimated by the ISO 8217 annex formula (:attr:`q_net`).
+        estimated by the ISO 8217 annex formula ([ISO-8217], :attr:`q_net`).
+
+    Examples
+    --------
+    >>> hfo = Fuel(name="HFO", grade="RMG 380", sulphur_pct=0.48,
+    ...            density_kg_m3=991.0, viscosity_cst=380.0, viscosity_ref_c=50.0)
+    >>> hfo.is_residual, hfo.viscosity_slope_assumed
+    (True, True)
+    >>> round(float(hfo.viscosity_at(50.0)), 6)
+    380.0
     """
 
     name: str

@@ -1,6 +1,6 @@
 """Kinematic viscosity against temperature: the ASTM D341 Walther-type line.
 
-ASTM D341 (REFERENCE.md section 4, [P]) puts a petroleum liquid's kinematic
+ASTM D341 ([ASTM-D341] [P]) puts a petroleum liquid's kinematic
 viscosity on a straight line in these coordinates::
 
     log10(log10(Z)) = A - B * log10(T)
@@ -16,10 +16,11 @@ Validity
 - Petroleum liquids (fuel oils, gas oils, lubricating oils) in the liquid
   range, away from wax appearance (below the cloud/pour point the line does
   not hold) and from boiling.
-- This form of ``Z`` holds for viscosities of about 0.21 cSt and above [M:
-  range quoted in the project brief, not in REFERENCE.md]. Inputs below
-  0.21 cSt are refused; computed values that fall below it (extreme heating of
-  a light distillate) are returned but are outside the method.
+- This form of ``Z`` holds for viscosities of about 0.21 cSt and above
+  ([ASTM-D341] [M]: the range is from memory, not checked against the
+  standard). Inputs below 0.21 cSt are refused; computed values that fall
+  below it (extreme heating of a light distillate) are returned but are
+  outside the method.
 - The line is best between the two measured points; extrapolating far beyond
   them (e.g. from 40/100 °C data to 150 °C) adds error that ASTM D341 does not
   quantify.
@@ -51,7 +52,7 @@ KELVIN_OFFSET = 273.15
 """Celsius to kelvin offset."""
 
 MIN_VISCOSITY_CST = 0.21
-"""Lowest kinematic viscosity, cSt, for which this form of Z is used [M]."""
+"""Lowest kinematic viscosity, cSt, for which this form of Z is used ([ASTM-D341] [M])."""
 
 DEFAULT_SLOPE_RESIDUAL = 3.5
 """Assumed D341 slope B for residual fuels with one known point (assumption, see module doc)."""
@@ -72,9 +73,20 @@ def default_slope(is_residual: bool) -> float:
 
     Returns
     -------
-    float
-        :data:`DEFAULT_SLOPE_RESIDUAL` or :data:`DEFAULT_SLOPE_DISTILLATE`
-        (an assumption, not part of ASTM D341; see the module docstring).
+    B : float [-]
+        :data:`DEFAULT_SLOPE_RESIDUAL` (3.5) or :data:`DEFAULT_SLOPE_DISTILLATE`
+        (4.0).
+
+    Notes
+    -----
+    An assumption, not part of [ASTM-D341]: the slopes of typical fuels
+    (common practice; the typical pairs behind them [M], see the module
+    docstring).
+
+    Examples
+    --------
+    >>> default_slope(True), default_slope(False)
+    (3.5, 4.0)
     """
     return DEFAULT_SLOPE_RESIDUAL if is_residual else DEFAULT_SLOPE_DISTILLATE
 
@@ -89,16 +101,36 @@ def _kelvin(temperature_c: ArrayLike) -> np.ndarray:
 
 
 def d341_z(viscosity_cst: ArrayLike) -> FloatOrArray:
-    """ASTM D341 ``Z = ν + 0.7 + exp(−1.47 − 1.84ν − 0.51ν²)``, ν in cSt.
+    """The ASTM D341 variable Z of a kinematic viscosity.
 
-    Valid for ν ≥ about 0.21 cSt (:data:`MIN_VISCOSITY_CST`).
+    ``Z = ν + 0.7 + exp(−1.47 − 1.84ν − 0.51ν²)``
+
+    Parameters
+    ----------
+    viscosity_cst : float or array_like [cSt]
+        Kinematic viscosity ν (mm²/s).
+
+    Returns
+    -------
+    Z : float or ndarray [cSt]
+        The D341 variable (in cSt, like ν).
+
+    Notes
+    -----
+    [ASTM-D341] [P], for petroleum liquids; this form holds for ν ≥ about
+    0.21 cSt (:data:`MIN_VISCOSITY_CST`, [M]).
+
+    Examples
+    --------
+    >>> round(d341_z(2.0), 4)
+    2.7008
     """
     nu = f64(viscosity_cst)
     return out(nu + 0.7 + np.exp(-1.47 - 1.84 * nu - 0.51 * nu * nu))
 
 
 def d341_viscosity_from_z(z: ArrayLike) -> FloatOrArray:
-    """Invert :func:`d341_z`: the kinematic viscosity, cSt, whose ``Z`` is ``z``.
+    """The kinematic viscosity whose ASTM D341 variable is Z: the inverse of :func:`d341_z`.
 
     Solves ``ν + 0.7 + exp(−1.47 − 1.84ν − 0.51ν²) = Z`` by Newton's method
     from ``ν₀ = Z − 0.7``; the left side rises monotonically for ν ≥ 0, so the
@@ -106,9 +138,23 @@ def d341_viscosity_from_z(z: ArrayLike) -> FloatOrArray:
 
     Parameters
     ----------
-    z : float or array
+    z : float or array_like [cSt]
         ASTM D341 Z, must be > 1 (any point on a D341 line has Z > 1); an
         infinite Z (overflow) gives an infinite viscosity.
+
+    Returns
+    -------
+    nu : float or ndarray [cSt]
+        Kinematic viscosity.
+
+    Notes
+    -----
+    [ASTM-D341] [P] gives Z of ν; the inversion is exact to round-off ([D]).
+
+    Examples
+    --------
+    >>> round(d341_viscosity_from_z(d341_z(2.0)), 12)
+    2.0
     """
     z_in = f64(z)
     require(~np.isnan(z_in) & (z_in > 1.0), lambda: f"Z must be > 1, got {z!r}")
@@ -134,19 +180,35 @@ def d341_fit(
 ) -> tuple[FloatOrArray, FloatOrArray]:
     """ASTM D341 constants ``(A, B)`` of the line through two measured points.
 
+    ``B = (W₁ − W₂) / (log10 T₂ − log10 T₁)``, ``A = W₁ + B·log10 T₁``, with
+    ``W = log10 log10 Z(ν)`` and T in kelvin.
+
     Parameters
     ----------
-    viscosity1_cst, viscosity2_cst : float or array
-        Kinematic viscosities, cSt (mm²/s), each ≥ 0.21 cSt.
-    temperature1_c, temperature2_c : float or array
-        Temperatures of the two measurements, °C; must differ.
+    viscosity1_cst, viscosity2_cst : float or array_like [cSt]
+        Kinematic viscosities (mm²/s), each ≥ 0.21 cSt.
+    temperature1_c, temperature2_c : float or array_like [°C]
+        Temperatures of the two measurements; must differ.
 
     Returns
     -------
-    (A, B) : tuple of float or array
-        Dimensionless constants of ``log10 log10 Z = A − B·log10 T`` (T in K).
+    (A, B) : tuple of float or ndarray [-]
+        Constants of ``log10 log10 Z = A − B·log10 T`` (T in K).
         For petroleum fuels ``B`` is positive (viscosity falls as temperature
         rises).
+
+    Notes
+    -----
+    [ASTM-D341] [P], for petroleum liquids in their liquid range, away from
+    wax appearance and boiling; best between the two points.
+
+    Examples
+    --------
+    RMG 380 with a typical 35 cSt at 100 °C (a typical pair, [M]):
+
+    >>> a, b = d341_fit(380.0, 50.0, 35.0, 100.0)
+    >>> round(b, 2)
+    3.53
     """
     nu1, nu2 = f64(viscosity1_cst), f64(viscosity2_cst)
     for nu in (nu1, nu2):
@@ -171,14 +233,31 @@ def d341_intercept(
     Use with :func:`default_slope` when only one viscosity is known; the slope
     is then an assumption and results away from ``temperature_c`` carry it.
 
+    ``A = log10 log10 Z(ν) + B·log10 T`` (T in kelvin)
+
     Parameters
     ----------
-    viscosity_cst : float or array
-        Kinematic viscosity, cSt, ≥ 0.21 cSt.
-    temperature_c : float or array
-        Temperature of that viscosity, °C.
-    slope_b : float or array
-        D341 slope ``B`` (dimensionless).
+    viscosity_cst : float or array_like [cSt]
+        Kinematic viscosity, ≥ 0.21 cSt.
+    temperature_c : float or array_like [°C]
+        Temperature of that viscosity.
+    slope_b : float or array_like [-]
+        D341 slope ``B``.
+
+    Returns
+    -------
+    A : float or ndarray [-]
+        D341 constant of the line.
+
+    Notes
+    -----
+    The line is [ASTM-D341] [P]; the slope, when assumed, is not.
+
+    Examples
+    --------
+    >>> a = d341_intercept(380.0, 50.0, default_slope(True))
+    >>> round(d341_viscosity_cst(50.0, a, 3.5), 6)
+    380.0
     """
     nu = f64(viscosity_cst)
     require(
@@ -190,10 +269,33 @@ def d341_intercept(
 
 
 def d341_viscosity_cst(temperature_c: ArrayLike, a: ArrayLike, b: ArrayLike) -> FloatOrArray:
-    """Kinematic viscosity, cSt, at ``temperature_c`` (°C) on the ASTM D341 line ``(a, b)``.
+    """Kinematic viscosity at a temperature on an ASTM D341 line.
 
-    ``Z = 10**10**(A − B·log10 T)``, then ν from Z exactly
-    (:func:`d341_viscosity_from_z`). See the module docstring for validity.
+    ``Z = 10**10**(A − B·log10 T)`` (T in kelvin), then ν from Z exactly
+    (:func:`d341_viscosity_from_z`).
+
+    Parameters
+    ----------
+    temperature_c : float or array_like [°C]
+        Temperature, above −273.15 °C.
+    a, b : float or array_like [-]
+        D341 constants of the line (:func:`d341_fit`, :func:`d341_intercept`).
+
+    Returns
+    -------
+    nu : float or ndarray [cSt]
+        Kinematic viscosity; inf where Z overflows (beyond about 1e308 cSt).
+
+    Notes
+    -----
+    [ASTM-D341] [P]; see the module docstring for validity (liquid range,
+    best between the measured points).
+
+    Examples
+    --------
+    >>> a, b = d341_fit(380.0, 50.0, 35.0, 100.0)
+    >>> round(d341_viscosity_cst(100.0, a, b), 6)
+    35.0
     """
     log_t = np.log10(_kelvin(temperature_c))
     with np.errstate(over="ignore"):  # beyond ~1e308 cSt: returned as inf
@@ -202,10 +304,34 @@ def d341_viscosity_cst(temperature_c: ArrayLike, a: ArrayLike, b: ArrayLike) -> 
 
 
 def temperature_for_viscosity(viscosity_cst: ArrayLike, a: ArrayLike, b: ArrayLike) -> FloatOrArray:
-    """Temperature, °C, at which the ASTM D341 line ``(a, b)`` reaches ``viscosity_cst`` (cSt).
+    """Temperature at which an ASTM D341 line reaches a kinematic viscosity.
 
     ``T = 10**((A − log10 log10 Z)/B)`` kelvin, ``Z`` from :func:`d341_z`.
-    ``b`` must be non-zero; ``viscosity_cst`` ≥ 0.21 cSt.
+
+    Parameters
+    ----------
+    viscosity_cst : float or array_like [cSt]
+        Target kinematic viscosity, ≥ 0.21 cSt.
+    a, b : float or array_like [-]
+        D341 constants of the line; ``b`` non-zero.
+
+    Returns
+    -------
+    t : float or ndarray [°C]
+        Temperature.
+
+    Notes
+    -----
+    [ASTM-D341] [P]; residual fuel is heated to about 13-17 cSt at the
+    injectors ([ENGINE-GUIDANCE] [P]), which this finds.
+
+    Examples
+    --------
+    The temperature giving 15 cSt for RMG 380 with 35 cSt at 100 °C:
+
+    >>> a, b = d341_fit(380.0, 50.0, 35.0, 100.0)
+    >>> round(temperature_for_viscosity(15.0, a, b), 1)
+    128.6
     """
     nu = f64(viscosity_cst)
     require(

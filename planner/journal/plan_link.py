@@ -1,7 +1,7 @@
 """Prefilling an entry from a plan: the planned time and place of one changeover step.
 
 The plan is the JSON of ``changeover plan VOYAGE --json`` (keys per
-DESIGN.md): ``changeovers`` is a list of ``{"area", "circuit", "direction":
+docs/json-contract.md): ``changeovers`` is a list of ``{"area", "circuit", "direction":
 "to_compliant" | "to_regular", "start_utc", "start_lat", "start_lon",
 "compliant_utc" (or null), "boundary_utc", "boundary_lat", "boundary_lon",
 "margin_h"}``. ``--changeover N`` picks the N-th (from 1).

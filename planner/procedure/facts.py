@@ -1,4 +1,5 @@
-"""The facts of the ship's written changeover procedure (MARPOL Annex VI regulation 14.6).
+"""The facts of the ship's written changeover procedure (MARPOL Annex VI regulation 14.6,
+[MARPOL-VI]).
 
 Pure computation over a :class:`planner.ship.system.FuelSystem`: what the printed
 procedure (:mod:`planner.documents.procedure_pdf`) and ``changeover procedure
@@ -6,7 +7,7 @@ procedure (:mod:`planner.documents.procedure_pdf`) and ``changeover procedure
 reportlab.
 
 - the fuels, with the inlet temperatures the engine window asks of each
-  (ASTM D341 line of the delivery-note viscosity, :mod:`planner.fuels`);
+  (ASTM D341 line of the delivery-note viscosity, [ASTM-D341], :mod:`planner.fuels`);
 - the tanks, each circuit's changeover valve positions, its pipes and stirred
   volumes in flow order with the flow through each at the reference load
   (on the regular fuel) and the time that volume holds, V / q;
@@ -24,7 +25,7 @@ sulphur % m/m.
 
 from __future__ import annotations
 
-from dataclasses import asdict, dataclass, field
+from dataclasses import asdict, dataclass, field, replace
 
 from planner.common.defaults import DEFAULT_LIMIT_PCT, DEFAULT_MARGIN_H, DEFAULT_TARGET_FRACTION
 from planner.flushing import schedule_at
@@ -368,7 +369,7 @@ def gather(system: FuelSystem, *, limit_pct: float = DEFAULT_LIMIT_PCT,
     swing = max(regular) - min(compliant) if regular and compliant else 0.0
     facts = ProcedureFacts(system.ship, limit_pct, target, margin_h, system.inlet, fuels, tanks,
                            circuits, max(swing, 0.0), voyage)
-    return ProcedureFacts(**{**facts.__dict__, "warnings": _warnings(facts)})
+    return replace(facts, warnings=_warnings(facts))
 
 
 def facts_json(facts: ProcedureFacts) -> dict:

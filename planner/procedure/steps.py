@@ -6,6 +6,11 @@ figures from :class:`planner.procedure.facts.ProcedureFacts` written in: tanks,
 circuits, fuels, the inlet limits, the modelled durations and viscosity path.
 :mod:`planner.documents.procedure_pdf` lays them out. Durations in running
 text are ``1 h 05 min``; in tables ``h:mm``.
+
+The advice rests on: the record of regulation 14.6 ([MARPOL-VI]); thermal shock
+as the hazard, hence the inlet's rate limit ([TC-SSB-04-2015]); completing the
+switch in open water, clear of restricted waters ([USCG-MSA-03-09]); and the
+engine's viscosity window ([ENGINE-GUIDANCE]). The figures are the ship file's.
 """
 
 from __future__ import annotations

@@ -1,13 +1,14 @@
 """The parts of a fuel system: tanks, volumes, pipes, flows, links and circuits.
 
-Node kinds (REFERENCE.md section 3 for the mixing models):
+Node kinds (the mixing models are those of [LEVENSPIEL-1999]):
 
-- :class:`Tank`: well stirred, its level may fall or rise (variable volume);
+- :class:`Tank`: well stirred ([LEVENSPIEL-1999] [D]), its level may fall or
+  rise (variable volume);
   holds a content of named fuels (m³ at 15 °C each) up to a capacity.
 - :class:`Stirred`: a fixed, always full, well-stirred volume (mixing or
   de-aeration tank, heater, filter, or a lumped volume).
-- :class:`Pipe`: plug flow, a pure transport delay of its volume; the volume
-  is given directly or by length and bore.
+- :class:`Pipe`: plug flow, a pure transport delay of its volume
+  ([LEVENSPIEL-1999] [P]); the volume is given directly or by length and bore.
 - consumers (:mod:`planner.ship.consumers`): sinks burning their demand.
 
 A :class:`Circuit` is a changeover valve (the pseudo-node ``"valve"``, which
@@ -58,6 +59,36 @@ def _volume(place: str, value: object) -> float:
 
 
 def check_name(place: str, name: object) -> str:
+    """A node name, checked: a non-empty string and not a pseudo-node name.
+
+    Parameters
+    ----------
+    place : str
+        Ship-file key of the name, for the message (``"tanks.hfo_service"``).
+    name : object
+        The name to check.
+
+    Returns
+    -------
+    str
+        ``name`` unchanged.
+
+    Raises
+    ------
+    FuelSystemError
+        When ``name`` is empty, not a string, or one of :data:`RESERVED_NAMES`
+        (``"valve"``, ``"tank_in_use"``).
+
+    Examples
+    --------
+    >>> check_name("tanks.hfo_service", "hfo_service")
+    'hfo_service'
+    >>> try:
+    ...     check_name("volumes.valve", "valve")
+    ... except FuelSystemError as e:
+    ...     print(e)
+    volumes.valve: 'valve': expected a name other than ['tank_in_use', 'valve']
+    """
     if not isinstance(name, str) or not name.strip():
         raise FuelSystemError(place, name, "a non-empty name")
     if name in RESERVED_NAMES:

@@ -1,7 +1,7 @@
 """Fuel consumers and their consumption: main engine, generators, boilers.
 
 Consumption is stated at the ISO reference net specific energy of
-42.7 MJ/kg (ISO 3046-1 / ISO 15550; REFERENCE.md section 4, [M]) and scaled to
+42.7 MJ/kg (ISO 3046-1 / ISO 15550; [ISO-3046] [M], from memory) and scaled to
 the fuel actually burnt: ``m_fuel = m_ISO × 42.7 / Q_net(fuel)``
 (:func:`planner.fuels.sfoc_scaled`). The flushing simulation applies that
 scaling to the blend reaching each inlet at every moment.
@@ -9,7 +9,7 @@ scaling to the blend reaching each inlet at every moment.
 - :class:`MainEngine`: maximum continuous rating (MCR, kW), specific fuel oil
   consumption (SFOC, g/kWh at ISO reference conditions) at a reference load,
   optionally an SFOC curve against load, and the propeller law: shaft power
-  grows with the cube of speed (REFERENCE.md section 4, common practice),
+  grows with the cube of speed ([PROPELLER-LAW], common practice),
   ``P = P_ref·(v/v_ref)³`` from the reference speed at the reference load.
 - :class:`Generator`: a constant running power, kW, times its SFOC.
 - :class:`Boiler`: a constant fuel rate, t/h, stated for a fuel of a given net
@@ -30,7 +30,7 @@ import numpy as np
 
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG, Fuel, sfoc_scaled
 
-_MAX_LOAD_PCT = 110.0  # overload rating; the propeller law is not extrapolated further
+_MAX_LOAD_PCT = 110.0  # overload rating (common practice); the propeller law stops here
 
 
 def _positive(owner: str, field: str, value: object, *, allow_zero: bool = False) -> float:
@@ -234,10 +234,40 @@ CONSUMER_KINDS: dict[str, type] = {
 def iso_demand_t_h(
     consumer: Consumer, *, load_pct: float | None = None, speed_kn: float | None = None
 ) -> float:
-    """Fuel rate of ``consumer`` at the ISO reference net specific energy, t/h.
+    """Fuel rate of a consumer at the ISO reference net specific energy.
 
-    ``load_pct`` / ``speed_kn`` apply to a main engine only (default its
-    reference load); generators and boilers run at their constant rate.
+    ``m = P·SFOC / 10⁶`` (P in kW, SFOC in g/kWh, m in t/h); a main engine's
+    power follows the propeller law ``P = P_ref·(v/v_ref)³``.
+
+    Parameters
+    ----------
+    consumer : MainEngine, Generator or Boiler
+        The consumer.
+    load_pct : float or None [% MCR]
+        Main engine load, 0-110; main engines only.
+    speed_kn : float or None [kn]
+        Ship speed, for the propeller law; main engines only. Give at most one
+        of ``load_pct`` and ``speed_kn``; neither means the reference load.
+
+    Returns
+    -------
+    m_ISO : float [t/h]
+        Fuel rate at 42.7 MJ/kg; generators and boilers run at their constant
+        rate.
+
+    Notes
+    -----
+    Reference energy [ISO-3046] [M], from memory; the propeller law
+    [PROPELLER-LAW] (common practice), within 0-110 % MCR.
+
+    Examples
+    --------
+    >>> round(iso_demand_t_h(Generator(name="dg", power_kw=500.0, sfoc_g_kwh=200.0)), 6)
+    0.1
+    >>> me = MainEngine(name="me", mcr_kw=9000.0, sfoc_g_kwh=171.0, ref_speed_kn=14.0,
+    ...                 ref_load_pct=85.0)
+    >>> round(iso_demand_t_h(me, speed_kn=14.0), 3)
+    1.308
     """
     if isinstance(consumer, MainEngine):
         return consumer.iso_demand_t_h(load_pct=load_pct, speed_kn=speed_kn)
@@ -245,9 +275,31 @@ def iso_demand_t_h(
 
 
 def fuel_rate_t_h(iso_rate_t_h: float, fuel: Fuel | float) -> float:
-    """Mass rate, t/h, of ``fuel`` (a :class:`Fuel` or its Q_net in MJ/kg) for an ISO rate.
+    """Mass rate of a fuel for a fuel rate stated at the ISO reference energy.
 
-    ``m = m_ISO × 42.7 / Q_net`` (REFERENCE.md section 4).
+    ``m = m_ISO × 42.7 / Q_net`` (:func:`planner.fuels.sfoc_scaled`)
+
+    Parameters
+    ----------
+    iso_rate_t_h : float [t/h]
+        Fuel rate at the ISO reference net specific energy, 42.7 MJ/kg.
+    fuel : Fuel or float [MJ/kg]
+        The fuel burnt, or its net specific energy Q_net.
+
+    Returns
+    -------
+    m : float [t/h]
+        Mass rate of that fuel for the same heat input.
+
+    Notes
+    -----
+    Reference energy [ISO-3046] [M], from memory; the scaling is an energy
+    balance ([D]).
+
+    Examples
+    --------
+    >>> round(fuel_rate_t_h(0.1, 40.0), 5)
+    0.10675
     """
     q_net = fuel.q_net if isinstance(fuel, Fuel) else float(fuel)
     return float(sfoc_scaled(iso_rate_t_h, q_net))

@@ -79,7 +79,61 @@ def _downstream_consumers(system: FuelSystem, circuit: Circuit, start: str) -> l
 
 
 def circuit_flows(system: FuelSystem, circuit: Circuit) -> CircuitFlows:
-    """The affine flows of ``circuit``, checked for balance (FuelSystemError if not)."""
+    """The link flows of a circuit as affine functions of the consumers' consumption.
+
+    ``q = a + B·v``: each link's flow q (m³/h) from the consumers' volumetric
+    consumptions v (m³/h); "rest" links are found from the node balances
+    ``Σ q_in = Σ q_out`` (a small linear system).
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The fuel system the circuit belongs to (node kinds, consumers).
+    circuit : Circuit
+        The circuit.
+
+    Returns
+    -------
+    CircuitFlows
+        ``a`` [m³/h] and ``B`` [-] for every link, in the circuit's order.
+
+    Raises
+    ------
+    FuelSystemError
+        When a fixed-volume node (stirred volume or pipe) does not balance for
+        every consumption, two "rest" links leave one node, the "rest" links
+        form a loop the other flows do not determine, or a "consumption" link
+        reaches no consumer.
+
+    Notes
+    -----
+    Volume balance of incompressible flow ([D]); tanks need not balance
+    (their level moves).
+
+    Examples
+    --------
+    A mixing tank and a heater, a 3 m³/h circulating pump and the surplus
+    returned to the mixing tank:
+
+    >>> from planner.fuels import Fuel
+    >>> from planner.ship.consumers import Generator
+    >>> from planner.ship.system import (Circuit, Flow, FuelSystem, Link, ShipIdentity,
+    ...                                  Stirred, Tank)
+    >>> mgo = Fuel(name="mgo", grade="DMA", sulphur_pct=0.05, density_kg_m3=845.0,
+    ...            viscosity_cst=3.0, viscosity_ref_c=40.0)
+    >>> links = (Link("valve", "mixing", Flow.consumption()),
+    ...          Link("mixing", "heater", Flow.fixed(3.0)),
+    ...          Link("heater", "mixing", Flow.balance()),
+    ...          Link("heater", "dg", None))
+    >>> system = FuelSystem(
+    ...     ShipIdentity("MV Example", fictional=True), {"mgo": mgo},
+    ...     {"mgo_service": Tank("mgo_service", 30.0, {"mgo": 25.0})},
+    ...     {"mixing": Stirred("mixing", 0.5), "heater": Stirred("heater", 0.1)},
+    ...     {"dg": Generator(name="dg", power_kw=500.0, sfoc_g_kwh=200.0)},
+    ...     {"main": Circuit("main", ("mgo_service",), ("dg",), links)})
+    >>> circuit_flows(system, system.circuits["main"]).rates_m3h([0.5]).tolist()
+    [0.5, 3.0, 2.5, 0.5]
+    """
     here = f"circuits.{circuit.name}"
     links = circuit.links
     consumers = circuit.consumers

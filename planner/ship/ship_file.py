@@ -10,9 +10,7 @@ the file and the key (``circuits.main.links[2].flow``).
 
 from __future__ import annotations
 
-import math
 import tomllib
-from numbers import Real
 from pathlib import Path
 from typing import Any
 
@@ -20,7 +18,8 @@ import numpy as np
 
 from geo.errors import InputError
 from planner.fuels import Fuel
-from planner.ship.consumers import CONSUMER_KINDS, MainEngine, iso_demand_t_h
+from planner.ship._reader import Reader
+from planner.ship.consumers import CONSUMER_KINDS, Consumer, MainEngine, iso_demand_t_h
 from planner.ship.system import (
     VALVE,
     Circuit,
@@ -59,59 +58,34 @@ _CHAIN_KEYS = ("tanks", "consumers", "chain", "loop", "loop_flow_m3h", "loop_fac
 _LINK_KEYS = ("from", "to", "flow", "flow_m3h", "factor", "consumers")
 
 
-class _Reader:
-    def __init__(self, file: str) -> None:
-        self.file = file
-
-    def fail(self, place: str, value: object, expected: str) -> InputError:
-        return InputError(self.file, place, value, expected)
-
-    def table(self, data: dict, key: str, place: str, required: bool = True) -> dict:
-        value = data.get(key)
-        if value is None and not required:
-            return {}
-        if not isinstance(value, dict):
-            raise self.fail(place, value, "a table")
-        return value
-
-    def keys(self, data: dict, allowed: tuple[str, ...], place: str) -> None:
-        for k in data:
-            if k not in allowed:
-                raise self.fail(f"{place}.{k}", k, f"one of the keys {', '.join(allowed)}")
-
-    def number(
-        self, data: dict, key: str, place: str, required: bool = True, positive: bool = False
-    ) -> float | None:
-        value = data.get(key)
-        if value is None:
-            if required:
-                raise self.fail(f"{place}.{key}", None, "a number")
-            return None
-        if isinstance(value, bool) or not isinstance(value, Real) or not math.isfinite(value):
-            raise self.fail(f"{place}.{key}", value, "a number")
-        if positive and value <= 0:
-            raise self.fail(f"{place}.{key}", value, "a number above 0")
-        return float(value)
-
-    def text(self, data: dict, key: str, place: str, required: bool = True) -> str | None:
-        value = data.get(key)
-        if value is None and not required:
-            return None
-        if not isinstance(value, str) or not value.strip():
-            raise self.fail(f"{place}.{key}", value, "a non-empty string")
-        return value
-
-    def names(self, data: dict, key: str, place: str, required: bool = True) -> list[str]:
-        value = data.get(key)
-        if value is None and not required:
-            return []
-        if not isinstance(value, list) or not all(isinstance(v, str) and v for v in value):
-            raise self.fail(f"{place}.{key}", value, "a list of names")
-        return value
-
-
 def load_ship(path: str | Path) -> FuelSystem:
-    """The :class:`FuelSystem` of the ship file at ``path`` (InputError on any fault)."""
+    """Load the fuel system of a ship file (TOML).
+
+    Parameters
+    ----------
+    path : str or Path
+        The ship file, UTF-8 TOML of at most :data:`MAX_FILE_BYTES` bytes;
+        the format is in the README ("The ship file").
+
+    Returns
+    -------
+    FuelSystem
+        The checked fuel system; a ``[ship] journal`` path is made absolute,
+        relative to the file.
+
+    Raises
+    ------
+    geo.errors.InputError
+        On any fault, as one line naming the file and the key.
+
+    Examples
+    --------
+    >>> try:
+    ...     load_ship("no_such_ship.toml")
+    ... except InputError as e:
+    ...     print(e)
+    no_such_ship.toml: missing: expected an existing ship file (TOML)
+    """
     p = Path(path)
     file = str(path)
     if not p.is_file():
@@ -128,8 +102,44 @@ def load_ship(path: str | Path) -> FuelSystem:
 
 
 def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
-    """The :class:`FuelSystem` of already-parsed TOML ``data`` (``file`` names it in errors)."""
-    r = _Reader(file)
+    """The fuel system of an already-parsed ship file.
+
+    Parameters
+    ----------
+    data : dict
+        The ship file's tables, as ``tomllib`` returns them.
+    file : str, default "<ship>"
+        Name of the file, for the messages.
+
+    Returns
+    -------
+    FuelSystem
+        The checked fuel system.
+
+    Raises
+    ------
+    geo.errors.InputError
+        On any fault; besides the checks of :class:`FuelSystem`, every link
+        flow must be ≥ 0 with the main engines at 100 % MCR on the lightest
+        fuel the valve offers.
+
+    Examples
+    --------
+    >>> hfo = {"grade": "RMG 380", "sulphur_pct": 0.48, "density_kg_m3": 991.0,
+    ...        "viscosity_cst": 380.0, "viscosity_ref_c": 50.0}
+    >>> ship = parse_ship({
+    ...     "ship": {"name": "MV Example", "fictional": True},
+    ...     "fuels": {"hfo": hfo},
+    ...     "tanks": {"hfo_service": {"capacity_m3": 60.0, "fuel": "hfo", "volume_m3": 50.0}},
+    ...     "consumers": {"me": {"kind": "main_engine", "mcr_kw": 9000.0, "sfoc_g_kwh": 171.0,
+    ...                          "ref_speed_kn": 14.0, "ref_load_pct": 85.0}},
+    ...     "volumes": {"mixing": {"kind": "stirred", "volume_m3": 0.5}},
+    ...     "circuits": {"main": {"tanks": ["hfo_service"], "consumers": ["me"],
+    ...                           "chain": ["mixing"]}}})
+    >>> [(link.source, link.target) for link in ship.circuits["main"].links]
+    [('valve', 'mixing'), ('mixing', 'me')]
+    """
+    r = Reader(file)
     r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits", "inlet",
                   "uncertainty"), "")
     ship_t = r.table(data, "ship", "ship")
@@ -164,7 +174,7 @@ _INLET_KEYS = ("target_cst", "min_cst", "max_cst", "max_rate_c_per_min", "supply
                "max_temperature_c")
 
 
-def _inlet(r: _Reader, t: object) -> InletWindow:
+def _inlet(r: Reader, t: object) -> InletWindow:
     """The engines' inlet window (``[inlet]``): heating target, viscosity limits, rate."""
     if not isinstance(t, dict):
         raise r.fail("inlet", t, "an [inlet] table")
@@ -176,7 +186,7 @@ def _inlet(r: _Reader, t: object) -> InletWindow:
         raise r.fail("inlet", values, str(e)) from None
 
 
-def _tables(r: _Reader, data: dict, key: str) -> dict[str, dict]:
+def _tables(r: Reader, data: dict, key: str) -> dict[str, dict]:
     group = r.table(data, key, key)
     if not group:
         raise r.fail(key, None, f"at least one [{key}.NAME] table")
@@ -186,7 +196,7 @@ def _tables(r: _Reader, data: dict, key: str) -> dict[str, dict]:
     return group
 
 
-def _fuel(r: _Reader, name: str, t: dict) -> Fuel:
+def _fuel(r: Reader, name: str, t: dict) -> Fuel:
     place = f"fuels.{name}"
     r.keys(t, _FUEL_KEYS, place)
     kw: dict[str, Any] = {
@@ -205,7 +215,7 @@ def _fuel(r: _Reader, name: str, t: dict) -> Fuel:
         raise r.fail(place, name, f"valid fuel data ({e})") from None
 
 
-def _tank(r: _Reader, name: str, t: dict) -> Tank:
+def _tank(r: Reader, name: str, t: dict) -> Tank:
     place = f"tanks.{name}"
     r.keys(t, ("capacity_m3", "fuel", "volume_m3", "content"), place)
     capacity = r.number(t, "capacity_m3", place, positive=True)
@@ -223,7 +233,7 @@ def _tank(r: _Reader, name: str, t: dict) -> Tank:
         raise r.fail(e.place, e.value, e.expected) from None
 
 
-def _consumer(r: _Reader, name: str, t: dict):
+def _consumer(r: Reader, name: str, t: dict) -> Consumer:
     place = f"consumers.{name}"
     kind = t.get("kind")
     if kind not in CONSUMER_KINDS:
@@ -250,7 +260,7 @@ def _consumer(r: _Reader, name: str, t: dict):
         raise r.fail(place, name, f"valid {kind} data ({e})") from None
 
 
-def _volume(r: _Reader, name: str, t: dict) -> Pipe | Stirred:
+def _volume(r: Reader, name: str, t: dict) -> Pipe | Stirred:
     place = f"volumes.{name}"
     kind = t.get("kind")
     if kind not in ("pipe", "stirred"):
@@ -275,7 +285,7 @@ def _volume(r: _Reader, name: str, t: dict) -> Pipe | Stirred:
         raise r.fail(e.place, e.value, e.expected) from None
 
 
-def _circuit(r: _Reader, name: str, t: dict) -> Circuit:
+def _circuit(r: Reader, name: str, t: dict) -> Circuit:
     place = f"circuits.{name}"
     tanks = r.names(t, "tanks", place)
     who = r.names(t, "consumers", place)
@@ -317,7 +327,7 @@ def _circuit(r: _Reader, name: str, t: dict) -> Circuit:
     return Circuit(name, tuple(tanks), tuple(who), tuple(links))
 
 
-def _link(r: _Reader, place: str, x: object) -> Link:
+def _link(r: Reader, place: str, x: object) -> Link:
     if not isinstance(x, dict):
         raise r.fail(place, x, "a table {from = ..., to = ..., flow = ...}")
     r.keys(x, _LINK_KEYS, place)
@@ -347,7 +357,7 @@ def _link(r: _Reader, place: str, x: object) -> Link:
     return Link(source, target, flow, place)  # type: ignore[arg-type]
 
 
-def _check_pumps(r: _Reader, system: FuelSystem) -> None:
+def _check_pumps(r: Reader, system: FuelSystem) -> None:
     """Every link flow must be >= 0 with main engines at 100 % MCR on the lightest valve fuel."""
     from planner.ship.flows import circuit_flows
 

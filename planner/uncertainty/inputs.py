@@ -41,6 +41,7 @@ from pathlib import Path
 from types import MappingProxyType
 
 from geo.errors import InputError
+from planner.ship.system import FuelSystem
 
 Z95 = 1.959963984540054  # two-sided 95 % normal quantile
 Z95_ONE_SIDED = 1.6448536269514722
@@ -56,9 +57,9 @@ DEFAULTS: Mapping[str, tuple[float, str]] = MappingProxyType({
 })
 SULPHUR_SOURCE = (
     "from the test method's reproducibility R: sd = 0.59·R / 1.645 (0.59·R is the 95 % "
-    "margin, ISO 4259, REFERENCE §1 [P]); R(X) = 0.0847·(X + 0.1) % m/m, the line through the "
+    "margin, [ISO-4259] [P]); R(X) = 0.0847·(X + 0.1) % m/m, the line through the "
     "commonly quoted verification values 0.11 % at the 0.10 % limit and 0.53 % at 0.50 % "
-    "(ISO 8754, from memory)"
+    "([ISO-8754], from memory [M])"
 )
 
 _RANGES = {
@@ -74,10 +75,24 @@ KEYS = (*_RANGES, "sulphur_sd_pct")
 
 
 def reproducibility_pct(sulphur_pct: float) -> float:
-    """Reproducibility R of a sulphur result, % m/m, at ``sulphur_pct`` (see SULPHUR_SOURCE).
+    """Reproducibility R of a sulphur result at a sulphur content (see SULPHUR_SOURCE).
 
-    A line through R(0.10) = 0.01/0.59 and R(0.50) = 0.03/0.59, the values implied by the
-    commonly quoted 95 % verification results 0.11 % and 0.53 % (from memory, ISO 8754).
+    Parameters
+    ----------
+    sulphur_pct : float [% m/m]
+        The result.
+
+    Returns
+    -------
+    float [% m/m]
+        A line through R(0.10) = 0.01/0.59 and R(0.50) = 0.03/0.59, the values
+        implied by the commonly quoted 95 % verification results 0.11 % and
+        0.53 % ([ISO-8754], from memory [M]), at 0 or above.
+
+    Examples
+    --------
+    >>> round(0.10 + 0.59 * reproducibility_pct(0.10), 6)
+    0.11
     """
     r_low, r_high = 0.01 / 0.59, 0.03 / 0.59
     slope = (r_high - r_low) / 0.40
@@ -85,10 +100,20 @@ def reproducibility_pct(sulphur_pct: float) -> float:
 
 
 def sulphur_sd_from_reproducibility(sulphur_pct: float) -> float:
-    """Standard deviation of a delivery-note sulphur value, % m/m: 0.59·R / 1.645.
+    """Standard deviation of a delivery-note sulphur value: 0.59·R / 1.645.
 
-    0.59·R is the one-sided 95 % margin of ISO 4259 (REFERENCE §1 [P]), so the
-    standard deviation it implies is 0.59·R / 1.645 (≈ R / 2.79) [D].
+    0.59·R is the one-sided 95 % margin of [ISO-4259] [P], so the standard
+    deviation it implies is 0.59·R / 1.645 (≈ R / 2.79) [D].
+
+    Parameters
+    ----------
+    sulphur_pct : float [% m/m]
+        The delivery-note value.
+
+    Returns
+    -------
+    float [% m/m]
+        The standard deviation, with R from :func:`reproducibility_pct`.
     """
     return 0.59 * reproducibility_pct(sulphur_pct) / Z95_ONE_SIDED
 
@@ -191,13 +216,34 @@ def _by_name(file: str, place: str, value: dict, names: Mapping | None, what: st
     return default, each
 
 
-def parse_uncertainty(table: object, file: str, system=None,
+def parse_uncertainty(table: object, file: str, system: FuelSystem | None = None,
                       base: UncertaintySpec | None = None) -> UncertaintySpec:
     """The :class:`UncertaintySpec` of an ``[uncertainty]`` table (TOML already parsed).
 
-    ``system`` (a :class:`~planner.ship.system.FuelSystem`), when given, checks the
-    names in per-volume, per-tank and per-fuel tables. ``base`` is the spec the
-    table's keys override (default: the built-in defaults).
+    Parameters
+    ----------
+    table : dict or None
+        The table (None: ``base`` unchanged). ``*_pct`` values are ± (95 %)
+        in [%], ``mixing_*`` fractions [-], ``sulphur_sd_pct`` standard
+        deviations [% m/m], ``boundary_time_min`` ± [min].
+    file : str
+        The file it came from, for messages and sources.
+    system : FuelSystem, optional
+        When given, the names in per-volume, per-tank and per-fuel tables are
+        checked against it.
+    base : UncertaintySpec, optional
+        The spec the table's keys override (default: the built-in defaults).
+
+    Returns
+    -------
+    UncertaintySpec
+        With each value's source: the file, and the default's own source when
+        the value is the default.
+
+    Raises
+    ------
+    InputError
+        A key, name or value out of place (one error naming the file and key).
     """
     spec = base or UncertaintySpec()
     if table is None:
@@ -210,41 +256,52 @@ def parse_uncertainty(table: object, file: str, system=None,
     changes: dict = {}
     sources = dict(spec.sources)
     where = f"{file} [uncertainty]"
-    for key, (low, high) in _RANGES.items():
-        if key not in table:
-            continue
-        value = table[key]
-        sources[key] = where
-        if key in ("volumes_pct", "tanks_pct") and isinstance(value, dict):
-            names = None if system is None else (
-                system.volumes if key == "volumes_pct" else system.tanks)
-            what = "volume" if key == "volumes_pct" else "tank"
-            default, each = _by_name(file, f"uncertainty.{key}", value, names, what, low, high)
-            if default is not None:
-                changes[key] = default
-            by = "volume_pct_by_name" if key == "volumes_pct" else "tank_pct_by_name"
-            changes[by] = {**getattr(spec, by), **each}
-        else:
-            changes[key] = _number(file, f"uncertainty.{key}", value, low, high)
-            if key in DEFAULTS and changes[key] == DEFAULTS[key][0]:
-                sources[key] = f"{where} (the default: {DEFAULTS[key][1]})"
+    for key in _RANGES:
+        if key in table:
+            more, sources[key] = _spread(key, table[key], file, where, system, spec)
+            changes.update(more)
     if "sulphur_sd_pct" in table:
-        value = table["sulphur_sd_pct"]
-        sources["sulphur_sd_pct"] = f"{where} (fuels not named: {SULPHUR_SOURCE})"
-        low, high = _SULPHUR_SD_RANGE
-        if isinstance(value, dict):
-            names = None if system is None else system.fuels
-            default, each = _by_name(file, "uncertainty.sulphur_sd_pct", value, names, "fuel",
-                                     low, high)
-            if default is not None:
-                changes["sulphur_sd_default"] = default
-                sources["sulphur_sd_pct"] = where
-            changes["sulphur_sd_by_fuel"] = {**spec.sulphur_sd_by_fuel, **each}
-        else:
-            changes["sulphur_sd_default"] = _number(file, "uncertainty.sulphur_sd_pct", value,
-                                                    low, high)
-            sources["sulphur_sd_pct"] = where
+        more, sources["sulphur_sd_pct"] = _sulphur_sd(table["sulphur_sd_pct"], file, where,
+                                                      system, spec)
+        changes.update(more)
     return replace(spec, **changes, sources=sources)
+
+
+def _spread(key: str, value: object, file: str, where: str, system: FuelSystem | None,
+            spec: UncertaintySpec) -> tuple[dict, str]:
+    """The spec changes and source of one key of ``_RANGES`` (per-name tables for volumes
+    and tanks)."""
+    low, high = _RANGES[key]
+    if key in ("volumes_pct", "tanks_pct") and isinstance(value, dict):
+        names = None if system is None else (
+            system.volumes if key == "volumes_pct" else system.tanks)
+        what = "volume" if key == "volumes_pct" else "tank"
+        default, each = _by_name(file, f"uncertainty.{key}", value, names, what, low, high)
+        by = "volume_pct_by_name" if key == "volumes_pct" else "tank_pct_by_name"
+        changes: dict = {by: {**getattr(spec, by), **each}}
+        if default is not None:
+            changes[key] = default
+        return changes, where
+    x = _number(file, f"uncertainty.{key}", value, low, high)
+    if key in DEFAULTS and x == DEFAULTS[key][0]:
+        return {key: x}, f"{where} (the default: {DEFAULTS[key][1]})"
+    return {key: x}, where
+
+
+def _sulphur_sd(value: object, file: str, where: str, system: FuelSystem | None,
+                spec: UncertaintySpec) -> tuple[dict, str]:
+    """The spec changes and source of ``sulphur_sd_pct`` (one number, or a per-fuel table)."""
+    low, high = _SULPHUR_SD_RANGE
+    if not isinstance(value, dict):
+        return {"sulphur_sd_default": _number(file, "uncertainty.sulphur_sd_pct", value,
+                                              low, high)}, where
+    names = None if system is None else system.fuels
+    default, each = _by_name(file, "uncertainty.sulphur_sd_pct", value, names, "fuel", low, high)
+    changes: dict = {"sulphur_sd_by_fuel": {**spec.sulphur_sd_by_fuel, **each}}
+    if default is not None:
+        changes["sulphur_sd_default"] = default
+        return changes, where
+    return changes, f"{where} (fuels not named: {SULPHUR_SOURCE})"
 
 
 def _toml(path: Path) -> dict:
@@ -254,9 +311,24 @@ def _toml(path: Path) -> dict:
         raise InputError(str(path), "", str(e), "a readable TOML file") from None
 
 
-def load_uncertainty(ship_file: str | Path, system=None,
+def load_uncertainty(ship_file: str | Path, system: FuelSystem | None = None,
                      voyage_file: str | Path | None = None) -> UncertaintySpec:
-    """The spec of a ship file's ``[uncertainty]`` table, then a voyage file's, key by key."""
+    """The spec of a ship file's ``[uncertainty]`` table, then a voyage file's, key by key.
+
+    Parameters
+    ----------
+    ship_file : str or Path
+        The ship TOML (its table is optional).
+    system : FuelSystem, optional
+        The ship's system, to check the names in per-name tables.
+    voyage_file : str or Path, optional
+        A voyage TOML whose ``[uncertainty]`` keys override the ship's.
+
+    Returns
+    -------
+    UncertaintySpec
+        The values as in :func:`parse_uncertainty`.
+    """
     spec = parse_uncertainty(_toml(Path(ship_file)).get("uncertainty"), str(ship_file), system)
     if voyage_file is not None:
         spec = parse_uncertainty(_toml(Path(voyage_file)).get("uncertainty"), str(voyage_file),

@@ -5,7 +5,8 @@ Uncertain nodes of a circuit:
 - every pipe and stirred volume it passes (a volume factor each);
 - each stirred volume's mixing: a stagnant part ``d`` of its volume takes no
   part in the flow, and a part ``b`` of the flow short-circuits it. The model
-  (Cholette and Cloutier's dead zone and bypass) has the transfer function
+  (Cholette and Cloutier's dead zone and bypass, one of the compartment models
+  of non-ideal flow in [LEVENSPIEL-1999] [M]) has the transfer function
   ``b + (1 − b)/(1 + τ·s)`` with ``τ = (1 − d)·V / ((1 − b)·q)``: its tail,
   which sets the time to a level near the new fuel's, decays with ``τ``. The
   flushing model has no zero-volume bypass, so the volume is replaced by a
@@ -15,11 +16,12 @@ Uncertain nodes of a circuit:
   the bypass's immediate share is left out (tested against the closed form);
 - tanks that receive flow after the switch (a return line to the tank in use
   or a named tank): their sounding. Other tanks' volumes do not enter the
-  inlet's composition (a tank only drawn down is not diluted, REFERENCE §3);
+  inlet's composition (a tank only drawn down is not diluted: [LEVENSPIEL-1999]
+  mass balance [D]);
 - consumption: one factor on every consumer's rate (pump rates stay).
 
 Sulphur of each fuel changes nothing in the flows (its effect on Q_net, about
-−0.31 MJ/kg per % m/m by the ISO 8217 formula, is left out: below 0.02 % of
+−0.31 MJ/kg per % m/m by the [ISO-8217] annex formula [D], is left out: below 0.02 % of
 the consumption for a standard deviation of 0.02 % m/m). So the inlet's
 composition after the switch is a blend ``φ(t) = φ_A + θ(t)·(φ_B − φ_A)`` of
 the from-tank's content A (the whole system before the switch) and the
@@ -37,6 +39,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from planner.flushing import ConsumptionSchedule, FlushResult
+from planner.fuels import Fuel
 from planner.ship.system import TANK_IN_USE, Flow, FuelSystem, Link, Pipe, Stirred, Tank
 
 _LINE_TOL = 1e-6  # largest departure of an inlet composition from the A-B line
@@ -56,7 +59,19 @@ class CircuitNodes:
 
 
 def circuit_nodes(system: FuelSystem, circuit: str, to_tank: str) -> CircuitNodes:
-    """The :class:`CircuitNodes` of ``circuit`` switched to ``to_tank``."""
+    """The nodes of ``circuit`` switched to ``to_tank`` whose uncertainty reaches the inlets.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+    to_tank : str
+        The tank the valve goes to (``tank_in_use`` returns go there).
+
+    Returns
+    -------
+    CircuitNodes
+    """
     c = system.circuits[circuit]
     volumes = tuple(n for n in c.volume_names if n in system.volumes)
     stirred = tuple(n for n in volumes if isinstance(system.volumes[n], Stirred))
@@ -77,8 +92,26 @@ def _scaled_tank(t: Tank, factor: float, capacity_too: bool) -> Tank:
 
 def perturbed(system: FuelSystem, factors: Mapping[str, float],
               capacity_too: bool = False) -> FuelSystem:
-    """A copy with each named volume (pipe, stirred) or tank content times its factor (a
-    tank's capacity too if ``capacity_too``, else raised only as far as the content needs)."""
+    """A copy of ``system`` with volumes and tank contents scaled.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    factors : mapping of str to float [-]
+        Factor per pipe, stirred volume or tank (its content, every fuel alike).
+    capacity_too : bool, default False
+        Scale a tank's capacity too; else it is raised only as far as the
+        content needs.
+
+    Returns
+    -------
+    FuelSystem
+
+    Raises
+    ------
+    KeyError
+        A name that is no volume or tank of ``system``.
+    """
     volumes = dict(system.volumes)
     tanks = dict(system.tanks)
     for name, f in factors.items():
@@ -96,7 +129,7 @@ def perturbed(system: FuelSystem, factors: Mapping[str, float],
 
 
 def scaled_schedule(schedule: ConsumptionSchedule, factor: float) -> ConsumptionSchedule:
-    """Every consumer's rate times ``factor`` (same segments)."""
+    """Every consumer's rate [t/h] times ``factor`` [-] (same segments, same basis)."""
     if factor == 1.0:
         return schedule
     rates = {k: tuple(r * factor for r in v) for k, v in schedule.rates_t_h.items()}
@@ -105,10 +138,11 @@ def scaled_schedule(schedule: ConsumptionSchedule, factor: float) -> Consumption
 
 def scale_all(system: FuelSystem, schedule: ConsumptionSchedule, volume_factor: float,
               flow_factor: float) -> tuple[FuelSystem, ConsumptionSchedule]:
-    """Every volume and tank times ``volume_factor``; every flow (consumption and pump rates)
-    times ``flow_factor``; schedule segment times scale by their ratio.
+    """Every volume and tank times ``volume_factor`` [-]; every flow (consumption and pump
+    rates) times ``flow_factor`` [-]; schedule segment times [h] scale by their ratio.
 
-    The flushing model then runs the same course on a time axis stretched by
+    Returns the scaled system and schedule. The flushing model then runs the
+    same course on a time axis stretched by
     ``κ = volume_factor / flow_factor``: every time to a level is κ times the
     original (exact in the model; in the simulator to round-off when its
     output step and longest step are scaled by κ too, else to its tolerance).
@@ -136,14 +170,14 @@ class BlendCurve:
     """θ(t), the to-tank's share of the inlet blend (volume), at each distinct inlet of a circuit.
 
     ``phi_a``, ``phi_b``: compositions (volume fractions, in ``fuels`` order) of
-    the from-tank and to-tank contents at the switch. ``times`` and ``theta``
+    the from-tank and to-tank contents at the switch. ``time_h`` (h) and ``theta`` [-]
     are per distinct inlet (consumers fed from one node share a curve).
     """
 
-    fuels: tuple
+    fuels: tuple[Fuel, ...]
     phi_a: np.ndarray
     phi_b: np.ndarray
-    times: tuple[np.ndarray, ...]
+    time_h: tuple[np.ndarray, ...]
     theta: tuple[np.ndarray, ...]
     envelope: tuple[np.ndarray, ...]  # suffix minimum of theta
     horizon_h: float
@@ -179,13 +213,13 @@ class BlendCurve:
         return cls(result.fuels, phi_a, phi_b, tuple(times), tuple(theta), tuple(env),
                    float(result.time_h[-1]))
 
-    @property
-    def fuel_names(self) -> tuple[str, ...]:
-        return tuple(f.name for f in self.fuels)
-
     def levels(self, sulphur_pct: np.ndarray, level_pct: float, down: bool) -> np.ndarray:
-        """θ* for sulphur samples ``sulphur_pct`` (N, F): the share of B at which the inlet is
-        at or below (``down``) or at or above ``level_pct``; 0: from the start; inf: never."""
+        """θ* [-] for sulphur samples ``sulphur_pct`` (N, F) [% m/m] and a level [% m/m].
+
+        The share of B at which the inlet is at or below (``down``) or at or
+        above ``level_pct``, from ``Σ φᵢρᵢ(Sᵢ − L) ≤ 0`` (sulphur mixes by mass,
+        [LEVENSPIEL-1999] [D]); 0: from the start; inf: never.
+        """
         rho = np.array([f.density_kg_m3 for f in self.fuels])
         s = np.atleast_2d(np.asarray(sulphur_pct, dtype=float)) - level_pct
         sign = 1.0 if down else -1.0
@@ -196,12 +230,13 @@ class BlendCurve:
         theta = np.where(h_a <= 0.0, 0.0, theta)
         return np.where(h_b > 0.0, np.inf, theta)
 
-    def times_at(self, theta_level: np.ndarray) -> np.ndarray:
-        """When every inlet's θ reaches and stays at or above each level, h (inf: not by the
-        horizon); the settled crossing of :func:`planner.flushing.result._crossing`."""
+    def time_at_h(self, theta_level: np.ndarray) -> np.ndarray:
+        """When every inlet's θ reaches and stays at or above each level θ* [-], h (inf: not
+        by the horizon); the settled crossing of the flushing results
+        (:meth:`planner.flushing.InletCurve.time_at_or_below_h`)."""
         lv = np.asarray(theta_level, dtype=float)
         out = np.zeros(lv.shape)
-        for t, th, env in zip(self.times, self.theta, self.envelope, strict=True):
+        for t, th, env in zip(self.time_h, self.theta, self.envelope, strict=True):
             k = np.searchsorted(env, lv, side="left")
             inside = (k > 0) & (k < len(th))
             kk = np.clip(k, 1, len(th) - 1)
@@ -212,6 +247,7 @@ class BlendCurve:
             out = np.maximum(out, each)
         return np.where(lv <= 0.0, 0.0, out)
 
-    def time_to(self, sulphur_pct: np.ndarray, level_pct: float, down: bool) -> np.ndarray:
-        """Time to ``level_pct`` for sulphur samples (N, F), h (inf: not by the horizon)."""
-        return self.times_at(self.levels(sulphur_pct, level_pct, down))
+    def time_to_h(self, sulphur_pct: np.ndarray, level_pct: float, down: bool) -> np.ndarray:
+        """Time to ``level_pct`` [% m/m] for sulphur samples (N, F) [% m/m], h (inf: not by
+        the horizon)."""
+        return self.time_at_h(self.levels(sulphur_pct, level_pct, down))

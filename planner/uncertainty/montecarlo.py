@@ -31,13 +31,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from planner.common.defaults import MAX_CONFIDENCE, MIN_CONFIDENCE
 from planner.flushing import CircuitSummary, ConsumptionSchedule, flush, make_switch
 from planner.flushing.network import compile_network
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG
 from planner.ship.system import FuelSystem
 from planner.uncertainty.inputs import Z95, UncertaintySpec
 from planner.uncertainty.model import circuit_nodes
-from planner.uncertainty.sampling import InputDef, Samples, draw, input_defs
+from planner.uncertainty.sampling import Samples, draw, input_defs
 from planner.uncertainty.sensitivity import Sensitivity, sensitivity, time_of
 from planner.uncertainty.surrogate import (
     Case,
@@ -56,15 +57,22 @@ _NOT_REACHED = 1e300
 
 
 def quantile(x: np.ndarray, p: float) -> float | None:
-    """The ``p`` quantile of samples ``x`` (linear interpolation); None when it is not reached
-    (falls among samples that never reach the level by the horizon)."""
+    """The ``p`` [-] quantile of samples ``x`` (linear interpolation), in the unit of ``x``.
+
+    None when it is not reached (falls among the samples, inf, that never reach
+    the level by the horizon).
+    """
     q = float(np.quantile(np.where(np.isfinite(x), x, _NOT_REACHED), p))
     return None if q >= 1e299 or not math.isfinite(q) else q
 
 
 def quantile_interval(x: np.ndarray, p: float) -> tuple[float | None, float | None]:
-    """Distribution-free 95 % interval of the ``p`` quantile's Monte Carlo estimate: the order
-    statistics at ranks n·p ∓ 1.96·√(n·p·(1 − p))."""
+    """Distribution-free 95 % interval of the ``p`` [-] quantile's Monte Carlo estimate.
+
+    The order statistics at ranks n·p ∓ 1.96·√(n·p·(1 − p)) (the normal
+    approximation of the binomial count below the quantile, [CONOVER-1999] [M]),
+    in the unit of ``x``; None for an end among the samples not reached.
+    """
     n = len(x)
     s = np.sort(np.where(np.isfinite(x), x, _NOT_REACHED))
     half = Z95 * math.sqrt(n * p * (1.0 - p))
@@ -82,6 +90,7 @@ class SurrogateCheck:
 
     @property
     def max_error_s(self) -> float | None:
+        """Largest |exact − surrogate| over the checked samples, s (None: none checked)."""
         if not self.index:
             return None
         return max(abs(a - b) for a, b in zip(self.exact_h, self.surrogate_h, strict=True)) * 3600
@@ -111,10 +120,12 @@ class CircuitUncertainty:
 
     @property
     def circuit(self) -> str:
+        """The circuit analysed."""
         return self.deterministic.circuit
 
     @property
     def early_h(self) -> np.ndarray:
+        """How much earlier than planned the boundary is reached, per sample, h."""
         return self.samples.early_h
 
     @property
@@ -139,6 +150,7 @@ class CircuitUncertainty:
 
     @property
     def lead_p50_h(self) -> float | None:
+        """Median lead to be on target at the boundary, h."""
         return quantile(self.lead_h, 0.5)
 
     @property
@@ -154,6 +166,7 @@ class CircuitUncertainty:
 
     @property
     def lead_at_confidence_interval_h(self) -> tuple[float | None, float | None]:
+        """95 % Monte Carlo interval of :attr:`lead_at_confidence_h`, h."""
         return quantile_interval(self.lead_h, self.confidence)
 
     @property
@@ -170,16 +183,10 @@ class CircuitUncertainty:
         return float(np.mean(np.isfinite(self.time_to_target_h)))
 
     def p_compliant(self, lead_h: float | np.ndarray) -> float | np.ndarray:
-        """Probability that every inlet is at or below the limit at the boundary when the
-        valve is switched ``lead_h`` before the planned boundary."""
+        """Probability [-] that every inlet is at or below the limit at the boundary when the
+        valve is switched ``lead_h`` [h] before the planned boundary."""
         lead = np.asarray(lead_h, dtype=float)
         p = np.mean(self.lead_limit_h[:, None] <= lead.reshape(-1)[None, :], axis=0)
-        return float(p[0]) if lead.ndim == 0 else p
-
-    def p_on_target(self, lead_h: float | np.ndarray) -> float | np.ndarray:
-        """As :meth:`p_compliant`, for being at or below the target."""
-        lead = np.asarray(lead_h, dtype=float)
-        p = np.mean(self.lead_h[:, None] <= lead.reshape(-1)[None, :], axis=0)
         return float(p[0]) if lead.ndim == 0 else p
 
     @property
@@ -220,8 +227,9 @@ def _check_indices(lead: np.ndarray, u: np.ndarray, confidence: float, count: in
     return list(dict.fromkeys(picks))[:count]
 
 
-def _warnings(defs: tuple[InputDef, ...], sur: Surrogate, samples: Samples, s: CircuitSummary,
+def _warnings(sur: Surrogate, samples: Samples, s: CircuitSummary,
               t_target: np.ndarray) -> list[str]:
+    """Samples whose new fuel never reaches the target, and samples late past the horizon."""
     out = []
     fuels = sur.nominal.fuels
     theta = sur.nominal.levels(samples.sulphur(fuels), s.target_pct, s.direction == "to_compliant")
@@ -243,16 +251,50 @@ def analyse(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
             samples: int = DEFAULT_SAMPLES, seed: int | None = DEFAULT_SEED,
             checks: int = DEFAULT_CHECKS, deterministic: CircuitSummary | None = None,
             progress: Callable[[int, int], None] | None = None) -> CircuitUncertainty:
-    """The Monte Carlo of ``circuit``'s changeover from ``from_tank`` to ``to_tank`` (tank or
-    fuel names), ``samples`` draws from ``numpy.random.default_rng(seed)``.
+    """The Monte Carlo of one circuit's changeover.
 
-    ``deterministic``: the plain flush's summary, if already computed (else it is).
-    ``progress(done, total)`` is called after each simulation. Raises FlushError
-    when the system cannot run the changeover, UncertaintyError when the
-    circuit's inlet is not a blend of the two tanks.
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+    from_tank, to_tank : str
+        Tank or fuel names.
+    schedule : ConsumptionSchedule
+        Nominal rates [t/h] from the switch.
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target.
+    spec : UncertaintySpec, optional
+        The uncertain inputs (default: the built-in defaults).
+    confidence : float, default 0.99 [-]
+        From 0.5 to below 1.
+    samples : int, default 10 000 [-]
+        Draws from ``numpy.random.default_rng(seed)``.
+    seed : int or None, default 0
+    checks : int, default 3 [-]
+        Samples simulated exactly to check the surrogate.
+    deterministic : CircuitSummary, optional
+        The plain flush's summary, if already computed (else it is).
+    progress : callable (done, total), optional
+        Called after each simulation.
+
+    Returns
+    -------
+    CircuitUncertainty
+        Per sample the times to target and limit [h after the switch] and the
+        boundary offset [h]; quantiles, leads, sensitivity and the check.
+
+    Raises
+    ------
+    FlushError
+        When the system cannot run the changeover.
+    UncertaintyError
+        When the circuit's inlet is not a blend of the two tanks' contents.
     """
-    if not 0.5 <= confidence < 1.0:
-        raise ValueError(f"confidence must be from 0.5 to below 1, got {confidence!r}")
+    if not MIN_CONFIDENCE <= confidence <= MAX_CONFIDENCE:
+        raise ValueError(f"confidence must be from {MIN_CONFIDENCE} to {MAX_CONFIDENCE}, "
+                         f"got {confidence!r}")
     spec = spec or UncertaintySpec()
     from_tank, to_tank = system.tank_for(circuit, from_tank), system.tank_for(circuit, to_tank)
     if deterministic is None:
@@ -276,6 +318,25 @@ def analyse(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
     sens = sensitivity(sur, smp, lead, target_pct, down)
     u = sur.u(smp)
     idx = _check_indices(lead, u, confidence, checks) if sur.axes else []
+    check = _surrogate_check(system, circuit, from_tank, to_tank, schedule, sur, smp, u, idx,
+                             t_target, target_pct, down, progress)
+    return CircuitUncertainty(
+        deterministic=s, spec=spec, confidence=float(confidence), samples=smp,
+        time_to_target_h=t_target, time_to_limit_h=t_limit, horizon_h=sur.horizon_h,
+        compliant_rate_t_h=_compliant_rate(system, s, schedule, t_det),
+        sensitivity=sens, check=check, simulations=sur.simulations + len(idx),
+        warnings=tuple(_warnings(sur, smp, s, t_target)))
+
+
+def _surrogate_check(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
+                     schedule: ConsumptionSchedule, sur: Surrogate, smp: Samples,
+                     u: np.ndarray, idx: list[int], t_target: np.ndarray, target_pct: float,
+                     down: bool, progress: Callable[[int, int], None] | None) -> SurrogateCheck:
+    """Simulate the samples ``idx`` exactly (all their inputs at once) against the surrogate.
+
+    ``u`` (n, A) are the samples' ln-factors [-], ``t_target`` (n,) their surrogate times
+    to ``target_pct`` [% m/m], h.
+    """
     cases = [Case({a.node: float(np.exp(u[i, j])) for j, a in enumerate(sur.axes)
                    if a.kind != "consumption"},
                   float(smp.values["consumption"][i])) for i in idx]
@@ -283,12 +344,6 @@ def analyse(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
     curves, _ = run_cases(system, circuit, from_tank, to_tank, schedule, sur.horizon_h,
                           sur.horizon_h, cases, progress, done, done + len(cases))
     sulphur = smp.sulphur(sur.nominal.fuels)
-    exact = [float(c.time_to(sulphur[i:i + 1], target_pct, down)[0])
+    exact = [float(c.time_to_h(sulphur[i:i + 1], target_pct, down)[0])
              for c, i in zip(curves, idx, strict=True)]
-    check = SurrogateCheck(tuple(idx), tuple(exact), tuple(float(t_target[i]) for i in idx))
-    return CircuitUncertainty(
-        deterministic=s, spec=spec, confidence=float(confidence), samples=smp,
-        time_to_target_h=t_target, time_to_limit_h=t_limit, horizon_h=sur.horizon_h,
-        compliant_rate_t_h=_compliant_rate(system, s, schedule, t_det),
-        sensitivity=sens, check=check, simulations=sur.simulations + len(cases),
-        warnings=tuple(_warnings(defs, sur, smp, s, t_target)))
+    return SurrogateCheck(tuple(idx), tuple(exact), tuple(float(t_target[i]) for i in idx))

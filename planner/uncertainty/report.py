@@ -16,16 +16,21 @@ METHOD = (
 
 
 def _f(x: float | None) -> float | None:
+    """``x`` as a float for JSON, None when missing or not finite."""
     return None if x is None or not math.isfinite(x) else float(x)
 
 
 def _q(d: dict) -> dict:
+    """Quantiles keyed ``p50``, ``p90``, ``p99``."""
     return {f"p{round(p * 100)}": _f(v) for p, v in d.items()}
 
 
 def leads_to_show(u: CircuitUncertainty, margin_h: float) -> list[float]:
-    """Start leads at which the command states the probability of compliance: the plain
-    flush's time to target, that plus the planning margin, and the lead at confidence."""
+    """Start leads [h] at which the command states the probability of compliance.
+
+    The plain flush's time to target, that plus the planning margin
+    ``margin_h`` [h], and the lead at confidence (those that exist).
+    """
     det = u.deterministic.time_to_target_h
     out = [] if det is None else [det, det + margin_h]
     if u.lead_at_confidence_h is not None:
@@ -34,7 +39,11 @@ def leads_to_show(u: CircuitUncertainty, margin_h: float) -> list[float]:
 
 
 def uncertainty_json(u: CircuitUncertainty, margin_h: float = DEFAULT_MARGIN_H) -> dict:
-    """The document of one circuit's Monte Carlo (keys are added to, never renamed)."""
+    """The document of one circuit's Monte Carlo (keys are added to, never renamed).
+
+    Times and leads in h, masses in t, rates in t/h, probabilities [-];
+    ``margin_h`` [h] is the planning margin for ``p_compliant_at_boundary``.
+    """
     lo, hi = u.lead_at_confidence_interval_h
     sens = u.sensitivity
     return {

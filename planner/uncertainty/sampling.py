@@ -15,10 +15,12 @@ much **earlier** than planned, so the changeover needs that much more lead).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
 
+from planner.fuels import Fuel
 from planner.uncertainty.inputs import Z95, UncertaintySpec
 from planner.uncertainty.model import CircuitNodes
 
@@ -45,23 +47,46 @@ class InputDef:
 
     @property
     def low(self) -> float:
+        """The 2.5 % point (normal) or 0 (uniform), in the input's unit."""
         if self.dist == "uniform":
             return 0.0
         return self.nominal - Z95 * self.spread
 
     @property
     def high(self) -> float:
+        """The 97.5 % point (normal) or the upper end (uniform), in the input's unit."""
         if self.dist == "uniform":
             return self.spread
         return self.nominal + Z95 * self.spread
 
     @property
     def uncertain(self) -> bool:
+        """Whether the input has any spread."""
         return self.spread > 0.0
 
 
-def input_defs(nodes: CircuitNodes, fuels, spec: UncertaintySpec) -> tuple[InputDef, ...]:
-    """The inputs of a circuit, in sampling order (normal columns first, then uniform)."""
+def input_defs(nodes: CircuitNodes, fuels: Sequence[Fuel],
+               spec: UncertaintySpec) -> tuple[InputDef, ...]:
+    """The uncertain inputs of a circuit, in sampling order (normal first, then uniform).
+
+    Parameters
+    ----------
+    nodes : CircuitNodes
+        The circuit's volumes, stirred volumes and receiving tanks.
+    fuels : sequence of Fuel
+        The distinct fuels of the changeover.
+    spec : UncertaintySpec
+        The spreads: ± values [%] are 95 % half-widths, so the standard
+        deviation of a factor is ``value / 100 / 1.96`` [-]; sulphur standard
+        deviations [% m/m]; the boundary time ± [min] becomes [h].
+
+    Returns
+    -------
+    tuple of InputDef
+        Volume factors, tank factors, consumption factor (normal, [-]); each
+        fuel's sulphur (normal, [% m/m]); the boundary offset (normal, [h]);
+        the stagnant and bypass parts of each stirred volume (uniform, [-]).
+    """
     out = []
     for n in nodes.volumes:
         out.append(InputDef(f"volume:{n}", f"volume {n}", "volume", n, 1.0,
@@ -95,7 +120,7 @@ class Samples:
     n: int
     seed: int | None
 
-    def sulphur(self, fuels) -> np.ndarray:
+    def sulphur(self, fuels: Sequence[Fuel]) -> np.ndarray:
         """Sulphur of each fuel (n, F), % m/m, in the order of ``fuels``."""
         return np.column_stack([self.values[f"sulphur:{f.name}"] for f in fuels])
 
@@ -104,9 +129,10 @@ class Samples:
         """How much earlier than planned the boundary is reached, h (n,)."""
         return self.values["boundary"]
 
-    def log_factor(self, node: str, kind: str) -> np.ndarray:
-        """ln of the factor on a node's volume in the flushing model (n,): its volume factor
-        times, for a stirred volume, the effective-volume factor (1 − d) / (1 − b)."""
+    def log_factor(self, node: str | None, kind: str) -> np.ndarray:
+        """ln of the factor on a node's volume in the flushing model (n,) [-]: its volume
+        factor times, for a stirred volume, the effective-volume factor (1 − d) / (1 − b);
+        ``kind`` ``"consumption"`` (``node`` ignored), ``"tank"`` or ``"volume"``."""
         if kind == "consumption":
             return np.log(self.values["consumption"])
         if kind == "tank":
@@ -119,7 +145,13 @@ class Samples:
 
 
 def draw(defs: tuple[InputDef, ...], n: int, seed: int | None) -> Samples:
-    """``n`` samples of ``defs`` from ``numpy.random.default_rng(seed)``."""
+    """``n`` samples of ``defs`` from ``numpy.random.default_rng(seed)``.
+
+    Normal inputs from one standard-normal matrix (factors kept at or above
+    0.05, sulphur at or above 0), uniform ones from one uniform matrix, one
+    column per input: the same seed gives the same numbers, and an input
+    without spread leaves the others' samples unchanged.
+    """
     if n < 1:
         raise ValueError(f"samples must be >= 1, got {n}")
     rng = np.random.default_rng(seed)
@@ -141,20 +173,20 @@ def draw(defs: tuple[InputDef, ...], n: int, seed: int | None) -> Samples:
 
 
 def one_at_a_time(defs: tuple[InputDef, ...], key: str, value: float) -> Samples:
-    """A single sample: every input at its nominal value but ``key`` at ``value``."""
+    """A single sample: every input at its nominal value but ``key`` at ``value`` (its unit)."""
     values = {d.key: np.array([value if d.key == key else d.nominal]) for d in defs}
     return Samples(defs, values, 1, None)
 
 
-def nominal_samples(defs: tuple[InputDef, ...]) -> Samples:
-    """A single sample with every input at its nominal value."""
-    return Samples(defs, {d.key: np.array([d.nominal]) for d in defs}, 1, None)
-
-
 def fit_points(d_volume: InputDef, stagnant: InputDef | None = None,
                bypass: InputDef | None = None) -> tuple[float, float]:
-    """ln-factor points (low < 0 < high) at which the surrogate simulates a node: the 95 %
-    ends of its volume factor combined with the mixing ends (stirred volumes)."""
+    """ln-factor points (low < 0 < high) [-] at which the surrogate simulates a node.
+
+    The 95 % ends of its volume factor combined with the mixing ends (stirred
+    volumes: the stagnant end lowers the effective volume, the bypass end
+    raises it); an input spread on one side only gets a point at half the
+    other side's, mirrored. ValueError when there is no spread at all.
+    """
     lo = math.log(max(d_volume.low, _MIN_FACTOR))
     hi = math.log(d_volume.high)
     if stagnant is not None:

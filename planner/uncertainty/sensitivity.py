@@ -8,7 +8,8 @@
   uncertainty); interpolated by the surrogate otherwise (``exact`` False).
 - **Rank correlation**: Spearman's ρ of each input's samples with the samples
   of the lead (the Pearson correlation of their ranks, ties given their mean
-  rank; samples that never reach the target rank highest), computed with numpy.
+  rank; samples that never reach the target rank highest), computed with numpy
+  (checked against ``scipy.stats.spearmanr`` in the tests, [SCIPY-2020]).
 
 The **main driver** is the input with the largest |ρ|: it accounts for each
 input's actual spread, where a swing shows only its ends.
@@ -25,7 +26,13 @@ from planner.uncertainty.surrogate import Surrogate
 
 
 def ranks(x: np.ndarray) -> np.ndarray:
-    """Ranks 1..n of ``x``, ties given the mean of their ranks (inf ranks highest)."""
+    """Ranks 1..n [-] of ``x``, ties given the mean of their ranks (inf ranks highest).
+
+    Examples
+    --------
+    >>> ranks(np.array([3.0, 1.0, 3.0, np.inf])).tolist()
+    [2.5, 1.0, 2.5, 4.0]
+    """
     x = np.asarray(x, dtype=float)
     order = np.argsort(x, kind="mergesort")
     r = np.empty(len(x))
@@ -38,7 +45,7 @@ def ranks(x: np.ndarray) -> np.ndarray:
 
 
 def spearman(x: np.ndarray, y: np.ndarray) -> float:
-    """Spearman's rank correlation of ``x`` and ``y``; 0 when either is constant."""
+    """Spearman's rank correlation [-] of ``x`` and ``y``; 0 when either is constant."""
     rx, ry = ranks(x), ranks(y)
     rx, ry = rx - rx.mean(), ry - ry.mean()
     den = float(np.sqrt((rx @ rx) * (ry @ ry)))
@@ -84,22 +91,27 @@ class Sensitivity:
 
     @property
     def driver_label(self) -> str | None:
+        """Label of :attr:`driver` (e.g. ``"sulphur mgo"``)."""
         return None if self.driver is None else self.labels[self.driver]
 
 
 def time_of(surrogate: Surrogate, samples: Samples, level_pct: float, down: bool) -> np.ndarray:
-    """Time from the switch to ``level_pct`` of each sample, h (inf: not reached)."""
+    """Time from the switch to ``level_pct`` [% m/m] of each sample, h (inf: not reached).
+
+    At or below the level when ``down`` (to compliant fuel), else at or above.
+    """
     fuels = surrogate.nominal.fuels
     theta = surrogate.nominal.levels(samples.sulphur(fuels), level_pct, down)
-    return surrogate.times(theta, surrogate.u(samples))
+    return surrogate.time_h(theta, surrogate.u(samples))
 
 
 def lead_of(surrogate: Surrogate, samples: Samples, level_pct: float, down: bool) -> np.ndarray:
-    """Lead needed (time to ``level_pct`` plus the boundary offset) of each sample, h."""
+    """Lead needed (time to ``level_pct`` [% m/m] plus the boundary offset) of each sample, h."""
     return time_of(surrogate, samples, level_pct, down) + samples.early_h
 
 
 def _exact(surrogate: Surrogate, d: InputDef, value: float) -> bool:
+    """Whether the surrogate is exact with ``d`` alone at ``value``: a fit point of its axis."""
     if d.kind in ("sulphur", "boundary"):
         return True
     if d.kind in ("stagnant", "bypass"):
@@ -113,12 +125,30 @@ def _exact(surrogate: Surrogate, d: InputDef, value: float) -> bool:
 
 
 def _h(x: float) -> float | None:
+    """``x`` as a float, None when it is not finite (not reached)."""
     return float(x) if np.isfinite(x) else None
 
 
 def sensitivity(surrogate: Surrogate, samples: Samples, lead: np.ndarray, level_pct: float,
                 down: bool) -> Sensitivity:
-    """Swings of every uncertain input and the rank correlation of its samples with ``lead``."""
+    """Swings of every uncertain input and the rank correlation of its samples with ``lead``.
+
+    Parameters
+    ----------
+    surrogate : Surrogate
+    samples : Samples
+    lead : ndarray (n,) [h]
+        Each sample's lead (inf: not reached).
+    level_pct : float [% m/m]
+        The level the swings' leads are to (the target).
+    down : bool
+        True going to compliant fuel (at or below the level).
+
+    Returns
+    -------
+    Sensitivity
+        Swings [h], largest first; Spearman's ρ [-] by input key.
+    """
     swings = []
     for d in samples.defs:
         if not d.uncertain:

@@ -58,6 +58,7 @@ class StartQuantiles(NamedTuple):
 
 
 def _pack(a: CircuitUncertainty) -> StartQuantiles:
+    """The plan's figures of one analysis."""
     return StartQuantiles(a.lead_p50_h, a.lead_at_confidence_h, a.driver,
                           a.lead_limit_at_confidence_h, a.extra_compliant_t,
                           a.deterministic.time_to_target_h, a.confidence, a)
@@ -69,17 +70,46 @@ def start_quantiles(system: FuelSystem, circuit: str, from_: str, to: str,
                     seed: int | None = DEFAULT_SEED, spec: UncertaintySpec | None = None, *,
                     progress: Callable[[int, int], None] | None = None,
                     max_iterations: int = 3, tolerance_h: float = 1.0 / 60.0) -> StartQuantiles:
-    """Lead quantiles of ``circuit``'s changeover from ``from_`` to ``to`` (tank or fuel names).
+    """Lead quantiles of ``circuit``'s changeover from ``from_`` to ``to``.
 
-    ``schedule`` is the consumption from the switch, or a callable giving it for
-    a switch ``lead_h`` before the boundary (the consumption depends on where
-    the start falls). With a callable, the lead is found by fixed point: the
+    With a callable ``schedule``, the lead is found by fixed point: the
     deterministic lead with ``schedule(0.0)`` first, then the analysis is run
     with ``schedule(lead)`` and the lead at confidence fed back, until it moves
     by less than ``tolerance_h`` or after ``max_iterations`` analyses; the P50
     lead comes from the last analysis (the schedule of the confidence start).
-    ``spec`` defaults to the built-in defaults (see
-    :func:`planner.uncertainty.load_uncertainty` for the ship file's table).
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+    from_, to : str
+        Tank or fuel names.
+    schedule : ConsumptionSchedule or callable
+        The consumption [t/h] from the switch, or a callable giving it for a
+        switch ``lead_h`` [h] before the boundary (the consumption depends on
+        where the start falls).
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target.
+    confidence : float, default 0.99 [-]
+    samples : int, default 10 000 [-]
+    seed : int or None, default 0
+    spec : UncertaintySpec, optional
+        Default: the built-in defaults (see
+        :func:`planner.uncertainty.load_uncertainty` for the ship file's table).
+    progress : callable (done, total), optional
+        Called after each simulation.
+    max_iterations : int, default 3 [-]
+        Most analyses of the fixed point.
+    tolerance_h : float, default 1/60 [h]
+        The fixed point stops when the lead moves by less.
+
+    Returns
+    -------
+    StartQuantiles
+        Leads [h] before the planned boundary, the main driver, the extra
+        compliant fuel [t] and the analysis.
     """
     spec = spec or UncertaintySpec()
     a_tank, b_tank = system.tank_for(circuit, from_), system.tank_for(circuit, to)

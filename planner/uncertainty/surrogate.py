@@ -44,21 +44,30 @@ Progress = Callable[[int, int], None]
 
 @dataclass(frozen=True)
 class Axis:
-    """One simulated axis: ``kind`` ``"volume"``, ``"tank"`` or ``"consumption"``; the
-    ln-factor fit points ``lo < 0 < hi``."""
+    """One simulated axis: ``kind`` ``"volume"``, ``"tank"`` or ``"consumption"``, its node
+    (None for consumption), and the ln-factor fit points ``lo < 0 < hi`` [-]."""
 
     kind: str
     node: str | None
     lo: float
     hi: float
 
-    @property
-    def label(self) -> str:
-        return "consumption" if self.kind == "consumption" else f"{self.kind} {self.node}"
-
 
 def axes_for(defs: Sequence[InputDef]) -> tuple[Axis, ...]:
-    """The axes of the uncertain nodes among ``defs`` (nodes without spread are left out)."""
+    """The simulated axes of a circuit's uncertain inputs.
+
+    Parameters
+    ----------
+    defs : sequence of InputDef
+        The circuit's inputs (:func:`~planner.uncertainty.sampling.input_defs`).
+
+    Returns
+    -------
+    tuple of Axis
+        One per pipe or stirred volume whose volume or mixing is uncertain,
+        per uncertain tank sounding, and the consumption if uncertain; the fit
+        points from :func:`~planner.uncertainty.sampling.fit_points` [-].
+    """
     by_key = {d.key: d for d in defs}
     out = []
     for d in defs:
@@ -73,13 +82,14 @@ def axes_for(defs: Sequence[InputDef]) -> tuple[Axis, ...]:
 
 @dataclass(frozen=True)
 class Case:
-    """What one simulation runs: node factors and the consumption factor."""
+    """What one simulation runs: volume or tank factors by node [-], the consumption factor [-]."""
 
-    factors: dict
+    factors: dict[str, float]
     consumption: float = 1.0
 
 
 def case_for(axis: Axis, u: float) -> Case:
+    """The case at ln-factor ``u`` [-] along one axis, every other input nominal."""
     if axis.kind == "consumption":
         return Case({}, float(np.exp(u)))
     return Case({axis.node: float(np.exp(u))})
@@ -87,18 +97,66 @@ def case_for(axis: Axis, u: float) -> Case:
 
 def run_case(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
              schedule: ConsumptionSchedule, horizon_h: float, case: Case) -> BlendCurve:
-    """Simulate one case and return its blend curve (FlushError passes through)."""
+    """Simulate one case of a changeover and return its blend curve.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit, from_tank, to_tank : str
+        The changeover (tank names).
+    schedule : ConsumptionSchedule
+        Nominal rates [t/h]; times the case's consumption factor.
+    horizon_h : float [h]
+        Simulated time after the switch.
+    case : Case
+        Node factors [-] and consumption factor [-].
+
+    Returns
+    -------
+    BlendCurve
+        θ(t) at each distinct inlet (exact for every sulphur level, to round-off).
+
+    Raises
+    ------
+    FlushError
+        When the perturbed system cannot run the changeover that long.
+    """
     sys_ = perturbed(system, case.factors) if case.factors else system
     sw = make_switch(sys_, circuit, from_tank, to_tank)
     result = simulate(sys_, sw, scaled_schedule(schedule, case.consumption), horizon_h)
     return BlendCurve.from_result(result, circuit, from_tank, to_tank)
 
 
-def run_cases(system, circuit, from_tank, to_tank, schedule, horizon_h: float, min_horizon_h: float,
+def run_cases(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
+              schedule: ConsumptionSchedule, horizon_h: float, min_horizon_h: float,
               cases: Sequence[Case], progress: Progress | None = None,
               done: int = 0, total: int | None = None) -> tuple[list[BlendCurve], float]:
-    """Simulate every case to one horizon; halve it (down to ``min_horizon_h``) while a case
-    cannot run that long (a tank running dry). Returns the curves and the horizon used."""
+    """Simulate every case to one horizon, halved while a case cannot run that long.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit, from_tank, to_tank : str
+        The changeover (tank names).
+    schedule : ConsumptionSchedule
+        Nominal rates [t/h].
+    horizon_h : float [h]
+        First horizon tried.
+    min_horizon_h : float [h]
+        Shortest horizon: below it the FlushError (a tank running dry) passes on.
+    cases : sequence of Case
+    progress : callable (done, total), optional
+        Called after each simulation.
+    done, total : int [-]
+        Simulations done before these, and in all (default: ``done + len(cases)``).
+
+    Returns
+    -------
+    curves : list of BlendCurve
+        One per case.
+    horizon_h : float [h]
+        The horizon they share.
+    """
     total = total if total is not None else done + len(cases)
     while True:
         try:
@@ -128,18 +186,23 @@ class Surrogate:
 
     @property
     def simulations(self) -> int:
+        """Number of simulations it took: the nominal and two per axis."""
         return 1 + 2 * len(self.axes)
 
     def u(self, samples: Samples) -> np.ndarray:
-        """The samples' ln-factors on every axis (n, A)."""
+        """The samples' ln-factors on every axis (n, A) [-]."""
         cols = [samples.log_factor(a.node, a.kind) for a in self.axes]
         return np.column_stack(cols) if cols else np.zeros((samples.n, 0))
 
-    def times(self, theta_level: np.ndarray, u: np.ndarray) -> np.ndarray:
-        """Time to each sample's level θ* (n,) for its ln-factors ``u`` (n, A), h; inf when not
-        reached by the horizon at the nominal or at a fit point the sample needs."""
+    def time_h(self, theta_level: np.ndarray, u: np.ndarray) -> np.ndarray:
+        """Time to each sample's level θ* (n,) [-] for its ln-factors ``u`` (n, A) [-], h.
+
+        ``ln T = ln T₀ + Σⱼ Pⱼ(uⱼ) − (κ/2)·Σⱼ≠ₖ αⱼαₖuⱼuₖ`` (the module docstring);
+        inf when the level is not reached by the horizon at the nominal or at
+        a fit point the sample needs.
+        """
         lv = np.asarray(theta_level, dtype=float)
-        t0 = self.nominal.times_at(lv)
+        t0 = self.nominal.time_at_h(lv)
         total = np.zeros(lv.shape)
         bad = ~np.isfinite(t0)
         lin = np.zeros(lv.shape)  # Σ αⱼuⱼ over the volume axes
@@ -149,7 +212,7 @@ class Surrogate:
         a_sq = np.zeros(lv.shape)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             for j, ax in enumerate(self.axes):
-                t_lo, t_hi = self.lo[j].times_at(lv), self.hi[j].times_at(lv)
+                t_lo, t_hi = self.lo[j].time_at_h(lv), self.hi[j].time_at_h(lv)
                 d_lo, d_hi = np.log(t_lo / t0), np.log(t_hi / t0)
                 a, b = ax.lo, ax.hi
                 alpha, beta = _quadratic(d_lo, d_hi, a, b)
@@ -185,21 +248,10 @@ class Surrogate:
             k = curv / den
         return np.where(np.isfinite(k) & (den > 1e-6), k, 0.0)
 
-    def elasticities(self, theta_level: float) -> np.ndarray:
-        """d ln T / d u at the nominal for one level, per axis (the quadratics' slopes): the
-        share of the time each volume carries. Over the volumes and tanks it sums to 1 when
-        every node that matters is an axis (the exact scaling), a check on the fits."""
-        lv = np.array([theta_level])
-        t0 = self.nominal.times_at(lv)[0]
-        out = []
-        for j, ax in enumerate(self.axes):
-            d_lo = np.log(self.lo[j].times_at(lv)[0] / t0)
-            d_hi = np.log(self.hi[j].times_at(lv)[0] / t0)
-            out.append(_quadratic(d_lo, d_hi, ax.lo, ax.hi)[0])
-        return np.array(out)
 
-
-def _quadratic(d_lo, d_hi, a: float, b: float):
+def _quadratic(
+    d_lo: np.ndarray, d_hi: np.ndarray, a: float, b: float
+) -> tuple[np.ndarray, np.ndarray]:
     """(α, β) of P(u) = αu + βu² through (a, d_lo), (0, 0), (b, d_hi)."""
     beta = (d_lo / a - d_hi / b) / (a - b)
     return d_lo / a - beta * a, beta
@@ -209,7 +261,30 @@ def build_surrogate(system: FuelSystem, circuit: str, from_tank: str, to_tank: s
                     schedule: ConsumptionSchedule, defs: Sequence[InputDef], horizon_h: float,
                     min_horizon_h: float, *, progress: Progress | None = None,
                     total: int | None = None) -> Surrogate:
-    """Simulate the nominal and the fit points of every axis (1 + 2·A simulations)."""
+    """Simulate the nominal and the fit points of every axis (1 + 2·A simulations).
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit, from_tank, to_tank : str
+        The changeover (tank names).
+    schedule : ConsumptionSchedule
+        Nominal rates [t/h].
+    defs : sequence of InputDef
+        The circuit's uncertain inputs.
+    horizon_h, min_horizon_h : float [h]
+        First and shortest horizon (:func:`run_cases`).
+    progress : callable (done, total), optional
+        Called after each simulation.
+    total : int, optional [-]
+        Simulations in the whole analysis, for ``progress``.
+
+    Returns
+    -------
+    Surrogate
+        ``complete`` when every volume and tank that reaches the inlets is an
+        axis (the exact volume scaling then fixes the cross terms).
+    """
     axes = axes_for(defs)
     cases = [Case({})]
     for ax in axes:

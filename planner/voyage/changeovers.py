@@ -1,27 +1,32 @@
 """When and where each changeover starts, on the voyage's own timeline.
 
 Going to compliant fuel (a step down in limit at a boundary), per circuit:
-the latest start ``t_s`` such that every inlet of the circuit is at or under
-the sulphur target by the boundary time minus the time margin,
+the latest valve switch ``t_start`` such that every inlet of the circuit is at
+or under the sulphur target by the boundary time minus the time margin,
 
-    t_s + D(t_s) = T_boundary − margin,
+    t_start + D(t_start) = t_boundary − margin,
 
-where ``D(t_s)`` is the flushing time to the target *with the consumption
-that really applies from t_s on* (speed changes and stops on the timeline
-included). Solved by fixed-point iteration on ``t_s`` (D changes slowly with
-t_s), checked, and stepped back a minute at a time if the last step
-overshot. The iteration converges only while |dD/dt_s| < 1: a speed cut during
-the flush to less than half the flow (e.g. 14 kn to 10 kn by the propeller law)
-makes it oscillate, so when it has not converged the root of
-``t_s + D(t_s) = T_boundary − margin`` is bracketed and bisected instead
-(``t_s + D(t_s)`` never decreases with ``t_s``: a later switch leaves more old
-fuel in the system at every moment). Going back to regular fuel (a step up at an
-exit): commenced at the exit, never before; complete when every inlet is within
-:data:`SWITCH_BACK_COMPLETE` of the regular fuel's sulphur.
+where ``D(t_start)`` is the flushing time to the target *with the consumption
+that really applies from t_start on* (speed changes and stops on the timeline
+included). Solved by fixed-point iteration on ``t_start`` (D changes slowly
+with t_start), checked, and stepped back a minute at a time if the last step
+overshot. The iteration converges only while |dD/dt_start| < 1: a speed cut
+during the flush to less than half the flow (e.g. 14 kn to 10 kn by the
+propeller law [PROPELLER-LAW]) makes it oscillate, so when it has not converged
+the root of ``t_start + D(t_start) = t_boundary − margin`` is bracketed and
+bisected instead (``t_start + D(t_start)`` never decreases with ``t_start``: a
+later switch leaves more old fuel in the system at every moment). Going back to
+regular fuel (a step up at an exit): commenced at the exit, never before;
+complete when every inlet is within :data:`SWITCH_BACK_COMPLETE` of the regular
+fuel's sulphur.
+
+Moments are epoch seconds (``*_epoch_s``: seconds since 1970-01-01 UTC);
+durations are seconds (``*_s``) or hours (``*_h``).
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from planner.flushing.study import FlushStudy, study
@@ -41,7 +46,32 @@ class TargetUnreachable(ValueError):
 
 @dataclass(frozen=True, eq=False)
 class CircuitChange:
-    """One circuit's changeover, times in epoch seconds (UTC)."""
+    """One circuit's changeover.
+
+    Parameters
+    ----------
+    circuit : str
+        The circuit (a name of the ship file's ``[circuits]``).
+    direction : str
+        ``"to_compliant"`` or ``"to_regular"``.
+    from_fuel, to_fuel : str
+        The main fuel of the tank left and of the tank taken.
+    from_tank, to_tank : str
+        The tanks at the changeover valve, before and after.
+    start_epoch_s : float [s]
+        The valve switch, seconds since 1970-01-01 UTC.
+    done_epoch_s : float or None [s]
+        Every inlet at the sulphur target (to compliant) or within
+        :data:`SWITCH_BACK_COMPLETE` of the regular fuel (back), seconds since
+        1970-01-01 UTC; None if never within the simulated horizon.
+    at_limit_epoch_s : float or None [s]
+        Every inlet at or under the limit (to compliant), or the first inlet
+        over it (back), seconds since 1970-01-01 UTC; None if never.
+    boundary_epoch_s : float [s]
+        The boundary the changeover is for, seconds since 1970-01-01 UTC.
+    study : FlushStudy
+        The flushing simulation from the valve switch, with the thermal path.
+    """
 
     circuit: str
     direction: str
@@ -49,29 +79,62 @@ class CircuitChange:
     to_fuel: str
     from_tank: str
     to_tank: str
-    start_s: float
-    done_s: float | None
-    limit_s: float | None
-    boundary_s: float
+    start_epoch_s: float
+    done_epoch_s: float | None
+    at_limit_epoch_s: float | None
+    boundary_epoch_s: float
     study: FlushStudy
 
     @property
     def duration_h(self) -> float | None:
-        return None if self.done_s is None else (self.done_s - self.start_s) / 3600.0
+        """Valve switch to done, h (None if never done)."""
+        if self.done_epoch_s is None:
+            return None
+        return (self.done_epoch_s - self.start_epoch_s) / 3600.0
 
 
 def _run(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str, to_tank: str,
-         start_s: float, limit_pct: float, level_pct: float, thermal: bool) -> FlushStudy:
-    sched = timeline.consumption_from(start_s, 96.0)
+         start_epoch_s: float, limit_pct: float, level_pct: float, thermal: bool) -> FlushStudy:
+    sched = timeline.consumption_from(start_epoch_s, 96.0)
     return study(system, circuit, from_tank, to_tank, sched, limit_pct, level_pct,
                  thermal=thermal)
 
 
 def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,
-                      to_tank: str, boundary_s: float, margin_h: float, limit_pct: float,
+                      to_tank: str, boundary_epoch_s: float, margin_h: float, limit_pct: float,
                       target_pct: float) -> CircuitChange:
-    """Latest start for one circuit so its inlets are at the target by boundary − margin."""
-    due = boundary_s - margin_h * 3600.0
+    """Latest start for one circuit so its inlets are at the target by boundary − margin.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship as she sails the voyage.
+    timeline : Timeline
+        The voyage's consumption against time.
+    circuit : str
+        The circuit to change over.
+    from_tank, to_tank : str
+        The tanks at its valve: the one in use and the compliant one.
+    boundary_epoch_s : float [s]
+        The boundary, seconds since 1970-01-01 UTC.
+    margin_h : float [h]
+        Compliant this long before the boundary.
+    limit_pct : float [% m/m]
+        The sulphur limit inside the area.
+    target_pct : float [% m/m]
+        The sulphur the inlets must be at or under by boundary − margin.
+
+    Returns
+    -------
+    CircuitChange
+        The changeover, simulated with the thermal path from its start.
+
+    Raises
+    ------
+    TargetUnreachable
+        If the inlets never get to ``target_pct``.
+    """
+    due = boundary_epoch_s - margin_h * 3600.0
 
     def duration_s(t: float) -> float:
         st = _run(system, timeline, circuit, from_tank, to_tank, t, limit_pct, target_pct, False)
@@ -102,14 +165,16 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
     done = start + s.time_to_target_h * 3600.0
     at_limit = None if s.time_to_limit_h is None else start + s.time_to_limit_h * 3600.0
     return CircuitChange(circuit, "to_compliant", s.from_fuel, s.to_fuel, from_tank, to_tank,
-                         start, done, at_limit, boundary_s, final)
+                         start, done, at_limit, boundary_epoch_s, final)
 
 
-def _bisect_latest_start(duration_s, due: float, tried: list[tuple[float, float]]) -> float:
+def _bisect_latest_start(duration_s: Callable[[float], float], due: float,
+                         tried: list[tuple[float, float]]) -> float:
     """The latest start whose flush is done by ``due`` (to 1 s), by bisection.
 
-    ``tried`` holds ``(t_s, t_s + D(t_s) − due)`` pairs already computed (the first
-    entry is ``due`` itself with ``D(due)`` > 0: too late).
+    ``tried`` holds ``(t_start, t_start + D(t_start) − due)`` pairs already computed
+    (the first entry is ``due`` itself with ``D(due)`` > 0: too late); moments are epoch
+    seconds, ``duration_s(t_start)`` is D in seconds.
     """
     late = [p for p in tried[1:] if p[1] > 0.0]
     early = [p for p in tried[1:] if p[1] <= 0.0]
@@ -136,17 +201,40 @@ def _bisect_latest_start(duration_s, due: float, tried: list[tuple[float, float]
 
 
 def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,
-                    to_tank: str, exit_s: float, limit_pct: float) -> CircuitChange:
-    """Switch back commenced at the exit; complete near the regular fuel's sulphur."""
+                    to_tank: str, exit_epoch_s: float, limit_pct: float) -> CircuitChange:
+    """Switch back commenced at the exit; complete near the regular fuel's sulphur.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship as she sails the voyage.
+    timeline : Timeline
+        The voyage's consumption against time.
+    circuit : str
+        The circuit to change back.
+    from_tank, to_tank : str
+        The tanks at its valve: the compliant one in use and the regular one.
+    exit_epoch_s : float [s]
+        The exit from the area, seconds since 1970-01-01 UTC: the valve switch.
+    limit_pct : float [% m/m]
+        The limit of the area left (its first excess is ``at_limit_epoch_s``).
+
+    Returns
+    -------
+    CircuitChange
+        The switch back, simulated with the thermal path from the exit.
+    """
     s_old = _main_fuel_sulphur(system, from_tank)
     s_new = _main_fuel_sulphur(system, to_tank)
     level = s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
-    final = _run(system, timeline, circuit, from_tank, to_tank, exit_s, limit_pct, level, True)
+    final = _run(system, timeline, circuit, from_tank, to_tank, exit_epoch_s, limit_pct, level,
+                 True)
     s = final.summary
-    done = None if s.time_to_target_h is None else exit_s + s.time_to_target_h * 3600.0
-    over = None if s.first_time_to_limit_h is None else exit_s + s.first_time_to_limit_h * 3600.0
+    done = None if s.time_to_target_h is None else exit_epoch_s + s.time_to_target_h * 3600.0
+    over = (None if s.first_time_to_limit_h is None
+            else exit_epoch_s + s.first_time_to_limit_h * 3600.0)
     return CircuitChange(circuit, "to_regular", s.from_fuel, s.to_fuel, from_tank, to_tank,
-                         exit_s, done, over, exit_s, final)
+                         exit_epoch_s, done, over, exit_epoch_s, final)
 
 
 def _main_fuel_sulphur(system: FuelSystem, tank: str) -> float:

@@ -12,12 +12,36 @@ instead, and the plan says so.
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from planner.common.timefmt import iso_utc
+from planner.voyage.plan import Plan
 
 
-def add_uncertainty(plan, doc: dict, confidence: float, samples: int, seed: int,
-                    progress=None) -> None:
-    """Add the confidence starts to the plan document (in place)."""
+def add_uncertainty(plan: Plan, doc: dict, confidence: float, samples: int, seed: int,
+                    progress: Callable[[str], object] | None = None) -> None:
+    """Add the confidence starts to the plan document (in place).
+
+    Adds to each row of a changeover to compliant fuel ``start_p50_utc`` and
+    ``start_confidence_utc`` (ISO 8601 UTC), ``lead_p50_h`` and
+    ``lead_confidence_h`` (h), ``confidence_basis``, ``extra_compliant_t`` (t)
+    and ``main_driver``; and the document's ``uncertainty`` table.
+
+    Parameters
+    ----------
+    plan : Plan
+        The plan the document was made from.
+    doc : dict
+        Its :func:`planner.voyage.report.plan_json` document (changed in place).
+    confidence : float [-]
+        The confidence of the starts, e.g. 0.99.
+    samples : int [-]
+        Monte Carlo samples per changeover and circuit.
+    seed : int [-]
+        The random seed (same seed, same numbers).
+    progress : callable, optional
+        Called with a line of text before each study.
+    """
     from planner.uncertainty import load_uncertainty, start_quantiles
 
     v = plan.voyage
@@ -31,7 +55,7 @@ def add_uncertainty(plan, doc: dict, confidence: float, samples: int, seed: int,
                 continue
             if progress:
                 progress(f"uncertainty: changeover {row['number']}, circuit {part.circuit}")
-            sched = plan.timeline.consumption_from(part.start_s, 96.0)
+            sched = plan.timeline.consumption_from(part.start_epoch_s, 96.0)
             q = start_quantiles(plan.system, part.circuit, part.from_tank, part.to_tank, sched,
                                 ch.limit_pct, ch.target_pct, confidence=confidence,
                                 samples=samples, seed=seed, spec=spec)
@@ -43,7 +67,7 @@ def add_uncertainty(plan, doc: dict, confidence: float, samples: int, seed: int,
                     f"{confidence:.0%} confidence the inlet may never reach the target "
                     f"{ch.target_pct:.3f} % (the fuel's own sulphur is uncertain); the start is "
                     f"set for the {ch.limit_pct:.2f} % limit instead.")
-            due = ch.boundary_s - v.time_margin_h * 3600.0
+            due = ch.boundary_epoch_s - v.time_margin_h * 3600.0
             row["start_p50_utc"] = iso_utc(plan.timeline.utc(due - q.lead_p50_h * 3600.0))
             row["start_confidence_utc"] = (None if lead is None else
                                            iso_utc(plan.timeline.utc(due - lead * 3600.0)))

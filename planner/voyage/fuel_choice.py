@@ -19,7 +19,19 @@ from planner.fuels import Fuel
 
 @dataclass(frozen=True)
 class FuelChoice:
-    """The fuel for one stretch, and why."""
+    """The fuel for one stretch, and why.
+
+    Parameters
+    ----------
+    stretch : Stretch
+        The stretch of the route check (one limit in force throughout).
+    fuel : Fuel
+        The fuel chosen for it.
+    target_pct : float [% m/m]
+        The sulphur the fuel had to be at or under: the limit × the target fraction.
+    reason : str
+        Why this fuel, in words (printed with the plan).
+    """
 
     stretch: Stretch
     fuel: Fuel
@@ -29,7 +41,29 @@ class FuelChoice:
 
 def choose_fuels(stretches: Sequence[Stretch], fuels: Sequence[Fuel], target_fraction: float,
                  file: str = "") -> list[FuelChoice]:
-    """The fuel for every stretch (see module notes). Sulphur in % m/m."""
+    """The fuel for every stretch (see the module notes).
+
+    Parameters
+    ----------
+    stretches : sequence of Stretch
+        The route check's stretches, in route order.
+    fuels : sequence of Fuel
+        The fuels on board.
+    target_fraction : float [-]
+        Aim at this share of each limit, in (0, 1].
+    file : str
+        The voyage file, named by the error.
+
+    Returns
+    -------
+    list of FuelChoice
+        One per stretch, in route order.
+
+    Raises
+    ------
+    InputError
+        If no fuel on board meets a stretch's target.
+    """
     if not 0.0 < target_fraction <= 1.0:
         raise ValueError(f"target_fraction must be in (0, 1], got {target_fraction}")
     ranked = sorted(fuels, key=lambda f: f.sulphur_pct, reverse=True)
@@ -52,3 +86,14 @@ def choose_fuels(stretches: Sequence[Stretch], fuels: Sequence[Fuel], target_fra
             why += f"; {', '.join(too_high)} would exceed it"
         out.append(FuelChoice(st, pick, target, why))
     return out
+
+
+def regular_fuel(choices: Sequence[FuelChoice]) -> Fuel:
+    """The highest-sulphur fuel chosen for any stretch: the voyage's regular fuel.
+
+    Parameters
+    ----------
+    choices : sequence of FuelChoice
+        The choices of :func:`choose_fuels` (at least one).
+    """
+    return max((c.fuel for c in choices), key=lambda f: f.sulphur_pct)

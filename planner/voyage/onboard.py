@@ -2,7 +2,7 @@
 
 The voyage file's delivery-note fuels replace (or add to) the ship file's by
 name, and each tank sounding (observed m³ at °C) becomes its standard volume
-at 15 °C by the Table 54B volume correction factor (REFERENCE.md section 4,
+at 15 °C by the Table 54B volume correction factor ([TABLE-54B],
 :func:`planner.fuels.standard_volume_m3`).
 """
 
@@ -19,7 +19,13 @@ from planner.voyage.voyage_file import Voyage, load_voyage
 
 
 def is_voyage_file(path: str | Path) -> bool:
-    """Whether a TOML file is a voyage file (it has a [voyage] table)."""
+    """Whether a TOML file is a voyage file (it has a [voyage] table).
+
+    Parameters
+    ----------
+    path : str or Path
+        A TOML file (False if it cannot be read or parsed).
+    """
     try:
         return "voyage" in tomllib.loads(Path(path).read_text(encoding="utf-8"))
     except (OSError, tomllib.TOMLDecodeError, UnicodeDecodeError):
@@ -27,7 +33,23 @@ def is_voyage_file(path: str | Path) -> bool:
 
 
 def ship_for_voyage(voyage: Voyage) -> FuelSystem:
-    """The ship file of ``voyage`` with its fuels and tank contents applied."""
+    """The ship file of ``voyage`` with its fuels and tank contents applied.
+
+    Parameters
+    ----------
+    voyage : Voyage
+        The voyage: its ship file, delivery-note fuels and tank soundings.
+
+    Returns
+    -------
+    FuelSystem
+        The ship with every sounded tank at its standard volume (m³ at 15 °C).
+
+    Raises
+    ------
+    InputError
+        For a tank the ship file lacks, or a volume the tank cannot hold.
+    """
     system = load_ship(voyage.ship_file)
     system = system.with_fuels({f.name: f for f in voyage.fuels})
     for name, content in voyage.tanks.items():
@@ -46,7 +68,18 @@ def ship_for_voyage(voyage: Voyage) -> FuelSystem:
 
 
 def load_ship_or_voyage(path: str | Path) -> tuple[FuelSystem, Voyage | None]:
-    """A ship file, or a voyage file and its ship as she sails it."""
+    """A ship file, or a voyage file and its ship as she sails it.
+
+    Parameters
+    ----------
+    path : str or Path
+        A ship file or a voyage file (TOML).
+
+    Returns
+    -------
+    tuple of (FuelSystem, Voyage or None)
+        The ship, and the voyage when ``path`` is a voyage file.
+    """
     if is_voyage_file(path):
         voyage = load_voyage(path)
         return ship_for_voyage(voyage), voyage

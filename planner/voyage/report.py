@@ -1,6 +1,6 @@
 """The plan as plain data: the ``--json`` contract, GeoJSON, and what the tables print.
 
-Keys follow DESIGN.md ("JSON contract"); keys may be added, never renamed.
+Keys follow docs/json-contract.md; keys may be added, never renamed.
 Every time is given in UTC (ISO 8601, ``Z``) and in ship's time with its
 offset; positions in decimal degrees (tables show degrees and minutes).
 """
@@ -9,8 +9,9 @@ from __future__ import annotations
 
 from geo.ellipsoid import NM_M
 from planner.common.timefmt import format_offset, iso_utc
-from planner.voyage.checks import fuel_needs, on_board_t, so2_by_area, stretch_so2, totals_t
+from planner.voyage.fuel_choice import FuelChoice, regular_fuel
 from planner.voyage.plan import Plan
+from planner.voyage.quantities import so2_by_area
 
 CAUTIONS = (
     "Advisory only: the engine and boiler makers' instructions and the ship's safety "
@@ -24,6 +25,7 @@ CAUTIONS = (
 
 
 def _ship_time(plan: Plan, epoch_s: float | None) -> str | None:
+    """Ship's time of a moment (seconds since 1970-01-01 UTC), to the minute with its offset."""
     if epoch_s is None:
         return None
     utc = plan.timeline.utc(epoch_s)
@@ -32,6 +34,7 @@ def _ship_time(plan: Plan, epoch_s: float | None) -> str | None:
 
 
 def _point(plan: Plan, epoch_s: float | None) -> tuple[float | None, float | None]:
+    """``(lat, lon)`` in degrees of the ship at a moment (seconds since 1970-01-01 UTC)."""
     if epoch_s is None:
         return None, None
     lat, lon, _ = plan.timeline.position(epoch_s)
@@ -39,16 +42,30 @@ def _point(plan: Plan, epoch_s: float | None) -> tuple[float | None, float | Non
 
 
 def changeover_rows(plan: Plan) -> list[dict]:
-    """One row per circuit and changeover, in time order (the contract's keys and more)."""
+    """One row per circuit and changeover, in time order (the contract's keys and more).
+
+    Parameters
+    ----------
+    plan : Plan
+        The plan.
+
+    Returns
+    -------
+    list of dict
+        Times as ISO 8601 UTC (``*_utc``) and ship's time, positions in degrees
+        (WGS84), ``boundary_nm`` in nautical miles, ``margin_h`` and
+        ``duration_h`` in hours, sulphur in % m/m, viscosity in cSt.
+    """
     rows = []
     for n, ch in enumerate(plan.changes, start=1):
-        blat, blon, _ = plan.timeline.position(ch.boundary_s)
+        blat, blon, _ = plan.timeline.position(ch.boundary_epoch_s)
         for part in ch.circuits:
-            slat, slon = _point(plan, part.start_s)
-            dlat, dlon = _point(plan, part.done_s)
+            start, done = part.start_epoch_s, part.done_epoch_s
+            slat, slon = _point(plan, start)
+            dlat, dlon = _point(plan, done)
             down = ch.direction == "to_compliant"
-            compliant = part.done_s if down else None
-            margin = (ch.boundary_s - part.done_s) / 3600.0 if down and part.done_s else 0.0
+            compliant = done if down else None
+            margin = (ch.boundary_epoch_s - done) / 3600.0 if down and done else 0.0
             st = part.study
             rows.append({
                 "number": n,
@@ -61,22 +78,22 @@ def changeover_rows(plan: Plan) -> list[dict]:
                 "to_tank": part.to_tank,
                 "limit_pct": ch.limit_pct,
                 "target_pct": ch.target_pct if down else None,
-                "start_utc": iso_utc(plan.timeline.utc(part.start_s)),
-                "start_ship_time": _ship_time(plan, part.start_s),
+                "start_utc": iso_utc(plan.timeline.utc(start)),
+                "start_ship_time": _ship_time(plan, start),
                 "start_lat": slat,
                 "start_lon": slon,
                 "compliant_utc": iso_utc(plan.timeline.utc(compliant)) if compliant else None,
                 "compliant_ship_time": _ship_time(plan, compliant),
                 "compliant_lat": dlat if down else None,
                 "compliant_lon": dlon if down else None,
-                "complete_utc": (iso_utc(plan.timeline.utc(part.done_s))
-                                 if part.done_s is not None else None),
+                "complete_utc": (iso_utc(plan.timeline.utc(done))
+                                 if done is not None else None),
                 "complete_lat": dlat,
                 "complete_lon": dlon,
-                "at_limit_utc": (iso_utc(plan.timeline.utc(part.limit_s))
-                                 if part.limit_s is not None else None),
-                "boundary_utc": iso_utc(plan.timeline.utc(ch.boundary_s)),
-                "boundary_ship_time": _ship_time(plan, ch.boundary_s),
+                "at_limit_utc": (iso_utc(plan.timeline.utc(part.at_limit_epoch_s))
+                                 if part.at_limit_epoch_s is not None else None),
+                "boundary_utc": iso_utc(plan.timeline.utc(ch.boundary_epoch_s)),
+                "boundary_ship_time": _ship_time(plan, ch.boundary_epoch_s),
                 "boundary_lat": blat,
                 "boundary_lon": blon,
                 "boundary_nm": ch.boundary_m / NM_M,
@@ -90,15 +107,28 @@ def changeover_rows(plan: Plan) -> list[dict]:
 
 
 def plan_json(plan: Plan) -> dict:
-    """The ``changeover plan --json`` document."""
-    regular = max((c.fuel for c in plan.choices), key=lambda f: f.sulphur_pct)
-    needs = fuel_needs(plan)
-    total = totals_t(needs)
-    have = on_board_t(plan)
+    """The ``changeover plan --json`` document.
+
+    Parameters
+    ----------
+    plan : Plan
+        The plan.
+
+    Returns
+    -------
+    dict
+        The documented keys (docs/json-contract.md): times ISO 8601 UTC,
+        distances nm, masses t, volumes m³ at 15 °C, SO₂ kg, sulphur % m/m.
+    """
+    q = plan.quantities
+    regular = regular_fuel(plan.choices)
+    needs = q.needs
+    total = q.totals_t
+    have = q.on_board_t
     # the fuels chosen for stretches inside an area (not "all but the regular one": a voyage
     # that never leaves an area burns only its compliant fuel)
     compliant = {c.fuel.name for c in plan.choices if c.stretch.areas}
-    so2 = stretch_so2(plan)
+    so2 = q.so2
     sched = plan.timeline.schedule
     return {
         "voyage": {
@@ -123,8 +153,8 @@ def plan_json(plan: Plan) -> dict:
             for c in plan.choices
         ],
         "fuel_needed": [
-            {"fuel": n.fuel, "from_utc": iso_utc(plan.timeline.utc(n.from_s)),
-             "to_utc": iso_utc(plan.timeline.utc(n.to_s)), "mass_t": n.mass_t,
+            {"fuel": n.fuel, "from_utc": iso_utc(plan.timeline.utc(n.from_epoch_s)),
+             "to_utc": iso_utc(plan.timeline.utc(n.to_epoch_s)), "mass_t": n.mass_t,
              "volume_m3_15c": n.volume_m3} for n in needs if n.mass_t > 0
         ],
         "fuel_totals": {f: {"needed_t": t, "on_board_t": have.get(f, 0.0),
@@ -143,12 +173,12 @@ def plan_json(plan: Plan) -> dict:
             "total_kg": sum(r.so2_kg for r in so2),
         },
         "notes": list(plan.notes),
-        "warnings": list(plan.warnings),
+        "warnings": [w.text for w in plan.warnings],
         "cautions": list(CAUTIONS),
     }
 
 
-def _why(plan: Plan, choice) -> str:
+def _why(plan: Plan, choice: FuelChoice) -> str:
     """Why the stretch burns its fuel: the choice, or the plan's note for staying compliant."""
     fuel = _run_fuel(plan, choice.stretch.from_m)
     if fuel == choice.fuel.name:
@@ -158,6 +188,7 @@ def _why(plan: Plan, choice) -> str:
 
 
 def _run_fuel(plan: Plan, from_m: float) -> str:
+    """The fuel of the run that a stretch starting at ``from_m`` (m) belongs to."""
     for r in plan.runs:
         if r.from_m - 1e-6 <= from_m < r.to_m - 1e-6 or (r is plan.runs[-1]):
             return r.fuel.name
@@ -165,7 +196,15 @@ def _run_fuel(plan: Plan, from_m: float) -> str:
 
 
 def plan_geojson(plan: Plan, doc: dict | None = None) -> dict:
-    """The route check's GeoJSON plus each changeover's start, compliant and boundary points."""
+    """The route check's GeoJSON plus each changeover's start, compliant and boundary points.
+
+    Parameters
+    ----------
+    plan : Plan
+        The plan.
+    doc : dict, optional
+        Its :func:`plan_json` document, if already made (with any uncertainty rows).
+    """
     from planner.voyage.route_report import route_geojson
 
     gj = route_geojson(plan.check)

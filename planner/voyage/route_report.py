@@ -1,6 +1,6 @@
 """The route check as plain data: the ``--json`` contract and the GeoJSON export.
 
-Keys follow DESIGN.md ("JSON contract"); keys may be added, never renamed.
+Keys follow docs/json-contract.md; keys may be added, never renamed.
 Legs count from 1 here (leg 1 joins waypoints 1 and 2), as on the bridge.
 """
 
@@ -15,7 +15,21 @@ from planner.common.timefmt import format_offset, iso_utc
 
 
 def route_json(check: RouteCheck, tz: timezone | None = None) -> dict:
-    """The ``changeover route --json`` document."""
+    """The ``changeover route --json`` document.
+
+    Parameters
+    ----------
+    check : RouteCheck
+        The route check.
+    tz : timezone, optional
+        Ship's time (its offset is printed as ``ship_utc_offset``).
+
+    Returns
+    -------
+    dict
+        Times ISO 8601 UTC, distances nm, positions degrees (WGS84), durations h,
+        limits % m/m.
+    """
     path = check.path
     sched = check.schedule
     out = {
@@ -68,11 +82,16 @@ def route_json(check: RouteCheck, tz: timezone | None = None) -> dict:
 
 
 def route_geojson(check: RouteCheck) -> dict:
-    """A GeoJSON FeatureCollection: the route as a LineString, crossings as Points.
+    """A GeoJSON FeatureCollection ([RFC-7946]): the route as a LineString, crossings as Points.
 
     The line is sampled every 5 nm along the true legs (rhumb or great circle),
     longitudes continuing past ±180 where the route crosses it, so any GIS
     draws the real track rather than straight lon/lat chords.
+
+    Parameters
+    ----------
+    check : RouteCheck
+        The route check.
     """
     import numpy as np
 

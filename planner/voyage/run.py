@@ -1,7 +1,9 @@
 """The two main jobs without printing: the route check and the voyage plan.
 
 Each loads every file its input names and computes; the command line prints
-and writes the result. Nothing here imports rich, matplotlib or reportlab.
+and writes the result. Nothing here imports rich, matplotlib or reportlab; the
+loaders and the planner are imported inside the functions, so the route check
+does not load the planning model.
 """
 
 from __future__ import annotations
@@ -9,11 +11,30 @@ from __future__ import annotations
 from collections.abc import Callable
 from datetime import date
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from geo.compliance import RouteCheck
+    from planner.voyage.plan import Plan
 
 
 def run_route_check(route_file: Path, areas: list[Path], depart: str | None, speed: float | None,
-                    on: str | None):
-    """Load the inputs and run the route check (no printing)."""
+                    on: str | None) -> RouteCheck:
+    """Load the inputs and run the route check (no printing).
+
+    Parameters
+    ----------
+    route_file : Path
+        The route (any supported format).
+    areas : list of Path
+        Area files or folders of them.
+    depart : str or None
+        Departure, ISO 8601 with its UTC offset (None: no schedule unless the route has one).
+    speed : float or None [kn]
+        Speed for legs without their own speed or ETA.
+    on : str or None
+        The date whose rules apply when there is no schedule, ``YYYY-MM-DD`` (default: today).
+    """
     from geo.area_files import load_areas
     from geo.compliance import check_route
     from geo.path import route_path
@@ -30,8 +51,16 @@ def run_route_check(route_file: Path, areas: list[Path], depart: str | None, spe
     return check_route(path, area_list, schedule, day)
 
 
-def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = None):
-    """Load the voyage and everything it names, and plan it (no printing)."""
+def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = None) -> Plan:
+    """Load the voyage and everything it names, and plan it (no printing).
+
+    Parameters
+    ----------
+    voyage_file : Path
+        The voyage file (TOML).
+    progress : callable, optional
+        Called with a line of text at each stage.
+    """
     from geo.area_files import load_areas
     from geo.compliance import check_route
     from geo.path import route_path

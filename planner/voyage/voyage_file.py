@@ -55,7 +55,17 @@ FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscos
 
 @dataclass(frozen=True)
 class TankContent:
-    """What a tank holds now: a fuel by name, observed volume (m³) at a temperature (°C)."""
+    """What a tank holds now, as sounded.
+
+    Parameters
+    ----------
+    fuel : str
+        The fuel, by its ``[[fuel]]`` name.
+    volume_m3 : float [m3]
+        The observed volume at ``temperature_c``.
+    temperature_c : float [degC]
+        The temperature of the fuel in the tank (default 15 °C: standard volume).
+    """
 
     fuel: str
     volume_m3: float
@@ -64,7 +74,39 @@ class TankContent:
 
 @dataclass(frozen=True)
 class Voyage:
-    """A loaded voyage file; paths are absolute."""
+    """A loaded voyage file; paths are absolute.
+
+    Parameters
+    ----------
+    file : str
+        The voyage file as named (errors and the JSON name it).
+    name : str
+        The voyage's name (default: the file's stem).
+    ship_file, route_file : Path
+        The ship and route files.
+    area_paths : tuple of Path
+        Area files or folders of them.
+    depart_utc : datetime
+        Departure, aware, UTC.
+    ship_tz : timezone
+        Ship's time at departure (a fixed UTC offset).
+    speed_kn : float or None [kn]
+        Speed for legs without their own speed or ETA.
+    fuels : tuple of Fuel
+        The delivery-note fuels, in file order.
+    tanks : dict of str to TankContent
+        The sounding of each tank named, by tank.
+    zone_changes : tuple of (datetime, timezone)
+        Changes of ship's time: from each moment (aware, UTC) on, the new offset.
+    caution_zones : Path or None
+        Confined or congested waters (GeoJSON), if any.
+    time_margin_h : float [h]
+        Compliant this long before each boundary.
+    sulphur_target_fraction : float [-]
+        Aim at this share of each limit.
+    confidence : float or None [-]
+        The confidence of the starts to add (Monte Carlo), if any.
+    """
 
     file: str
     name: str
@@ -83,13 +125,26 @@ class Voyage:
     confidence: float | None = None
 
     def fuel(self, name: str) -> Fuel:
+        """The delivery-note fuel called ``name``.
+
+        Parameters
+        ----------
+        name : str
+            The fuel's ``[[fuel]]`` name (KeyError if none).
+        """
         for f in self.fuels:
             if f.name == name:
                 return f
         raise KeyError(name)
 
     def ship_tz_at(self, moment: datetime) -> timezone:
-        """The ship's time zone in force at a moment (after any zone changes)."""
+        """The ship's time zone in force at a moment (after any zone changes).
+
+        Parameters
+        ----------
+        moment : datetime
+            An aware datetime (compared in UTC with the zone changes).
+        """
         tz = self.ship_tz
         for at, zone in self.zone_changes:
             if moment >= at:
@@ -159,7 +214,18 @@ def _fuel(tab: object, file: str, place: str) -> Fuel:
 
 
 def load_voyage(path: str | Path) -> Voyage:
-    """Read and check a voyage file."""
+    """Read and check a voyage file.
+
+    Parameters
+    ----------
+    path : str or Path
+        The voyage file (TOML; format in the module notes).
+
+    Raises
+    ------
+    InputError
+        For any bad or missing value, naming the file and the key.
+    """
     file = str(path)
     p = Path(path)
     try:
@@ -223,7 +289,7 @@ def load_voyage(path: str | Path) -> Voyage:
     margin_h = _number(m, "time_before_boundary_h", file, "margins", required=False,
                        default=DEFAULT_MARGIN_H, low=0.0, high=48.0)
     frac = _number(m, "sulphur_target_fraction", file, "margins", required=False,
-                   default=DEFAULT_TARGET_FRACTION,                   low=0.1, high=1.0)
+                   default=DEFAULT_TARGET_FRACTION, low=0.1, high=1.0)
     conf = _number(m, "confidence", file, "margins", required=False, low=MIN_CONFIDENCE,
                    high=MAX_CONFIDENCE)
     return Voyage(file, _text(v, "name", file, "voyage", required=False) or p.stem, ship, route,

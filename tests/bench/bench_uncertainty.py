@@ -62,7 +62,7 @@ def main() -> None:
         f = {n: float(np.exp(u.samples.log_factor(n, "volume")[i])) for n in nodes}
         c = run_case(ship, "main", "vlsfo_service", "mgo_service", sched, u.horizon_h,
                      Case(f, float(u.samples.values["consumption"][i])))
-        exact.append(c.time_to(s_fuels[i:i + 1], 0.09, True)[0])
+        exact.append(c.time_to_h(s_fuels[i:i + 1], 0.09, True)[0])
     brute_s = time.perf_counter() - t0
     exact = np.array(exact)
     sur = u.time_to_target_h[idx]

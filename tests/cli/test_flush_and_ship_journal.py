@@ -1,7 +1,7 @@
 """``changeover flush`` end to end, and the journal found through the ship file.
 
 Flush figures are checked against the model itself elsewhere (closed forms,
-solve_ivp); here: the DESIGN.md JSON contract, the load table's monotony
+solve_ivp); here: the JSON contract (docs/json-contract.md), the load table's monotony
 (higher load, shorter flush: the flow grows with consumption), and refusals.
 """
 

@@ -1,9 +1,9 @@
 """``changeover plan`` end to end, as a user runs it, on the fictional sample scenario.
 
-The JSON keys checked are the contract in DESIGN.md ("JSON contract"); the rules
+The JSON keys checked are the contract in docs/json-contract.md; the rules
 are issue 4 item 4 (compliant by the boundary minus the voyage's time margin; switch
 back commenced at the exit, never before); bad input is one stderr line naming the
-file and the key, exit 2, no output written (DESIGN.md "Inputs").
+file and the key, exit 2, no output written (DEVELOPERS.md, "How to add a check of bad input").
 """
 
 from __future__ import annotations

@@ -1,6 +1,6 @@
 """``changeover route`` and ``changeover areas`` end to end, as a user runs them.
 
-The JSON keys checked are the contract in DESIGN.md. Positions are checked
+The JSON keys checked are the contract in docs/json-contract.md. Positions are checked
 against the sample areas' own vertices (the route crosses meridian edges
 at 170°E, 173°E, 175°E, 178°E, 178.5°E, 176°W and 171°W).
 """

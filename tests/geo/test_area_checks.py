@@ -1,16 +1,19 @@
 """Geometry checks on loaded areas (geo.area_checks) and area measures (geo.area_measure).
 
 Outside reference: pyproj.Geod (GeographicLib, Karney 2013, "Algorithms for
-geodesics", J. Geodesy 87), exact to round-off (REFERENCE.md section 5 [P]).
-The authalic function q and the equal-area plane are from Snyder 1987 (USGS
-Professional Paper 1395), from memory: they are checked here against pyproj
-and against the area element of the ellipsoid before anything relies on them.
+geodesics", J. Geodesy 87), exact to round-off [KARNEY-2013] [P]; our own
+instance, ``REF_GEOD`` (tests/helpers/geo.py). The authalic function q and the
+equal-area plane are from Snyder 1987 (USGS Professional Paper 1395)
+[LAMBERT-EQUAL-AREA], from memory [M]: they are checked here against pyproj
+and against the area element of the ellipsoid [WGS84] [D] before anything
+relies on them.
 """
 
 from __future__ import annotations
 
 import math
 from datetime import date
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -25,36 +28,27 @@ from geo.area_measure import (
     geodesic_area_km2,
     ring_area_m2,
 )
-from geo.ellipsoid import A_M, E2, GEOD
+from geo.ellipsoid import A_M, E2
 from geo.plane import area_shape
 from geo.position import format_position
-from tests.geo.test_area_files import SAMPLE, closed, feature, load_one, refused, write
-
-
-def _geodesic_point_at_lon(lon1, lat1, lon2, lat2, lon):
-    """Latitude where the geodesic from point 1 to point 2 reaches ``lon`` (pyproj.Geod)."""
-    az, _, dist = GEOD.inv(lon1, lat1, lon2, lat2)
-    lo, hi = 0.0, dist
-    for _ in range(100):
-        mid = 0.5 * (lo + hi)
-        x, _, _ = GEOD.fwd(lon1, lat1, az, mid)
-        lo, hi = (mid, hi) if x < lon else (lo, mid)
-    return GEOD.fwd(lon1, lat1, az, lo)[1]
-
+from tests.helpers.areas import SAMPLE, closed, feature, load_one, refused, write
+from tests.helpers.geo import REF_GEOD, geodesic_lat_at_lon
 
 # ---- the equal-area plane against pyproj ------------------------------------------------
 
 
-def test_earth_area_matches_pyproj():
-    # pyproj.Geod (GeographicLib): a ring along the equator bounds a hemisphere;
-    # 510 065 621.724 km² for WGS84 is from memory and agrees
+def test_earth_area_matches_pyproj() -> None:
+    # pyproj.Geod [KARNEY-2013]: a ring along the equator bounds a hemisphere;
+    # 510 065 621.724 km² for WGS84 [WGS84] is from memory [M] and agrees
     lons = np.arange(0.0, 360.0, 1.0)
-    hemi, _ = GEOD.polygon_area_perimeter(lons, np.zeros_like(lons))
+    hemi, _ = REF_GEOD.polygon_area_perimeter(lons, np.zeros_like(lons))
     assert EARTH_AREA_M2 == pytest.approx(2.0 * abs(hemi), rel=1e-12)
     assert EARTH_AREA_M2 / 1e6 == pytest.approx(510_065_621.724, abs=0.01)
+    # [KARNEY-2013] GeographicLib Planimeter -p 9 on the equator: 255032810862044.2188 m²
+    assert EARTH_AREA_M2 == pytest.approx(2 * 255032810862044.2188, rel=1e-12)
 
 
-def test_authalic_q_derivative_is_the_area_element():
+def test_authalic_q_derivative_is_the_area_element() -> None:
     # [D] dA = a²(1−e²)cosφ/(1−e²sin²φ)² dφ dλ must equal dx·dy = a·dλ · (a/2)·dq
     phi = np.radians(np.array([-80.0, -33.3, 0.0, 12.5, 45.0, 71.0, 89.0]))
     h = 1e-6
@@ -63,33 +57,44 @@ def test_authalic_q_derivative_is_the_area_element():
     assert np.allclose(0.5 * dq, element, rtol=1e-8)
 
 
-@pytest.mark.parametrize(
-    "ring",
-    [
-        [(170, -44), (178, -44), (178, -36), (170, -36)],  # Corran Sea part 1
-        [(178.5, -42), (184, -42), (184, -37), (178.5, -37)],  # across 180, continued
-        [(0.0, 0.0), (0.01, 0.0), (0.01, 0.01), (0.0, 0.01)],  # about 1.1 km square
-        [(-30, -5), (40, -10), (10, 50)],  # long edges, both hemispheres
-        [(10, 80), (100, 82), (-150, 85), (-60, 81)],  # high latitude
-        [(-70, -60), (-20, -75), (30, -62), (5, -50), (-40, -52)],
-        [(lon, 70) for lon in range(0, 360, 30)],  # round the north pole
-        [(lon, -50) for lon in range(0, -360, -45)],  # round the south pole, westward
-    ],
-)
-def test_equal_area_agrees_with_pyproj_geodesic(tmp_path, ring):
+def _geodesic_polygon_m2(ring: list[tuple[float, float]]) -> float:
+    """|area| of the geodesic polygon on (lon, lat) vertices [m²], pyproj.Geod [KARNEY-2013]."""
+    signed, _ = REF_GEOD.polygon_area_perimeter([p[0] for p in ring], [p[1] for p in ring])
+    return abs(float(signed))
+
+
+PYPROJ = "pyproj.Geod.polygon_area_perimeter [KARNEY-2013] [P]"
+
+# (ring of (lon, lat) [deg], expected area [m²], source): geodesic polygons
+GEODESIC_POLYGONS = [
+    pytest.param(ring, _geodesic_polygon_m2(ring), PYPROJ, id=name) for name, ring in [
+        ("Corran Sea part 1", [(170, -44), (178, -44), (178, -36), (170, -36)]),
+        ("across 180, continued", [(178.5, -42), (184, -42), (184, -37), (178.5, -37)]),
+        ("about 1.1 km square", [(0.0, 0.0), (0.01, 0.0), (0.01, 0.01), (0.0, 0.01)]),
+        ("long edges, both hemispheres", [(-30, -5), (40, -10), (10, 50)]),
+        ("high latitude", [(10, 80), (100, 82), (-150, 85), (-60, 81)]),
+        ("five vertices, south", [(-70, -60), (-20, -75), (30, -62), (5, -50), (-40, -52)]),
+        ("round the north pole", [(lon, 70) for lon in range(0, 360, 30)]),
+        ("round the south pole, westward", [(lon, -50) for lon in range(0, -360, -45)]),
+    ]
+]
+
+
+@pytest.mark.parametrize(("ring", "expected_m2", "source"), GEODESIC_POLYGONS)
+def test_equal_area_agrees_with_pyproj_geodesic(tmp_path: Path, ring: list[tuple[float, float]],
+                                                expected_m2: float, source: str) -> None:
     area = load_one(tmp_path, ring)
-    # pyproj.Geod (GeographicLib): signed area of the geodesic polygon; its magnitude
-    ref, _ = GEOD.polygon_area_perimeter([p[0] for p in ring], [p[1] for p in ring])
-    assert ring_area_m2(area.polygons[0].exterior, "geodesic") == pytest.approx(abs(ref), rel=1e-6)
-    assert area_km2(area) == pytest.approx(abs(ref) / 1e6, rel=1e-6)
-    assert geodesic_area_km2(area) == pytest.approx(abs(ref) / 1e6, rel=1e-12)
+    assert ring_area_m2(area.polygons[0].exterior, "geodesic") == pytest.approx(expected_m2,
+                                                                               rel=1e-6), source
+    assert area_km2(area) == pytest.approx(expected_m2 / 1e6, rel=1e-6), source
+    assert geodesic_area_km2(area) == pytest.approx(expected_m2 / 1e6, rel=1e-12), source
 
 
 @pytest.mark.parametrize("edges", ["rhumb", "lonlat"])
-def test_equal_area_agrees_with_pyproj_on_the_sampled_ring(tmp_path, edges):
+def test_equal_area_agrees_with_pyproj_on_the_sampled_ring(tmp_path: Path, edges: str) -> None:
     ring = [(-171, -41), (-165, -41), (-165, -36), (-171, -36)]
     area = load_one(tmp_path, ring, edges=edges)
-    # pyproj.Geod (GeographicLib) on the ring sampled every 200 m (geodesic chords)
+    # pyproj.Geod [KARNEY-2013] on the ring sampled every 200 m (geodesic chords)
     assert area_km2(area) == pytest.approx(geodesic_area_km2(area), rel=1e-6)
     # rhumb and lonlat edges along parallels and meridians are the same lines: the
     # region is a lat/lon box, whose area is closed form, (a²/2)·Δλ·Δq [D]
@@ -97,8 +102,11 @@ def test_equal_area_agrees_with_pyproj_on_the_sampled_ring(tmp_path, edges):
     assert area_km2(area) == pytest.approx(box / 1e6, rel=1e-9)
 
 
-def test_polar_cap_rhumb_and_lonlat_and_geodesic(tmp_path):
+def test_polar_cap_rhumb_and_lonlat_and_geodesic(tmp_path: Path) -> None:
     cap70 = cap_area_m2(70.0)
+    # [KARNEY-RHUMB] GeographicLib Planimeter -R -p 9 on rhumb lines along 70°N:
+    # 15506340665454.9062 m²
+    assert cap70 == pytest.approx(15506340665454.9062, rel=1e-12)
     # [D] the cap from the area element: ∫ a²(1−e²)cosφ/(1−e²sin²φ)² dφ dλ, by quadrature
     phi = np.linspace(math.radians(70.0), math.pi / 2, 200001)
     f = (1 - E2) * np.cos(phi) / (1 - E2 * np.sin(phi) ** 2) ** 2
@@ -107,26 +115,26 @@ def test_polar_cap_rhumb_and_lonlat_and_geodesic(tmp_path):
     parallel = [(float(lon), 70.0) for lon in range(0, 360, 30)]
     rhumb = load_one(tmp_path, parallel, edges="rhumb")
     assert area_km2(rhumb) == pytest.approx(cap70 / 1e6, rel=1e-9)
-    # pyproj.Geod (GeographicLib) on the 200 m-sampled parallel, as a ring round the pole
+    # pyproj.Geod [KARNEY-2013] on the 200 m-sampled parallel, as a ring round the pole
     assert geodesic_area_km2(rhumb) == pytest.approx(cap70 / 1e6, rel=1e-6)
-    # lonlat (RFC 7946 style): the parallel written 0..360, closed through the pole
+    # lonlat (RFC 7946 style [RFC-7946]): the parallel written 0..360, closed through the pole
     lonlat = [*((float(lon), 70.0) for lon in range(0, 361, 30)), (360.0, 90.0), (0.0, 90.0)]
     assert area_km2(load_one(tmp_path, lonlat, edges="lonlat")) == pytest.approx(
         cap70 / 1e6, rel=1e-9
     )
-    # geodesic edges cut inside the parallel: smaller, and exactly pyproj's value
+    # geodesic edges cut inside the parallel: smaller, and exactly pyproj's value [KARNEY-2013]
     geodesic = load_one(tmp_path, parallel, edges="geodesic")
-    ref, _ = GEOD.polygon_area_perimeter([p[0] for p in parallel], [70.0] * 12)
+    ref, _ = REF_GEOD.polygon_area_perimeter([p[0] for p in parallel], [70.0] * 12)
     assert area_km2(geodesic) == pytest.approx(abs(ref) / 1e6, rel=1e-6)
     assert area_km2(geodesic) < 0.97 * cap70 / 1e6
 
 
-def test_union_counts_overlaps_once():
+def test_union_counts_overlaps_once() -> None:
     corran = load_areas([SAMPLE / "corran_sea.geojson"])[0]
     ext, hole = corran.polygons[0].exterior, corran.polygons[0].holes[0]
 
-    def geod(ring):  # pyproj.Geod (GeographicLib)
-        return abs(GEOD.polygon_area_perimeter([p[0] for p in ring], [p[1] for p in ring])[0])
+    def geod(ring: tuple[tuple[float, float], ...]) -> float:  # pyproj.Geod [KARNEY-2013]
+        return abs(REF_GEOD.polygon_area_perimeter([p[0] for p in ring], [p[1] for p in ring])[0])
 
     # part 2 lies inside part 1, so the area is part 1 less the hole
     assert area_km2(corran) == pytest.approx((geod(ext) - geod(hole)) / 1e6, rel=1e-6)
@@ -138,7 +146,7 @@ def test_union_counts_overlaps_once():
 
 
 @pytest.mark.parametrize("edges", ["geodesic", "rhumb"])
-def test_edge_of_exactly_180_degrees_refused(tmp_path, edges):
+def test_edge_of_exactly_180_degrees_refused(tmp_path: Path, edges: str) -> None:
     ring = [(0, -10), (180, -10), (180, 10), (0, 10)]
     path = write(tmp_path, feature([closed(ring)], edges=edges))
     refused(
@@ -151,12 +159,12 @@ def test_edge_of_exactly_180_degrees_refused(tmp_path, edges):
     refused([write(tmp_path, feature([closed(ring)], edges=edges))], "vertex 1 to vertex 2")
 
 
-def test_lonlat_edges_of_180_degrees_are_literal(tmp_path):
+def test_lonlat_edges_of_180_degrees_are_literal(tmp_path: Path) -> None:
     area = load_one(tmp_path, [(0, -10), (180, -10), (180, 10), (0, 10)], edges="lonlat")
     assert area_shape(area).covers([0.0, 0.0], [90.0, -90.0]).tolist() == [True, False]
 
 
-def test_rhumb_edge_into_a_pole_refused_geodesic_accepted(tmp_path):
+def test_rhumb_edge_into_a_pole_refused_geodesic_accepted(tmp_path: Path) -> None:
     ring = [(0, 80), (10, 90), (20, 80)]
     refused(
         [write(tmp_path, feature([closed(ring)], edges="rhumb"))],
@@ -167,10 +175,11 @@ def test_rhumb_edge_into_a_pole_refused_geodesic_accepted(tmp_path):
     load_one(tmp_path, [(0, 80), (0, 90), (20, 90), (20, 80)], edges="rhumb")
 
 
-def test_self_intersecting_ring_named_with_position(tmp_path):
+def test_self_intersecting_ring_named_with_position(tmp_path: Path) -> None:
     ring = [(0, 0), (20, 20), (20, 0), (0, 20)]  # a bow tie of geodesics
     # where its geodesic diagonals cross: on lon 10 by symmetry, latitude by pyproj.Geod
-    lat = _geodesic_point_at_lon(0, 0, 20, 20, 10.0)
+    # [KARNEY-2013] and brentq [SCIPY-2020]
+    lat = geodesic_lat_at_lon(0.0, 0.0, 20.0, 20.0, 10.0)
     where = format_position(lat, 10.0)
     assert where == "10°28.3'N 010°00.0'E"
     path = write(tmp_path, feature([closed(ring)]))
@@ -182,7 +191,7 @@ def test_self_intersecting_ring_named_with_position(tmp_path):
     )
 
 
-def test_ring_touching_itself_refused(tmp_path):
+def test_ring_touching_itself_refused(tmp_path: Path) -> None:
     ring = [(0, 0), (4, 0), (4, 4), (2, 0), (0, 4)]
     refused(
         [write(tmp_path, feature([closed(ring)], edges="lonlat"))],
@@ -190,12 +199,12 @@ def test_ring_touching_itself_refused(tmp_path):
     )
 
 
-def test_ring_round_the_pole_twice_refused(tmp_path):
+def test_ring_round_the_pole_twice_refused(tmp_path: Path) -> None:
     ring = [(0, 70), (90, 70), (180, 70), (-90, 70), (0, 72), (90, 72), (180, 72), (-90, 72)]
     refused([write(tmp_path, feature([closed(ring)]))], "winds 2 times round the pole")
 
 
-def test_ring_larger_than_a_hemisphere_refused(tmp_path):
+def test_ring_larger_than_a_hemisphere_refused(tmp_path: Path) -> None:
     # meant as the 20° strip across 180°, but lonlat edges take 170 → -170 the long way
     ring = [(-170, -60), (170, -60), (170, 60), (-170, 60)]
     refused(
@@ -220,7 +229,7 @@ def test_ring_larger_than_a_hemisphere_refused(tmp_path):
     refused([write(tmp_path, feature([closed(big)]))], "% of the Earth", "check the vertices")
 
 
-def test_hemisphere_boundary(tmp_path):
+def test_hemisphere_boundary(tmp_path: Path) -> None:
     # a lonlat lune 179.9° wide pole to pole is under half the Earth; 180.1° is over
     load_one(tmp_path, [(0, -90), (179.9, -90), (179.9, 90), (0, 90)], edges="lonlat")
     refused(
@@ -234,7 +243,7 @@ def test_hemisphere_boundary(tmp_path):
     )
 
 
-def test_hole_outside_exterior_refused(tmp_path):
+def test_hole_outside_exterior_refused(tmp_path: Path) -> None:
     rings = [[(0, 0), (4, 0), (4, 4), (0, 4)], [(3, 3), (5, 3), (5, 3.5), (3, 3.5)]]
     path = write(tmp_path, feature([closed(r) for r in rings]))
     refused(
@@ -244,7 +253,7 @@ def test_hole_outside_exterior_refused(tmp_path):
     refused([write(tmp_path, feature([closed(r) for r in apart]))], "reaches outside")
 
 
-def test_overlapping_holes_refused(tmp_path):
+def test_overlapping_holes_refused(tmp_path: Path) -> None:
     rings = [
         [(0, 0), (4, 0), (4, 4), (0, 4)],
         [(1, 1), (3, 1), (3, 2), (1, 2)],
@@ -255,7 +264,7 @@ def test_overlapping_holes_refused(tmp_path):
     )
 
 
-def test_holes_may_share_edges(tmp_path):
+def test_holes_may_share_edges(tmp_path: Path) -> None:
     ext = [(170.3, -44.1), (177.7, -43.9), (177.9, -36.2), (170.1, -36.4)]
     # hole 1 runs along the exterior's first edge (the other way round); hole 2 shares
     # hole 1's upper edge
@@ -267,7 +276,7 @@ def test_holes_may_share_edges(tmp_path):
     assert len(area.polygons[0].holes) == 2
 
 
-def test_hole_written_on_the_other_side_of_180(tmp_path):
+def test_hole_written_on_the_other_side_of_180(tmp_path: Path) -> None:
     ext = [(178.5, -42), (184, -42), (184, -37), (178.5, -37)]
     hole = [(-178, -40), (-177, -40), (-177, -39), (-178, -39)]
     area = load_one(tmp_path, ext, hole)
@@ -280,7 +289,7 @@ def test_hole_written_on_the_other_side_of_180(tmp_path):
     ]
 
 
-def test_holes_in_a_polar_cap(tmp_path):
+def test_holes_in_a_polar_cap(tmp_path: Path) -> None:
     cap = [(float(lon), 60.0) for lon in range(0, 360, 30)]
     # a hole round the pole is refused; the message says how to write the band instead
     ring80 = [(float(lon), 80.0) for lon in range(0, 360, 30)]
@@ -315,7 +324,7 @@ def test_holes_in_a_polar_cap(tmp_path):
         assert area_shape(area).covers([77.0, 77.0], [0.0, 10.0]).tolist() == [False, True]
 
 
-def test_checks_run_on_areas_built_in_code():
+def test_checks_run_on_areas_built_in_code() -> None:
     from geo.area_checks import check_area
 
     area = Area(

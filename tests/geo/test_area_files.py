@@ -2,7 +2,9 @@
 
 The areas here are invented (areas_sample/ is a fictional South Pacific
 scenario). Inside tests use geo.plane.area_shape; areas and positions are
-checked against pyproj.Geod (GeographicLib, Karney 2013) where numbers matter.
+checked against pyproj.Geod (GeographicLib [KARNEY-2013] [P]) where numbers
+matter. The helpers that build GeoJSON features and files (RFC 7946
+[RFC-7946]) are in tests/helpers/areas.py.
 """
 
 from __future__ import annotations
@@ -18,62 +20,8 @@ import pytest
 from geo.area import Area
 from geo.area_files import load_areas
 from geo.area_measure import area_km2, cap_area_m2, describe
-from geo.errors import InputError
 from geo.plane import area_shape
-from tests.helpers.paths import ROOT
-
-SAMPLE = ROOT / "areas_sample"
-FIXTURES = ROOT / "tests" / "data" / "areas"
-SQUARE = [[170, -44], [178, -44], [178, -36], [170, -36], [170, -44]]
-
-
-# ---- helpers (also used by test_area_checks) --------------------------------------------
-
-
-def props(**over) -> dict:
-    """Valid properties of an invented area, with overrides (None removes a key)."""
-    base = {"name": "Test ECA", "sulphur_limit_pct": 0.10, "effective_from": "2020-01-01"}
-    base.update(over)
-    return {k: v for k, v in base.items() if v is not None}
-
-
-def feature(coords=None, kind: str = "Polygon", **over) -> dict:
-    """A Feature; ``coords`` are the geometry's coordinates (a Polygon's rings by default)."""
-    return {
-        "type": "Feature",
-        "properties": props(**over),
-        "geometry": {"type": kind, "coordinates": coords if coords is not None else [SQUARE]},
-    }
-
-
-def closed(ring) -> list:
-    """A GeoJSON ring from open vertices: the first repeated last."""
-    return [list(p) for p in ring] + [list(ring[0])]
-
-
-def write(folder: Path, *features: dict, name: str = "areas.geojson") -> Path:
-    path = folder / name
-    path.write_text(json.dumps({"type": "FeatureCollection", "features": list(features)}))
-    return path
-
-
-def load_one(folder: Path, *rings, edges: str = "geodesic") -> Area:
-    """Load a one-feature file whose Polygon has the given open rings."""
-    coords = [closed(r) for r in rings]
-    (area,) = load_areas([write(folder, feature(coords, edges=edges))])
-    return area
-
-
-def refused(paths, *parts: str) -> str:
-    """Assert loading fails with one InputError line containing every part; return it."""
-    with pytest.raises(InputError) as info:
-        load_areas(paths)
-    msg = str(info.value)
-    assert "\n" not in msg
-    for part in parts:
-        assert part in msg, f"{part!r} not in {msg!r}"
-    return msg
-
+from tests.helpers.areas import FIXTURES, SAMPLE, SQUARE, closed, feature, refused, write
 
 # ---- the sample scenario ---------------------------------------------------------------
 
@@ -83,7 +31,7 @@ def sample() -> dict[str, Area]:
     return {a.name: a for a in load_areas([SAMPLE])}
 
 
-def test_sample_folder_loads_sorted_by_file(sample):
+def test_sample_folder_loads_sorted_by_file(sample: dict[str, Area]) -> None:
     assert list(sample) == ["Corran Sea ECA", "Meridian Reach ECA", "Skarvik Basin ECA"]
     corran = sample["Corran Sea ECA"]
     assert corran.sulphur_limit_pct == 0.10
@@ -98,14 +46,14 @@ def test_sample_folder_loads_sorted_by_file(sample):
     assert sample["Meridian Reach ECA"].polygons[0].exterior[1] == (184, -42)
 
 
-def test_sample_properties_carry_the_fictional_note():
+def test_sample_properties_carry_the_fictional_note() -> None:
     for path in sorted(SAMPLE.glob("*.geojson")):
         for feat in json.loads(path.read_text())["features"]:
             assert "Fictional" in feat["properties"]["note"]
             assert feat["properties"]["source"] == "changeover demo scenario (invented)"
 
 
-def test_sample_covers(sample):
+def test_sample_covers(sample: dict[str, Area]) -> None:
     corran = area_shape(sample["Corran Sea ECA"])
     # (lat, lon): inside part 1; in the hole (Isle of Brannoch); in the part 1/part 2 overlap;
     # outside everything
@@ -128,7 +76,7 @@ def test_sample_covers(sample):
     ]
 
 
-def test_describe_sample(sample):
+def test_describe_sample(sample: dict[str, Area]) -> None:
     d = describe(sample["Skarvik Basin ECA"], date(2026, 1, 1))
     assert set(d) >= {
         "name",
@@ -151,7 +99,7 @@ def test_describe_sample(sample):
 # ---- accepted shapes ---------------------------------------------------------------------
 
 
-def test_pre_split_at_180_is_the_same_area(sample):
+def test_pre_split_at_180_is_the_same_area(sample: dict[str, Area]) -> None:
     (split,) = load_areas([FIXTURES / "meridian_reach_split.geojson"])
     whole = sample["Meridian Reach ECA"]
     # the split vertices lie on the unsplit geodesic edges (found with pyproj.Geod), so the
@@ -165,11 +113,11 @@ def test_pre_split_at_180_is_the_same_area(sample):
     assert area_shape(split).covers(lat, lon).tolist() == [True, True, True, False, False, False]
 
 
-def test_pole_circling_cap_fixture():
+def test_pole_circling_cap_fixture() -> None:
     (cap,) = load_areas([FIXTURES / "arctic_cap.geojson"])
     # rhumb edges along 70°N are the parallel: the area is the cap above 70°N, closed form
-    # π a² (q(90°) − q(70°)) with the authalic q (Snyder 1987, from memory; the formula is
-    # checked against pyproj.Geod in test_area_checks)
+    # π a² (q(90°) − q(70°)) with the authalic q ([LAMBERT-EQUAL-AREA], from memory [M];
+    # the formula is checked against pyproj.Geod in test_area_checks)
     assert area_km2(cap) == pytest.approx(cap_area_m2(70.0) / 1e6, rel=1e-9)
     shape = area_shape(cap)
     assert shape.covers([89.0, 70.5, 70.5, 69.5], [0.0, -179.0, 95.0, 10.0]).tolist() == [
@@ -180,7 +128,7 @@ def test_pole_circling_cap_fixture():
     ]
 
 
-def test_feature_without_collection_and_extra_properties(tmp_path):
+def test_feature_without_collection_and_extra_properties(tmp_path: Path) -> None:
     path = tmp_path / "one.json"
     path.write_text(
         json.dumps(
@@ -197,7 +145,7 @@ def test_feature_without_collection_and_extra_properties(tmp_path):
     assert area.effective_until == date(2030, 12, 31)
 
 
-def test_multipolygon_with_holes_and_altitude(tmp_path):
+def test_multipolygon_with_holes_and_altitude(tmp_path: Path) -> None:
     outer = [[0, 0, 5.0], [4, 0, 5.0], [4, 4, 5.0], [0, 4, 5.0], [0, 0, 5.0]]
     hole = closed([(1, 1), (1, 2), (2, 2), (2, 1)])
     other = closed([(10, 0), (12, 0), (12, 2), (10, 2)])
@@ -206,7 +154,7 @@ def test_multipolygon_with_holes_and_altitude(tmp_path):
     assert area.polygons[0].exterior[0] == (0, 0)
 
 
-def test_repeated_vertices_dropped_and_numbers_kept(tmp_path):
+def test_repeated_vertices_dropped_and_numbers_kept(tmp_path: Path) -> None:
     ring = [[0, 0], [0, 0], [1, 0], [1, 1], [0, 1], [0, 1], [0, 0]]
     (area,) = load_areas([write(tmp_path, feature([ring]))])
     assert area.polygons[0].exterior == ((0, 0), (1, 0), (1, 1), (0, 1))
@@ -215,7 +163,7 @@ def test_repeated_vertices_dropped_and_numbers_kept(tmp_path):
     refused([write(tmp_path, feature([bad]))], "edge from vertex 1 to vertex 3")
 
 
-def test_same_file_twice_is_loaded_once(tmp_path):
+def test_same_file_twice_is_loaded_once(tmp_path: Path) -> None:
     path = write(tmp_path, feature())
     assert len(load_areas([path, tmp_path, str(path)])) == 1
 
@@ -251,14 +199,14 @@ def test_same_file_twice_is_loaded_once(tmp_path):
         ({"source": 3}, ["property source: 3: expected text"]),
     ],
 )
-def test_bad_properties(tmp_path, over, parts):
+def test_bad_properties(tmp_path: Path, over: dict, parts: list[str]) -> None:
     path = write(tmp_path, feature(**over))
     msg = refused([path], str(path), *parts)
     if "name" not in over:
         assert "feature 1 'Test ECA', property" in msg
 
 
-def test_duplicate_names_across_files(tmp_path):
+def test_duplicate_names_across_files(tmp_path: Path) -> None:
     a = write(tmp_path, feature(), name="a.geojson")
     b = write(tmp_path, feature(), feature(name="test eca"), name="b.geojson")
     refused([a, b], f"{b}: feature 1 'Test ECA', property name", f"{a}, feature 1 has it")
@@ -268,7 +216,7 @@ def test_duplicate_names_across_files(tmp_path):
 # ---- refusals: files and geometry --------------------------------------------------------
 
 
-def test_folder_loading_and_bad_paths(tmp_path):
+def test_folder_loading_and_bad_paths(tmp_path: Path) -> None:
     shutil.copy(SAMPLE / "skarvik_basin.geojson", tmp_path / "b.geojson")
     shutil.copy(SAMPLE / "corran_sea.geojson", tmp_path / "a.geojson")
     (tmp_path / "notes.txt").write_text("not an area")
@@ -290,7 +238,7 @@ def test_folder_loading_and_bad_paths(tmp_path):
         ("[1, 2]", ["type: no type"]),
     ],
 )
-def test_bad_documents(tmp_path, text, parts):
+def test_bad_documents(tmp_path: Path, text: str, parts: list[str]) -> None:
     path = tmp_path / "bad.geojson"
     path.write_text(text)
     refused([path], str(path), *parts)
@@ -306,7 +254,7 @@ def test_bad_documents(tmp_path, text, parts):
         ({"type": "MultiPolygon", "coordinates": [[]]}, ["polygon 1: no rings"]),
     ],
 )
-def test_bad_geometry(tmp_path, geometry, parts):
+def test_bad_geometry(tmp_path: Path, geometry: dict | None, parts: list[str]) -> None:
     feat = feature()
     feat["geometry"] = geometry
     refused([write(tmp_path, feat)], *parts)
@@ -329,11 +277,11 @@ def test_bad_geometry(tmp_path, geometry, parts):
         ([[0, 0], [600, 0], [1, 1], [0, 0]], ["vertex 2: [600, 0]: expected a longitude"]),
     ],
 )
-def test_bad_rings(tmp_path, ring, parts):
+def test_bad_rings(tmp_path: Path, ring: list, parts: list[str]) -> None:
     refused([write(tmp_path, feature([ring]))], "feature 1 'Test ECA', ", *parts)
 
 
-def test_places_name_polygon_ring_and_vertex(tmp_path):
+def test_places_name_polygon_ring_and_vertex(tmp_path: Path) -> None:
     hole_bad = [[173, -41], [175, -41], [175, -39], [173, "x"], [173, -41]]
     coords = [[SQUARE], [SQUARE, hole_bad]]
     path = write(

@@ -1,15 +1,15 @@
 """Route check: times of crossings, limits on every stretch, areas' dates, global cap.
 
-Outside references: pyproj.Geod (GeographicLib, Karney 2013) for positions
+Outside references: pyproj.Geod (GeographicLib [KARNEY-2013] [P]) for positions
 and distances on a meridian; MARPOL Annex VI regulation 14.1 for the global
-cap dates (REFERENCE.md section 1 [P]); arithmetic of constant speed.
+cap dates [MARPOL-VI] [P]; arithmetic of constant speed [D], with 1 nm = 1852 m
+[NM-1852] [P].
 """
 
 from __future__ import annotations
 
 from datetime import UTC, date, datetime, timedelta
 
-import pyproj
 import pytest
 
 from geo.area import Area, Polygon
@@ -19,34 +19,37 @@ from geo.limits import global_cap_pct
 from geo.path import route_path
 from geo.route import Route, Waypoint
 from geo.schedule import make_schedule
-
-GEOD = pyproj.Geod(ellps="WGS84")  # outside reference (GeographicLib)
-NM = 1852.0  # REFERENCE.md section 5, exact
+from tests.helpers.geo import NM, REF_GEOD
 
 
-def box(name, lon0, lon1, lat0, lat1, *, limit=0.10, start=date(2015, 1, 1), until=None,
-        edges="geodesic"):
+def box(name: str, lon0: float, lon1: float, lat0: float, lat1: float, *, limit: float = 0.10,
+        start: date = date(2015, 1, 1), until: date | None = None,
+        edges: str = "geodesic") -> Area:
+    """A lon/lat box [deg] with its limit [% m/m] and dates in force."""
     ring = ((lon0, lat0), (lon1, lat0), (lon1, lat1), (lon0, lat1))
     return Area(name, limit, start, (Polygon(ring),), effective_until=until, edges=edges)
 
 
-def meridian_route(lat0=0.0, lat1=10.0, lon=5.0, speed=None, **kw):
+def meridian_route(lat0: float = 0.0, lat1: float = 10.0, lon: float = 5.0,
+                   speed: float | None = None, **kw: object) -> Route:
+    """Two waypoints on one meridian [deg]; ``speed`` [kn] and ``kw`` for the second."""
     return Route("m", (Waypoint("A", lat0, lon), Waypoint("B", lat1, lon, speed_kn=speed, **kw)))
 
 
-def test_crossing_times_at_constant_speed():
-    # Along a meridian every leg type is the geodesic: distances from pyproj.Geod.
+def test_crossing_times_at_constant_speed() -> None:
+    # Along a meridian every leg type is the geodesic: distances from pyproj.Geod
+    # [KARNEY-2013].
     path = route_path(meridian_route())
     dep = datetime(2027, 1, 10, 0, 0, tzinfo=UTC)
     sched = make_schedule(path, dep, 12.0)
     area = box("X", 4.0, 6.0, 3.0, 4.0, edges="rhumb")  # parallels and meridians
     check = check_route(path, [area], sched, date(2027, 1, 10))
     enter, exit_ = check.crossings
-    _, _, d_enter = GEOD.inv(5.0, 0.0, 5.0, 3.0)
-    _, _, d_exit = GEOD.inv(5.0, 0.0, 5.0, 4.0)
+    _, _, d_enter = REF_GEOD.inv(5.0, 0.0, 5.0, 3.0)
+    _, _, d_exit = REF_GEOD.inv(5.0, 0.0, 5.0, 4.0)
     assert enter.crossing.distance_m == pytest.approx(d_enter, abs=1e-3)
     assert exit_.crossing.distance_m == pytest.approx(d_exit, abs=1e-3)
-    # time = distance / speed (arithmetic), to the second
+    # time = distance / speed (arithmetic [D]), to the second
     want = dep + timedelta(hours=d_enter / NM / 12.0)
     assert abs((enter.time_utc - want).total_seconds()) < 1e-3
     assert check.passages[0].inside_h == pytest.approx((d_exit - d_enter) / NM / 12.0, rel=1e-9)
@@ -54,40 +57,46 @@ def test_crossing_times_at_constant_speed():
     assert check.stretches[1].areas == ("X",)
 
 
-def test_global_cap_table():
-    # MARPOL Annex VI reg. 14.1 (REFERENCE.md section 1 [P])
-    assert global_cap_pct(date(2011, 12, 31)) == 4.50
-    assert global_cap_pct(date(2012, 1, 1)) == 3.50
-    assert global_cap_pct(date(2019, 12, 31)) == 3.50
-    assert global_cap_pct(date(2020, 1, 1)) == 0.50
-    assert global_cap_pct(datetime(2019, 12, 31, 23, 0, tzinfo=UTC)) == 3.50
-    # midnight UTC, not local midnight
-    local = datetime(2020, 1, 1, 8, 0, tzinfo=UTC).astimezone(
-        datetime.now().astimezone().tzinfo)
-    assert global_cap_pct(local) == 0.50
+REG_14_1 = "[MARPOL-VI] reg. 14.1 [P]"
+# (day or moment, cap [% m/m], source)
+GLOBAL_CAPS = [
+    pytest.param(date(2011, 12, 31), 4.50, REG_14_1, id="2011-12-31"),
+    pytest.param(date(2012, 1, 1), 3.50, REG_14_1, id="2012-01-01"),
+    pytest.param(date(2019, 12, 31), 3.50, REG_14_1, id="2019-12-31"),
+    pytest.param(date(2020, 1, 1), 0.50, REG_14_1, id="2020-01-01"),
+    pytest.param(datetime(2019, 12, 31, 23, 0, tzinfo=UTC), 3.50, REG_14_1, id="2019-12-31T23Z"),
+    # midnight UTC, not local midnight: 08:00Z on 2020-01-01 in the machine's own zone
+    pytest.param(datetime(2020, 1, 1, 8, 0, tzinfo=UTC).astimezone(
+        datetime.now().astimezone().tzinfo), 0.50, REG_14_1 + ", 00:00 UTC", id="local time"),
+]
 
 
-def test_global_cap_changes_at_midnight_utc_during_the_voyage():
+@pytest.mark.parametrize(("when", "expected_pct", "source"), GLOBAL_CAPS)
+def test_global_cap_table(when: date | datetime, expected_pct: float, source: str) -> None:
+    assert global_cap_pct(when) == expected_pct, source
+
+
+def test_global_cap_changes_at_midnight_utc_during_the_voyage() -> None:
     path = route_path(meridian_route())
     dep = datetime(2019, 12, 31, 12, 0, tzinfo=UTC)
     check = check_route(path, [], make_schedule(path, dep, 10.0), date(2019, 12, 31))
     assert [s.limit_pct for s in check.stretches] == [3.50, 0.50]
-    # 12 h at 10 kn = 120 nm: the cap changes there
+    # 12 h at 10 kn = 120 nm (arithmetic [D]): the cap changes there [MARPOL-VI]
     assert check.stretches[0].to_nm == pytest.approx(120.0, abs=1e-6)
 
 
-def test_area_coming_into_force_while_inside_starts_at_that_moment():
+def test_area_coming_into_force_while_inside_starts_at_that_moment() -> None:
     path = route_path(meridian_route())
     area = box("Future", 4.0, 6.0, -1.0, 11.0, start=date(2027, 6, 1))
     dep = datetime(2027, 5, 31, 18, 0, tzinfo=UTC)
     check = check_route(path, [area], make_schedule(path, dep, 10.0), date(2027, 5, 31))
     assert check.crossings == ()  # starts and ends inside
     assert [s.limit_pct for s in check.stretches] == [0.50, 0.10]
-    assert check.stretches[0].to_nm == pytest.approx(60.0, abs=1e-6)  # 6 h at 10 kn
+    assert check.stretches[0].to_nm == pytest.approx(60.0, abs=1e-6)  # 6 h at 10 kn [D]
     assert check.stretches[1].from_utc == datetime(2027, 6, 1, tzinfo=UTC)
 
 
-def test_in_force_without_times_uses_the_date():
+def test_in_force_without_times_uses_the_date() -> None:
     path = route_path(meridian_route())
     area = box("Later", 4.0, 6.0, 3.0, 4.0, start=date(2030, 1, 1))
     before = check_route(path, [area], None, date(2029, 12, 31))
@@ -100,14 +109,14 @@ def test_in_force_without_times_uses_the_date():
     assert after.passages[0].inside_h is None
 
 
-def test_area_that_ended_counts_no_more():
+def test_area_that_ended_counts_no_more() -> None:
     path = route_path(meridian_route())
     area = box("Old", 4.0, 6.0, 3.0, 4.0, start=date(2010, 1, 1), until=date(2014, 12, 31))
     check = check_route(path, [area], None, date(2015, 1, 1))
     assert [s.limit_pct for s in check.stretches] == [3.50]
 
 
-def test_strictest_of_overlapping_areas_applies():
+def test_strictest_of_overlapping_areas_applies() -> None:
     path = route_path(meridian_route())
     wide = box("Wide", 4.0, 6.0, 2.0, 8.0, limit=0.50)
     inner = box("Inner", 4.0, 6.0, 4.0, 6.0, limit=0.10)
@@ -117,7 +126,7 @@ def test_strictest_of_overlapping_areas_applies():
     assert check.limit_at(5.0 * 60 * NM) == 0.10
 
 
-def test_schedule_from_etas_and_a_stop():
+def test_schedule_from_etas_and_a_stop() -> None:
     t0 = datetime(2027, 1, 1, 0, 0, tzinfo=UTC)
     route = Route("s", (
         Waypoint("A", 0.0, 5.0, etd_utc=t0),
@@ -133,7 +142,7 @@ def test_schedule_from_etas_and_a_stop():
     assert sched.arrive_utc == t0 + timedelta(hours=8 + path.leg_length_nm[1] / 10.0)
 
 
-def test_schedule_needs_a_speed():
+def test_schedule_needs_a_speed() -> None:
     path = route_path(meridian_route())
     with pytest.raises(InputError, match="speed"):
         make_schedule(path, datetime(2027, 1, 1, tzinfo=UTC), None)

@@ -2,11 +2,12 @@
 
 - events of one area alternate enter/exit, starting with exit iff the route starts
   inside (definition of entry and exit);
-- reversing the route reverses the events: same positions (1e-6 m, pyproj.Geod,
-  Karney 2013), enter↔exit, distances L − d (1e-6 m);
+- reversing the route reverses the events: same positions (1e-6 m, pyproj.Geod
+  [KARNEY-2013]), enter↔exit, distances L − d (1e-6 m);
 - splitting a leg at an interior point found by the direct problem (GeographicLib
-  RhumbSolve for rhumb legs, the same rhumb line; pyproj.Geod.fwd for great circles,
-  the same geodesic) changes no event position or distance (1e-6 m);
+  RhumbSolve [KARNEY-RHUMB] for rhumb legs, the same rhumb line; pyproj.Geod.fwd
+  [KARNEY-2013] for great circles, the same geodesic) changes no event position or
+  distance (1e-6 m);
 - shifting the area's longitudes by whole turns changes nothing (1e-6 m).
 
 Areas are star-shaped rings around a random centre (vertices by pyproj.Geod.fwd at
@@ -23,7 +24,9 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
+from numpy.typing import ArrayLike, NDArray
 
+from geo.area import Area
 from geo.crossings import track_area
 from geo.path import route_path
 from geo.plane import area_shape
@@ -46,11 +49,12 @@ SETTINGS = settings(max_examples=40, deadline=None, derandomize=True,
 EDGE_KINDS = ("geodesic", "rhumb", "lonlat")
 
 
-def _dyadic(x):
+def _dyadic(x: ArrayLike) -> NDArray[np.float64]:
     return np.round(np.asarray(x, dtype=np.float64) * 2.0**20) / 2.0**20
 
 
-def _star_ring(rng, lat_c, lon_c, r_min_m, r_max_m):
+def _star_ring(rng: np.random.Generator, lat_c: float, lon_c: float, r_min_m: float,
+               r_max_m: float) -> tuple[list[tuple[float, float]], float]:
     """A star-shaped ring of (lon, lat) around a centre (pyproj.Geod.fwd)."""
     n = int(rng.integers(3, 10))
     gaps = rng.uniform(0.3, 1.0, n)
@@ -62,12 +66,12 @@ def _star_ring(rng, lat_c, lon_c, r_min_m, r_max_m):
     lon = lon_c + ((np.asarray(lon) - lon_c + 180.0) % 360.0 - 180.0)
     # vertices on a 2⁻²⁰° grid: sums of their longitudes are exact, which keeps clear of
     # the plane-outline round-off bug shown by test_plane_ring_vertex_round_off
-    # (tests/test_crossings.py)
+    # (tests/geo/test_crossings.py)
     lon, lat = _dyadic(lon), _dyadic(lat)
     return [(float(x), float(y)) for x, y in zip(lon, lat, strict=True)], float(r.min())
 
 
-def _case(seed: int):
+def _case(seed: int) -> tuple[Area, Route]:
     """An area and a route, every choice from one seed (so every example differs)."""
     rng = np.random.default_rng(seed)
     lat_c = rng.uniform(-65.0, 65.0)
@@ -94,7 +98,7 @@ def _case(seed: int):
 
 
 @st.composite
-def area_and_route(draw):
+def area_and_route(draw: st.DrawFn) -> tuple[Area, Route]:
     area, route = _case(draw(st.integers(0, 2**32 - 1)))
     # consecutive waypoints at least 1 km apart (zero-length legs are refused)
     w = route.waypoints
@@ -114,7 +118,7 @@ def _reverse(route: Route) -> Route:
 
 @SETTINGS
 @given(area_and_route())
-def test_events_alternate(case):
+def test_events_alternate(case: tuple[Area, Route]) -> None:
     # definition: per area, entries and exits alternate; the first is an exit iff the
     # route starts inside (the boundary counts as inside)
     area, route = case
@@ -135,7 +139,7 @@ def test_events_alternate(case):
 
 @SETTINGS
 @given(area_and_route())
-def test_reversing_the_route_reverses_the_events(case):
+def test_reversing_the_route_reverses_the_events(case: tuple[Area, Route]) -> None:
     # symmetry of the curves: a rhumb line / geodesic sailed backwards is the same line
     area, route = case
     shape = area_shape(area)
@@ -154,11 +158,11 @@ def _split_point(route: Route, leg: int, frac: float) -> tuple[float, float]:
     """The point a fraction along a leg, by the direct problem on that very line."""
     a, b = route.waypoints[leg], route.waypoints[leg + 1]
     if b.leg == "great_circle":
-        # pyproj.Geod.fwd (GeographicLib, Karney 2013): the same geodesic
+        # pyproj.Geod.fwd (GeographicLib [KARNEY-2013]): the same geodesic
         az, _, dist = REF_GEOD.inv(a.lon, a.lat, b.lon, b.lat)
         lon, lat, _ = REF_GEOD.fwd(a.lon, a.lat, az, frac * dist)
         return float(lat), float(lon)
-    # GeographicLib RhumbSolve (geographiclib-tools): the same rhumb line
+    # [KARNEY-RHUMB] GeographicLib RhumbSolve (geographiclib-tools): the same rhumb line
     course, dist = rhumbsolve_inverse(a.lat, a.lon, b.lat, b.lon)
     lat, lon = rhumbsolve_direct(a.lat, a.lon, course, frac * dist)
     return float(lat[0]), float(lon[0])
@@ -167,7 +171,7 @@ def _split_point(route: Route, leg: int, frac: float) -> tuple[float, float]:
 @pytest.mark.requires_rhumbsolve
 @SETTINGS
 @given(area_and_route(), st.data())
-def test_splitting_a_leg_changes_nothing(case, data):
+def test_splitting_a_leg_changes_nothing(case: tuple[Area, Route], data: st.DataObject) -> None:
     area, route = case
     shape = area_shape(area)
     leg = data.draw(st.integers(0, route.n_legs - 1))
@@ -189,7 +193,8 @@ def test_splitting_a_leg_changes_nothing(case, data):
 
 @SETTINGS
 @given(area_and_route(), st.sampled_from([-720.0, -360.0, 360.0, 720.0]))
-def test_shifting_the_area_by_whole_turns_changes_nothing(case, turns):
+def test_shifting_the_area_by_whole_turns_changes_nothing(case: tuple[Area, Route],
+                                                          turns: float) -> None:
     area, route = case
     path = route_path(route)
     a = track_area(path, area_shape(area))

@@ -1,19 +1,20 @@
 """Shared pieces of the voyage plan tests: the fixtures' hand figures and a plan runner.
 
-Outside sources for the hand figures (never the code under test):
+Outside sources for the hand figures (never the code under test), by their
+keys in ``docs/references.md``:
 
-- WGS84 ellipsoid a = 6 378 137 m, f = 1/298.257223563 (NIMA TR8350.2), and the
-  parallel arc N(φ)·cos φ·Δλ for an east-west rhumb line (REFERENCE.md section 5,
-  standard navigation texts), N = a / sqrt(1 − e² sin² φ);
-- 1 nautical mile = 1852 m exactly (REFERENCE.md section 5);
-- the propeller law, shaft power ∝ speed³ (REFERENCE.md section 4, common practice),
-  and fuel mass = power × SFOC;
-- the ISO reference net specific energy 42.7 MJ/kg that SFOC is quoted at
-  (ISO 3046-1 / ISO 15550; REFERENCE.md section 4, marked [M], from memory and not
-  verified here: the planner uses the same constant, so these tests check the
-  scaling by 42.7 / Q_net, not the constant itself);
-- the well-stirred (CSTR) washout S(t) = S₁ + (S₀ − S₁)·exp(−∫q dt / V)
-  (REFERENCE.md section 3, Levenspiel, *Chemical Reaction Engineering*).
+- [WGS84] the ellipsoid a = 6 378 137 m, f = 1/298.257223563 [P], and the
+  parallel arc N(φ)·cos φ·Δλ, N = a / sqrt(1 − e² sin² φ) [D], which is the
+  length of an east-west rhumb line ([RHUMB-TEXTS] [P]);
+- [NM-1852] 1 nautical mile = 1852 m exactly [P];
+- [PROPELLER-LAW] shaft power ∝ speed³ (common practice), and fuel mass =
+  power × SFOC;
+- [ISO-3046] the reference net specific energy 42.7 MJ/kg that SFOC is quoted
+  at [M] (from memory and not verified here: the planner uses the same
+  constant, so these tests check the scaling by 42.7 / Q_net, not the constant
+  itself);
+- [LEVENSPIEL-1999] the well-stirred (CSTR) washout
+  S(t) = S₁ + (S₀ − S₁)·exp(−∫q dt / V) [D].
 
 The fixtures are in ``tests/data/voyages`` (all fictional, see its README).
 Not a conftest: a plain module imported by the plan tests.
@@ -29,11 +30,11 @@ from tests.helpers.paths import ROOT
 
 VOYAGES = ROOT / "tests" / "data" / "voyages"
 
-NM_M = 1852.0  # REFERENCE.md section 5: exact
-WGS84_A = 6378137.0  # NIMA TR8350.2
-WGS84_F = 1.0 / 298.257223563
+NM_M = 1852.0  # [NM-1852] exact [P]
+WGS84_A = 6378137.0  # [WGS84] semi-major axis, m [P]
+WGS84_F = 1.0 / 298.257223563  # [WGS84] flattening [P]
 WGS84_E2 = WGS84_F * (2.0 - WGS84_F)
-ISO_Q_NET = 42.7  # ISO 3046-1 reference, REFERENCE.md section 4 [M]
+ISO_Q_NET = 42.7  # [ISO-3046] reference net specific energy, MJ/kg [M], from memory
 
 # ship_t1.toml and the voyage files (fictional): one stirred volume, flat SFOC
 V_M3 = 1.0
@@ -45,7 +46,7 @@ LAT = 50.0  # every route sails along this parallel
 
 
 def parallel_m(lon_from: float, lon_to: float, lat: float = LAT) -> float:
-    """Length of the rhumb line along a parallel, m: N(φ)·cos φ·Δλ."""
+    """Length of the rhumb line along a parallel, m: N(φ)·cos φ·Δλ ([WGS84] [D])."""
     phi = math.radians(lat)
     n = WGS84_A / math.sqrt(1.0 - WGS84_E2 * math.sin(phi) ** 2)
     return n * math.cos(phi) * math.radians(abs(lon_to - lon_from))
@@ -63,7 +64,8 @@ def hours(distance_m: float, speed_kn: float) -> float:
 
 
 def mass_rate_t_h(speed_kn: float) -> float:
-    """Main engine fuel, t/h of a fuel of Q_NET: P = P_ref (v/v_ref)³, m = P·SFOC·42.7/Q."""
+    """Main engine fuel, t/h of a fuel of Q_NET: P = P_ref (v/v_ref)³ ([PROPELLER-LAW]),
+    m = P·SFOC·42.7/Q ([ISO-3046] [M])."""
     load_pct = REF_LOAD_PCT * (speed_kn / REF_SPEED_KN) ** 3
     iso = MCR_KW * load_pct / 100.0 * SFOC_G_KWH / 1e6
     return iso * ISO_Q_NET / Q_NET
@@ -75,7 +77,8 @@ def flow_m3_h(speed_kn: float) -> float:
 
 
 def washout_log(target_pct: float, s0: float = S_HFO, s1: float = S_MGO) -> float:
-    """ln((S₀ − S₁)/(S_t − S₁)): volumes of throughput (× V) needed to reach the target."""
+    """ln((S₀ − S₁)/(S_t − S₁)): volumes of throughput (× V) needed to reach the target
+    ([LEVENSPIEL-1999] CSTR washout [D])."""
     return math.log((s0 - s1) / (target_pct - s1))
 
 

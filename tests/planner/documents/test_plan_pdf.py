@@ -242,10 +242,23 @@ def test_no_changeovers_and_minimal_keys(tmp_path):
         assert "No changeover is needed" in flat(pdf_text(out))
 
 
-def test_plain_keeps_windows_1252_and_replaces_the_rest():
-    from planner.documents.plan_pdf import plain
+# (text, as printed): ° · — ³ are in the Windows-1252 code page, → ₂ ≥ are not and get
+# the planner's stand-ins (plan_pdf_cells._PLAIN)
+PLAIN_CASES = (
+    ("39°49.4'S · 15 °C — m³", "39°49.4'S · 15 °C — m³"),
+    ("vlsfo → mgo", "vlsfo to mgo"),
+    ("SO₂ ≥ 1", "SO2 >= 1"),
+)
 
-    assert plain("39°49.4'S · 15 °C — m³") == "39°49.4'S · 15 °C — m³"
-    assert plain("vlsfo → mgo") == "vlsfo to mgo"
-    assert plain("SO₂ ≥ 1") == "SO2 >= 1"
+
+@pytest.mark.parametrize("text,printed", PLAIN_CASES)
+def test_plain_keeps_windows_1252_and_replaces_the_rest(text, printed):
+    from planner.documents.plan_pdf_cells import plain
+
+    assert plain(text) == printed
+
+
+def test_plain_always_fits_the_fonts():
+    from planner.documents.plan_pdf_cells import plain
+
     plain("any ☃ snowman").encode("cp1252")

@@ -102,7 +102,10 @@ def test_record_holds_every_required_field(journal, tmp_path):
         "Compliant fuel: MGO (DMA), 0.07 % m/m S, BDN ALD-0528-01",
         "Changed from: VLSFO (RMG 380), 0.48 % m/m S, BDN ALD-0528-02",
         "Correction of 5: settling tank sounding misread",
-        "MGO settling", "31.200", "13.200", "24.600", "92.700", "0.9807", "129.320",
+        "MGO settling", "31.200", "13.200", "24.600", "92.700",
+        # [TABLE-54B] fuel-oil band, MGO 848.5 kg/m³ [D]: VCF 0.9807 at 38 °C (0.9875 at
+        # 30 °C, 0.9942 at 22 °C), so 24.6·0.9807 + 13.2·0.9875 + 92.7·0.9942 = 129.320 m³
+        "0.9807", "129.320",
         "plan_sample.json #1", "2027-05-31 10:20Z", "actual -15 min",
         "Planned boundary entry 2027-05-31 11:46Z at 39°09.1'S 178°30.0'E: completed "
         "1 h 42 min before it (the plan's margin 1.44 h)",

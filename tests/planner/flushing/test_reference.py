@@ -1,12 +1,14 @@
 """Flushing simulation against an independent reference: SciPy's solve_ivp at rtol 1e-10.
 
-The reference ODEs are written here from each test's own description of the
-network (node volumes and explicit link flows), not from the simulator's
-compiled network: well-stirred volumes ``V·f' = Σ q_in·(f_src − f)`` for the
-volume fraction ``f`` of the new fuel (REFERENCE.md §3, CSTR), tanks with a
-moving level, and the consumer's draw ``q = m / ρ(f)`` on a mass basis.
-Pipes are represented by a fine chain of stirred cells (tanks in series
-approach plug flow as the cells multiply; Levenspiel).
+The reference ODEs ([SCIPY-2020] ``scipy.integrate.solve_ivp``) are written here
+from each test's own description of the network (node volumes and explicit
+link flows), not from the simulator's compiled network: well-stirred volumes
+``V·f' = Σ q_in·(f_src − f)`` for the volume fraction ``f`` of the new fuel
+([LEVENSPIEL-1999] CSTR model [D]), tanks with a moving level, and the
+consumer's draw ``q = m / ρ(f)`` on a mass basis. Pipes are represented by a
+fine chain of stirred cells (tanks in series approach plug flow as the cells
+multiply, [LEVENSPIEL-1999] [P]). The matrix exponential is checked against
+``scipy.linalg.expm`` ([SCIPY-2020], the method of [HIGHAM-2005]).
 """
 
 import numpy as np
@@ -84,7 +86,7 @@ def reference(volumes, loops, excess, fuels, t_eval, tank_b_m3=500.0):
 
 
 def sulphur(f, fuels):
-    # REFERENCE.md §3: sulphur blends by mass
+    # [LEVENSPIEL-1999] mass balance [D]: sulphur blends by mass
     m_o, m_n = (1.0 - f) * fuels[0].density_kg_m3, f * fuels[1].density_kg_m3
     return (m_o * fuels[0].sulphur_pct + m_n * fuels[1].sulphur_pct) / (m_o + m_n)
 
@@ -203,8 +205,10 @@ def test_loop_with_pipes_matches_a_fine_plug_discretisation():
     assert np.abs(c.sulphur_pct - s_ref).max() < 5e-3
 
 
+# 1-norms 0.0012 to 4900: Padé degrees 3, 7 and 13 of [HIGHAM-2005] Table 2.3, then scaling
 @pytest.mark.parametrize("scale", [1e-3, 0.3, 3.0, 60.0, 4000.0])
 def test_own_matrix_exponential_matches_scipy(scale):
+    # [SCIPY-2020] scipy.linalg.expm, the same method, as the reference library
     rng = np.random.default_rng(7)
     a = (rng.normal(size=(12, 12)) - 3.0 * np.eye(12)) * scale / 12.0
     np.testing.assert_allclose(expm(a), scipy.linalg.expm(a), rtol=1e-10, atol=1e-14)

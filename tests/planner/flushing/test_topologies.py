@@ -1,4 +1,8 @@
-"""The topologies T1-T6 from the ship-file fixtures: hand mass balances and conservation."""
+"""The topologies T1-T6 from the ship-file fixtures: hand mass balances and conservation.
+
+Hand balances use the models of [LEVENSPIEL-1999]: plug flow as a pure delay V/q [P],
+the well-stirred washout [D], sulphur mixing by mass [D].
+"""
 
 import math
 
@@ -33,7 +37,8 @@ def test_every_topology_conserves_sulphur(path):
             sw = make_switch(system, circuit, a, b)
             r = simulate(system, sw, ConsumptionSchedule.constant(rates, "mass"), 8.0)
             held0, held1, burnt = r.sulphur_balance_t()
-            # conservation (REFERENCE.md §3, mass basis): held at start = held at end + burnt
+            # conservation ([LEVENSPIEL-1999] mass balance [D]): held at start = held at end
+            # + burnt
             assert abs(held0 - held1 - burnt) <= 1e-9 * held0
             np.testing.assert_allclose(
                 r.inventory_initial_m3, r.inventory_final_m3 + r.burnt_m3, rtol=1e-12, atol=1e-12
@@ -55,14 +60,14 @@ def test_t4_return_to_a_named_tank_contaminates_it_as_a_hand_balance_predicts():
     burnt_m3 = r.inlets["main_engine"].burnt_m3[:, -1].sum()
     returned = supply * r.time_h[-1] - burnt_m3  # hand balance of the return flow
     q0 = M_T_H * 1000.0 / mgo.density_kg_m3  # the engine still burns MGO until the
-    t_front = v_supply / supply  # HFO front reaches the branch at V/Q (plug flow)
+    t_front = v_supply / supply  # HFO front reaches the branch at V/Q ([LEVENSPIEL-1999] [P])
     old = v_return + (supply - q0) * t_front
     new = returned - old
     tank = r.tanks["mgo_service"]
     mgo0 = system.tanks["mgo_service"].volume_m3
     assert tank.volume_m3[-1] == pytest.approx(mgo0 + returned, rel=1e-12)
     np.testing.assert_allclose(tank.content_m3[:, -1], [new, mgo0 + old], rtol=1e-9)
-    # sulphur by mass (REFERENCE.md §3): S = Σ m·S / Σ m
+    # sulphur by mass ([LEVENSPIEL-1999] mass balance [D]): S = Σ m·S / Σ m
     m_h, m_m = new * hfo.density_kg_m3, (mgo0 + old) * mgo.density_kg_m3
     s_hand = (m_h * hfo.sulphur_pct + m_m * mgo.sulphur_pct) / (m_h + m_m)
     assert tank.sulphur_pct[-1] == pytest.approx(s_hand, rel=1e-9)
@@ -90,13 +95,13 @@ def test_t6_tank_flushing_matches_the_closed_form():
     r = simulate(system, make_switch(system, "main", "hfo_settling", "mgo_storage"), mass(), 40.0)
     fill, v_fill, v_tank, v_supply, v_mix = 4.0, 0.05, 50.0, 0.04, 0.5
     q = M_T_H * 1000.0 / 900.0
-    t_fill = v_fill / fill  # plug flow: the MGO reaches the service tank at V/Q
+    t_fill = v_fill / fill  # plug flow ([LEVENSPIEL-1999] [P]): MGO reaches the service tank
     a, b = fill / v_tank, q / v_mix
     t0 = t_fill + v_supply / q  # ... and, through the supply pipe, the mixing tank
     c = r.inlets["main_engine"]
     s = np.maximum(c.time_h - t0, 0.0)
-    # [D] the service tank washes out at the fill rate (REFERENCE.md §3 CSTR,
-    # Levenspiel), the mixing tank follows that exponential input:
+    # [D] the service tank washes out at the fill rate ([LEVENSPIEL-1999] CSTR
+    # washout), the mixing tank follows that exponential input:
     # y = S_n + (S_o − S_n)·(b·e^(−a·s) − a·e^(−b·s))/(b − a)
     expected = 0.05 + 0.45 * (b * np.exp(-a * s) - a * np.exp(-b * s)) / (b - a)
     np.testing.assert_allclose(c.sulphur_pct, expected, atol=1e-4)
@@ -123,8 +128,8 @@ def test_t5_two_circuits_and_two_branches():
     assert set(r.inlets) == {"main_engine", "dg1", "boiler"}
     q_e, q_g, q_b = (x * 1000 / 900.0 for x in (M_T_H, 0.1, 0.3))
     washout = math.log(0.45 / 0.05)
-    # REFERENCE.md §3: supply pipe (delay V/q), mixing tank (CSTR washout at the
-    # total flow), then each branch's own pipe (its delay at its own flow)
+    # [LEVENSPIEL-1999]: supply pipe (delay V/q [P]), mixing tank (CSTR washout at the
+    # total flow [D]), then each branch's own pipe (its delay at its own flow [P])
     mixing = 0.04 / (q_e + q_g) + (0.5 / (q_e + q_g)) * washout
     t_eng, t_gen = mixing + 0.03 / q_e, mixing + 0.02 / q_g
     assert abs(r.inlets["main_engine"].time_at_or_below_h(0.10) - t_eng) < 1.0 / HOUR_S

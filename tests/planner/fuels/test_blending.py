@@ -1,4 +1,4 @@
-"""Blending: planner.fuels.blending (mass-basis sulphur and density, Refutas viscosity)."""
+"""Blending: planner.fuels.blending (mass-basis sulphur and density) and planner.fuels.refutas."""
 
 import numpy as np
 import pytest
@@ -11,13 +11,15 @@ from planner.fuels.blending import (
     blend_density_from_masses_kg_m3,
     blend_density_kg_m3,
     blend_sulphur_pct,
-    blend_viscosity_cst,
     mass_fractions,
     mass_fractions_from_volumes,
+)
+from planner.fuels.fuel import Fuel
+from planner.fuels.refutas import (
+    blend_viscosity_cst,
     viscosity_blending_number,
     viscosity_from_blending_number,
 )
-from planner.fuels.fuel import Fuel
 
 HFO = Fuel(
     name="HFO",
@@ -43,9 +45,18 @@ MGO = Fuel(
 )
 
 
-def test_refutas_check_value():
-    # Refutas VBN (Maples); REFERENCE.md §4 check value [D]: nu 2.234 -> VBN 12.49
-    assert round(viscosity_blending_number(2.234), 2) == 12.49
+# Reference cases: (inputs, expected as the source prints it, decimals printed, source).
+REFUTAS_CHECK_VALUES = [
+    # [MAPLES-2000] Refutas VBN formula; check value [D]: nu 2.234 cSt -> VBN 12.49
+    ((2.234,), 12.49, 2, "[MAPLES-2000] Refutas VBN formula; check value [D]"),
+]
+
+
+@pytest.mark.parametrize(("inputs", "expected", "decimals", "source"), REFUTAS_CHECK_VALUES)
+def test_refutas_check_value(inputs, expected, decimals, source):
+    value = viscosity_blending_number(*inputs)
+    assert round(value, decimals) == expected, source
+    assert value == pytest.approx(expected, abs=0.5 * 10.0**-decimals), source
 
 
 @given(nu=st.floats(0.21, 1e5))
@@ -61,13 +72,13 @@ def test_refutas_refuses_low_viscosity():
 
 
 def test_sulphur_blends_by_mass():
-    # REFERENCE.md §3 [D]: S = sum(m_i S_i) / sum(m_i)
+    # [LEVENSPIEL-1999] mass balance [D]: S = sum(m_i S_i) / sum(m_i)
     assert blend_sulphur_pct([3.0, 1.0], [0.5, 0.1]) == pytest.approx(0.4)
 
 
 def test_mass_versus_volume_basis_991_and_845():
     # 50/50 by volume of 991 and 845 kg/m3 fuels: sulphur weighted 991:845, not 1:1
-    # (REFERENCE.md §3 [D]: volumes must be turned into mass with each fuel's density)
+    # ([LEVENSPIEL-1999] mass balance [D]: volumes must become mass with each fuel's density)
     w = mass_fractions_from_volumes([1.0, 1.0], [991.0, 845.0])
     np.testing.assert_allclose(w, [991.0 / 1836.0, 845.0 / 1836.0])
     expected = (991.0 * 0.5 + 845.0 * 0.1) / (991.0 + 845.0)

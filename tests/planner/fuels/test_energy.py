@@ -18,17 +18,41 @@ from planner.fuels.energy import (
     so2_from_fuel_kg,
 )
 
+# Reference cases: (function, inputs, expected as the source prints it, decimals printed, source).
+# A case passes when the result rounds to the printed figure, i.e. lies within half a unit of
+# its last printed decimal.
+CHECK_VALUES = [
+    # [ISO-8217] annex formula; check value [D]: rho 987 kg/m3, s 2.5, w 0.02, a 0 % m/m
+    (
+        net_specific_energy_mj_kg,
+        (987.0, 2.5, 0.02, 0.0),
+        40.45,
+        2,
+        "[ISO-8217] annex formula; check value [D]",
+    ),
+    (
+        gross_specific_energy_mj_kg,
+        (987.0, 2.5, 0.02, 0.0),
+        42.75,
+        2,
+        "[ISO-8217] annex formula; check value [D]",
+    ),
+    # [ISO-8217] annex CCAI formula; check value [D]: rho 991 kg/m3, nu50 380 cSt -> 852
+    (ccai, (991.0, 380.0, 50.0), 852, 0, "[ISO-8217] annex CCAI formula; check value [D]"),
+    # [IUPAC-2021] molar masses: 1.998 kg SO2 per kg sulphur [D]
+    (so2_formed_kg, (1.0,), 1.998, 3, "[IUPAC-2021] SO2 64.066 / S 32.06 g/mol [D]"),
+]
 
-def test_net_specific_energy_check_value():
-    # ISO 8217 annex formula; REFERENCE.md §4 check value [D]: rho 987, s 2.5, w 0.02, a 0
-    q = net_specific_energy_mj_kg(987.0, 2.5, 0.02, 0.0)
-    assert q == pytest.approx(40.45, abs=0.005)
 
-
-def test_gross_specific_energy_check_value():
-    # ISO 8217 annex formula; REFERENCE.md §4 check value [D]: rho 987, s 2.5, w 0.02, a 0
-    q = gross_specific_energy_mj_kg(987.0, 2.5, 0.02, 0.0)
-    assert q == pytest.approx(42.75, abs=0.005)
+@pytest.mark.parametrize(
+    ("function", "inputs", "expected", "decimals", "source"),
+    CHECK_VALUES,
+    ids=[row[0].__name__ for row in CHECK_VALUES],
+)
+def test_check_values(function, inputs, expected, decimals, source):
+    value = function(*inputs)
+    assert round(value, decimals) == expected, source
+    assert value == pytest.approx(expected, abs=0.5 * 10.0**-decimals), source
 
 
 @given(
@@ -38,7 +62,7 @@ def test_gross_specific_energy_check_value():
     a=st.floats(0.0, 0.15),
 )
 def test_typical_residual_fuels_lie_at_39_to_42_mj_kg(rho, s, w, a):
-    # Trade fact, REFERENCE.md §4 (common practice): marine fuels lie at about 39-42 MJ/kg net.
+    # Trade fact (common practice; [ISO-8217] formula): marine fuels lie at about 39-42 MJ/kg net.
     # Checked here for residual fuels (940-1010 kg/m3); distillates near 845 kg/m3 come out at
     # about 42.8-43.1 MJ/kg with this formula, just above the quoted band.
     q = net_specific_energy_mj_kg(rho, s, w, a)
@@ -75,9 +99,8 @@ def test_specific_energy_refuses_bad_input(kwargs):
         gross_specific_energy_mj_kg(**kwargs)
 
 
-def test_ccai_check_value():
-    # ISO 8217 annex CCAI formula; REFERENCE.md §4 check value [D]: rho 991, nu50 380 -> 852
-    assert round(ccai(991.0, 380.0, 50.0)) == 852
+def test_ccai_default_temperature_is_50_c():
+    # the 852 check value ([ISO-8217] annex CCAI; check value [D]) is in CHECK_VALUES
     assert ccai(991.0, 380.0) == ccai(991.0, 380.0, 50.0)
 
 
@@ -87,7 +110,7 @@ def test_ccai_refuses_bad_viscosity():
 
 
 def test_iso_reference_energy_and_sfoc_scaling():
-    # ISO 3046-1 / ISO 15550 reference 42 700 kJ/kg: REFERENCE.md §4 [M], from memory, unverified
+    # ISO 3046-1 / ISO 15550 reference 42 700 kJ/kg: [ISO-3046] [M], from memory, unverified
     assert ISO_REFERENCE_Q_NET_MJ_KG == 42.7
     assert sfoc_scaled(170.0, 42.7) == pytest.approx(170.0)
     assert sfoc_scaled(170.0, 40.45) == pytest.approx(170.0 * 42.7 / 40.45)
@@ -99,7 +122,7 @@ def test_iso_reference_energy_and_sfoc_scaling():
 
 
 def test_so2_per_kg_sulphur():
-    # REFERENCE.md §4 [D]: 64.066/32.06 = about 2.0 kg SO2 per kg S
+    # [IUPAC-2021] [D]: 64.066/32.06 = 1.998 kg SO2 per kg S (printed value in CHECK_VALUES)
     assert SO2_PER_KG_SULPHUR == pytest.approx(64.066 / 32.06)
     assert round(SO2_PER_KG_SULPHUR, 1) == 2.0
     assert so2_formed_kg(1.0) == pytest.approx(SO2_PER_KG_SULPHUR)
@@ -107,14 +130,23 @@ def test_so2_per_kg_sulphur():
     assert so2_from_fuel_kg(100_000.0, 0.5) == pytest.approx(500.0 * SO2_PER_KG_SULPHUR)
 
 
+# [MEPC-340] Table 1 [P]: (fuel sulphur limit % m/m, SO2 ppm / CO2 % v/v ratio limit, source)
+MEPC_340_TABLE_1 = [
+    (0.10, 4.3, "[MEPC-340] Table 1 [P]"),
+    (0.50, 21.7, "[MEPC-340] Table 1 [P]"),
+    (1.00, 43.3, "[MEPC-340] Table 1 [P]"),
+    (1.50, 65.0, "[MEPC-340] Table 1 [P]"),
+    (3.50, 151.7, "[MEPC-340] Table 1 [P]"),
+    (4.50, 195.0, "[MEPC-340] Table 1 [P]"),
+]
+
+
 @pytest.mark.parametrize(
-    ("limit", "ratio"),
-    # MEPC.340(77) Table 1; REFERENCE.md §4 [P]
-    [(0.10, 4.3), (0.50, 21.7), (1.00, 43.3), (1.50, 65.0), (3.50, 151.7), (4.50, 195.0)],
+    ("limit", "ratio", "source"), MEPC_340_TABLE_1, ids=[f"{r[0]:.2f}" for r in MEPC_340_TABLE_1]
 )
-def test_so2_co2_ratio_table(limit, ratio):
-    assert so2_co2_ratio_limit(limit) == ratio
-    assert SO2_CO2_RATIO_LIMITS[limit] == ratio
+def test_so2_co2_ratio_table(limit, ratio, source):
+    assert so2_co2_ratio_limit(limit) == ratio, source
+    assert SO2_CO2_RATIO_LIMITS[limit] == ratio, source
 
 
 def test_so2_co2_ratio_table_is_read_only_and_not_interpolated():

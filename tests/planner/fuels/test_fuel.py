@@ -103,25 +103,33 @@ def test_limits_are_inclusive():
     make(viscosity_cst=0.21)
 
 
-@pytest.mark.parametrize(
-    ("grade", "density", "nu", "t", "residual"),
-    [
-        ("RMG 380", 991.0, 380.0, 50.0, True),
-        (" rmk 700 ", 1010.0, 700.0, 50.0, True),
-        ("DMA", 845.0, 3.0, 40.0, False),
-        ("dmb", 890.0, 9.0, 40.0, False),
-        ("MGO", 850.0, 3.5, 40.0, False),
-        ("MDO", 880.0, 6.0, 40.0, False),
-        # by properties: density above 900 kg/m3 (DMB maximum [M])
-        ("VLSFO", 935.0, 8.0, 40.0, True),
-        # by properties: viscosity at 40 °C above 11 cSt (DMB maximum [M]), here 20 cSt at 50 °C
-        ("VLSFO", 880.0, 20.0, 50.0, True),
-        ("ULSFO", 870.0, 6.0, 40.0, False),
-    ],
-)
-def test_is_residual_rule(grade, density, nu, t, residual):
+# The residual/distillate rule: ((grade, rho15 kg/m3, nu cSt, at t °C), residual?, source).
+_RM = "[ISO-8217] grade name RM: residual"
+_DM = "[ISO-8217] grade name DM: distillate"
+_TRADE = "trade name MGO/MDO: distillate (common practice)"
+# [ISO-8217] DMB maxima, 900 kg/m3 and 11 cSt at 40 °C: [M], from memory
+_DMB = "[ISO-8217] DMB maxima [M], from memory"
+IS_RESIDUAL_CASES = [
+    (("RMG 380", 991.0, 380.0, 50.0), True, _RM),
+    ((" rmk 700 ", 1010.0, 700.0, 50.0), True, _RM),
+    (("DMA", 845.0, 3.0, 40.0), False, _DM),
+    (("dmb", 890.0, 9.0, 40.0), False, _DM),
+    (("MGO", 850.0, 3.5, 40.0), False, _TRADE),
+    (("MDO", 880.0, 6.0, 40.0), False, _TRADE),
+    # by properties: density above 900 kg/m3 (DMB maximum, [ISO-8217] [M])
+    (("VLSFO", 935.0, 8.0, 40.0), True, _DMB),
+    # by properties: viscosity at 40 °C above 11 cSt (DMB maximum, [ISO-8217] [M]), here
+    # 20 cSt at 50 °C
+    (("VLSFO", 880.0, 20.0, 50.0), True, _DMB),
+    (("ULSFO", 870.0, 6.0, 40.0), False, _DMB),
+]
+
+
+@pytest.mark.parametrize(("inputs", "residual", "source"), IS_RESIDUAL_CASES)
+def test_is_residual_rule(inputs, residual, source):
+    grade, density, nu, t = inputs
     f = make(grade=grade, density_kg_m3=density, viscosity_cst=nu, viscosity_ref_c=t)
-    assert f.is_residual is residual
+    assert f.is_residual is residual, source
 
 
 def test_one_point_uses_assumed_default_slope():

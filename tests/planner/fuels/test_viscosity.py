@@ -21,7 +21,7 @@ from planner.fuels.viscosity import (
 
 
 def test_z_formula():
-    # ASTM D341 Z, REFERENCE.md §4 [P]
+    # [ASTM-D341] Z formula [P]
     nu = 2.0
     assert d341_z(nu) == pytest.approx(nu + 0.7 + math.exp(-1.47 - 1.84 * nu - 0.51 * nu**2))
 
@@ -80,7 +80,7 @@ def test_overflow_gives_infinite_viscosity_not_an_error():
 
 def test_residual_default_slope_gives_plausible_injection_temperature():
     # Assumed slope B = 3.5 (assumption, see module doc). RMG 380 at 50 °C reaches 13-17 cSt at
-    # about 130 °C, REFERENCE.md §2 [P]/[S]: a plausibility check of the assumption only.
+    # about 130 °C, [ENGINE-GUIDANCE] [P]/[S]: a plausibility check of the assumption only.
     assert DEFAULT_SLOPE_RESIDUAL == default_slope(True) == 3.5
     assert DEFAULT_SLOPE_DISTILLATE == default_slope(False) == 4.0
     a = d341_intercept(380.0, 50.0, DEFAULT_SLOPE_RESIDUAL)
@@ -89,13 +89,23 @@ def test_residual_default_slope_gives_plausible_injection_temperature():
     assert 115.0 < t15 < 145.0
 
 
-def test_default_slopes_match_the_typical_pairs_they_come_from():
-    # The module derives B from typical pairs (common practice, [M]): RMG 380 380/50 °C with
-    # about 35 cSt/100 °C; gas oil 3 cSt/40 °C with about 1.2 cSt/100 °C.
-    _, b_res = d341_fit(380.0, 50.0, 35.0, 100.0)
-    _, b_dist = d341_fit(3.0, 40.0, 1.2, 100.0)
-    assert b_res == pytest.approx(DEFAULT_SLOPE_RESIDUAL, abs=0.05)
-    assert b_dist == pytest.approx(DEFAULT_SLOPE_DISTILLATE, abs=0.05)
+# The typical pairs the default slopes come from: ((nu1 cSt, t1 °C, nu2 cSt, t2 °C), default B,
+# source). Not a published check: the pairs are common practice, the figures from memory [M].
+TYPICAL_PAIRS = [
+    # RMG 380: 380 cSt at 50 °C with about 35 cSt at 100 °C (common practice, [M])
+    ((380.0, 50.0, 35.0, 100.0), DEFAULT_SLOPE_RESIDUAL, "RMG 380 pair, common practice [M]"),
+    # gas oil: 3 cSt at 40 °C with about 1.2 cSt at 100 °C (common practice, [M])
+    ((3.0, 40.0, 1.2, 100.0), DEFAULT_SLOPE_DISTILLATE, "gas oil pair, common practice [M]"),
+]
+
+
+@pytest.mark.parametrize(
+    ("points", "slope", "source"), TYPICAL_PAIRS, ids=["residual", "distillate"]
+)
+def test_default_slopes_match_the_typical_pairs_they_come_from(points, slope, source):
+    # [ASTM-D341] line through the pair: its slope B is the assumed default, to 0.05
+    _, b = d341_fit(*points)
+    assert b == pytest.approx(slope, abs=0.05), source
 
 
 def test_arrays_in_arrays_out():

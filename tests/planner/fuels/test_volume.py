@@ -15,35 +15,46 @@ from planner.fuels.volume import (
     volume_correction_factor,
 )
 
-
-@pytest.mark.parametrize(
-    ("rho", "t", "vcf"),
-    # Table 54B formula; REFERENCE.md §4 checks from published bunker worked examples [P]
-    [(992.0, 36.0, 0.9857), (990.3, 34.0, 0.9870)],
-)
-def test_vcf_check_values(rho, t, vcf):
-    assert round(volume_correction_factor(rho, t), 4) == vcf
+# [TABLE-54B] worked bunker examples [P]: ((rho15 kg/m3, t °C), VCF as printed, source)
+VCF_WORKED_EXAMPLES = [
+    ((992.0, 36.0), 0.9857, "[TABLE-54B] worked bunker example [P]"),
+    ((990.3, 34.0), 0.9870, "[TABLE-54B] worked bunker example [P]"),
+]
 
 
-def test_fuel_oil_band_constants():
-    # REFERENCE.md §4 [S]: rho >= 838.5, K0 186.9696, K1 0.4862; 787.5-838.5 K0 594.5418, K1 0
-    for rho in (992.0, 838.5, 1010.0):
-        expected = 186.9696 / rho**2 + 0.4862 / rho
-        assert thermal_expansion_coefficient(rho) == pytest.approx(expected)
-    assert thermal_expansion_coefficient(800.0) == pytest.approx(594.5418 / 800.0**2)
+@pytest.mark.parametrize(("inputs", "vcf", "source"), VCF_WORKED_EXAMPLES)
+def test_vcf_check_values(inputs, vcf, source):
+    # [TABLE-54B] formula against the published worked examples [P], at the printed 4 decimals
+    assert round(volume_correction_factor(*inputs), 4) == vcf, source
+
+
+# Band constants: ((rho15 kg/m3,), alpha from the band's constants, source).
+# [TABLE-54B] [S]: rho >= 838.5, K0 186.9696, K1 0.4862; 787.5-838.5, K0 594.5418, K1 0.
+# [TABLE-54B] [M], from memory: transition 770.5-787.5 alpha = A + B/rho^2 (A -0.00336312,
+# B 2680.3206) and gasolines 653-770.5 (K0 346.4228, K1 0.4388); the entry does not list them.
+BAND_CONSTANTS = [
+    ((992.0,), 186.9696 / 992.0**2 + 0.4862 / 992.0, "[TABLE-54B] fuel-oil band [S]"),
+    ((838.5,), 186.9696 / 838.5**2 + 0.4862 / 838.5, "[TABLE-54B] fuel-oil band [S]"),
+    ((1010.0,), 186.9696 / 1010.0**2 + 0.4862 / 1010.0, "[TABLE-54B] fuel-oil band [S]"),
+    ((800.0,), 594.5418 / 800.0**2, "[TABLE-54B] jet band [S]"),
+    ((780.0,), -0.00336312 + 2680.3206 / 780.0**2, "[TABLE-54B] transition band [M], from memory"),
+    ((700.0,), 346.4228 / 700.0**2 + 0.4388 / 700.0, "[TABLE-54B] gasoline band [M], from memory"),
+]
+
+
+@pytest.mark.parametrize(("inputs", "alpha", "source"), BAND_CONSTANTS)
+def test_band_constants(inputs, alpha, source):
+    assert thermal_expansion_coefficient(*inputs) == pytest.approx(alpha), source
 
 
 def test_from_memory_bands_join_their_neighbours():
-    # Transition (770.5-787.5) and gasoline (653-770.5) constants are from memory [M]; REFERENCE.md
-    # does not list them. Not a source check: only that alpha is nearly continuous (within 0.2 %)
+    # Transition (770.5-787.5) and gasoline (653-770.5) constants are from memory
+    # ([TABLE-54B] [M]). Not a source check: only that alpha is nearly continuous (within 0.2 %)
     # across every band edge, which a mistyped constant would break.
     for edge in (770.5, 787.5, 838.5):
         below = thermal_expansion_coefficient(edge - 1e-9)
         above = thermal_expansion_coefficient(edge)
         assert above == pytest.approx(below, rel=2e-3)
-    assert thermal_expansion_coefficient(780.0) == pytest.approx(-0.00336312 + 2680.3206 / 780.0**2)
-    gasoline = 346.4228 / 700.0**2 + 0.4388 / 700.0
-    assert thermal_expansion_coefficient(700.0) == pytest.approx(gasoline)
 
 
 def test_vcf_is_one_at_15_c_and_arrays_work():
@@ -83,6 +94,7 @@ def test_mass_in_vacuum_and_in_air():
     # in vacuum: V15 x rho15 / 1000
     assert mass_t(1000.0, 991.0, 15.0) == pytest.approx(991.0)
     # weight in air: V15 x (rho15 - 1.1) / 1000, the usual air-buoyancy correction [M], from memory
+    # (no bibliography entry gives it)
     assert mass_t(1000.0, 991.0, 15.0, in_air=True) == pytest.approx(989.9)
     m = mass_t(500.0, 992.0, 36.0)
     assert m == pytest.approx(500.0 * volume_correction_factor(992.0, 36.0) * 992.0 / 1000.0)

@@ -1,6 +1,6 @@
 """Journal entries: checked dataclasses, canonical JSON and hashing, typed inputs, plan prefill.
 
-Sources beside each check: REFERENCE.md section 4 for the Table 54B VCF
+Sources beside each check: [TABLE-54B] for the volume correction factor
 (published bunker worked examples [P]); the IMO check-digit rule is from
 memory [M] and is tested only against itself and one number computed by hand.
 """
@@ -68,7 +68,7 @@ def test_imo_check_digit_rule_from_memory():
         SetupDetails("MV Test", "1234568")
 
 
-# -- Tank readings: Table 54B [P via REFERENCE.md] ----------------------------------------
+# -- Tank readings: [TABLE-54B] published bunker worked examples [P] ----------------------
 
 @pytest.mark.parametrize(("rho", "t", "vcf"), [(992.0, 36.0, 0.9857), (990.3, 34.0, 0.9870)])
 def test_tank_reading_vcf_matches_published_bunker_examples(rho, t, vcf):

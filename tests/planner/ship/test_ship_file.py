@@ -151,7 +151,7 @@ def test_missing_and_malformed_files(tmp_path):
 
 def test_main_engine_follows_the_propeller_law():
     me = MainEngine(name="me", mcr_kw=9000, sfoc_g_kwh=171, ref_speed_kn=14, ref_load_pct=85)
-    # propeller law (REFERENCE.md §4, common practice): P ∝ v³
+    # [PROPELLER-LAW] (common practice): P ∝ v³
     assert me.load_pct_at_speed(7.0) == pytest.approx(85.0 / 8.0)
     assert me.iso_demand_t_h(speed_kn=14.0) == pytest.approx(9000 * 0.85 * 171 / 1e6)
     assert me.speed_at_load(85.0 / 8.0) == pytest.approx(7.0)
@@ -164,7 +164,7 @@ def test_consumption_is_scaled_to_net_specific_energy():
     boiler = Boiler(name="b", fuel_t_h=0.3)
     assert iso_demand_t_h(gen) == pytest.approx(0.1)
     assert iso_demand_t_h(boiler) == pytest.approx(0.3)
-    # REFERENCE.md §4 [M]: SFOC × 42.7 / Q_net of the fuel burnt
+    # [ISO-3046] reference energy [M], from memory: SFOC × 42.7 / Q_net of the fuel burnt
     assert fuel_rate_t_h(0.1, 40.0) == pytest.approx(0.1 * ISO_REFERENCE_Q_NET_MJ_KG / 40.0)
     with pytest.raises(ValueError):
         Generator(name="dg", power_kw=800, sfoc_g_kwh=200, rated_kw=700)

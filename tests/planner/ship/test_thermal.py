@@ -1,9 +1,9 @@
 """Inlet temperature and viscosity path during a changeover.
 
-References: ASTM D341 (REFERENCE.md section 4 [P]) written out here
-independently of planner.fuels; the 2 °C/min rate limit (REFERENCE.md
-section 2 [S], common practice) as plain arithmetic; the 2 cSt minimum at
-the engine inlet (REFERENCE.md section 2 [P]).
+References: ASTM D341 ([ASTM-D341] [P]) written out here independently of
+planner.fuels; the 2 °C/min rate limit ([TC-SSB-04-2015] [S], common
+practice) as plain arithmetic; the 2 cSt minimum at the engine inlet
+([ENGINE-GUIDANCE] [P]).
 """
 
 from __future__ import annotations

@@ -1,7 +1,7 @@
 """The Monte Carlo against distributions known in closed form, and the exact volume scaling.
 
 One well-stirred volume V fed at q: t = (V/q)·ln[(S₀ − S_in)/(S_lim − S_in)], the CSTR
-washout solution (REFERENCE.md §3 [D], Levenspiel). Equal fuel densities on a mass basis
+washout solution ([LEVENSPIEL-1999] [D]). Equal fuel densities on a mass basis
 keep q constant, so t is linear in V and monotone in S_in: its quantiles are those of the
 normal inputs mapped through it.
 """
@@ -29,7 +29,7 @@ N = 20_000
 
 
 def washout_time(v, s_in=S_IN, level=TARGET):
-    # REFERENCE.md §3 [D]: t = (V/q)·ln[(S0 − S_in)/(S_lim − S_in)]
+    # [LEVENSPIEL-1999] CSTR washout [D]: t = (V/q)·ln[(S0 − S_in)/(S_lim − S_in)]
     return (v / Q) * np.log((S0 - s_in) / (level - s_in))
 
 
@@ -92,9 +92,10 @@ def test_boundary_time_adds_a_normal_offset_to_the_lead():
 
 
 def test_bypass_as_an_effective_volume_is_conservative_by_the_closed_form_bound():
-    # Cholette-Cloutier bypass b: outlet = b·u + (1 − b)·x, τ = V / ((1 − b)·q); the time to
-    # a level F of the new fuel is τ·ln((1 − b)/(1 − F)). The effective volume V/(1 − b)
-    # gives τ·ln(1/(1 − F)): later by exactly τ·ln(1/(1 − b)), never earlier.
+    # Cholette-Cloutier bypass b ([LEVENSPIEL-1999] compartment models [M]), worked here
+    # [D]: outlet = b·u + (1 − b)·x, τ = V / ((1 − b)·q); the time to a level F of the new
+    # fuel is τ·ln((1 − b)/(1 − F)). The effective volume V/(1 − b) gives τ·ln(1/(1 − F)):
+    # later by exactly τ·ln(1/(1 − b)), never earlier.
     b = 0.2
     system, sched, spec = one_volume(mixing_bypass=b)
     u = analyse(system, "main", "A", "B", sched, limit_pct=LIMIT, target_pct=TARGET, spec=spec,
@@ -139,11 +140,11 @@ def test_blend_curve_gives_the_flush_times_to_round_off(sample_ship):
                      target_pct=TARGET)
         bc = BlendCurve.from_result(r, circuit, s.from_tank, s.to_tank)
         nominal = np.array([[f.sulphur_pct for f in bc.fuels]])
-        assert bc.time_to(nominal, TARGET, True)[0] == pytest.approx(s.time_to_target_h,
+        assert bc.time_to_h(nominal, TARGET, True)[0] == pytest.approx(s.time_to_target_h,
                                                                      abs=1e-12)
-        assert bc.time_to(nominal, LIMIT, True)[0] == pytest.approx(s.time_to_limit_h,
+        assert bc.time_to_h(nominal, LIMIT, True)[0] == pytest.approx(s.time_to_limit_h,
                                                                     abs=1e-12)
         # any other sulphur: the flushing model's own crossing on the same trace
         for level in (0.3, 0.12, 0.085):
             worst = max(c.time_at_or_below_h(level) for c in r.circuit_inlets(circuit))
-            assert bc.time_to(nominal, level, True)[0] == pytest.approx(worst, abs=1e-12)
+            assert bc.time_to_h(nominal, level, True)[0] == pytest.approx(worst, abs=1e-12)

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import re
 import tomllib
 
 import pytest
@@ -19,6 +20,7 @@ from planner.uncertainty.inputs import (
 from tests.helpers.paths import ROOT
 
 SHIP = ROOT / "areas_sample" / "ship.toml"
+REFERENCE_KEY = re.compile(r"\[[A-Z][A-Z0-9]*(?:-[A-Z0-9]+)+\]")  # a docs/references.md key
 
 
 @pytest.fixture(scope="module")
@@ -31,21 +33,35 @@ def test_every_default_states_its_source():
     for key in KEYS:
         src = spec.source(key)
         assert src.startswith("default: ")
-        assert any(w in src for w in ("common practice", "from memory", "REFERENCE", "ISO"))
+        assert ("common practice" in src or "from memory" in src
+                or REFERENCE_KEY.search(src)), src
+    assert "[ISO-4259]" in spec.source("sulphur_sd_pct")
+    assert "[ISO-8754]" in spec.source("sulphur_sd_pct")
     for key, (value, _) in DEFAULTS.items():
         assert getattr(spec, key) == value
 
 
-def test_sulphur_default_from_reproducibility():
-    # REFERENCE §1 [P]: 0.59·R is the 95 % margin (ISO 4259), so sd = 0.59·R / 1.645 [D].
-    # R itself: the line through the commonly quoted verification values 0.11 % (limit 0.10 %)
-    # and 0.53 % (limit 0.50 %) [M, from memory: not checked against ISO 8754].
-    assert 0.10 + 0.59 * reproducibility_pct(0.10) == pytest.approx(0.11)
-    assert 0.50 + 0.59 * reproducibility_pct(0.50) == pytest.approx(0.53)
-    assert sulphur_sd_from_reproducibility(0.10) == pytest.approx(0.01 / 1.6448536, rel=1e-6)
-    assert sulphur_sd_from_reproducibility(0.08) == pytest.approx(0.005471, abs=2e-6)
+# [ISO-8754] verification values, from memory [M] (not checked against the standard): the
+# 95 % result at which a sample is taken to exceed the limit. Columns: limit, value, % m/m.
+VERIFICATION_VALUES = [(0.10, 0.11), (0.50, 0.53)]
+# sd = 0.59·R / 1.645 [D] (0.59·R is the one-sided 95 % margin, [ISO-4259] [P]), with R from
+# the line through VERIFICATION_VALUES. Columns: sulphur, sd, tolerance, % m/m.
+SULPHUR_SD = [
+    (0.10, 0.01 / 1.6448536, 1e-9),  # 0.59·R(0.10) = 0.01
+    (0.08, 0.005471, 2e-6),
+]
+
+
+@pytest.mark.parametrize(("limit", "value"), VERIFICATION_VALUES)
+def test_reproducibility_gives_the_verification_values(limit, value):
+    assert limit + 0.59 * reproducibility_pct(limit) == pytest.approx(value)
+
+
+@pytest.mark.parametrize(("sulphur", "sd", "tol"), SULPHUR_SD)
+def test_sulphur_default_from_reproducibility(sulphur, sd, tol):
+    assert sulphur_sd_from_reproducibility(sulphur) == pytest.approx(sd, abs=tol)
     spec = UncertaintySpec()
-    assert spec.sulphur_sd("mgo", 0.08) == sulphur_sd_from_reproducibility(0.08)
+    assert spec.sulphur_sd("mgo", sulphur) == sulphur_sd_from_reproducibility(sulphur)
 
 
 def test_sample_ship_table_parses_to_the_defaults(ship):

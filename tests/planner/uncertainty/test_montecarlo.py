@@ -76,7 +76,8 @@ def test_one_input_at_zero_leaves_the_others_samples(ship, sched, main):
 
 
 def test_quantile_estimates_converge_as_samples_grow():
-    # one volume, normal ±20 %: P90 known in closed form (see test_uncertainty_closed_forms)
+    # one volume, normal ±20 %: P90 known in closed form, the [LEVENSPIEL-1999] washout time
+    # of the normal quantile of V (see tests/planner/uncertainty/test_closed_forms.py)
     system = series([0.5], "s", fuels=(HFO_EQ, MGO_EQ))
     sched = ConsumptionSchedule.constant({"me": 1.2}, basis="mass")
     spec = UncertaintySpec(volumes_pct=20.0, tanks_pct=0, consumption_pct=0, mixing_stagnant=0,
@@ -110,7 +111,7 @@ def test_surrogate_against_brute_force(ship, sched, main):
         factors = {n: float(np.exp(u.samples.log_factor(n, "volume")[i])) for n in nodes}
         case = Case(factors, float(u.samples.values["consumption"][i]))
         curve = run_case(ship, "main", "vlsfo_service", "mgo_service", sched, 8.0, case)
-        exact = curve.time_to(fuels_s[i:i + 1], TARGET, True)[0]
+        exact = curve.time_to_h(fuels_s[i:i + 1], TARGET, True)[0]
         assert abs(exact - u.time_to_target_h[i]) * 3600 < 10.0
     assert u.check.max_error_s < 10.0
 
@@ -120,6 +121,7 @@ def test_rank_correlation_matches_scipy():
     x = rng.normal(size=300)
     y = np.where(rng.random(300) < 0.05, np.inf, x**3 + rng.normal(size=300))
     y[:10] = 1.0  # ties
+    # [SCIPY-2020] scipy.stats.spearmanr as the reference library
     assert spearman(x, y) == pytest.approx(spearmanr(x, y).statistic, abs=1e-12)
     np.testing.assert_array_equal(ranks(np.array([3.0, 1.0, 3.0, np.inf])), [2.5, 1, 2.5, 4])
     assert spearman(x, np.ones(300)) == 0.0

@@ -2,10 +2,11 @@
 
 Every voyage sails the T1 test ship (one stirred volume of 1.0 m³, fuels of equal
 density and Q_net) due east along 50°N; the area boundaries are meridians. Hand
-figures use the outside sources listed in ``tests.helpers.plan`` (CSTR washout, REFERENCE.md
-section 3; parallel arc on WGS84, section 5; propeller law, section 4). The rules
-themselves are those of issue 4 (item 4) and MARPOL Annex VI reg. 14 as quoted in
-REFERENCE.md section 1.
+figures use the outside sources listed in ``tests.helpers.plan``: the CSTR washout
+([LEVENSPIEL-1999] [D]), the parallel arc on the ellipsoid ([WGS84] [D]) and the
+propeller law ([PROPELLER-LAW], common practice). The rules themselves are the plan's
+(README, "The voyage plan") and MARPOL Annex VI regulation 14 ([MARPOL-VI]: the
+limits by area and date [P]).
 """
 
 from __future__ import annotations
@@ -18,6 +19,7 @@ import pytest
 
 from planner.common.timefmt import format_utc
 from planner.voyage.changeovers import SWITCH_BACK_COMPLETE
+from planner.voyage.checks import plan_warnings
 from tests.helpers.plan import (
     NM_M,
     V_M3,
@@ -32,6 +34,14 @@ from tests.helpers.plan import (
 )
 
 TIME_TOL_S = 3.0
+
+# The fixtures' areas (tests/data/voyages/*.geojson, fictional): name, the meridian of
+# entry and the meridian of exit, °E, in route order.
+FAR_AREAS = (("West Far ECA", 3.0, 4.0), ("East Far ECA", 7.0, 8.0))  # far_pair.geojson
+CLOSE_AREAS = (("West Close ECA", 3.0, 4.0), ("East Close ECA", 4.2, 5.0))  # close_pair
+# close_areas: the fuel of each stretch of the route check, in route order: hfo outside,
+# mgo in both areas and, by the stay-compliant rule, in the gap between them
+CLOSE_STRETCH_FUELS = ("hfo", "mgo", "mgo", "mgo", "hfo")
 Q12 = flow_m3_h(12.0)  # m³/h through the stirred volume at 12 kn (propeller law)
 FLUSH_12_H = V_M3 / Q12 * washout_log(0.9 * 0.10)  # to the default target 90 % of 0.10 %
 # a switch back is complete within 5 % of the fuels' difference (the planner's stated
@@ -56,6 +66,7 @@ def at_lon(doc, lon: float, speed_kn: float = 12.0, from_lon: float = 2.0):
 def test_area_crossed_before_its_date_needs_no_changeover():
     _, doc = plan_doc("future_before")  # crosses 5°E on 2030-06-20
     assert doc["changeovers"] == []
+    # one stretch under the global cap, 0.50 % from 2020-01-01 ([MARPOL-VI] reg. 14 [P])
     assert [(s["limit_pct"], s["areas"]) for s in doc["stretches"]] == [(0.5, [])]
     assert doc["compliant_fuel_needed_t"] == 0.0
     assert isinstance(doc["compliant_fuel_needed_t"], float)  # contract: a number "f"
@@ -90,7 +101,7 @@ def test_area_coming_into_force_while_inside_it():
 # --- 4. departing inside an area -----------------------------------------------------------
 
 def test_departing_inside_plans_the_changeover_before_departure():
-    _, doc = plan_doc("depart_inside")
+    plan, doc = plan_doc("depart_inside")
     first = doc["changeovers"][0]
     assert first["before_departure"] is True
     assert first["direction"] == "to_compliant" and first["to_fuel"] == "mgo"
@@ -100,6 +111,7 @@ def test_departing_inside_plans_the_changeover_before_departure():
     assert abs(seconds(first["start_utc"], depart - timedelta(hours=FLUSH_12_H + 1.0))) <= 3.5
     assert abs(seconds(first["compliant_utc"], depart - timedelta(hours=1.0))) <= TIME_TOL_S
     (warn,) = [w for w in doc["warnings"] if "departs inside" in w]
+    assert (plan.warnings[0].kind, plan.warnings[0].text) == ("departs_inside", warn)  # first
     assert "Meridian Five ECA" in warn and "mgo before departure" in warn
     assert format_utc(utc(first["start_utc"])) in warn  # when to start, alongside
     # the switch back commences at the exit (10°E), never before
@@ -129,19 +141,20 @@ def test_departing_inside_and_never_leaving_still_warns():
 # --- 5. two areas close together / far apart ------------------------------------------------
 
 def test_close_areas_stay_on_compliant_fuel_and_say_why():
-    # West Close ECA 3°E-4°E, East Close ECA 4.2°E-5°E: 0.2° (7.7 nm, 0.65 h) between them
+    # 0.2° (7.7 nm, 0.65 h) between the two areas
+    (west, _, west_exit), (east, east_entry, east_exit) = CLOSE_AREAS
     _, doc = plan_doc("close_areas")
     assert [r["direction"] for r in doc["changeovers"]] == ["to_compliant", "to_regular"]
     down, back = doc["changeovers"]
-    assert down["area"] == "West Close ECA" and back["area"] == "East Close ECA"
-    assert back["boundary_lon"] == pytest.approx(5.0, abs=1e-9)
-    assert [s["fuel"] for s in doc["stretches"]] == ["hfo", "mgo", "mgo", "mgo", "hfo"]
+    assert down["area"] == west and back["area"] == east
+    assert back["boundary_lon"] == pytest.approx(east_exit, abs=1e-9)
+    assert tuple(s["fuel"] for s in doc["stretches"]) == CLOSE_STRETCH_FUELS
     (note,) = doc["notes"]
-    assert note.startswith("Stay on mgo from the exit of West Close ECA to East Close ECA")
+    assert note.startswith(f"Stay on mgo from the exit of {west} to {east}")
     assert doc["stretches"][2]["fuel_choice"] == note  # the gap says why it burns mgo
-    # why: a switch back at 4°E would complete after the next changeover must start
-    done = at_lon(doc, 4.0) + timedelta(hours=BACK_12_H)
-    must_start = at_lon(doc, 4.2) - timedelta(hours=FLUSH_12_H + 1.0)
+    # why: a switch back at the west exit would complete after the next changeover must start
+    done = at_lon(doc, west_exit) + timedelta(hours=BACK_12_H)
+    must_start = at_lon(doc, east_entry) - timedelta(hours=FLUSH_12_H + 1.0)
     assert done > must_start
     found = re.findall(r"\d{4}-\d\d-\d\d \d\d:\d\dZ", note)
     assert len(found) == 2
@@ -150,17 +163,19 @@ def test_close_areas_stay_on_compliant_fuel_and_say_why():
 
 
 def test_far_areas_switch_back_and_forth():
-    # West Far ECA 3°E-4°E, East Far ECA 7°E-8°E: 3° (116 nm, 9.7 h) between them
+    # 3° (116 nm, 9.7 h) between the two areas: in and out of each
     _, doc = plan_doc("far_areas")
     got = [(r["area"], r["direction"]) for r in doc["changeovers"]]
-    assert got == [("West Far ECA", "to_compliant"), ("West Far ECA", "to_regular"),
-                   ("East Far ECA", "to_compliant"), ("East Far ECA", "to_regular")]
+    assert got == [(name, way) for name, _, _ in FAR_AREAS
+                   for way in ("to_compliant", "to_regular")]
     assert doc["notes"] == []
-    for r, lon in zip(rows(doc, "to_regular"), (4.0, 8.0), strict=True):
+    exits = [lon for _, _, lon in FAR_AREAS]
+    for r, lon in zip(rows(doc, "to_regular"), exits, strict=True):
         assert r["start_utc"] == r["boundary_utc"]  # commenced at the exit
         assert r["boundary_lon"] == pytest.approx(lon, abs=1e-9)
         assert abs(seconds(r["complete_utc"], r["start_utc"]) - 3600 * BACK_12_H) <= TIME_TOL_S
-    for r, lon in zip(rows(doc, "to_compliant"), (3.0, 7.0), strict=True):
+    entries = [lon for _, lon, _ in FAR_AREAS]
+    for r, lon in zip(rows(doc, "to_compliant"), entries, strict=True):
         start = at_lon(doc, lon) - timedelta(hours=FLUSH_12_H + 1.0)
         assert abs(seconds(r["start_utc"], start)) <= TIME_TOL_S + 0.5
     # the switch back after West Far completes before the changeover for East Far starts
@@ -170,8 +185,9 @@ def test_far_areas_switch_back_and_forth():
 # --- 6. short of compliant fuel -------------------------------------------------------------
 
 def test_short_of_compliant_fuel_names_fuel_and_shortfall():
-    # 10 m³ of mgo at 15 °C (8.8 t); from the valve switch before 5°E to the arrival at 9°E
-    _, doc = plan_doc("short_fuel")
+    # 10 m³ of mgo at 15 °C (8.8 t: VCF 1 at 15 °C, [TABLE-54B]); from the valve switch
+    # before 5°E to the arrival at 9°E
+    plan, doc = plan_doc("short_fuel")
     (row,) = doc["changeovers"]
     arrive = utc(doc["voyage"]["depart_utc"]) + timedelta(hours=hours(parallel_m(2, 9), 12.0))
     start = at_lon(doc, 5.0) - timedelta(hours=FLUSH_12_H + 1.0)
@@ -179,6 +195,11 @@ def test_short_of_compliant_fuel_names_fuel_and_shortfall():
     assert doc["compliant_fuel_needed_t"] == pytest.approx(need, abs=0.01)
     assert doc["compliant_fuel_on_board_t"] == pytest.approx(8.8)
     (warn,) = [w for w in doc["warnings"] if w.startswith("Short of")]
+    assert [w.text for w in plan.warnings if w.kind == "quantity"] == [warn]
+    # the checks are pure: run again on the plan's parts, the same warnings in the same order
+    assert plan_warnings(plan.voyage, plan.timeline, plan.changes, plan.quantities) == \
+        plan.warnings
+    assert [w.text for w in plan.warnings] == doc["warnings"]
     assert warn.startswith("Short of mgo:")
     assert f"{need - 8.8:.1f} t short" in warn
     assert f"needs {need:.1f} t" in warn and "hold 8.8 t" in warn
@@ -196,13 +217,13 @@ def test_rtz_schedule_sets_the_times():
     assert doc["voyage"]["arrive_utc"] == "2030-03-10T20:00:00Z"
     (row,) = doc["changeovers"]
     assert row["boundary_utc"] == "2030-03-10T16:24:00Z"
-    assert plan.changes[0].boundary_s == pytest.approx(
+    assert plan.changes[0].boundary_epoch_s == pytest.approx(
         utc("2030-03-10T16:24:00Z").timestamp(), abs=0.05)
     # the flush runs at the schedule's speed on that leg
     v2 = parallel_m(3.5, 6.0) / NM_M / 9.0
-    assert plan.timeline.speed_kn(plan.changes[0].boundary_s) == pytest.approx(v2, rel=1e-9)
+    assert plan.timeline.speed_kn(plan.changes[0].boundary_epoch_s) == pytest.approx(v2, rel=1e-9)
     flush_h = V_M3 / flow_m3_h(v2) * washout_log(0.09)
     start = utc("2030-03-10T16:24:00Z") - timedelta(hours=flush_h + 1.0)
-    assert plan.changes[0].circuits[0].start_s == pytest.approx(start.timestamp(),
+    assert plan.changes[0].circuits[0].start_epoch_s == pytest.approx(start.timestamp(),
                                                                 abs=TIME_TOL_S)
     assert utc(row["start_utc"]) > utc("2030-03-10T11:00:00Z")  # all on the second leg

@@ -6,12 +6,12 @@ with a flat SFOC; both fuels are 880 kg/m³ with Q_net set to 40.0 MJ/kg, so the
 volumetric flow is the same for any blend. The routes sail due east along 50°N and
 the area boundary is the meridian 5°E.
 
-Outside sources (see ``tests.helpers.plan``): the CSTR washout (REFERENCE.md section 3,
-Levenspiel), the parallel arc N·cos φ·Δλ on WGS84 (NIMA TR8350.2; REFERENCE.md
-section 5), GeographicLib's RhumbSolve for the rhumb direct problem (Karney), the
-propeller law (REFERENCE.md section 4, common practice) and the ISO 42.7 MJ/kg
-reference energy of SFOC (REFERENCE.md section 4 [M]: from memory; the planner uses
-the same constant, so only the 42.7/Q_net scaling is checked).
+Outside sources (see ``tests.helpers.plan``): the CSTR washout ([LEVENSPIEL-1999] [D]),
+the parallel arc N·cos φ·Δλ on the ellipsoid ([WGS84] [D]), GeographicLib's RhumbSolve
+for the rhumb direct problem ([KARNEY-RHUMB] [P, reference library]), the propeller law
+([PROPELLER-LAW], common practice) and the 42.7 MJ/kg reference energy of SFOC
+([ISO-3046] [M]: from memory; the planner uses the same constant, so only the
+42.7/Q_net scaling is checked).
 """
 
 from __future__ import annotations
@@ -66,10 +66,10 @@ def test_closed_form_boundary_time_and_position(closed):
     # the boundary is the meridian 5°E on the parallel 50°N (the fixture's geometry)
     assert row["boundary_lat"] == pytest.approx(LAT, abs=1e-9)
     assert row["boundary_lon"] == pytest.approx(5.0, abs=1e-9)
-    # time: departure + parallel arc 2°E-5°E (N·cos φ·Δλ, WGS84) / 12 kn
+    # time: departure + parallel arc 2°E-5°E (N·cos φ·Δλ, [WGS84] [D]) / 12 kn
     depart = utc(doc["voyage"]["depart_utc"]).timestamp()
     boundary = depart + 3600.0 * hours(parallel_m(2.0, 5.0), 12.0)
-    assert plan.changes[0].boundary_s == pytest.approx(boundary, abs=0.05)
+    assert plan.changes[0].boundary_epoch_s == pytest.approx(boundary, abs=0.05)
     assert abs(seconds(row["boundary_utc"], utc(doc["voyage"]["depart_utc"]))
                - (boundary - depart)) <= 1.0  # the JSON is to the second
     arrive = depart + 3600.0 * hours(parallel_m(2.0, 6.0), 12.0)
@@ -81,15 +81,15 @@ def test_closed_form_start_time(closed):
     plan, doc = closed
     (row,) = doc["changeovers"]
     part = plan.changes[0].circuits[0]
-    boundary = plan.changes[0].boundary_s
-    # REFERENCE.md section 3 (CSTR washout): t = (V/q)·ln((S0 − S1)/(St − S1)),
+    boundary = plan.changes[0].boundary_epoch_s
+    # [LEVENSPIEL-1999] CSTR washout [D]: t = (V/q)·ln((S0 − S1)/(St − S1)),
     # target St = 0.8 × 0.10 % (the voyage's sulphur_target_fraction), margin 1.5 h
     target = 0.8 * 0.10
     assert row["target_pct"] == pytest.approx(target)
     q = flow_m3_h(12.0)  # propeller law at 12 kn from 85 % MCR at 14 kn, × 42.7/40, / 880
     flush_h = V_M3 / q * washout_log(target)
     start = boundary - 3600.0 * (flush_h + 1.5)
-    assert part.start_s == pytest.approx(start, abs=TIME_TOL_S)
+    assert part.start_epoch_s == pytest.approx(start, abs=TIME_TOL_S)
     assert abs(seconds(row["start_utc"], plan.timeline.utc(start))) <= TIME_TOL_S + 0.5
     assert row["duration_h"] * 3600.0 == pytest.approx(flush_h * 3600.0, abs=TIME_TOL_S)
     # compliant exactly the margin before the boundary
@@ -102,7 +102,7 @@ def test_closed_form_inlet_curve_is_the_washout(closed):
     plan, _ = closed
     part = plan.changes[0].circuits[0]
     curve = np.array(part.study.worst_curve())
-    # REFERENCE.md section 3: S(t) = S1 + (S0 − S1)·exp(−q·t/V)
+    # [LEVENSPIEL-1999] CSTR washout [D]: S(t) = S1 + (S0 − S1)·exp(−q·t/V)
     expected = S_MGO + (S_HFO - S_MGO) * np.exp(-flow_m3_h(12.0) * curve[:, 0] / V_M3)
     assert np.abs(curve[:, 1] - expected).max() < 1e-6
     assert curve[-1, 0] >= part.duration_h
@@ -112,16 +112,16 @@ def test_closed_form_start_position(closed):
     plan, doc = closed
     (row,) = doc["changeovers"]
     part = plan.changes[0].circuits[0]
-    back_m = 12.0 * NM_M * (plan.changes[0].boundary_s - part.start_s) / 3600.0
+    back_m = 12.0 * NM_M * (plan.changes[0].boundary_epoch_s - part.start_epoch_s) / 3600.0
     assert row["start_lat"] == pytest.approx(LAT, abs=1e-9)  # still on the parallel
-    # parallel-arc closed form: Δλ = d / (N cos φ)
+    # parallel-arc closed form ([WGS84] [D]): Δλ = d / (N cos φ)
     assert abs(metres_east(row["start_lon"], lon_back(5.0, back_m))) <= POS_TOL_M
     # the whole chain from the closed-form start time: within the time tolerance at 12 kn
-    boundary = plan.changes[0].boundary_s
+    boundary = plan.changes[0].boundary_epoch_s
     flush_h = V_M3 / flow_m3_h(12.0) * washout_log(0.08)
     ideal = lon_back(5.0, 12.0 * NM_M * (flush_h + 1.5))
     assert abs(metres_east(row["start_lon"], ideal)) <= POS_TOL_M + 12.0 * NM_M / 3600 * 3.0
-    assert boundary > part.start_s
+    assert boundary > part.start_epoch_s
     # compliant point: 1.5 h × 12 kn west of the boundary
     assert abs(metres_east(row["compliant_lon"], lon_back(5.0, 1.5 * 12.0 * NM_M))) <= 10.0
 
@@ -131,8 +131,8 @@ def test_closed_form_start_position_by_rhumbsolve(closed):
     plan, doc = closed
     (row,) = doc["changeovers"]
     part = plan.changes[0].circuits[0]
-    back_m = 12.0 * NM_M * (plan.changes[0].boundary_s - part.start_s) / 3600.0
-    # GeographicLib RhumbSolve (Karney): the rhumb direct problem from the boundary, due west
+    back_m = 12.0 * NM_M * (plan.changes[0].boundary_epoch_s - part.start_epoch_s) / 3600.0
+    # [KARNEY-RHUMB] RhumbSolve: the rhumb direct problem from the boundary, due west
     lat, lon = rhumbsolve_direct(row["boundary_lat"], row["boundary_lon"], 270.0, back_m)
     assert row["start_lat"] == pytest.approx(float(lat[0]), abs=1e-9)
     assert abs(metres_east(row["start_lon"], float(lon[0]))) <= POS_TOL_M
@@ -141,17 +141,18 @@ def test_closed_form_start_position_by_rhumbsolve(closed):
 def test_closed_form_fuel_quantities(closed):
     plan, doc = closed
     part = plan.changes[0].circuits[0]
-    depart = plan.timeline.start_s
-    arrive = plan.timeline.end_s
-    # mass = P·SFOC × 42.7/Q_net over the time on each fuel (valve switch to arrival)
+    depart = plan.timeline.start_epoch_s
+    arrive = plan.timeline.end_epoch_s
+    # mass = P·SFOC × 42.7/Q_net ([ISO-3046] [M]) over the time on each fuel (valve switch
+    # to arrival)
     rate = mass_rate_t_h(12.0)
     assert doc["compliant_fuel_needed_t"] == pytest.approx(
-        rate * (arrive - part.start_s) / 3600.0, rel=1e-6)
+        rate * (arrive - part.start_epoch_s) / 3600.0, rel=1e-6)
     assert doc["fuel_totals"]["hfo"]["needed_t"] == pytest.approx(
-        rate * (part.start_s - depart) / 3600.0, rel=1e-6)
+        rate * (part.start_epoch_s - depart) / 3600.0, rel=1e-6)
     assert doc["fuel_totals"]["mgo"]["needed_m3_15c"] == pytest.approx(
         doc["fuel_totals"]["mgo"]["needed_t"] * 1000.0 / RHO)
-    # 100 m³ sounded at 15 °C: Table 54B gives VCF = 1 at 15 °C, so 100 × 0.880 t
+    # 100 m³ sounded at 15 °C: [TABLE-54B] gives VCF = 1 at 15 °C, so 100 × 0.880 t
     assert doc["compliant_fuel_on_board_t"] == pytest.approx(88.0, rel=1e-12)
     assert not any("Short of" in w for w in doc["warnings"])
 
@@ -162,7 +163,7 @@ def _speed_change_figures(plan):
     """Closed form for speed_change.toml: 14 kn from 2°E to 4.6°E, then 10 kn; boundary 5°E;
     margin 0.5 h; target 0.8 × 0.10 %. The washout integral with the piecewise flow:
     q1·τ1 + q2·τ2 = V·ln((S0 − S1)/(St − S1)), τ1 before the change, τ2 after it."""
-    depart = plan.timeline.start_s
+    depart = plan.timeline.start_epoch_s
     change = depart + 3600.0 * hours(parallel_m(2.0, 4.6), 14.0)
     boundary = change + 3600.0 * hours(parallel_m(4.6, 5.0), 10.0)
     due = boundary - 0.5 * 3600.0
@@ -179,18 +180,18 @@ def test_speed_change_start_satisfies_the_piecewise_washout(speed_change):
     f = _speed_change_figures(plan)
     (row,) = doc["changeovers"]
     part = plan.changes[0].circuits[0]
-    assert plan.changes[0].boundary_s == pytest.approx(f["boundary"], abs=0.05)
+    assert plan.changes[0].boundary_epoch_s == pytest.approx(f["boundary"], abs=0.05)
     assert f["tau1"] > 0  # the constructed flush really spans the speed change
-    assert part.start_s < f["change"] < part.done_s
-    assert part.start_s == pytest.approx(f["start"], abs=TIME_TOL_S)
-    assert part.done_s == pytest.approx(f["due"], abs=TIME_TOL_S)
+    assert part.start_epoch_s < f["change"] < part.done_epoch_s
+    assert part.start_epoch_s == pytest.approx(f["start"], abs=TIME_TOL_S)
+    assert part.done_epoch_s == pytest.approx(f["due"], abs=TIME_TOL_S)
     assert row["margin_h"] == pytest.approx(0.5, abs=TIME_TOL_S / 3600.0)
     # the throughput from start to compliant is exactly the washout volume V·ln(...)
-    through = f["q1"] * (f["change"] - part.start_s) / 3600 + f["q2"] * (part.done_s
+    through = f["q1"] * (f["change"] - part.start_epoch_s) / 3600 + f["q2"] * (part.done_epoch_s
                                                                         - f["change"]) / 3600
     assert through == pytest.approx(f["need"], rel=1e-3)
     # start position: on the first leg, 14 kn × (change − start) west of 4.6°E
-    back_m = 14.0 * NM_M * (f["change"] - part.start_s) / 3600.0
+    back_m = 14.0 * NM_M * (f["change"] - part.start_epoch_s) / 3600.0
     assert abs(metres_east(row["start_lon"], lon_back(4.6, back_m))) <= POS_TOL_M
 
 
@@ -199,7 +200,7 @@ def test_speed_change_inlet_curve_is_the_piecewise_washout(speed_change):
     f = _speed_change_figures(plan)
     part = plan.changes[0].circuits[0]
     c = np.array(part.study.worst_curve())
-    t_change = (f["change"] - part.start_s) / 3600.0
+    t_change = (f["change"] - part.start_epoch_s) / 3600.0
     through = np.where(c[:, 0] < t_change, f["q1"] * c[:, 0],
                        f["q1"] * t_change + f["q2"] * (c[:, 0] - t_change))
     expected = S_MGO + (S_HFO - S_MGO) * np.exp(-through / V_M3)
@@ -214,5 +215,5 @@ def test_speed_change_differs_from_constant_speed(speed_change):
     const_10 = f["due"] - 3600.0 * f["need"] / f["q2"]
     # at the first leg's speed (14 kn) throughout: V·L/q1
     const_14 = f["due"] - 3600.0 * f["need"] / f["q1"]
-    assert part.start_s - const_10 > 3600.0
-    assert const_14 - part.start_s > 1800.0
+    assert part.start_epoch_s - const_10 > 3600.0
+    assert const_14 - part.start_epoch_s > 1800.0

@@ -1,8 +1,10 @@
 """The voyage timeline: speed, consumption by the propeller law, stops.
 
 Times are epoch seconds (about 1.8e9 s), so agreement is to about 1e-9 relative.
-References: the propeller law, power ∝ speed³ (common practice), with the
-sample engine's own reference point; arithmetic of constant speed.
+References: the propeller law, power ∝ speed³ ([PROPELLER-LAW], common practice),
+with the sample engine's own reference point; arithmetic of constant speed; the
+42.7 MJ/kg reference energy of SFOC ([ISO-3046] [M], from memory: the same constant
+as the code, so only the scaling is checked).
 """
 
 from __future__ import annotations
@@ -46,7 +48,7 @@ def test_consumption_follows_the_propeller_law_and_stops(timeline):
     at12 = timeline.rates_iso_t_h(to_epoch(T0) + 60.0)
     at10 = timeline.rates_iso_t_h(to_epoch(T0 + timedelta(hours=10)) + 60.0)
     stopped = timeline.rates_iso_t_h(to_epoch(T0 + timedelta(hours=9)))
-    # propeller law from the engine's reference point: load = ref · (v / v_ref)³
+    # [PROPELLER-LAW] from the engine's reference point: load = ref · (v / v_ref)³
     load12 = me.ref_load_pct * (12.0 / me.ref_speed_kn) ** 3
     want12 = me.mcr_kw * load12 / 100.0 * me.sfoc_at(load12) / 1e6
     assert at12[me.name] == pytest.approx(want12, rel=1e-9)

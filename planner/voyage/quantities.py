@@ -1,0 +1,265 @@
+"""What the plan needs: fuel drawn per valve period, fuel on board, SO₂ per stretch.
+
+- Fuel: each circuit draws the fuel its changeover valve is set to, from the
+  moment the valve is switched (a changeover's start) to the next switch; the
+  mass is the timeline's consumption scaled to the fuel's net specific energy
+  (:meth:`planner.voyage.timeline.Timeline.burnt_t`), and m³ at 15 °C is
+  mass / density at 15 °C. Compared with what the tanks hold (their standard
+  volume × density at 15 °C).
+- SO₂: 64.066/32.06 kg per kg of sulphur burnt ([IUPAC-2021] [D]) on every
+  stretch, against what the regular fuel would have formed for the same
+  energy.
+
+Pure functions of the plan's parts; :func:`plan_quantities` gathers them for
+:func:`planner.voyage.plan.plan_voyage`. Moments are epoch seconds
+(``*_epoch_s``: seconds since 1970-01-01 UTC).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+from planner.fuels import Fuel, so2_from_fuel_kg
+from planner.ship.system import FuelSystem
+from planner.voyage.fuel_choice import FuelChoice, regular_fuel
+from planner.voyage.runs import Change, Run
+from planner.voyage.timeline import Timeline
+from planner.voyage.voyage_file import Voyage
+
+
+@dataclass(frozen=True)
+class FuelNeed:
+    """Fuel drawn while one circuit's valve is set to one fuel (valve switch to valve switch).
+
+    Parameters
+    ----------
+    fuel : str
+        The fuel's name.
+    from_epoch_s, to_epoch_s : float [s]
+        The valve period, seconds since 1970-01-01 UTC.
+    mass_t : float [t]
+        The mass burnt in it.
+    volume_m3 : float [m3]
+        That mass as standard volume at 15 °C.
+    """
+
+    fuel: str
+    from_epoch_s: float
+    to_epoch_s: float
+    mass_t: float
+    volume_m3: float
+
+
+@dataclass(frozen=True)
+class StretchSO2:
+    """SO₂ formed on one stretch, and on the regular fuel for the same energy.
+
+    Parameters
+    ----------
+    from_m, to_m : float [m]
+        The stretch, along the route from departure.
+    areas : tuple of str
+        The control areas it lies in (empty: global cap only).
+    fuel : str
+        The fuel burnt on it (its run's).
+    fuel_t : float [t]
+        The mass of that fuel burnt.
+    so2_kg : float [kg]
+        SO₂ formed as planned.
+    so2_regular_kg : float [kg]
+        SO₂ the regular fuel would have formed for the same energy.
+    """
+
+    from_m: float
+    to_m: float
+    areas: tuple[str, ...]
+    fuel: str
+    fuel_t: float
+    so2_kg: float
+    so2_regular_kg: float
+
+
+@dataclass(frozen=True)
+class Quantities:
+    """The plan's fuel and SO₂ figures.
+
+    Parameters
+    ----------
+    needs : tuple of FuelNeed
+        Fuel drawn per valve period, circuit by circuit, each in time order.
+    totals_t : dict of str to float [t]
+        Fuel needed for the voyage by fuel name, in order of first need.
+    on_board_t : dict of str to float [t]
+        Fuel in the tanks at departure by fuel name.
+    so2 : tuple of StretchSO2
+        SO₂ on every stretch of the route check, in route order.
+    """
+
+    needs: tuple[FuelNeed, ...]
+    totals_t: dict[str, float]
+    on_board_t: dict[str, float]
+    so2: tuple[StretchSO2, ...]
+
+
+ValvePeriod = tuple[str, float, float, Fuel]
+"""``(circuit, from_epoch_s, to_epoch_s, fuel)``: a circuit's valve set to one fuel."""
+
+
+def valve_periods(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
+                  changes: Sequence[Change]) -> list[ValvePeriod]:
+    """Each circuit's periods with its valve set to one fuel, departure to arrival.
+
+    A change before departure puts the circuit on the compliant fuel from its
+    (earlier) start on.
+
+    Parameters
+    ----------
+    voyage : Voyage
+        The voyage (its fuels by name).
+    timeline : Timeline
+        The voyage's timeline (departure, arrival and the ship).
+    runs : sequence of Run
+        The plan's runs (the first gives the fuel at departure).
+    changes : sequence of Change
+        The plan's changes, in time order.
+
+    Returns
+    -------
+    list of ValvePeriod
+        Circuit by circuit in the ship file's order, each in time order.
+    """
+    out = []
+    t_end = timeline.end_epoch_s
+    for circuit in timeline.system.circuits:
+        t = timeline.start_epoch_s
+        fuel = runs[0].fuel
+        for ch in changes:
+            part = next(c for c in ch.circuits if c.circuit == circuit)
+            if ch.before_departure:  # on the compliant fuel from its (earlier) start on
+                t = min(t, part.start_epoch_s)
+            else:
+                out.append((circuit, t, part.start_epoch_s, fuel))
+                t = part.start_epoch_s
+            fuel = voyage.fuel(part.to_fuel)
+        out.append((circuit, t, t_end, fuel))
+    return out
+
+
+def fuel_needs(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
+               changes: Sequence[Change]) -> list[FuelNeed]:
+    """Fuel drawn per valve period, in the order of :func:`valve_periods`.
+
+    Parameters
+    ----------
+    voyage : Voyage
+        The voyage (its fuels by name).
+    timeline : Timeline
+        The voyage's timeline (consumption against time, and the ship's circuits).
+    runs : sequence of Run
+        The plan's runs.
+    changes : sequence of Change
+        The plan's changes, in time order.
+    """
+    needs: list[FuelNeed] = []
+    for circuit, a, b, fuel in valve_periods(voyage, timeline, runs, changes):
+        consumers = timeline.system.circuits[circuit].consumers
+        m = timeline.burnt_t(a, b, fuel, consumers)
+        needs.append(FuelNeed(fuel.name, a, b, m, m * 1000.0 / fuel.density_kg_m3))
+    return needs
+
+
+def on_board_t(system: FuelSystem) -> dict[str, float]:
+    """Mass of each fuel in the tanks, t (standard volume × density at 15 °C).
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship as she sails the voyage (tank contents in m³ at 15 °C).
+    """
+    out: dict[str, float] = {}
+    for tank in system.tanks.values():
+        for name, v in tank.content_m3.items():
+            fuel = system.fuels[name]
+            out[name] = out.get(name, 0.0) + v * fuel.density_kg_m3 / 1000.0
+    return out
+
+
+def totals_t(needs: Sequence[FuelNeed]) -> dict[str, float]:
+    """Mass needed of each fuel, t, in order of first need.
+
+    Parameters
+    ----------
+    needs : sequence of FuelNeed
+        The valve periods' needs.
+    """
+    out: dict[str, float] = {}
+    for n in needs:
+        out[n.fuel] = out.get(n.fuel, 0.0) + n.mass_t
+    return out
+
+
+def stretch_so2(timeline: Timeline, choices: Sequence[FuelChoice],
+                runs: Sequence[Run]) -> list[StretchSO2]:
+    """SO₂ on each stretch of the route check, on the planned fuel and on the regular one.
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline.
+    choices : sequence of FuelChoice
+        The fuel choice of every stretch (the highest-sulphur one is the regular fuel).
+    runs : sequence of Run
+        The plan's runs: a stretch burns its run's fuel.
+    """
+    regular = regular_fuel(choices)
+    sched = timeline.schedule
+    out = []
+    for c in choices:
+        st = c.stretch
+        fuel = next((r.fuel for r in runs if r.from_m <= st.from_m + 1e-6 <= r.to_m), c.fuel)
+        t0, t1 = (float(x) for x in sched.epoch_at([st.from_m, st.to_m]))
+        mass = timeline.burnt_t(t0, t1, fuel)
+        mass_reg = mass * fuel.q_net / regular.q_net
+        out.append(StretchSO2(st.from_m, st.to_m, st.areas, fuel.name, mass,
+                              float(so2_from_fuel_kg(mass * 1000.0, fuel.sulphur_pct)),
+                              float(so2_from_fuel_kg(mass_reg * 1000.0, regular.sulphur_pct))))
+    return out
+
+
+def so2_by_area(rows: Sequence[StretchSO2]) -> dict[str, tuple[float, float]]:
+    """SO₂ formed inside each area, kg: ``(as planned, on regular fuel)``.
+
+    Parameters
+    ----------
+    rows : sequence of StretchSO2
+        The stretches' SO₂.
+    """
+    out: dict[str, tuple[float, float]] = {}
+    for r in rows:
+        for a in r.areas:
+            p, q = out.get(a, (0.0, 0.0))
+            out[a] = (p + r.so2_kg, q + r.so2_regular_kg)
+    return out
+
+
+def plan_quantities(voyage: Voyage, timeline: Timeline, choices: Sequence[FuelChoice],
+                    runs: Sequence[Run], changes: Sequence[Change]) -> Quantities:
+    """Every fuel and SO₂ figure of the plan.
+
+    Parameters
+    ----------
+    voyage : Voyage
+        The voyage.
+    timeline : Timeline
+        Its timeline (with the ship as she sails it).
+    choices : sequence of FuelChoice
+        The fuel choice of every stretch.
+    runs : sequence of Run
+        The plan's runs.
+    changes : sequence of Change
+        The plan's changes, in time order.
+    """
+    needs = fuel_needs(voyage, timeline, runs, changes)
+    return Quantities(tuple(needs), totals_t(needs), on_board_t(timeline.system),
+                      tuple(stretch_so2(timeline, choices, runs)))
