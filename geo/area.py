@@ -76,6 +76,10 @@ class Area:
         if not self.polygons:
             raise ValueError(f"area {self.name!r}: no polygon")
 
+    def __getstate__(self) -> dict:
+        """The fields only: the plane geometry kept beside them (:mod:`geo.plane`) is rebuilt."""
+        return {k: v for k, v in self.__dict__.items() if not k.startswith("_")}
+
     @property
     def starts_utc(self) -> datetime:
         """The moment the area comes into force."""

@@ -32,11 +32,12 @@ from dataclasses import replace
 
 import numpy as np
 import shapely
+from numpy.typing import NDArray
 
 from geo.area import Area, Polygon, Ring
 from geo.area_measure import EARTH_AREA_M2, HEMISPHERE_M2, plane_ring_area_m2
 from geo.errors import InputError
-from geo.plane import STEP_M, PlaneRing, plane_ring
+from geo.plane import STEP_M, PlaneRing, plane_ring, remember_rings
 from geo.position import format_lon, format_position
 from geo.rhumb import wrap180
 
@@ -68,6 +69,7 @@ def check_area(
     file: str = "",
     place: str = "",
     vertex_numbers: Mapping[tuple[int, int], Sequence[int]] | None = None,
+    vertex_xy: Mapping[tuple[int, int], NDArray[np.float64]] | None = None,
 ) -> Area:
     """Check every ring and hole of ``area``; return it, holes moved by whole turns if needed.
 
@@ -75,62 +77,81 @@ def check_area(
     ``vertex_numbers[(polygon, ring)]`` gives the vertex numbers as written
     in the file for each stored vertex (0-based polygon and ring indices,
     ring 0 the exterior); by default vertex k is number k + 1.
-    Raises :class:`InputError` on the first problem found.
+    ``vertex_xy[(polygon, ring)]``, when the caller has them, are the rings'
+    vertices as (n, 2) arrays of (lon, lat) [deg] (saves converting them).
+    Raises :class:`InputError` on the first problem found. The plane rings
+    built here are kept with the returned area (:func:`geo.plane.area_rings`).
     """
     file = file or area.file
-    polygons = []
+    polygons, planes, moved = [], [], False
     for pi, poly in enumerate(area.polygons):
-        planes = []
+        rings = []
         for ri, ring in enumerate((poly.exterior, *poly.holes)):
             where = _join(place, f"polygon {pi + 1}", f"ring {ri + 1}")
-            nums = list((vertex_numbers or {}).get((pi, ri), range(1, len(ring) + 1)))
-            check_edges(ring, area.edges, file, where, nums)
-            pr = plane_ring(ring, area.edges)
+            xy = (vertex_xy or {}).get((pi, ri))
+            xy = np.asarray(ring, dtype=np.float64) if xy is None else xy
+            nums = (vertex_numbers or {}).get((pi, ri))
+            nums = range(1, len(ring) + 1) if nums is None else nums
+            check_edges(xy, area.edges, file, where, nums)
+            pr = plane_ring(xy, area.edges)
             check_simple(pr, file, where, nums)
             check_hemisphere(pr, file, where, area.edges)
-            planes.append(pr)
-        holes = check_holes(poly, planes, file, _join(place, f"polygon {pi + 1}"))
+            rings.append(pr)
+        holes = check_holes(poly, rings, file, _join(place, f"polygon {pi + 1}"))
+        if holes is not poly.holes:
+            moved = True
+            rings[1:] = [plane_ring(h, area.edges) for h in holes]
         polygons.append(Polygon(poly.exterior, holes))
-    return replace(area, polygons=tuple(polygons))
+        planes.append(tuple(rings))
+    checked = replace(area, polygons=tuple(polygons)) if moved else area
+    remember_rings(checked, tuple(planes))
+    return checked
 
 
-def check_edges(ring: Ring, edges: str, file: str, where: str, nums: Sequence[int]) -> None:
-    """Refuse edges without one meaning (see module notes). Lonlat edges are always literal."""
+def check_edges(ring: Ring | NDArray[np.float64], edges: str, file: str, where: str,
+                nums: Sequence[int]) -> None:
+    """Refuse edges without one meaning (see module notes). Lonlat edges are always literal.
+
+    ``ring`` is an open ring of (lon, lat) [deg], as tuples or an (n, 2) array.
+    """
     if edges == "lonlat":
         return
-    n = len(ring)
-    for i in range(n):
-        (lon1, lat1), (lon2, lat2) = ring[i], ring[(i + 1) % n]
-        dlon = float(wrap180(lon2 - lon1))
-        at_pole = (abs(lat1) == 90.0, abs(lat2) == 90.0)
-        edge = f"edge from vertex {nums[i]} to vertex {nums[(i + 1) % n]}"
-        shown = Text(f"{_pos(lon1, lat1)} to {_pos(lon2, lat2)}")
-        if all(at_pole):
-            continue  # along the pole, taken as written
-        if any(at_pole):
-            if edges == "rhumb" and dlon != 0.0:
-                raise InputError(
-                    file,
-                    _join(where, edge),
-                    shown,
-                    "a rhumb edge that reaches a pole along a meridian (a rhumb line "
-                    "spirals into a pole): write the pole as two vertices at 90° with "
-                    "the longitudes of its neighbours, or use geodesic edges",
-                )
-            continue  # a geodesic to a pole is the meridian of the other end
-        if dlon == -180.0:
-            why = (
-                "a geodesic between such points runs over a pole"
-                if edges == "geodesic"
-                else "a rhumb line could go either way round"
-            )
-            raise InputError(
-                file,
-                _join(where, edge),
-                shown,
-                f"an edge changing longitude by less than 180° ({edges} edges take the "
-                f"shorter way and here there is none; {why}): add a vertex between them",
-            )
+    xy = np.asarray(ring, dtype=np.float64)
+    lon1, lat1 = xy[:, 0], xy[:, 1]
+    lon2, lat2 = np.roll(lon1, -1), np.roll(lat1, -1)
+    dlon = wrap180(lon2 - lon1)
+    pole1, pole2 = np.abs(lat1) == 90.0, np.abs(lat2) == 90.0
+    # a geodesic to a pole is the meridian of the other end; along the pole: as written
+    into_pole = (pole1 != pole2) & (dlon != 0.0) if edges == "rhumb" else np.zeros_like(pole1)
+    half_turn = ~pole1 & ~pole2 & (dlon == -180.0)
+    bad = np.flatnonzero(into_pole | half_turn)
+    if not len(bad):
+        return
+    i = int(bad[0])
+    j = (i + 1) % len(xy)
+    edge = f"edge from vertex {nums[i]} to vertex {nums[j]}"
+    shown = Text(f"{_pos(lon1[i], lat1[i])} to {_pos(lon2[i], lat2[i])}")
+    if into_pole[i]:
+        raise InputError(
+            file,
+            _join(where, edge),
+            shown,
+            "a rhumb edge that reaches a pole along a meridian (a rhumb line "
+            "spirals into a pole): write the pole as two vertices at 90° with "
+            "the longitudes of its neighbours, or use geodesic edges",
+        )
+    why = (
+        "a geodesic between such points runs over a pole"
+        if edges == "geodesic"
+        else "a rhumb line could go either way round"
+    )
+    raise InputError(
+        file,
+        _join(where, edge),
+        shown,
+        f"an edge changing longitude by less than 180° ({edges} edges take the "
+        f"shorter way and here there is none; {why}): add a vertex between them",
+    )
 
 
 def _crossings(xy: np.ndarray) -> list[tuple[float, float]]:
@@ -151,7 +172,7 @@ def _crossings(xy: np.ndarray) -> list[tuple[float, float]]:
 
 def check_simple(pr: PlaneRing, file: str, where: str, nums: Sequence[int]) -> None:
     """Refuse a ring that crosses or touches itself in the plane, naming where and which edges."""
-    turns = abs(round(float(np.sum(pr.curves.lon2 - pr.curves.lon1)) / 360.0))
+    turns = abs(round(float(np.sum(pr.edges.lon2 - pr.edges.lon1)) / 360.0))
     if turns > 1:
         raise InputError(
             file,
@@ -213,10 +234,13 @@ def check_holes(
 ) -> tuple[Ring, ...]:
     """Refuse holes outside their exterior or overlapping; return the holes, moved if needed.
 
-    Holes may share edges or points with the exterior and with each other.
+    Holes may share edges or points with the exterior and with each other. The
+    holes are returned as given (the same tuple) when none is moved.
     """
+    if not poly.holes:
+        return poly.holes
     shell = _plane_polygon(planes[0])
-    shell_turns = shapely.union_all([_plane_polygon(planes[0], k) for k in range(-2, 3)])
+    shapely.prepare(shell)
     moved: list[Ring] = []
     placed: list[shapely.Polygon] = []
     for hi, (hole, pr) in enumerate(zip(poly.holes, planes[1:], strict=True)):
@@ -230,44 +254,71 @@ def check_holes(
                 "as one ring (along one parallel, up a meridian, back along the other, "
                 "down the same meridian)",
             )
-        turn, hole_poly = None, _plane_polygon(pr)
-        for k in (0, -1, 1, -2, 2):
-            shifted = _plane_polygon(pr, k)
-            if shapely.intersects(shell, shifted) and _sliver(
-                shapely.difference(shifted, shell), shifted
-            ):
-                turn, hole_poly = k, shifted
-                break
+        turn, hole_poly = _turn_inside(shell, pr)
         if turn is None:
-            outside = shapely.difference(hole_poly, shell_turns)
-            if _sliver(outside, hole_poly):
-                raise InputError(
-                    file,
-                    here,
-                    Text(
-                        f"crosses longitude {format_lon(float(planes[0].xy[0, 0]))} where "
-                        "the exterior ring round the pole starts"
-                    ),
-                    "a hole not crossing the start of its exterior ring: start the "
-                    "exterior ring at another vertex",
-                )
-            p = shapely.get_coordinates(shapely.point_on_surface(outside))[0]
+            _refuse_outside(planes[0], hole_poly, file, here)
+        _refuse_overlap(hole_poly, placed, file, here)
+        placed.append(hole_poly)
+        moved.append(hole if turn == 0 else tuple((lon + 360.0 * turn, lat) for lon, lat in hole))
+    return poly.holes if all(m is h for m, h in zip(moved, poly.holes, strict=True)) \
+        else tuple(moved)
+
+
+def _turn_inside(shell: shapely.Polygon,
+                 pr: PlaneRing) -> tuple[int | None, shapely.Polygon]:
+    """The turn (0, -1, 1, -2, 2) that puts a hole inside the shell, and the hole moved there."""
+    for k in (0, -1, 1, -2, 2):
+        shifted = _plane_polygon(pr, k)
+        if shapely.covers(shell, shifted) or (
+            shapely.intersects(shell, shifted)
+            and _sliver(shapely.difference(shifted, shell), shifted)
+        ):
+            return k, shifted
+    return None, _plane_polygon(pr)
+
+
+def _refuse_outside(shell: PlaneRing, hole_poly: shapely.Polygon, file: str, here: str) -> None:
+    """Refuse a hole lying outside its exterior at every turn, saying where."""
+    shell_turns = shapely.union_all([_plane_polygon(shell, k) for k in range(-2, 3)])
+    outside = shapely.difference(hole_poly, shell_turns)
+    if _sliver(outside, hole_poly):
+        raise InputError(
+            file,
+            here,
+            Text(
+                f"crosses longitude {format_lon(float(shell.xy[0, 0]))} where "
+                "the exterior ring round the pole starts"
+            ),
+            "a hole not crossing the start of its exterior ring: start the "
+            "exterior ring at another vertex",
+        )
+    p = shapely.get_coordinates(shapely.point_on_surface(outside))[0]
+    raise InputError(
+        file,
+        here,
+        Text(f"reaches outside its exterior, e.g. at {_pos(p[0], p[1])}"),
+        "a hole that lies inside the exterior ring (ring 1) of its polygon",
+    )
+
+
+def _refuse_overlap(hole_poly: shapely.Polygon, placed: Sequence[shapely.Polygon], file: str,
+                    here: str) -> None:
+    """Refuse a hole overlapping one placed before it (only those whose boxes meet are tried)."""
+    if not placed:
+        return
+    x0, y0, x1, y1 = shapely.bounds(hole_poly)
+    b = shapely.bounds(np.asarray(placed, dtype=object))
+    near = (b[:, 0] <= x1) & (b[:, 2] >= x0) & (b[:, 1] <= y1) & (b[:, 3] >= y0)
+    for hj in np.flatnonzero(near).tolist():
+        other = placed[hj]
+        if not shapely.intersects(hole_poly, other):
+            continue
+        common = shapely.intersection(hole_poly, other)
+        if not _sliver(common, hole_poly):
+            p = shapely.get_coordinates(shapely.point_on_surface(common))[0]
             raise InputError(
                 file,
                 here,
-                Text(f"reaches outside its exterior, e.g. at {_pos(p[0], p[1])}"),
-                "a hole that lies inside the exterior ring (ring 1) of its polygon",
+                Text(f"overlaps hole {hj + 1} at {_pos(p[0], p[1])}"),
+                "holes that do not overlap each other",
             )
-        for hj, other in enumerate(placed):
-            common = shapely.intersection(hole_poly, other)
-            if not _sliver(common, hole_poly):
-                p = shapely.get_coordinates(shapely.point_on_surface(common))[0]
-                raise InputError(
-                    file,
-                    here,
-                    Text(f"overlaps hole {hj + 1} at {_pos(p[0], p[1])}"),
-                    "holes that do not overlap each other",
-                )
-        placed.append(hole_poly)
-        moved.append(tuple((lon + 360.0 * turn, lat) for lon, lat in hole))
-    return tuple(moved)

@@ -25,55 +25,92 @@ Every refusal is one :class:`InputError` naming the file, the place
 
 from __future__ import annotations
 
+import gc
 import json
 import math
 import re
-from collections.abc import Sequence
+from collections.abc import Iterator, Sequence
+from contextlib import contextmanager
 from datetime import date
 from numbers import Real
 from pathlib import Path
 
-from geo.area import EDGE_KINDS, Area, Polygon, Ring
+import numpy as np
+from numpy.typing import NDArray
+
+from geo.area import EDGE_KINDS, Area, Polygon
 from geo.area_checks import Text, check_area
+from geo.area_rings import read_ring
 from geo.errors import InputError
+from geo.progress import Progress, Throttle
 
 SUFFIXES = (".geojson", ".json")
 _DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
 _LIMIT = "a number of % m/m sulphur from 0 to 100, such as 0.10"
 
 
-def load_areas(paths: Sequence[str | Path]) -> list[Area]:
-    """All areas in the given files and folders, in file order then feature order."""
-    areas: list[Area] = []
-    seen: dict[str, str] = {}
-    for path in _files(paths):
-        for i, feature in enumerate(_features(path), start=1):
-            areas.append(_area(path, i, feature, seen))
-    return areas
+def load_areas(paths: Sequence[str | Path], *, progress: Progress | None = None) -> list[Area]:
+    """All areas in the given files and folders, in file order then feature order.
+
+    ``progress``, if given, is called with a short text (``"reading areas
+    3/12"``) at most a few times a second.
+    """
+    return _load(paths, progress, None)
 
 
 NO_LIMIT_PCT = 100.0
 """The 'limit' of a caution zone: none (caution zones restrict when to change over)."""
 
 
-def load_caution_zones(paths: Sequence[str | Path]) -> list[Area]:
+def load_caution_zones(paths: Sequence[str | Path], *,
+                       progress: Progress | None = None) -> list[Area]:
     """Caution zones (confined or congested waters, traffic lanes, pilotage areas).
 
     The same GeoJSON and checks as areas; only ``name`` is required. A zone is
     returned as an :class:`Area` with no limit (:data:`NO_LIMIT_PCT`), in
-    force from ``effective_from`` if given, else always.
+    force from ``effective_from`` if given, else always. ``progress`` as for
+    :func:`load_areas`.
     """
-    zones: list[Area] = []
+    defaults = {"sulphur_limit_pct": NO_LIMIT_PCT, "effective_from": "1900-01-01"}
+    return _load(paths, progress, defaults)
+
+
+def _load(paths: Sequence[str | Path], progress: Progress | None,
+          defaults: dict | None) -> list[Area]:
+    """Read every feature of every file; ``defaults`` fill missing properties."""
+    say = Throttle(progress)
+    areas: list[Area] = []
     seen: dict[str, str] = {}
-    for path in _files(paths):
-        for i, feature in enumerate(_features(path), start=1):
-            if isinstance(feature, dict) and isinstance(feature.get("properties"), dict):
-                props = dict(feature["properties"])
-                props.setdefault("sulphur_limit_pct", NO_LIMIT_PCT)
-                props.setdefault("effective_from", "1900-01-01")
-                feature = {**feature, "properties": props}
-            zones.append(_area(path, i, feature, seen))
-    return zones
+    files = _files(paths)
+    with _gc_paused():
+        for n, path in enumerate(files, start=1):
+            head = f"reading areas {n}/{len(files)}"
+            say(lambda head=head: head)
+            features = _features(path)
+            m = len(features)
+            for i, feature in enumerate(features, start=1):
+                say(lambda head=head, i=i, m=m: f"{head}, feature {i}/{m}")
+                if defaults and isinstance(feature, dict) and isinstance(
+                        feature.get("properties"), dict):
+                    feature = {**feature, "properties": {**defaults, **feature["properties"]}}
+                areas.append(_area(path, i, feature, seen))
+    return areas
+
+
+@contextmanager
+def _gc_paused() -> Iterator[None]:
+    """Hold the cyclic garbage collector while reading.
+
+    Parsed JSON holds no reference cycles, yet the collector's passes over the
+    millions of new lists of a big file took most of the reading time.
+    """
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if was_enabled:
+            gc.enable()
 
 
 def _files(paths: Sequence[str | Path]) -> list[Path]:
@@ -203,7 +240,7 @@ def _area(path: Path, i: int, feature: object, seen: dict[str, str]) -> Area:
     if not isinstance(source, str):
         raise InputError(path, f"{place}, property source", source, "text")
 
-    polygons, numbers = _geometry(path, place, feature.get("geometry"))
+    polygons, numbers, arrays = _geometry(path, place, feature.get("geometry"))
     area = Area(
         name=name,
         sulphur_limit_pct=float(limit),
@@ -214,7 +251,8 @@ def _area(path: Path, i: int, feature: object, seen: dict[str, str]) -> Area:
         source=source,
         file=str(path),
     )
-    return check_area(area, file=str(path), place=place, vertex_numbers=numbers)
+    return check_area(area, file=str(path), place=place, vertex_numbers=numbers,
+                      vertex_xy=arrays)
 
 
 def _date(path: Path, place: str, props: dict, key: str, *, required: bool) -> date | None:
@@ -231,9 +269,13 @@ def _date(path: Path, place: str, props: dict, key: str, *, required: bool) -> d
     )
 
 
-def _geometry(path: Path, place: str,
-              geom: object) -> tuple[tuple[Polygon, ...], dict[tuple[int, int], list[int]]]:
-    """Polygons of a Polygon or MultiPolygon, and the file's vertex numbers per stored vertex."""
+Numbers = dict[tuple[int, int], NDArray[np.int64]]
+"""The file's vertex numbers (1-based) of each stored vertex, per (polygon, ring)."""
+
+
+def _geometry(path: Path, place: str, geom: object
+              ) -> tuple[tuple[Polygon, ...], Numbers, dict[tuple[int, int], NDArray]]:
+    """Polygons of a Polygon or MultiPolygon, vertex numbers and (n, 2) arrays per ring."""
     kind = geom.get("type") if isinstance(geom, dict) else None
     coords = geom.get("coordinates") if isinstance(geom, dict) else None
     if kind not in ("Polygon", "MultiPolygon"):
@@ -250,69 +292,17 @@ def _geometry(path: Path, place: str,
             path, f"{place}, geometry coordinates", Text("none"), f"the coordinates of a {kind}"
         )
     polygons: list[Polygon] = []
-    numbers: dict[tuple[int, int], list[int]] = {}
+    numbers: Numbers = {}
+    arrays: dict[tuple[int, int], NDArray] = {}
     for pi, rings in enumerate(coords):
         where = f"{place}, polygon {pi + 1}"
         if not isinstance(rings, list) or not rings:
             raise InputError(path, where, Text("no rings"), "an exterior ring, then any holes")
         parsed = []
         for ri, ring in enumerate(rings):
-            vertices, nums = _ring(path, f"{where}, ring {ri + 1}", ring)
+            vertices, nums, xy = read_ring(path, f"{where}, ring {ri + 1}", ring)
             parsed.append(vertices)
             numbers[(pi, ri)] = nums
+            arrays[(pi, ri)] = xy
         polygons.append(Polygon(parsed[0], tuple(parsed[1:])))
-    return tuple(polygons), numbers
-
-
-def _ring(path: Path, where: str, ring: object) -> tuple[Ring, list[int]]:
-    """An open ring of (lon, lat) from a closed GeoJSON ring, and each vertex's number (1-based)."""
-    if not isinstance(ring, list):
-        raise InputError(path, where, Text(type(ring).__name__), "a list of [lon, lat] positions")
-    points = [_position(path, f"{where}, vertex {k}", p) for k, p in enumerate(ring, start=1)]
-    if len(points) < 4 or points[0] != points[-1]:
-        shown = Text(
-            f"{len(points)} positions"
-            if len(points) < 4
-            else f"first {list(points[0])}, last {list(points[-1])}"
-        )
-        raise InputError(
-            path, where, shown, "a closed ring: at least 4 positions, the last equal to the first"
-        )
-    vertices: list[tuple[float, float]] = []
-    nums: list[int] = []
-    for k, p in enumerate(points[:-1], start=1):
-        if not vertices or p != vertices[-1]:
-            vertices.append(p)
-            nums.append(k)
-    while len(vertices) > 1 and vertices[-1] == vertices[0]:
-        vertices.pop()
-        nums.pop()
-    if len(set(vertices)) < 3:
-        raise InputError(
-            path,
-            where,
-            Text(f"{len(set(vertices))} distinct vertices"),
-            "a ring of at least 3 distinct vertices",
-        )
-    return tuple(vertices), nums
-
-
-def _position(path: Path, where: str, p: object) -> tuple[float, float]:
-    ok = (
-        isinstance(p, list)
-        and len(p) >= 2
-        and all(isinstance(v, Real) and not isinstance(v, bool) and math.isfinite(v) for v in p[:2])
-    )
-    if not ok:
-        raise InputError(path, where, Text(json.dumps(p)), "a position [lon, lat] of two numbers")
-    lon, lat = float(p[0]), float(p[1])
-    if abs(lat) > 90.0:
-        raise InputError(path, where, Text(json.dumps(p)), "a latitude within ±90° (second number)")
-    if abs(lon) > 540.0:
-        raise InputError(
-            path,
-            where,
-            Text(json.dumps(p)),
-            "a longitude within ±540° (first number; at most one turn past ±180)",
-        )
-    return lon, lat
+    return tuple(polygons), numbers, arrays

@@ -12,6 +12,7 @@ the place the ship is then; without one, everything is judged on one date
 
 from __future__ import annotations
 
+from bisect import bisect_right
 from collections.abc import Sequence
 from dataclasses import dataclass
 from datetime import date, datetime
@@ -19,11 +20,12 @@ from datetime import date, datetime
 import numpy as np
 
 from geo.area import Area
-from geo.crossings import AreaTrack, Crossing, track_area
+from geo.crossings import AreaTrack, Crossing, route_chords, track_area
 from geo.ellipsoid import NM_M
 from geo.limits import global_cap_changes_utc, global_cap_pct
 from geo.path import RoutePath
 from geo.plane import AreaShape, area_shape
+from geo.progress import Progress, Throttle
 from geo.schedule import Schedule, from_epoch, to_epoch
 
 
@@ -101,11 +103,11 @@ class RouteCheck:
         return _limit_at(self.stretches, distance_m)
 
 
-def _limit_at(stretches: Sequence[Stretch], distance_m: float) -> float:
-    for st in stretches:
-        if distance_m < st.to_m:
-            return st.limit_pct
-    return stretches[-1].limit_pct
+def _limit_at(stretches: Sequence[Stretch], distance_m: float,
+              ends_m: Sequence[float] | None = None) -> float:
+    """The limit of the first stretch ending after ``distance_m`` (``ends_m``: their ends)."""
+    ends_m = [st.to_m for st in stretches] if ends_m is None else ends_m
+    return stretches[min(bisect_right(ends_m, distance_m), len(stretches) - 1)].limit_pct
 
 
 def _inside_at(track: AreaTrack, d: np.ndarray) -> np.ndarray:
@@ -123,7 +125,8 @@ def _regime_moments(areas: list[Area]) -> list[datetime]:
 
 
 def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, on: date,
-                shapes: list[AreaShape] | None = None) -> RouteCheck:
+                shapes: list[AreaShape] | None = None, *,
+                progress: Progress | None = None) -> RouteCheck:
     """Crossings with their times, the limit on every stretch, and time inside each area.
 
     Parameters
@@ -138,7 +141,11 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
         UTC calendar day used when there is no schedule (an area is in force
         if it is in force at any time that day; the global cap of that day).
     shapes : list of AreaShape, optional
-        The areas' plane geometry when already built (one per area, same order).
+        The areas' plane geometry when already built (one per area, same order;
+        by default :func:`geo.plane.area_shape` of each area).
+    progress : callable, optional
+        Called with a short text (``"crossings: area 2 of 5"``) at most a few
+        times a second.
 
     Returns
     -------
@@ -171,8 +178,37 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
     >>> [(round(st.from_nm, 6), st.limit_pct) for st in check.stretches]
     [(0.0, 3.5), (120.0, 0.5)]
     """
-    shapes = shapes if shapes is not None else [area_shape(a) for a in areas]
-    tracks = [track_area(path, s) for s in shapes]
+    say = Throttle(progress)
+    route = route_chords(path)  # the route is sampled once, for every area
+    tracks = []
+    for k, area in enumerate(areas):
+        say(lambda k=k: f"crossings: area {k + 1} of {len(areas)}")
+        shape = shapes[k] if shapes is not None else area_shape(area)
+        tracks.append(track_area(path, shape, route))
+    stretches = _stretches(path, areas, tracks, schedule, on)
+    timed = []
+    ends = [st.to_m for st in stretches]
+    for t in tracks:
+        for c in t.events:
+            when = schedule.time_at(c.distance_m) if schedule is not None else None
+            live = t.area.in_force_at(when) if when else t.area.in_force_on(on)
+            after = c.distance_m + 1e-3
+            timed.append(TimedCrossing(c, when, live, _limit_at(stretches, after, ends)))
+    timed.sort(key=lambda x: (x.crossing.distance_m, x.crossing.event != "exit"))
+    passages = []
+    for t in tracks:
+        hours = None
+        if schedule is not None:
+            hours = sum(schedule.hours_between(a, b) for a, b, s in t.intervals() if s)
+        passages.append(AreaPassage(t.area, t.inside_m / NM_M, hours))
+    return RouteCheck(path, schedule, on, tuple(tracks), tuple(timed), tuple(stretches),
+                      tuple(passages))
+
+
+def _stretches(path: RoutePath, areas: list[Area], tracks: list[AreaTrack],
+               schedule: Schedule | None, on: date) -> list[Stretch]:
+    """The stretches between every break (meeting points, moments in force), each judged at
+    its midpoint, neighbours under the same limit and areas merged."""
     breaks = [0.0, path.length_m]
     for t in tracks:
         breaks.extend(t.breaks_m.tolist())
@@ -211,19 +247,4 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
     if schedule is not None:
         stretches = [Stretch(s.from_m, s.to_m, s.limit_pct, s.areas, schedule.time_at(s.from_m),
                              schedule.time_at(s.to_m)) for s in stretches]
-    timed = []
-    for t in tracks:
-        for c in t.events:
-            when = schedule.time_at(c.distance_m) if schedule is not None else None
-            live = t.area.in_force_at(when) if when else t.area.in_force_on(on)
-            after = c.distance_m + 1e-3
-            timed.append(TimedCrossing(c, when, live, _limit_at(stretches, after)))
-    timed.sort(key=lambda x: (x.crossing.distance_m, x.crossing.event != "exit"))
-    passages = []
-    for t in tracks:
-        hours = None
-        if schedule is not None:
-            hours = sum(schedule.hours_between(a, b) for a, b, s in t.intervals() if s)
-        passages.append(AreaPassage(t.area, t.inside_m / NM_M, hours))
-    return RouteCheck(path, schedule, on, tuple(tracks), tuple(timed), tuple(stretches),
-                      tuple(passages))
+    return stretches

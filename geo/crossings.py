@@ -4,11 +4,12 @@ Method (per area):
 
 1. *Search*: the legs and every area edge are sampled every
    :data:`SEARCH_STEP_M` in the unwrapped lon/lat plane (area copies shifted
-   by multiples of 360° where the route needs them); an STR-tree
-   [STR-1997] (``shapely.STRtree``) over the edge chords gives each leg
-   chord the edge chords within
-   :data:`SEARCH_PAD_DEG` (chords deviate from their curves by well under
-   a metre, so no meeting is missed).
+   by multiples of 360° where the route needs them); :mod:`geo.search`
+   (an STR-tree [STR-1997] over runs of chords, then exact plane distances)
+   gives each leg chord the edge chords within :data:`SEARCH_PAD_DEG`
+   (chords deviate from their curves by well under a metre, so no meeting
+   is missed). The route is sampled once for all areas
+   (:func:`route_chords`), each area once (kept with its shape).
 2. *Solve*: each candidate pair is solved on the true curves
    (:func:`geo.roots.intersect`) to :data:`geo.roots.TOL_M`.
 3. *Classify*: meeting points closer than :data:`MERGE_M` along the route are
@@ -31,14 +32,14 @@ import numpy as np
 import shapely
 from numpy.typing import NDArray
 
-from geo import rhumb, roots
+from geo import rhumb, roots, search
 from geo.area import Area
-from geo.curves import concat
 from geo.ellipsoid import NM_M
 from geo.path import RoutePath
 from geo.plane import AreaShape
+from geo.search import Chords
 
-SEARCH_STEP_M = 1000.0
+SEARCH_STEP_M = search.STEP_M
 """Sampling step of the search [m]."""
 SEARCH_PAD_DEG = 1e-4
 """Chords this close in the plane are candidate pairs [deg] (about 10 m)."""
@@ -99,15 +100,6 @@ class AreaTrack:
         return sum(b - a for a, b, s in self.intervals() if s)
 
 
-def _chords(lat: NDArray, lon: NDArray,
-            idx: NDArray) -> tuple[NDArray[np.int64], NDArray[np.float64]]:
-    """Indices of chord starts (consecutive samples of one curve) and their coordinates."""
-    j = np.nonzero(idx[:-1] == idx[1:])[0]
-    xy = np.stack([np.column_stack([lon[j], lat[j]]), np.column_stack([lon[j + 1], lat[j + 1]])],
-                  axis=1)
-    return j, xy
-
-
 def _chord_params(p: NDArray, q: NDArray) -> tuple[NDArray, NDArray]:
     """Where chords p[:,0]->p[:,1] and q[:,0]->q[:,1] cross (fractions, clamped to 0..1)."""
     dp = p[:, 1] - p[:, 0]
@@ -122,7 +114,25 @@ def _chord_params(p: NDArray, q: NDArray) -> tuple[NDArray, NDArray]:
     return a, b
 
 
-def meeting_points(path: RoutePath, shape: AreaShape) -> tuple[NDArray, NDArray]:
+def route_chords(path: RoutePath) -> Chords:
+    """The route's search chords, to share between areas.
+
+    Parameters
+    ----------
+    path : RoutePath
+        The route's legs.
+
+    Returns
+    -------
+    Chords
+        The legs sampled every :data:`SEARCH_STEP_M` (:func:`geo.search.chords`);
+        pass them to :func:`meeting_points` or :func:`track_area` for each area.
+    """
+    return search.chords(path.curves, SEARCH_STEP_M)
+
+
+def meeting_points(path: RoutePath, shape: AreaShape,
+                   route: Chords | None = None) -> tuple[NDArray, NDArray]:
     """Every point where the route meets the area's boundary, solved on the true curves.
 
     Parameters
@@ -131,6 +141,8 @@ def meeting_points(path: RoutePath, shape: AreaShape) -> tuple[NDArray, NDArray]
         The route's legs.
     shape : AreaShape
         The area's rings (their edges are the curves met).
+    route : Chords, optional
+        The route's search chords (:func:`route_chords`), when already built.
 
     Returns
     -------
@@ -142,40 +154,40 @@ def meeting_points(path: RoutePath, shape: AreaShape) -> tuple[NDArray, NDArray]
 
     Notes
     -----
-    Search on chords every :data:`SEARCH_STEP_M` with an STR-tree [STR-1997],
-    then :func:`geo.roots.intersect` on the true curves: each point, on the
-    leg, is within 1 µm (:data:`geo.roots.TOL_M`) of the edge on the
-    ellipsoid. Chords deviate from their curves by well under a metre
-    (L²/8R, common practice), far inside :data:`SEARCH_PAD_DEG`, so no meeting
-    is missed.
+    Search on chords every :data:`SEARCH_STEP_M` (:mod:`geo.search`, an
+    STR-tree [STR-1997] over runs of chords), then :func:`geo.roots.intersect`
+    on the true curves: each point, on the leg, is within 1 µm
+    (:data:`geo.roots.TOL_M`) of the edge on the ellipsoid. Chords deviate
+    from their curves by well under a metre (L²/8R, common practice), far
+    inside :data:`SEARCH_PAD_DEG`, so no meeting is missed.
     """
-    lat_r, lon_r, leg_r, s_r, _ = path.curves.sample(SEARCH_STEP_M)
-    jr, xy_r = _chords(lat_r, lon_r, leg_r)
-    edges = concat([r.curves for r in shape.rings])
-    lat_e, lon_e, edge_e, t_e, _ = edges.sample(SEARCH_STEP_M)
-    je, xy_e = _chords(lat_e, lon_e, edge_e)
-    rmin, rmax = float(lon_r.min()), float(lon_r.max())
-    emin, emax = float(lon_e.min()), float(lon_e.max())
-    shifts = [k for k in range(int(np.floor((rmin - emax) / 360.0)) - 1,
-                               int(np.ceil((rmax - emin) / 360.0)) + 2)
-              if emin + 360.0 * k <= rmax + 1.0 and emax + 360.0 * k >= rmin - 1.0]
-    if not shifts or len(je) == 0:
+    route = route if route is not None else route_chords(path)
+    area = shape.search_chords
+    if len(area) == 0 or len(route) == 0:
         return np.zeros(0, np.int64), np.zeros(0)
-    xy_all = np.concatenate([xy_e + np.array([360.0 * k, 0.0]) for k in shifts])
-    je_all = np.tile(je, len(shifts))
-    tree = shapely.STRtree(shapely.linestrings(xy_all))
-    ir, ie = tree.query(shapely.linestrings(xy_r), predicate="dwithin", distance=SEARCH_PAD_DEG)
+    rmin, rmax = route.lon_range()
+    emin, emax = area.lon_range()
+    shifts = [360.0 * k for k in range(int(np.floor((rmin - emax) / 360.0)) - 1,
+                                       int(np.ceil((rmax - emin) / 360.0)) + 2)
+              if emin + 360.0 * k <= rmax + 1.0 and emax + 360.0 * k >= rmin - 1.0]
+    ir, ie, shift = search.close_pairs(route, area, SEARCH_PAD_DEG, shifts)
     if len(ir) == 0:
         return np.zeros(0, np.int64), np.zeros(0)
-    a, b = _chord_params(xy_r[ir], xy_all[ie])
-    r0, e0 = jr[ir], je_all[ie]
-    leg = leg_r[r0]
-    edge = edge_e[e0]
-    s0 = s_r[r0] + a * (s_r[r0 + 1] - s_r[r0])
-    t0 = t_e[e0] + b * (t_e[e0 + 1] - t_e[e0])
-    s, t, ok = roots.intersect(path.curves, leg, s0, edges, edge, t0)
+    q = area.xy(ie)
+    q[:, :, 0] += shift[:, None]
+    a, b = _chord_params(route.xy(ir), q)
+    jr, je = route.start[ir], area.start[ie]
+    leg = route.curve[jr]
+    # exact curves of the edges met only (short edges have none until needed)
+    met, edge = np.unique(area.curve[je], return_inverse=True)
+    edges = shape.edges.subset_curves(met)
     leg_len = path.curves.length_m[leg]
     edge_len = edges.length_m[edge]
+    s_lo, s_hi = leg_len * route.frac[jr], leg_len * route.frac[jr + 1]
+    t_lo, t_hi = edge_len * area.frac[je], edge_len * area.frac[je + 1]
+    s0 = s_lo + a * (s_hi - s_lo)
+    t0 = t_lo + b * (t_hi - t_lo)
+    s, t, ok = roots.intersect(path.curves, leg, s0, edges, edge, t0)
     ok &= (s >= -_PARAM_SLACK_M) & (s <= leg_len + _PARAM_SLACK_M)
     ok &= (t >= -_PARAM_SLACK_M) & (t <= edge_len + _PARAM_SLACK_M)
     return leg[ok], np.clip(s[ok], 0.0, leg_len[ok])
@@ -187,8 +199,7 @@ def _interval_states(shape: AreaShape, lat: NDArray,
     lat = np.atleast_1d(np.asarray(lat, dtype=np.float64))
     lon = np.atleast_1d(np.asarray(lon, dtype=np.float64))
     inside = shape.contains(lat, lon)
-    boundary = shapely.boundary(shape.union)
-    shapely.prepare(boundary)
+    boundary = shape.boundary
     # only over the area's own span is the united boundary the true one: the outermost
     # copies (a turn either side) keep the seams of polygons split at 180° as edges
     lo, hi = shape.lon_min + 360.0, shape.lon_max - 360.0
@@ -228,7 +239,7 @@ def _settle_boundary_runs(inside: NDArray[np.bool_], on_edge: NDArray[np.bool_],
     return inside
 
 
-def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
+def track_area(path: RoutePath, shape: AreaShape, route: Chords | None = None) -> AreaTrack:
     """Meeting points, interval states and enter/exit events of one area along a route.
 
     Parameters
@@ -237,6 +248,8 @@ def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
         The route's legs.
     shape : AreaShape
         The area (:func:`geo.plane.area_shape`).
+    route : Chords, optional
+        The route's search chords (:func:`route_chords`), shared between areas.
 
     Returns
     -------
@@ -272,7 +285,7 @@ def track_area(path: RoutePath, shape: AreaShape) -> AreaTrack:
     >>> [(e.event, round(e.distance_m, 3), round(e.lon, 9)) for e in tr.events]
     [('enter', 554493.531, 0.0), ('exit', 1663480.593, 10.0)]
     """
-    leg, s = meeting_points(path, shape)
+    leg, s = meeting_points(path, shape, route)
     d = path.start_m[leg] + s
     order = np.argsort(d, kind="stable")
     d, leg, s = d[order], leg[order], s[order]

@@ -27,6 +27,8 @@ from geo import rhumb
 from geo.ellipsoid import GEOD
 
 GEODESIC, RHUMB, LONLAT = 0, 1, 2
+_CHUNK = 1 << 16
+"""Samples evaluated at once [-]."""
 KIND_CODES = {"geodesic": GEODESIC, "great_circle": GEODESIC, "rhumb": RHUMB, "lonlat": LONLAT}
 
 
@@ -147,6 +149,23 @@ class Curves:
         idx = np.asarray(idx)
         t = np.asarray(t_m, dtype=np.float64)
         idx, t = np.broadcast_arrays(idx, t)
+        shape = t.shape
+        idx, t = idx.ravel(), t.ravel()
+        lat1, lon1 = self.lat1[idx], self.lon1[idx]
+        length = self.length_m[idx]
+        # the end points are the vertices as written, never recomputed (t = 0 wins on a
+        # curve of zero length); only the points between are evaluated
+        at_start = t == 0.0
+        at_end = (t == length) & ~at_start
+        lat = np.where(at_start, lat1, np.where(at_end, self.lat2[idx], 0.0))
+        lon = np.where(at_start, lon1, np.where(at_end, self.lon2[idx], 0.0))
+        inner = np.flatnonzero(~(at_start | at_end))
+        if len(inner):
+            lat[inner], lon[inner] = self._between(idx[inner], t[inner])
+        return lat.reshape(shape), lon.reshape(shape)
+
+    def _between(self, idx: NDArray, t: NDArray) -> tuple[NDArray, NDArray]:
+        """Points at parameters strictly inside the curves (1-d arrays)."""
         kind = self.kind[idx]
         lat1, lon1 = self.lat1[idx], self.lon1[idx]
         lat2, lon2 = self.lat2[idx], self.lon2[idx]
@@ -156,24 +175,16 @@ class Curves:
         ref = lon1 + frac * (lon2 - lon1)
         lat = lat1 + frac * (lat2 - lat1)
         lon = ref.copy()
-        g = kind == GEODESIC
-        if np.any(g):
-            lon_g, lat_g, _ = GEOD.fwd(lon1[g], lat1[g], self.azi_deg[idx][g], t[g])
+        g = np.nonzero(kind == GEODESIC)[0]
+        if len(g):
+            lon_g, lat_g, _ = GEOD.fwd(lon1[g], lat1[g], self.azi_deg[idx[g]], t[g])
             lat[g] = lat_g
             lon[g] = unwrap_near(lon_g, ref[g])
-        r = kind == RHUMB
-        if np.any(r):
-            lat_r, lon_r = rhumb.direct(lat1[r], lon1[r], self.azi_deg[idx][r], t[r])
-            lat[r] = lat_r
-            lon[r] = lon_r
-        # a meridian keeps its longitude exactly (seams of split areas must match),
-        # and the end points are the vertices as written, not recomputed
-        lon = np.where(lon1 == lon2, lon1, lon)
-        at_end = t == length
-        at_start = t == 0.0
-        lat = np.where(at_start, lat1, np.where(at_end, lat2, lat))
-        lon = np.where(at_start, lon1, np.where(at_end, lon2, lon))
-        return lat, lon
+        r = np.nonzero(kind == RHUMB)[0]
+        if len(r):
+            lat[r], lon[r] = rhumb.direct(lat1[r], lon1[r], self.azi_deg[idx[r]], t[r])
+        # a meridian keeps its longitude exactly (seams of split areas must match)
+        return lat, np.where(lon1 == lon2, lon1, lon)
 
     def sample(self, max_step_m: float) -> tuple[NDArray, NDArray, NDArray, NDArray, NDArray]:
         """Points along every curve at most ``max_step_m`` apart, ends included.
@@ -194,14 +205,34 @@ class Curves:
         offsets : ndarray of int [-]
             Curve ``i`` owns ``[offsets[i], offsets[i+1])`` of the flat arrays.
         """
+        lat, lon, idx, frac, offsets = self.sample_fractions(max_step_m)
+        return lat, lon, idx, self.length_m[idx] * frac, offsets
+
+    def sample_fractions(self, max_step_m: float
+                         ) -> tuple[NDArray, NDArray, NDArray, NDArray, NDArray]:
+        """As :meth:`sample` (``max_step_m`` [m]), with each sample's ``fraction`` [-] of its
+        curve's length in place of ``t_m``: ``k / n`` for the k-th of n steps, so that
+        ``t_m = length_m * fraction``.
+        """
         n_seg = np.maximum(1, np.ceil(self.length_m / max_step_m).astype(np.int64))
         counts = n_seg + 1
         offsets = np.concatenate([[0], np.cumsum(counts)])
         idx = np.repeat(np.arange(len(self)), counts)
         k = np.arange(offsets[-1]) - offsets[idx]
-        t = self.length_m[idx] * (k / n_seg[idx])
-        lat, lon = self.point(idx, t)
-        return lat, lon, idx, t, offsets
+        frac = k / n_seg[idx]
+        # ends are the vertices (as in point); only the samples between are evaluated
+        first, last = offsets[:-1], offsets[1:] - 1
+        zero = self.length_m == 0.0
+        lat = np.empty(len(frac))
+        lon = np.empty(len(frac))
+        lat[first], lon[first] = self.lat1, self.lon1
+        lat[last] = np.where(zero, self.lat1, self.lat2)
+        lon[last] = np.where(zero, self.lon1, self.lon2)
+        inner = np.flatnonzero((k > 0) & (k < n_seg[idx]))
+        for c in range(0, len(inner), _CHUNK):  # in chunks: the solvers' scratch stays small
+            i = inner[c:c + _CHUNK]
+            lat[i], lon[i] = self.point(idx[i], self.length_m[idx[i]] * frac[i])
+        return lat, lon, idx, frac, offsets
 
 
 def concat(parts: list[Curves]) -> Curves:

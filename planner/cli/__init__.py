@@ -7,40 +7,82 @@ several commands share are declared and checked once, in
 :mod:`planner.cli.options`. Command modules import only typer,
 :mod:`planner.common` and their sibling modules at their top; the computing
 packages, rich, matplotlib and reportlab are imported inside the commands that
-use them, so ``changeover --help`` stays quick. Bad input anywhere surfaces as
-:class:`geo.errors.InputError`: one line on standard error, exit status 2,
-no output written.
+use them. Bad input anywhere surfaces as :class:`geo.errors.InputError`: one
+line on standard error, exit status 2, no output written.
+
+``changeover --help`` (and ``changeover COMMAND --help``) stays quick, and
+``tests/cli/test_help.py`` keeps it so (``tests/bench/bench_cli.py`` times it):
+
+- the PROJ version check, which imports pyproj, runs when a computing command
+  starts (:data:`COMPUTING`, :func:`_check_proj`), never for the help; the
+  ``log`` commands need no PROJ and skip it;
+- the help is typer's plain text (``rich_markup_mode=None``), so neither rich
+  nor its markdown parser is imported to print it; each command's summary in
+  the listings is its docstring's whole first paragraph (:func:`_summary`), as
+  the rich help showed it;
+- the groups' own ``--help`` flag is a plain ``False`` unless given
+  (:data:`_CONTEXT`), so one command's help does not build the group flag's
+  value checker (which imports pydantic in recent typer);
+- typer reads every command's signature on each start; each is evaluated once
+  here (:func:`_registered`) rather than compiled from strings twice by typer.
+
+``changeover`` or ``changeover log`` alone prints the help on standard output
+and exits with status 2 (:func:`_help_when_bare`).
 """
 
 from __future__ import annotations
 
+import functools
+import inspect
 import sys
+from collections.abc import Callable
 
 import typer
 
 from geo.errors import InputError
 from planner.cli import flush, log, plan, procedure, route
 
+COMPUTING: dict[str, Callable[..., None]] = {
+    "flush": flush.flush_cmd,
+    "plan": plan.plan_cmd,
+    "procedure": procedure.procedure_cmd,
+    "route": route.route_cmd,
+    "areas": route.areas_cmd,
+}
+"""The commands that compute, in the order the help lists them; each checks PROJ first."""
+
+_CONTEXT = {"default_map": {"help": False, "log": {"help": False}}}
+"""The groups' ``--help`` is False unless given (see the module's notes)."""
+
 app = typer.Typer(
     name="changeover",
     help="Plan, check and record fuel changeovers for sulphur emission control areas "
     "(MARPOL Annex VI regulation 14). Advisory only: the engine makers' instructions and "
     "the ship's safety management system come first.",
-    no_args_is_help=True,
     add_completion=False,
     pretty_exceptions_enable=False,
+    rich_markup_mode=None,
+    context_settings=_CONTEXT,
 )
 
-app.command("flush")(flush.flush_cmd)
-app.command("plan")(plan.plan_cmd)
-app.command("procedure")(procedure.procedure_cmd)
-app.command("route")(route.route_cmd)
-app.command("areas")(route.areas_cmd)
-app.add_typer(log.log_app, name="log")
+
+@app.callback(invoke_without_command=True)
+def _help_when_bare(ctx: typer.Context) -> None:
+    """``changeover`` or ``changeover log`` alone: the help on standard output, exit 2."""
+    if ctx.invoked_subcommand is None:
+        typer.echo(ctx.get_help())
+        raise typer.Exit(2)
 
 
-def main() -> None:
-    """Console entry point."""
+def _summary(text: str | None) -> str | None:
+    """The first paragraph of a help text on one line: a command's summary in a listing."""
+    if not text:
+        return None
+    return " ".join(inspect.cleandoc(text).split("\n\n")[0].split())
+
+
+def _check_proj() -> None:
+    """Exit 1 with one line on standard error when the PROJ library is too old."""
     from geo.ellipsoid import check_proj
 
     try:
@@ -48,6 +90,37 @@ def main() -> None:
     except RuntimeError as exc:
         sys.stderr.write(f"changeover: {exc}\n")
         sys.exit(1)
+
+
+def _registered(command: Callable[..., None], proj: bool) -> Callable[..., None]:
+    """``command`` as typer registers it: its signature with the annotations evaluated
+    (once, here), and with ``proj`` the PROJ check run before it. The command function
+    itself is left as it is."""
+
+    @functools.wraps(command)
+    def run(*args: object, **kwargs: object) -> None:
+        if proj:
+            _check_proj()
+        command(*args, **kwargs)
+
+    signature = inspect.signature(command, eval_str=True)
+    run.__signature__ = signature  # typer reads this rather than the strings again
+    run.__annotations__ = {name: p.annotation for name, p in signature.parameters.items()
+                           if p.annotation is not p.empty}
+    return run
+
+
+for _name, _command in COMPUTING.items():
+    app.command(_name, short_help=_summary(_command.__doc__))(_registered(_command, proj=True))
+for _info in log.log_app.registered_commands:
+    _info.short_help = _info.short_help or _summary(_info.callback.__doc__)
+    _info.callback = _registered(_info.callback, proj=False)
+log.log_app.callback(invoke_without_command=True)(_help_when_bare)
+app.add_typer(log.log_app, name="log", short_help=_summary(log.log_app.info.help))
+
+
+def main() -> None:
+    """Console entry point."""
     try:
         app()
     except InputError as exc:

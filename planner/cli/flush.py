@@ -1,10 +1,11 @@
 """``changeover flush``: how long until each consumer inlet is under the limit.
 
 Holds the command (:func:`flush_cmd`) and its parts: the checks of its own
-options, the flush study of each circuit, the optional Monte Carlo (with a
-progress bar on a terminal), the JSON document and the charts. The tables it
-prints are in :mod:`planner.cli.flush_print`; the shared options come from
-:mod:`planner.cli.options`.
+options, the flush study of each circuit, the optional Monte Carlo (with a bar
+of its simulations on standard error when that is a terminal and ``--json`` is
+not given: :class:`planner.cli.progress.SimulationsBar`), the JSON document and
+the charts. The tables it prints are in :mod:`planner.cli.flush_print`; the
+shared options come from :mod:`planner.cli.options`.
 """
 
 from __future__ import annotations
@@ -99,7 +100,8 @@ def flush_cmd(
     if any(x is not None for x in (confidence, samples, seed, sensitivity_chart)):
         if confidence is None:
             confidence = voyage.confidence if voyage and voyage.confidence else FLUSH_CONFIDENCE
-        mc = _monte_carlo(ship, system, voyage, studies, sched, confidence, n_samples, n_seed)
+        mc = _monte_carlo(ship, system, voyage, studies, sched, confidence, n_samples, n_seed,
+                          json_out)
     margin_h = check_margin(None, voyage)
     doc = _document(studies, tables if table else None, load, mc, margin_h)
     _draw(system, studies, mc, chart, sensitivity_chart)
@@ -192,9 +194,11 @@ def _draw(system: FuelSystem, studies: list[FlushStudy], mc: list[CircuitUncerta
 
 def _monte_carlo(ship: Path, system: FuelSystem, voyage: Voyage | None,
                  studies: list[FlushStudy], sched: ConsumptionSchedule, confidence: float,
-                 samples: int, seed: int) -> list[CircuitUncertainty]:
-    """The Monte Carlo of every studied circuit (InputError when the system cannot run it)."""
+                 samples: int, seed: int, json_out: bool) -> list[CircuitUncertainty]:
+    """The Monte Carlo of every studied circuit (InputError when the system cannot run it),
+    with a bar of its simulations on a terminal unless ``--json`` is given."""
     from geo.errors import InputError
+    from planner.cli.progress import SimulationsBar
     from planner.flushing import FlushError
     from planner.uncertainty import UncertaintyError, analyse, load_uncertainty
 
@@ -203,7 +207,7 @@ def _monte_carlo(ship: Path, system: FuelSystem, voyage: Voyage | None,
     else:
         spec = load_uncertainty(ship, system)
     out = []
-    with _Progress() as bar:
+    with SimulationsBar(json_out) as bar:
         for st in studies:
             s = st.summary
             bar.circuit = s.circuit
@@ -221,49 +225,6 @@ def _monte_carlo(ship: Path, system: FuelSystem, voyage: Voyage | None,
                 raise InputError(str(ship), f"circuit {s.circuit}", str(e),
                                  "a circuit fed from its two valve tanks only") from None
     return out
-
-
-class _Progress:
-    """A progress bar on standard error for the Monte Carlo's simulations, shown only on a
-    terminal and only once the work has run longer than a moment."""
-
-    DELAY_S = 0.4
-
-    def __init__(self) -> None:
-        import sys
-        import time
-
-        self.circuit = ""
-        self._t0 = time.monotonic()
-        self._tty = sys.stderr.isatty()
-        self._bar = None
-        self._task = None
-
-    def __enter__(self) -> _Progress:
-        return self
-
-    def __call__(self, done: int, total: int) -> None:
-        import time
-
-        if not self._tty:
-            return
-        if self._bar is None:
-            if time.monotonic() - self._t0 < self.DELAY_S:
-                return
-            from rich.progress import Progress
-
-            from planner.cli.console import console
-
-            self._bar = Progress(console=console(stderr=True), transient=True)
-            self._bar.start()
-        if self._task is None or self._bar.tasks[self._task].description != self.circuit:
-            self._task = self._bar.add_task(f"{self.circuit}", total=total)
-        self._bar.update(self._task, completed=done, total=total,
-                         description=f"Monte Carlo {self.circuit}: simulations")
-
-    def __exit__(self, *exc: object) -> None:
-        if self._bar is not None:
-            self._bar.stop()
 
 
 def _has_main_engine(system: FuelSystem, circuit: str) -> bool:

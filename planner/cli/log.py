@@ -44,10 +44,13 @@ if TYPE_CHECKING:
     from planner.journal.store import Make
 
 log_app = typer.Typer(
-    name="log", no_args_is_help=True,
+    name="log",
     help="The ship's changeover journal: record each changeover (the regulation 14.6 items), "
          "tank soundings, samples and notes; list, verify, export and print it. Entries are "
          "never changed: a correction is a new entry that points at the one it corrects.")
+"""The ``log`` group; :mod:`planner.cli` adds its help when given no command, and the
+summaries its help lists."""
+
 
 def _typed(rank: str | None, name: str | None, at: str | None = None, tz: str | None = None,
            pos: str | None = None, area: str | None = None, voyage: str | None = None,

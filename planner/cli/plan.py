@@ -50,7 +50,7 @@ def plan_cmd(
 
     check_confidence(confidence)
     n_samples, n_seed = check_samples(samples, PLAN_SAMPLES), check_seed(seed)
-    plan, doc = _build(voyage, confidence, n_samples, n_seed, status=not json_out)
+    plan, doc = _build(voyage, confidence, n_samples, n_seed, json_out)
     _write(plan, doc, geojson, chart, map_png, pdf)
     if json_out:
         typer.echo(dumps(doc))
@@ -62,21 +62,15 @@ def plan_cmd(
 
 
 def _build(voyage: Path, confidence: float | None, samples: int, seed: int,
-           status: bool) -> tuple[Plan, dict]:
-    """The plan and its document; with ``status``, what is being done is shown on standard
-    error while it runs, when that is a terminal."""
-    import sys
-
+           json_out: bool) -> tuple[Plan, dict]:
+    """The plan and its document; what is being done is shown on standard error while it
+    runs, when that is a terminal and ``--json`` is not given."""
+    from planner.cli.progress import status
     from planner.voyage import run
 
-    if status and sys.stderr.isatty():
-        from planner.cli.console import console
-
-        with console(stderr=True).status("planning") as shown:
-            plan = run.build_plan(voyage, lambda text: shown.update(text))
-            return plan, _document(plan, confidence, samples, seed, shown.update)
-    plan = run.build_plan(voyage)
-    return plan, _document(plan, confidence, samples, seed)
+    with status("planning", json_out) as say:
+        plan = run.build_plan(voyage, say)
+        return plan, _document(plan, confidence, samples, seed, say)
 
 
 def _write(plan: Plan, doc: dict, geojson: Path | None, chart: Path | None,

@@ -2,8 +2,11 @@
 
 Holds both commands and the tables the route check prints. Each computes
 everything first, then prints and writes; rich and matplotlib are imported
-inside the functions, and matplotlib only when a map is asked for. ``--json``,
-``--depart`` and ``--tz`` come from :mod:`planner.cli.options`.
+inside the functions, and matplotlib only when a map is asked for. While they
+read and compute, a status line on standard error says what they are doing
+(:mod:`planner.cli.progress`: on a terminal, without ``--json``), with the
+work's own progress texts where it gives them. ``--json``, ``--depart`` and
+``--tz`` come from :mod:`planner.cli.options`.
 """
 
 from __future__ import annotations
@@ -40,19 +43,24 @@ def route_cmd(
 ) -> None:
     """Where and when the route enters and leaves each area, and the limit on every stretch."""
     from planner.cli.options import ship_zone
+    from planner.cli.progress import progress_kwargs, status
     from planner.common.outputs import dumps, write_json
     from planner.voyage import run
     from planner.voyage.route_report import route_geojson, route_json
 
     zone = ship_zone(tz, depart)
-    check = run.run_route_check(route_file, areas, depart, speed, on)
-    doc = route_json(check, zone)
-    if map_png is not None:
-        from planner.charts.route_map import draw_route_map
+    with status("checking the route", json_out) as say:
+        check = run.run_route_check(route_file, areas, depart, speed, on,
+                                    **progress_kwargs(run.run_route_check, say))
+        doc = route_json(check, zone)
+        if map_png is not None:
+            from planner.charts.route_map import draw_route_map
 
-        draw_route_map(check, map_png)
-    if geojson is not None:
-        write_json(geojson, route_geojson(check))
+            if say:
+                say("drawing the map")
+            draw_route_map(check, map_png)
+        if geojson is not None:
+            write_json(geojson, route_geojson(check))
     if json_out:
         typer.echo(dumps(doc))
         return
@@ -118,11 +126,16 @@ def areas_cmd(
     """List the control areas in files or folders, with their limits, dates and size."""
     from geo.area_files import load_areas
     from geo.area_measure import describe
+    from planner.cli.progress import progress_kwargs, status
     from planner.common.outputs import dumps
     from planner.common.timefmt import parse_day
 
     day = parse_day(on) if on else datetime.now(UTC).date()
-    rows = [describe(a, day) for a in load_areas(paths)]
+    with status("reading the areas", json_out) as say:
+        found = load_areas(paths, **progress_kwargs(load_areas, say))
+        if say:
+            say("measuring the areas")
+        rows = [describe(a, day) for a in found]
     if json_out:
         typer.echo(dumps({"on": day.isoformat(), "areas": rows}))
         return

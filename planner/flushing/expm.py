@@ -2,8 +2,11 @@
 
 The method of [HIGHAM-2005]: the Padé degree (3, 5, 7, 9 or 13) and the
 scaling are chosen from the 1-norm so that the backward error is at unit
-round-off. Numpy only (the simulator does not use SciPy); SciPy's ``expm``,
-which uses the same method, is the reference in the tests ([SCIPY-2020]).
+round-off. Numpy only; SciPy's ``expm``, which uses the same method, is the
+reference in the tests ([SCIPY-2020]). The simulator's propagators need the
+exponential's repeated integrals too and take them all at once from
+:mod:`planner.flushing.phi`; this is the exponential of one matrix, kept as
+the general-purpose reference.
 Works on a stack of matrices (leading axes broadcast), with one scaling for
 the whole stack.
 """

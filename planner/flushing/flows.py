@@ -18,7 +18,6 @@ from __future__ import annotations
 import numpy as np
 
 from planner.flushing.network import PIPE, STIRRED, FlowMatrices, Network, Routing, flow_matrices
-from planner.flushing.pipes import PipeQueue
 
 NEG_FLOW_M3H = 1e-9  # a link flow below minus this is a reversal [m³/h]
 _STEADY_ITERATIONS = 50
@@ -122,27 +121,6 @@ def inlet_composition(
         stirred[np.where(kind == STIRRED, src, 0)],
         pipe_outlet[np.where(kind == PIPE, src, 0)] if len(net.pipes) else 0.0,
     )
-
-
-def pipe_outlets(queues: list[PipeQueue], n_fuels: int) -> np.ndarray:
-    """Composition just inside each pipe outlet.
-
-    Parameters
-    ----------
-    queues : list of PipeQueue
-        The pipes' parcel queues, in the network's pipe order.
-    n_fuels : int [-]
-        Number of distinct fuels F.
-
-    Returns
-    -------
-    ndarray (P, F) [-]
-        Volume fractions at each pipe outlet (right limit).
-    """
-    out = np.zeros((len(queues), n_fuels))
-    for i, qu in enumerate(queues):
-        out[i] = qu.outlet()
-    return out
 
 
 def steady_state(

@@ -11,11 +11,12 @@ exact; a front that arrives at an outlet enters the pipes that outlet feeds.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 import numpy as np
 
 from planner.flushing.flows import consumer_flows, inlet_composition
-from planner.flushing.network import FlowMatrices, Network, flow_matrices
+from planner.flushing.network import Network, flow_matrices
 
 Fronts = list[list[float]]  # per pipe, distances of its fronts from the outlet [m³]
 
@@ -61,14 +62,14 @@ def initial_fronts(
     return fronts
 
 
-def next_arrival_h(fronts: Fronts, pipe_flow_m3h: np.ndarray) -> float:
+def next_arrival_h(fronts: Fronts, pipe_flow_m3h: Sequence[float]) -> float:
     """Time until the first front reaches a pipe outlet at the present flows.
 
     Parameters
     ----------
     fronts : list of list of float [m³]
         Per pipe, the distances of its fronts from the outlet.
-    pipe_flow_m3h : ndarray (P,) [m³/h]
+    pipe_flow_m3h : sequence of float (P,) [m³/h]
         Flow through each pipe.
 
     Returns
@@ -80,20 +81,21 @@ def next_arrival_h(fronts: Fronts, pipe_flow_m3h: np.ndarray) -> float:
     --------
     A front 0.2 m³ from the outlet of a pipe passing 4 m³/h arrives in 0.05 h:
 
-    >>> next_arrival_h([[0.2], []], np.array([4.0, 1.0]))
+    >>> next_arrival_h([[0.2], []], [4.0, 1.0])
     0.05
     """
     h = math.inf
-    for i, distances in enumerate(fronts):
-        if distances and pipe_flow_m3h[i] > 0:
-            h = min(h, distances[0] / pipe_flow_m3h[i])
+    for distances, flow in zip(fronts, pipe_flow_m3h, strict=True):
+        if distances and flow > 0:
+            h = min(h, distances[0] / flow)
     return float(h)
 
 
 def advance_fronts(
-    fronts: Fronts, pipe_volume_m3: np.ndarray, fm: FlowMatrices, h: float
+    fronts: Fronts, pipe_volume_m3: np.ndarray, throughput_m3: Sequence[float],
+    pipe_to_pipe_m3h: np.ndarray,
 ) -> Fronts:
-    """The fronts after a step of ``h`` hours at the flows ``fm``.
+    """The fronts after a step that passed ``throughput_m3`` through each pipe.
 
     Parameters
     ----------
@@ -101,10 +103,10 @@ def advance_fronts(
         Per pipe, the distances of its fronts from the outlet.
     pipe_volume_m3 : ndarray (P,) [m³]
         Volume of each pipe.
-    fm : FlowMatrices
-        The flows held over the step [m³/h].
-    h : float [h]
-        Step length.
+    throughput_m3 : sequence of float (P,) [m³]
+        Volume each pipe passed in the step.
+    pipe_to_pipe_m3h : ndarray (P, P) [m³/h]
+        Flow from pipe r (column) into pipe p (row) over the step.
 
     Returns
     -------
@@ -113,15 +115,16 @@ def advance_fronts(
         outlet is gone, and starts at the inlet of each pipe that outlet feeds
         (those new fronts are not moved by this step's throughput).
     """
+    if not any(fronts):
+        return fronts
     moved: Fronts = []
     entering: list[int] = []
-    for i, distances in enumerate(fronts):
-        through = fm.pipe_flow[i] * h
+    for i, (distances, through) in enumerate(zip(fronts, throughput_m3, strict=True)):
         shifted = [m - through for m in distances]
         gone = _ARRIVED * float(pipe_volume_m3[i])
         moved.append([m for m in shifted if m > gone])
         if any(m <= gone for m in shifted):
-            entering.extend(int(r) for r in np.flatnonzero(fm.pp[:, i] > 0))
+            entering.extend(int(r) for r in np.flatnonzero(pipe_to_pipe_m3h[:, i] > 0))
     for r in entering:
         moved[r].append(float(pipe_volume_m3[r]))
     return moved

@@ -326,18 +326,39 @@ def flow_matrices(net: Network, routing: Routing, q: np.ndarray) -> FlowMatrices
         Connection matrices and totals [m³/h].
     """
     s, p = len(net.stirred), len(net.pipes)
-    ss, sp = np.zeros((s, s)), np.zeros((s, p))
-    ps, pp = np.zeros((p, s)), np.zeros((p, p))
-    sk, dk = routing.src_kind, routing.dst_kind
-    for target, (src_kind, mat) in (
-        (STIRRED, (STIRRED, ss)),
-        (STIRRED, (PIPE, sp)),
-        (PIPE, (STIRRED, ps)),
-        (PIPE, (PIPE, pp)),
-    ):
-        m = (dk == target) & (sk == src_kind)
-        np.add.at(mat, (routing.dst[m], routing.src[m]), q[m])
-    out = np.zeros(s)
-    m = sk == STIRRED
-    np.add.at(out, routing.src[m], q[m])
+    links, index = _flat_index(routing, s, p)
+    flat = np.bincount(index, weights=q[links], minlength=(s + p) * (s + p) + s)
+    ss = flat[: s * s].reshape(s, s)
+    sp = flat[s * s : s * (s + p)].reshape(s, p)
+    ps = flat[s * (s + p) : s * (s + p) + p * s].reshape(p, s)
+    pp = flat[s * (s + p) + p * s : (s + p) * (s + p)].reshape(p, p)
+    out = flat[(s + p) * (s + p) :]
     return FlowMatrices(ss, sp, ps, pp, ss.sum(1) + sp.sum(1), out, ps.sum(1) + pp.sum(1))
+
+
+_FLAT_INDEX: dict[int, tuple[Routing, np.ndarray, np.ndarray]] = {}
+
+
+def _flat_index(routing: Routing, s: int, p: int) -> tuple[np.ndarray, np.ndarray]:
+    """For :func:`flow_matrices`: which link (and where in ``[ss | sp | ps | pp | out]``,
+    flattened) each entry adds to; kept per routing (compared by identity)."""
+    found = _FLAT_INDEX.get(id(routing))
+    if found is not None and found[0] is routing:
+        return found[1], found[2]
+    links, index = [], []
+    blocks = {(STIRRED, STIRRED): (0, s), (STIRRED, PIPE): (s * s, p),
+              (PIPE, STIRRED): (s * (s + p), s), (PIPE, PIPE): (s * (s + p) + p * s, p)}
+    for k, (sk, si, dk, di) in enumerate(zip(routing.src_kind.tolist(), routing.src.tolist(),
+                                             routing.dst_kind.tolist(), routing.dst.tolist(),
+                                             strict=True)):
+        if (dk, sk) in blocks:
+            base, width = blocks[(dk, sk)]
+            links.append(k)
+            index.append(base + di * width + si)
+        if sk == STIRRED:
+            links.append(k)
+            index.append((s + p) * (s + p) + si)
+    if len(_FLAT_INDEX) > 32:
+        _FLAT_INDEX.clear()
+    _FLAT_INDEX[id(routing)] = (routing, np.array(links, dtype=int), np.array(index, dtype=int))
+    return _FLAT_INDEX[id(routing)][1], _FLAT_INDEX[id(routing)][2]

@@ -1,18 +1,23 @@
-"""Plug flow in a pipe: a first-in first-out queue of parcels.
+"""Plug flow in the pipes: first-in first-out queues of parcels, every pipe in one array.
 
 A pipe of volume V delays its inlet by exactly the time its throughput takes
 to reach V, whatever the flow does meanwhile ([LEVENSPIEL-1999] plug flow as
-a pure delay [P]): the content is a queue of
-parcels, each a volume with a quadratic composition profile along it, kept
-as shifted-Legendre coefficients over the parcel (``s`` from 0 at its outlet
-end to 1 at its inlet end): ``c(s) = m + g·(2s − 1) + k·(6s² − 6s + 1)``,
-mean ``m``, slope ``g``, curvature ``k``. Composition is a vector of volume
-fractions of the distinct fuels. Volumes are in m³; positions ``ξ`` are
-measured from the outlet, in m³ of throughput.
+a pure delay [P]): the content is a queue of parcels, each a volume with a
+quadratic composition profile along it, kept as shifted-Legendre
+coefficients over the parcel (``s`` from 0 at its outlet end to 1 at its
+inlet end): ``c(s) = m + g·(2s − 1) + k·(6s² − 6s + 1)``, mean ``m``, slope
+``g``, curvature ``k``. Composition is a vector of volume fractions of the
+distinct fuels. Volumes are in m³; positions ``ξ`` are measured from the
+outlet, in m³ of throughput.
 
-Windows and splits integrate the profiles exactly (three-point
-Gauss-Legendre quadrature is exact to degree 5, [GAUSS-LEGENDRE] [P]), so the
-pipe conserves every fuel to round-off.
+A parcel is never rewritten: a step pushes one parcel in at ``ξ = V`` and
+moves every parcel ``W`` (the step's throughput) towards the outlet; a parcel
+that straddles the outlet keeps its coefficients, only its part past 0 being
+in the pipe, and one wholly past it is dropped. Windows and samples integrate
+or evaluate the profiles exactly (three-point Gauss-Legendre quadrature is
+exact to degree 5, [GAUSS-LEGENDRE] [P]), so the pipes conserve every fuel to
+round-off. All pipes are worked on together: the parcels of pipe ``p`` are
+the columns ``head[p] … tail[p] − 1`` of one padded array.
 """
 
 from __future__ import annotations
@@ -23,163 +28,187 @@ _WEIGHTS = np.array([1.0, 3.0, 5.0, 7.0])  # 2j + 1 for the Legendre coefficient
 # three-point Gauss-Legendre rule on [0, 1] ([GAUSS-LEGENDRE] [P])
 _GAUSS_X = 0.5 + 0.5 * np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)])  # nodes
 _GAUSS_W = np.array([5.0, 8.0, 5.0]) / 18.0  # their weights (sum 1)
+_GONE = 1e-13  # a parcel with less than this part of it left in the pipe has left it
+_SLACK = 1e-12  # a left limit this close (relative to the pipe volume) to a boundary is before it
+_CAPACITY = 16  # parcels per pipe the arrays start with
+_FAR = 1e30  # where unused and departed columns start [m³]: far, and cubed still finite
+_HALF_FAR = 0.5 * _FAR
+_GAUSS_WJ = _GAUSS_W[:, None] * _WEIGHTS  # (node, j): quadrature weight × (2j + 1)
+# _LEGENDRE_POWERS[n, j]: coefficient of z^n in the shifted Legendre polynomial P_j(z)
+_LEGENDRE_POWERS = np.array(
+    [[1.0, -1.0, 1.0, -1.0], [0.0, 2.0, -6.0, 12.0], [0.0, 0.0, 6.0, -30.0], [0.0, 0.0, 0.0, 20.0]]
+)
 
 
-class PipeQueue:
-    """The parcels in one pipe, outlet first. ``n_fuels`` columns of composition."""
+class PipeSet:
+    """The parcels in every pipe, outlet first, with ``n_fuels`` columns of composition.
 
-    def __init__(self, volume_m3: float, composition: np.ndarray) -> None:
-        self.volume_m3 = float(volume_m3)
+    Column ``c`` of every pipe holds the parcel it took in at the ``c``-th step
+    since the arrays were last compacted (one per step for every pipe: a pipe
+    that did not flow takes in nothing, a column that starts far beyond its
+    inlet). ``start`` (N, P): distance of each parcel's outlet end from its
+    pipe's outlet, m³ (negative for the parcel straddling the outlet);
+    ``length`` (N, P), m³; ``coef`` (N, P, 3, F): mean, slope, curvature.
+    A column not in use starts far beyond the inlet and a parcel that has
+    left far before the outlet, so neither has any part in a window. Pipe
+    ``p`` holds columns ``head[p] … hi − 1``.
+    """
+
+    def __init__(self, volume_m3: np.ndarray, composition: np.ndarray) -> None:
         comp = np.asarray(composition, dtype=float)
-        self.vol = np.array([self.volume_m3])
-        self.coef = np.zeros((1, 3, comp.shape[0]))  # (parcel, m/g/k, fuel)
-        self.coef[0, 0] = comp
+        p, f = comp.shape
+        self.volume_m3 = np.asarray(volume_m3, dtype=float).reshape(p)
+        self.start = np.full((_CAPACITY, p), _FAR)
+        self.start[0] = 0.0
+        self.length = np.ones((_CAPACITY, p))
+        self.length[0] = self.volume_m3
+        self.coef = np.zeros((_CAPACITY, p, 3, f))
+        self.coef[0, :, 0] = comp
+        self.head = np.zeros(p, dtype=int)
+        self._rows = np.arange(p)
+        self._lo, self._hi = 0, 1  # the columns in use: least head, one past the last
 
-    def outlet(self) -> np.ndarray:
-        """Composition just inside the outlet (right limit at position 0)."""
-        m, g, k = self.coef[0]
-        return m - g + k
+    def window(self, width_m3: np.ndarray, inv_throughput: np.ndarray) -> np.ndarray:
+        """Outflow moments of each pipe's first ``width_m3`` (P,) for a step passing W.
+
+        Returns (P, 4, F): the Legendre coefficients ``(2j + 1)·∫c·P_j(ξ/W) dξ / W``,
+        j = 0 … 3 (mean, slope, curvature, cubic), with ``1/W = inv_throughput``
+        (P,) per pipe: the parts of the step's outflow contributed by the
+        parcels now in the pipe.
+        """
+        lo, hi = self._lo, self._hi
+        st, ln = self.start[lo:hi].T.copy(), self.length[lo:hi].T.copy()  # (P, n)
+        p, n = st.shape
+        if not p:
+            return np.zeros((0, 4, self.coef.shape[-1]))
+        a = np.maximum(st, 0.0)
+        wid = np.minimum(st + ln, width_m3[:, None])
+        wid -= a
+        np.maximum(wid, 0.0, out=wid)
+        pw = np.empty((2, p, n, 3, 4))  # powers 0 … 3 of the nodes' s and u
+        pw[..., 0] = 1.0
+        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[1, ..., 1])
+        xi += a[..., None]  # outlet distance of the Gauss nodes of each piece
+        np.subtract(xi, st[..., None], out=pw[0, ..., 1])
+        pw[0, ..., 1] /= ln[..., None]  # ... as parcel positions s
+        xi *= inv_throughput[:, None, None]  # ... and as window positions u
+        z = pw[..., 1]
+        np.multiply(z, z, out=pw[..., 2])
+        np.multiply(pw[..., 2], z, out=pw[..., 3])
+        leg = pw.reshape(-1, 4).dot(_LEGENDRE_POWERS).reshape(pw.shape)  # P0 … P3, s and u
+        c = np.matmul(leg[0, ..., :3], self.coef[lo:hi].transpose(1, 0, 2, 3))  # (P, n, 3, F)
+        leg[1] *= (wid * inv_throughput[:, None])[..., None, None] * _GAUSS_WJ
+        m = leg[1].reshape(p, 3 * n, 4).transpose(0, 2, 1)
+        return np.matmul(m, c.reshape(p, 3 * n, -1))
+
+    def outlets(self) -> np.ndarray:
+        """Composition just inside each outlet (P, F): the right limit at ξ = 0."""
+        rows, h = self._rows, self.head
+        s = np.maximum(-self.start[h, rows], 0.0) / self.length[h, rows]
+        return profile(self.coef[h, rows], s)
 
     def content_m3(self) -> np.ndarray:
-        """Volume of each fuel in the pipe, m³."""
-        return self.vol @ self.coef[:, 0]
+        """Volume of each fuel in all the pipes together (F,), m³: each parcel's profile
+        integrated exactly over its part inside, ``∫P1 = s² − s``, ``∫P2 = 2s³ − 3s² + s``."""
+        lo, hi = self._lo, self._hi
+        st, ln = self.start[lo:hi], self.length[lo:hi]
+        s0 = (np.maximum(st, 0.0) - st) / ln
+        s1 = np.maximum((np.minimum(st + ln, self.volume_m3) - st) / ln, s0)
+        parts = np.stack(
+            (s1 - s0, s1 * (s1 - 1.0) - s0 * (s0 - 1.0),
+             ((2.0 * s1 - 3.0) * s1 + 1.0) * s1 - ((2.0 * s0 - 3.0) * s0 + 1.0) * s0), axis=-1)
+        return np.einsum("np,npb,npbf->f", ln, parts, self.coef[lo:hi])
 
-    def window(
-        self, width_m3: float, throughput_m3: float
-    ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
-        """Outflow moments of the first ``width_m3`` m³, for a step passing ``throughput_m3``.
+    def push(self, volume_m3: np.ndarray, coefficients: np.ndarray, every: bool) -> None:
+        """Add a parcel at the inlet end of every pipe: ``volume_m3`` (P,) m³ of
+        ``coefficients`` (P, 3, F); unless ``every``, pipes with no volume take none."""
+        if self._hi >= self.start.shape[0]:
+            self._make_room()
+        c = self._hi
+        if every:
+            self.start[c], self.length[c] = self.volume_m3, volume_m3
+        else:  # a pipe that took nothing in gets a hole: a column far beyond its inlet
+            took = volume_m3 > 0.0
+            self.start[c] = np.where(took, self.volume_m3, _FAR)
+            self.length[c] = np.where(took, volume_m3, 1.0)
+        self.coef[c] = coefficients
+        self._hi = c + 1
 
-        Returns the Legendre coefficients ``(2j + 1)·∫c·P_j(ξ/W) dξ / W``,
-        j = 0 … 3 (mean, slope, curvature, cubic) with ``W = throughput_m3``: the
-        parts of the step's outflow contributed by the parcels now in the pipe.
+    def advance(self, throughput_m3: np.ndarray) -> None:
+        """Move every parcel ``throughput_m3`` (P,) towards the outlet; drop those gone."""
+        lo, hi = self._lo, self._hi
+        st = self.start[lo:hi]
+        st -= throughput_m3
+        ln = self.length[lo:hi]
+        gone = st + ln <= _GONE * ln
+        np.copyto(st, -_FAR, where=gone)
+        live = st < _HALF_FAR
+        live &= st > -_HALF_FAR
+        self.head = lo + np.argmax(live, axis=0)  # the first column still in the pipe
+        self._lo = min(self.head.tolist(), default=hi - 1)
+
+    def sample(self, pipes: np.ndarray, positions_m3: np.ndarray, left: np.ndarray) -> np.ndarray:
+        """Composition in the pipes ``pipes`` (m,) at outlet distances ``positions_m3`` (m, n).
+
+        Right limits, except where ``left`` (n,) is true: there the left limit
+        (a boundary within 1e-12 of the pipe volume belongs to the earlier
+        parcel). Returns (m, n, F).
         """
-        cum = np.cumsum(self.vol)
-        n = min(int(np.searchsorted(cum, width_m3, side="left")) + 1, len(cum))
-        hi = np.minimum(cum[:n], width_m3)
-        lo = cum[:n] - self.vol[:n]
-        # each piece starts at its parcel's outlet end: s = η / L along the parcel
-        out = _moments(self.coef[:n], lo, hi - lo, hi - lo, self.vol[:n], throughput_m3)
-        return out[0], out[1], out[2], out[3]
+        lo, hi = self._lo, self._hi
+        st = self.start[lo:hi, pipes].T  # (m, columns)
+        cut = positions_m3 - (_SLACK * self.volume_m3[pipes])[:, None] * left
+        # the parcel starting last at or before each position (-inf: none, nor a departed one)
+        key = np.where(st[:, None, :] <= cut[:, :, None], st[:, None, :], -np.inf)
+        j = np.maximum(np.argmax(key, axis=2) + lo, self.head[pipes][:, None])
+        rows = pipes[:, None]
+        s = (positions_m3 - self.start[j, rows]) / self.length[j, rows]
+        np.clip(s, 0.0, 1.0, out=s)
+        return profile(self.coef[j, rows], s)
 
-    def values(
-        self,
-        positions_m3: np.ndarray,
-        left: bool = False,
-        incoming: tuple[float, np.ndarray] | None = None,
-    ) -> np.ndarray:
-        """Composition at outlet distances ``positions_m3`` (right limits; left if ``left``).
-
-        ``incoming`` = (volume, coefficients (3, F)) of a parcel about to enter,
-        to look past the present content without changing the queue.
-        """
-        edges = np.concatenate(([0.0], np.cumsum(self.vol)))
-        pos = np.asarray(positions_m3, dtype=float)
-        # a left limit at a parcel boundary (to round-off) belongs to the earlier parcel
-        slack = 1e-12 * edges[-1]
-        j = (
-            np.searchsorted(edges, pos - slack, side="left")
-            if left
-            else np.searchsorted(edges, pos, side="right")
-        ) - 1
-        j = np.minimum(np.maximum(j, 0), len(self.vol) - 1)
-        s = np.minimum(np.maximum((pos - edges[j]) / self.vol[j], 0.0), 1.0)
-        out = _profile(self.coef[j], s)
-        if incoming is not None and incoming[0] > 0.0:
-            past = pos > edges[-1] if not left else pos > edges[-1] * (1.0 + 1e-12)
-            if past.any():
-                s_in = np.minimum((pos[past] - edges[-1]) / incoming[0], 1.0)
-                out[past] = _profile(
-                    np.broadcast_to(incoming[1], (len(s_in), *incoming[1].shape)), s_in
-                )
-        return out
-
-    def push(self, volume_m3: float, coefficients: np.ndarray) -> None:
-        """Add a parcel of ``coefficients`` (3, F) = mean, slope, curvature at the inlet end."""
-        if volume_m3 <= 0.0:
-            return
-        self.vol = np.append(self.vol, volume_m3)
-        self.coef = np.concatenate((self.coef, coefficients[None]), axis=0)
-
-    def pop(self, volume_m3: float) -> None:
-        """Remove ``volume_m3`` m³ from the outlet end, splitting the parcel at the cut."""
-        if volume_m3 <= 0.0:
-            return
-        cum = np.cumsum(self.vol)
-        j = min(int(np.searchsorted(cum, volume_m3, side="right")), len(cum) - 1)
-        start = cum[j - 1] if j else 0.0
-        vol, coef = self.vol[j:].copy(), self.coef[j:].copy()
-        s = (volume_m3 - start) / vol[0]
-        if s >= 1.0 - 1e-13:
-            vol, coef = vol[1:], coef[1:]
-        elif s > 1e-13:
-            coef[0] = _restrict(coef[0], s)
-            vol[0] = vol[0] * (1.0 - s)
-        # keep the pipe exactly full: absorb round-off in the inlet-end parcel
-        vol[-1] += self.volume_m3 - vol.sum()
-        self.vol, self.coef = vol, coef
+    def _make_room(self) -> None:
+        """Move the columns in use to the first ones, and widen the arrays if still full."""
+        lo, hi = self._lo, self._hi
+        cap = self.start.shape[0]
+        wide = cap * 2 if hi - lo > cap // 2 else cap
+        start = np.full((wide, len(self._rows)), _FAR)
+        start[: hi - lo] = self.start[lo:hi]
+        length = np.ones_like(start)
+        length[: hi - lo] = self.length[lo:hi]
+        coef = np.zeros((wide, *self.coef.shape[1:]))
+        coef[: hi - lo] = self.coef[lo:hi]
+        self.start, self.length, self.coef = start, length, coef
+        self.head = self.head - lo
+        self._lo, self._hi = 0, hi - lo
 
 
-def _profile(coef: np.ndarray, s: np.ndarray) -> np.ndarray:
-    """Values of profiles ``coef`` (n, 3, F) at parcel positions ``s`` (n,)."""
-    s = s[:, None]
-    return coef[:, 0] + coef[:, 1] * (2.0 * s - 1.0) + coef[:, 2] * (6.0 * s * s - 6.0 * s + 1.0)
+def profile(coef: np.ndarray, s: np.ndarray) -> np.ndarray:
+    """Values of parcel profiles at positions along them.
 
+    Parameters
+    ----------
+    coef : ndarray (..., 3, F) [-]
+        Mean, slope and curvature of each profile (shifted Legendre
+        coefficients over the parcel).
+    s : ndarray (...) [-]
+        Position along each parcel, 0 at its outlet end, 1 at its inlet end.
 
-def _restrict(coef: np.ndarray, s_cut: float) -> np.ndarray:
-    """Legendre coefficients (3, F) of a profile restricted to ``s ∈ [s_cut, 1]``."""
-    m, g, k = coef
-    a0, a1, a2 = m - g + k, 2.0 * g - 6.0 * k, 6.0 * k  # monomials in s
-    span = 1.0 - s_cut
-    b0 = a0 + a1 * s_cut + a2 * s_cut * s_cut  # monomials in σ, s = s_cut + span·σ
-    b1 = (a1 + 2.0 * a2 * s_cut) * span
-    b2 = a2 * span * span
-    return np.stack((b0 + b1 / 2.0 + b2 / 3.0, b1 / 2.0 + b2 / 2.0, b2 / 6.0))
-
-
-def _moments(
-    coef: np.ndarray,
-    lo: np.ndarray,
-    width: np.ndarray,
-    s_width: np.ndarray,
-    s_length: np.ndarray,
-    throughput: float,
-) -> np.ndarray:
-    """Legendre coefficients (4, F) over a step of quadratic pieces.
-
-    Piece n covers outlet positions ``[lo, lo + width]`` and there follows the
-    profile ``coef[n]`` (mean, slope, curvature over a parcel, as in
-    :func:`_profile`) from ``s = 0`` to ``s = s_width / s_length``. Returns
-    ``(2j + 1)·Σ ∫c·P_j(ξ/W) dξ / W`` for the shifted Legendre polynomials
-    P0 … P3 (P3 = 20u³ − 30u² + 12u − 1). The integrands are polynomials of
-    degree ≤ 5, so three-point Gauss-Legendre quadrature on each piece is
-    exact ([GAUSS-LEGENDRE]: n points are exact to degree 2n − 1 [P]).
+    Returns
+    -------
+    ndarray (..., F) [-]
+        ``m + g·(2s − 1) + k·(6s² − 6s + 1)``.
     """
-    w = 1.0 / throughput
-    s = (s_width / s_length)[:, None] * _GAUSS_X  # (n, 3) positions along each parcel
-    c = (
-        coef[:, 0, None]
-        + coef[:, 1, None] * (2.0 * s - 1.0)[..., None]
-        + coef[:, 2, None] * (6.0 * s * s - 6.0 * s + 1.0)[..., None]
-    )  # (n, 3, F)
-    u = (lo[:, None] + width[:, None] * _GAUSS_X) * w
-    legendre = np.stack(
-        (
-            np.ones_like(u),
-            2.0 * u - 1.0,
-            (6.0 * u - 6.0) * u + 1.0,
-            ((20.0 * u - 30.0) * u + 12.0) * u - 1.0,
-        ),
-        axis=-1,
-    )  # (n, 3, 4)
-    weights = width[:, None] * _GAUSS_W  # (n, 3)
-    return np.einsum("ng,ngj,ngf->jf", weights, legendre, c) * (w * _WEIGHTS)[:, None]
+    s = s[..., None]
+    return coef[..., 0, :] + coef[..., 1, :] * (2.0 * s - 1.0) + coef[..., 2, :] * (
+        (6.0 * s - 6.0) * s + 1.0
+    )
 
 
 def _fresh_exact(r: float) -> np.ndarray:
     """:func:`fresh_moments` by quadrature for ``r = V/W`` in [0, 1) (W = 1)."""
-    width = np.array([1.0 - r])
-    bases = np.eye(3)[None]  # (1, 3 coefficients, 3 bases)
-    return _moments(bases, np.array([r]), width, width, np.array([1.0]), 1.0)
+    pipes = PipeSet(np.array([1.0]), np.eye(3)[:1])
+    pipes.start[0, 0], pipes.length[0, 0] = r, 1.0  # the step's inflow, entered behind V
+    pipes.coef[0, 0] = np.eye(3)
+    return pipes.window(np.array([1.0]), np.array([1.0]))[0]
 
 
 # Each entry of the map is a polynomial of degree ≤ 8 in r = V/W: fitted once at
@@ -188,7 +217,7 @@ _R_NODES = 0.5 - 0.5 * np.cos(np.pi * (np.arange(11) + 0.5) / 11)
 _FRESH_POLY = np.polynomial.polynomial.polyfit(
     _R_NODES, np.array([_fresh_exact(r).ravel() for r in _R_NODES]), 8
 )  # (9, 12)
-_R_POWERS = np.arange(9)
+_R_POWERS = np.arange(9.0)
 
 
 def fresh_moments(volume_m3: float, throughput_m3: float) -> np.ndarray:
@@ -226,7 +255,25 @@ def fresh_moments(volume_m3: float, throughput_m3: float) -> np.ndarray:
     >>> bool(np.all(fresh_moments(1.0, 0.5) == 0.0))
     True
     """
-    if throughput_m3 <= volume_m3:
-        return np.zeros((4, 3))
-    r = volume_m3 / throughput_m3
-    return (r**_R_POWERS @ _FRESH_POLY).reshape(4, 3)
+    return fresh_maps(np.array([volume_m3]), np.array([throughput_m3]))[0]
+
+
+def fresh_maps(volume_m3: np.ndarray, throughput_m3: np.ndarray) -> np.ndarray:
+    """:func:`fresh_moments` of every pipe at once.
+
+    Parameters
+    ----------
+    volume_m3 : ndarray (P,) [m³]
+        Pipe volumes V.
+    throughput_m3 : ndarray (P,) [m³]
+        Volumes passed in the step, W.
+
+    Returns
+    -------
+    ndarray (P, 4, 3) [-]
+        Each pipe's map (zero where W ≤ V).
+    """
+    r = volume_m3 / np.maximum(throughput_m3, volume_m3)  # pipe volumes are > 0
+    maps = (r[:, None] ** _R_POWERS).dot(_FRESH_POLY)
+    maps *= np.heaviside(throughput_m3 - volume_m3, 0.0)[:, None]  # 0 where W ≤ V
+    return maps.reshape(len(r), 4, 3)

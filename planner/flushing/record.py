@@ -3,161 +3,186 @@
 Every consumer inlet is recorded at each output time inside a step and at both
 sides of every step end (the left limit closes a step, the right limit opens
 the next), so the crossing times of :mod:`planner.flushing.result` are found on
-the exact solution between samples at most one output step apart.
+the exact solution between samples at most one output step apart. The trace is
+kept per *source*, the node feeding one or more consumers, and shared out to
+the consumers when the result is built.
+
+A step records only its two ends; the samples at the output times inside it
+are evaluated once the simulation is done (:meth:`Recorder.trace`): for a
+pipe, from the parcels that entered it, read at the throughput of each output
+time (exact plug flow, [LEVENSPIEL-1999] [P]); for a stirred node, from the
+propagators, during the step (:meth:`Recorder.add_dense`).
 """
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
-from planner.flushing.flows import inlet_composition, pipe_outlets
-from planner.flushing.network import STIRRED, FlowMatrices, Network
-from planner.flushing.pipes import PipeQueue
-from planner.flushing.step import StepResult
+from planner.flushing.network import STIRRED, Network
+from planner.flushing.pipes import PipeSet
 
 
-class Recorder:
-    """Collects the consumer inlet trace, burnt volumes and tank states step by step.
+class Inlets:
+    """Which node feeds each consumer: the distinct sources, stirred nodes first.
 
     Attributes
     ----------
-    trace_time_h : list of ndarray (n,)
-        Per step, the times of its samples, h after the switch.
-    trace_fractions : list of ndarray (C, n, F)
-        Per step, the volume fractions at each consumer inlet at those times.
+    stirred, pipes : ndarray of int
+        Indices of the stirred nodes and of the pipes that feed consumers.
+    of_consumer : ndarray (C,) of int
+        Each consumer's source, an index into ``stirred`` then ``pipes``.
+    """
+
+    def __init__(self, net: Network) -> None:
+        link = net.consumer_link
+        kinds, nodes = net.after.src_kind[link].tolist(), net.after.src[link].tolist()
+        found = list(dict.fromkeys(zip(kinds, nodes, strict=True)))
+        stirred = [n for k, n in found if k == STIRRED]
+        pipes = [n for k, n in found if k != STIRRED]
+        order = [(STIRRED, n) for n in stirred] + [(k, n) for k, n in found if k != STIRRED]
+        self.stirred = np.array(stirred, dtype=int)
+        self.pipes = np.array(pipes, dtype=int)
+        self.of_consumer = np.array([order.index(kn) for kn in zip(kinds, nodes, strict=True)],
+                                    dtype=int)
+
+    def values(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
+        """Composition at each source (n_sources, F) from stirred (S, F) and pipe (P, F) values."""
+        return np.concatenate((stirred[self.stirred], pipe_outlet[self.pipes]))
+
+
+class Recorder:
+    """Collects the inlet trace, the fuel burnt and the tank states step by step.
+
+    Attributes
+    ----------
+    inlets : Inlets
     step_end_h : list of float
         0, then the end of every step, h.
-    burnt_m3 : list of ndarray (C, F)
-        Cumulative volume of each fuel burnt by each consumer at those times, m³.
+    drawn_m3, inlet_mean : list of ndarray (C,), (C, F)
+        Per step, the volume each consumer drew and its mean inlet composition.
     tank_volume_m3, tank_fractions : list of ndarray (S,), (S, F)
-        Stirred volumes and compositions at those times.
+        Stirred volumes and compositions at 0 and at every step end.
     inventory_m3 : ndarray (F,)
         Volume of each fuel in the network at the switch, m³.
-    last_inlet_end, last_inlet_mean : ndarray (C, F)
-        Inlet compositions at the end of the last step and its mean over it.
+    pipes : PipeSet
+        The pipes' content (at the end, once the simulation is done).
     """
 
     def __init__(
-        self, net: Network, x: np.ndarray, volume_m3: np.ndarray, queues: list[PipeQueue]
+        self, inlets: Inlets, x: np.ndarray, volume_m3: np.ndarray, pipes: PipeSet,
+        output_step_h: float,
     ) -> None:
-        c, f = len(net.consumers), len(net.fuels)
-        self.trace_time_h: list[np.ndarray] = []
-        self.trace_fractions: list[np.ndarray] = []
+        self.inlets = inlets
+        self.output_step_h = output_step_h
         self.step_end_h = [0.0]
-        self.burnt_m3 = [np.zeros((c, f))]
+        self.drawn_m3: list[np.ndarray] = []
+        self.inlet_mean: list[np.ndarray] = []
         self.tank_volume_m3 = [volume_m3.copy()]
         self.tank_fractions = [x.copy()]
-        self.inventory_m3 = volume_m3 @ x + sum((qu.content_m3() for qu in queues), np.zeros(f))
-        self.last_inlet_end = inlet_composition(net, net.after, x, pipe_outlets(queues, f))
-        self.last_inlet_mean = np.zeros((c, f))
-        self.queues = queues
+        self.inventory_m3 = volume_m3 @ x + pipes.content_m3()
+        self.pipes = pipes
+        m = inlets.pipes.size
+        self._first = pipes.outlets()[inlets.pipes] if m else None  # the content at the switch
+        self._steps: list[tuple[float, float, int, np.ndarray, np.ndarray]] = []
+        self._flow: list[np.ndarray] = []  # per step, flow through each source pipe (m,)
+        self._parcels: list[np.ndarray] = []  # per step, the parcel each took in (3, m, F)
+        self._dense: list[np.ndarray] = []  # stirred sources inside steps (n, n_stirred, F)
 
-    def add_step(
+    def add(
         self,
-        times_h: np.ndarray,
-        values: np.ndarray,
-        inlet_mean: np.ndarray,
-        consumption_m3h: np.ndarray,
+        time_h: float,
         h: float,
+        interior: int,
+        start: np.ndarray,
+        end: np.ndarray,
+        pipe_flow_m3h: np.ndarray,
+        parcels: np.ndarray,
     ) -> None:
-        """Record a step's inlet samples and the fuel its consumers burnt.
+        """Record a step from ``time_h`` of ``h`` hours with ``interior`` output times inside:
+        each source's composition at its start (right limits) and end (left limits),
+        (n_sources, F); the flow through each pipe (P,) m³/h and the parcels they took
+        in (P, 3, F)."""
+        self._steps.append((time_h, h, interior, start, end))
+        self.step_end_h.append(time_h + h)
+        if self.inlets.pipes.size:
+            self._flow.append(pipe_flow_m3h[self.inlets.pipes])
+            self._parcels.append(parcels[self.inlets.pipes])
 
-        ``times_h`` (n,) and ``values`` (C, n, F) from :func:`step_trace`;
-        ``inlet_mean`` (C, F) the mean inlet composition over the step;
-        ``consumption_m3h`` (C,) the volumetric draws held over it; ``h`` its
-        length, h.
+    def add_dense(self, values: np.ndarray) -> None:
+        """The stirred sources at the output times inside the last step (n, n_stirred, F)."""
+        self._dense.append(values)
+
+    def add_state(
+        self, drawn_m3: np.ndarray, inlet_mean: np.ndarray, volume_m3: np.ndarray, x: np.ndarray
+    ) -> None:
+        """The volume each consumer drew in the last step (C,) m³, its mean inlet (C, F), and
+        the stirred volumes (S,) m³ and compositions (S, F) at its end."""
+        self.drawn_m3.append(drawn_m3)
+        self.inlet_mean.append(inlet_mean)
+        self.tank_volume_m3.append(volume_m3)
+        self.tank_fractions.append(x)
+
+    def burnt_m3(self) -> np.ndarray:
+        """Cumulative volume of each fuel burnt by each consumer at 0 and every step end
+        (steps + 1, C, F), m³."""
+        n_c, n_f = len(self.inlets.of_consumer), self.inventory_m3.size
+        if not self.inlet_mean:
+            return np.zeros((1, n_c, n_f))
+        steps = np.array(self.drawn_m3)[:, :, None] * np.array(self.inlet_mean)
+        return np.concatenate((np.zeros((1, n_c, n_f)), np.cumsum(steps, axis=0)))
+
+    def trace(self) -> tuple[np.ndarray, np.ndarray]:
+        """The trace: sample times (K,) h and each source's composition then (n_sources, K, F).
+
+        Per step its start (right limit), the output times inside it, its end
+        (left limit).
         """
-        self.trace_time_h.append(times_h)
-        self.trace_fractions.append(values)
-        self.last_inlet_end, self.last_inlet_mean = values[:, -1], inlet_mean
-        self.burnt_m3.append(self.burnt_m3[-1] + h * consumption_m3h[:, None] * inlet_mean)
+        time_h, h, interior, start, end = zip(*self._steps, strict=True)
+        n = np.array(interior, dtype=int)
+        last = np.cumsum(n + 2) - 1
+        first = last - n - 1
+        step = np.repeat(np.arange(len(n)), n + 2)
+        t0 = np.array(time_h)
+        times = t0[step] + (np.arange(len(step)) - first[step]) * self.output_step_h
+        times[last] = t0 + np.array(h)  # inside a step, the output times; then its end
+        n_src, n_f = start[0].shape
+        values = np.empty((n_src, len(times), n_f))
+        values[:, first] = np.array(start).transpose(1, 0, 2)
+        values[:, last] = np.array(end).transpose(1, 0, 2)
+        if n.any():
+            inside = np.ones(len(times), dtype=bool)
+            inside[first] = inside[last] = False
+            inner = np.flatnonzero(inside)
+            n_st = self.inlets.stirred.size
+            if n_st:
+                values[:n_st, inner] = np.concatenate(self._dense).transpose(1, 0, 2)
+            if self.inlets.pipes.size:
+                offsets = (inner - first[step[inner]]) * self.output_step_h
+                values[n_st:, inner] = self._pipe_samples(n, offsets)
+        return times, values
 
-    def add_state(self, time_h: float, volume_m3: np.ndarray, x: np.ndarray) -> None:
-        """Record the stirred volumes (S,) m³ and compositions (S, F) at a step end, h."""
-        self.step_end_h.append(time_h)
-        self.tank_volume_m3.append(volume_m3.copy())
-        self.tank_fractions.append(x.copy())
-
-
-def step_trace(
-    net: Network,
-    step: StepResult,
-    x0: np.ndarray,
-    queues: list[PipeQueue],
-    fm: FlowMatrices,
-    time_h: float,
-    grid: int | None,
-    output_step_h: float,
-) -> tuple[np.ndarray, np.ndarray]:
-    """Consumer inlet samples of a step: its start, the output times inside it, its end.
-
-    Parameters
-    ----------
-    net : Network
-    step : StepResult
-        The step, not yet committed.
-    x0 : ndarray (S, F) [-]
-        Stirred compositions at the step start.
-    queues : list of PipeQueue
-        The pipes' content at the step start.
-    fm : FlowMatrices
-        The flows held over the step [m³/h].
-    time_h : float [h]
-        Step start, after the switch.
-    grid : int or None [-]
-        Index of the output time the step starts on (None: it starts between
-        output times, and then ends on the next one, so has none inside).
-    output_step_h : float [h]
-        Output step.
-
-    Returns
-    -------
-    times_h : ndarray (n,) [h]
-        Sample times: the start, the output times inside, the end.
-    values : ndarray (C, n, F) [-]
-        Volume fractions at each inlet then: exact for stirred volumes (the
-        propagators at the output times) and plug flow (the parcels passing
-        the outlet); the end value is the left limit.
-    """
-    h = step.h
-    interior = 0 if grid is None else max(0, math.ceil(h / output_step_h - 1e-9) - 1)
-    offsets = np.concatenate(([0.0], np.arange(1, interior + 1) * output_step_h, [h]))
-    if grid is None:
-        times = time_h + offsets
-    else:
-        times = grid * output_step_h + offsets
-        times[-1] = time_h + h
-    link = net.consumer_link
-    kind, src = net.after.src_kind[link], net.after.src[link]
-    dense = None
-    if interior and np.any(kind == STIRRED):
-        dense = step.props.dense(step.z0, interior)[:, : len(net.stirred)]
-    values = np.empty((len(net.consumers), len(offsets), len(net.fuels)))
-    seen: dict[int, int] = {}
-    for c in range(len(net.consumers)):
-        j = int(src[c])
-        if kind[c] == STIRRED:
-            values[c, 0] = x0[j]
-            if dense is not None:
-                values[c, 1:-1] = dense[:, j]
-            values[c, -1] = step.x_end[j]
-        elif j in seen:
-            values[c] = values[seen[j]]
-        else:
-            seen[j] = c
-            values[c] = _pipe_samples(queues[j], fm.pipe_flow[j], step.pipe_in[:, j], offsets, h)
-    return times, values
-
-
-def _pipe_samples(
-    queue: PipeQueue, flow_m3h: float, incoming: np.ndarray, offsets_h: np.ndarray, h: float
-) -> np.ndarray:
-    """What leaves a pipe at ``offsets_h`` into a step (n, F); the last value a left limit."""
-    through = flow_m3h * offsets_h
-    parcel = (flow_m3h * h, incoming)
-    out = np.empty((len(offsets_h), incoming.shape[-1]))
-    out[:-1] = queue.values(through[:-1], incoming=parcel)
-    out[-1] = queue.values(through[-1:], left=True, incoming=parcel)[0]
-    return out
+    def _pipe_samples(self, interior: np.ndarray, offsets_h: np.ndarray) -> np.ndarray:
+        """The source pipes' outflow at the output times inside steps (m, n_inner, F): the
+        parcels that entered each, read at the throughput up to each time (right limits)."""
+        flow = np.array(self._flow)  # (steps, m)
+        parcels = np.array(self._parcels)  # (steps, m, 3, F)
+        volume = self.pipes.volume_m3[self.inlets.pipes]
+        took = flow > 1e-14
+        passed = flow * np.array([st[1] for st in self._steps])[:, None] * took
+        outlet = np.concatenate((np.zeros((1, len(volume))), np.cumsum(passed, axis=0)))
+        step = np.repeat(np.arange(len(interior)), interior)
+        out = np.empty((len(volume), len(step), parcels.shape[-1]))
+        for i, v in enumerate(volume.tolist()):
+            rows = np.flatnonzero(took[:, i])
+            starts = np.concatenate(([0.0], v + outlet[rows, i]))
+            lengths = np.concatenate(([v], passed[rows, i]))
+            coef = np.concatenate((np.zeros((1, 3, parcels.shape[-1])), parcels[rows, i]))
+            coef[0, 0] = self._first[i]
+            at = outlet[step, i] + flow[step, i] * offsets_h
+            k = np.searchsorted(starts, at, side="right") - 1  # at >= 0 = starts[0]
+            s = (at - starts[k]) / lengths[k]
+            np.clip(s, 0.0, 1.0, out=s)
+            c = coef[k]
+            out[i] = c[:, 0] + c[:, 1] * (2.0 * s - 1.0)[:, None] + c[:, 2] * (
+                (6.0 * s - 6.0) * s + 1.0)[:, None]
+        return out

@@ -17,6 +17,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass
+from functools import cached_property
 from types import MappingProxyType
 
 import numpy as np
@@ -82,13 +83,17 @@ class InletCurve:
     trace_time_h: np.ndarray
     trace_fractions: np.ndarray
 
-    @property
+    @cached_property
     def _rho(self) -> np.ndarray:
         return np.array([f.density_kg_m3 for f in self.fuels])
 
-    @property
+    @cached_property
     def _s(self) -> np.ndarray:
         return np.array([f.sulphur_pct for f in self.fuels])
+
+    @cached_property
+    def _trace_clipped(self) -> np.ndarray:
+        return np.clip(self.trace_fractions, 0.0, None)
 
     @property
     def sulphur_pct(self) -> np.ndarray:
@@ -106,18 +111,18 @@ class InletCurve:
         m = np.clip(self.fractions, 0.0, None) * self._rho[:, None]
         return m / m.sum(0)
 
-    @property
+    @cached_property
     def burnt_t(self) -> np.ndarray:
         """Cumulative mass of each fuel burnt since the switch, t (F, n)."""
         return self.burnt_m3 * self._rho[:, None] / 1000.0
 
     def burnt_until_t(self, time_h: float) -> np.ndarray:
         """Mass of each fuel burnt from the switch to ``time_h``, t (F,)."""
-        return np.array([np.interp(time_h, self.time_h, b) for b in self.burnt_t])
+        volume = [np.interp(time_h, self.time_h, b) for b in self.burnt_m3]
+        return np.array(volume) * self._rho / 1000.0
 
     def _g(self, level_pct: float) -> np.ndarray:
-        fr = np.clip(self.trace_fractions, 0.0, None)
-        return ((self._s - level_pct) * self._rho) @ fr
+        return ((self._s - level_pct) * self._rho) @ self._trace_clipped
 
     def time_at_or_below_h(self, level_pct: float, settled: bool = True) -> float | None:
         """When inlet sulphur is at or below ``level_pct`` % m/m, h after the switch.
@@ -231,33 +236,33 @@ def build_result(
         between step ends (exact at them).
     """
     grid = np.arange(n_out + 1) * output_step_h
-    trace_t = np.concatenate(rec.trace_time_h)
-    trace_phi = np.concatenate(rec.trace_fractions, axis=1)  # (C, K, F)
+    trace_t, trace_phi = rec.trace()  # (K,), (sources, K, F)
     idx = np.searchsorted(trace_t, grid * (1 + 1e-12) + 1e-15, side="right") - 1
     step_t = np.array(rec.step_end_h)
-    burnt = np.array(rec.burnt_m3)  # (steps+1, C, F)
-    n_fuels = len(net.fuels)
+    burnt = rec.burnt_m3()  # (steps + 1, C, F)
+    n_c, n_f = burnt.shape[1], burnt.shape[2]
+    tv, tx = np.array(rec.tank_volume_m3), np.array(rec.tank_fractions)
+    tanks_i = np.flatnonzero(net.is_tank)
+    at_grid = _interp_rows(grid, step_t, np.concatenate(
+        (burnt.reshape(len(step_t), -1), tv[:, tanks_i], tx[:, tanks_i].reshape(len(step_t), -1)),
+        axis=1))
     inlets = {}
     for c, name in enumerate(net.consumers):
-        b = np.array([np.interp(grid, step_t, burnt[:, c, f]) for f in range(n_fuels)])
+        src = trace_phi[rec.inlets.of_consumer[c]]
+        b = at_grid[:, c * n_f : (c + 1) * n_f].T
         inlets[name] = InletCurve(
-            name,
-            net.consumer_circuit[c],
-            net.fuels,
-            grid,
-            trace_phi[c, idx].T,
-            b,
-            trace_t,
-            trace_phi[c].T,
+            name, net.consumer_circuit[c], net.fuels, grid, src[idx].T, b, trace_t, src.T
         )
-    tv, tx = np.array(rec.tank_volume_m3), np.array(rec.tank_fractions)
     tanks = {}
-    for i, name in enumerate(net.stirred):
-        if net.is_tank[i]:
-            vol = np.interp(grid, step_t, tv[:, i])
-            fr = np.array([np.interp(grid, step_t, tx[:, i, f]) for f in range(n_fuels)])
-            tanks[name] = TankCurve(name, net.fuels, float(net.capacity_m3[i]), grid, vol, fr)
-    final = tv[-1] @ tx[-1] + sum((q.content_m3() for q in rec.queues), np.zeros(n_fuels))
+    base = n_c * n_f
+    for k, i in enumerate(tanks_i.tolist()):
+        vol = at_grid[:, base + k]
+        col = base + len(tanks_i) + k * n_f
+        fr = at_grid[:, col : col + n_f].T
+        tanks[net.stirred[i]] = TankCurve(
+            net.stirred[i], net.fuels, float(net.capacity_m3[i]), grid, vol, fr
+        )
+    final = tv[-1] @ tx[-1] + rec.pipes.content_m3()
     return FlushResult(
         fuels=net.fuels,
         switches=net.switches,
@@ -270,3 +275,12 @@ def build_result(
         warnings=warnings,
         n_steps=n_steps,
     )
+
+
+def _interp_rows(x: np.ndarray, xp: np.ndarray, fp: np.ndarray) -> np.ndarray:
+    """:func:`numpy.interp` of every column of ``fp`` (n, M), given at increasing ``xp``
+    (n,), at ``x`` (m,): (m, M)."""
+    out = np.empty((len(x), fp.shape[1]))
+    for k in range(fp.shape[1]):
+        out[:, k] = np.interp(x, xp, fp[:, k])
+    return out

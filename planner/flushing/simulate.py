@@ -8,51 +8,58 @@ plug flow as a pure delay [P]):
   :func:`~planner.flushing.flows.steady_state`);
 - at t = 0 the valves switch; time advances in steps with the link flows held
   over each step (:mod:`planner.flushing.step`: exact exponential for stirred
-  volumes, parcel queues for plug flow, exact bookkeeping of every fuel);
+  volumes, parcels for plug flow, exact bookkeeping of every fuel);
 - flows follow the consumers' volumetric draw ``v = m / ρ_inlet`` (mass basis),
   evaluated at the inlet blend predicted for the middle of the step
-  (:mod:`planner.flushing.flows`);
+  (:mod:`planner.flushing.trial`; every flow-weighted matrix of the step comes
+  from one product, :mod:`planner.flushing.flowmap`);
 - step ends fall on the output grid, on every change of consumption and on
   the arrival of every sharp front at a pipe outlet
   (:mod:`planner.flushing.fronts`), so plug-flow delays are exact; the step
   length adapts to an error estimate (the cubic part a pipe's quadratic
   parcel profile misses, and the error of the frozen flows);
 - every consumer inlet is recorded at each output time and at every step end
-  (both sides of a front, :mod:`planner.flushing.record`), so crossing times
-  are found on the exact solution between samples at most one output step apart.
-"""
+  (both sides of a front, :mod:`planner.flushing.record`: the step ends as the
+  simulation goes, the output times inside steps once it is done), so
+  crossing times are found on the exact solution between samples at most one
+  output step apart.
 
+The propagators depend on the stirred volumes' system matrix and the step
+length only (:class:`~planner.flushing.step.PropagatorCache`): while the
+stirred volumes' own flows do not change, a step length met before costs no
+exponential at all, and a doubled one a single doubling.
+"""
 from __future__ import annotations
 
+import bisect
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
 
-from planner.flushing.flows import (
-    FlushError,
-    consumer_flows,
-    inlet_composition,
-    normalise,
-    pipe_outlets,
-    steady_state,
-)
-from planner.flushing.fronts import Fronts, advance_fronts, initial_fronts, next_arrival_h
-from planner.flushing.network import FlowMatrices, Network, Switch, compile_network, flow_matrices
-from planner.flushing.pipes import PipeQueue
-from planner.flushing.record import Recorder, step_trace
+from planner.flushing.flowmap import FlowMap, Flows
+from planner.flushing.flows import FlushError, steady_state
+from planner.flushing.fronts import Fronts, advance_fronts, initial_fronts
+from planner.flushing.network import STIRRED, Network, Switch, compile_network
+from planner.flushing.pipes import PipeSet
+from planner.flushing.record import Inlets, Recorder
 from planner.flushing.result import FlushResult, build_result
 from planner.flushing.schedule import ConsumptionSchedule
-from planner.flushing.step import Propagators, StepResult, commit_step, compute_step
+from planner.flushing.step import PropagatorCache, StepResult, dense_start
+from planner.flushing.trial import (
+    INITIAL_STEP_EXP,
+    NO_FLOW_M3H,
+    Run,
+    Start,
+    Trial,
+    next_exponent,
+    try_step,
+)
 from planner.ship.system import FuelSystem
 
 __all__ = ["FlushError", "simulate"]
 
-_TANK_REFRESH = 0.005  # relative change of a filled tank's volume before rebuilding propagators
-_MIN_STEP_EXP = -10  # shortest step: output step · 2^-10
-_INITIAL_STEP_EXP = -3
-_MIN_STEP_H = 1e-12
 _JUMP = 1e-9  # a change of inlet volume fraction between steps that resets the slope [-]
 
 
@@ -139,26 +146,11 @@ def simulate(
     net = compile_network(system, (switches,) if isinstance(switches, Switch) else switches)
     run = _settings(net, schedule, horizon_h, output_step_s, tolerance, max_step_h)
     state, rec = _start(run)
-    cache = _PropagatorCache(net, run.output_step_h, state.volume_m3)
+    cache = PropagatorCache(run.output_step_h)
     while state.time_h < run.end_h - 1e-12 * run.end_h:
         _advance(run, state, rec, cache)
     warnings = tuple(state.warnings)
     return build_result(net, rec, run.n_out, run.output_step_h, warnings, state.n_steps)
-
-
-@dataclass(frozen=True)
-class _Run:
-    """What stays fixed over a simulation."""
-
-    net: Network
-    rates_t_h: np.ndarray  # (segments, C)
-    segment_bounds_h: np.ndarray  # the segment starts before the end, then the end
-    kappa_kg_m3: np.ndarray  # (F,) what one m³ of each fuel counts for against the rates
-    output_step_h: float
-    n_out: int
-    end_h: float
-    tolerance: float
-    k_max: int  # longest step: output step · 2^k_max
 
 
 def _settings(
@@ -168,7 +160,7 @@ def _settings(
     output_step_s: float,
     tolerance: float,
     max_step_h: float,
-) -> _Run:
+) -> Run:
     """The fixed parameters of a run, once its options are checked."""
     if not (math.isfinite(horizon_h) and horizon_h > 0.0):
         raise ValueError(f"horizon_h must be > 0, got {horizon_h!r}")
@@ -179,9 +171,29 @@ def _settings(
     end_h = n_out * h_out
     k_max = max(0, int(math.floor(math.log2(max(max_step_h / h_out, 1.0)))))
     rates = schedule.rates_for(net.consumers)
-    bounds = np.array([t for t in schedule.times_h if t < end_h] + [end_h])
+    bounds = [t for t in schedule.times_h if t < end_h] + [end_h]
     kappa = net.draw_density_kg_m3(schedule.basis)
-    return _Run(net, rates, bounds, kappa, h_out, n_out, end_h, tolerance, k_max)
+    routing = net.after
+    into = routing.dst[routing.dst_kind == STIRRED]
+    filled = np.unique(into[net.is_tank[into]])
+    return Run(
+        net=net,
+        rates_t_h=rates,
+        bounds_h=bounds,
+        kappa_kg_m3=kappa,
+        draw_kg_m3=np.stack((kappa, np.ones_like(kappa)), axis=1),
+        output_step_h=h_out,
+        n_out=n_out,
+        end_h=end_h,
+        tolerance=tolerance,
+        k_max=k_max,
+        flow_map=FlowMap(net, routing, net.stirred_volume_m3),
+        inlets=Inlets(net),
+        used=tuple(None if np.all(r > 0.0) else np.flatnonzero(r > 0.0) for r in rates),
+        tanks=np.flatnonzero(net.is_tank),
+        filled=filled,
+        tank_mask=net.is_tank.astype(float),
+    )
 
 
 @dataclass
@@ -192,8 +204,10 @@ class _State:
     grid: int | None  # index of the output time at time_h (None: between output times)
     x: np.ndarray  # (S, F) stirred compositions
     volume_m3: np.ndarray  # (S,) stirred volumes
-    queues: list[PipeQueue]
+    pipes: PipeSet
     fronts: Fronts
+    inlet: np.ndarray  # (n_sources, F) composition at each source now (right limits)
+    last_end: np.ndarray  # (C, F) inlet compositions at the end of the last step (left limits)
     slope: np.ndarray  # (C, F) predicted rate of change of each inlet, 1/h
     k: int  # next trial step: output step · 2^k
     warnings: list[str]
@@ -201,167 +215,137 @@ class _State:
     n_steps: int = 0
 
 
-def _start(run: _Run) -> tuple[_State, Recorder]:
+def _start(run: Run) -> tuple[_State, Recorder]:
     """The state at the switch: the steady state before it, fronts at changed pipe inlets."""
     net = run.net
     x, pipe0 = steady_state(net, run.rates_t_h[0], run.kappa_kg_m3)
     vol = net.stirred_volume_m3.copy()
-    queues = [PipeQueue(v, c) for v, c in zip(net.pipe_volume_m3, pipe0, strict=True)]
-    rec = Recorder(net, x, vol, queues)
+    pipes = PipeSet(net.pipe_volume_m3, pipe0)
+    rec = Recorder(run.inlets, x, vol, pipes, run.output_step_h)
     fronts = initial_fronts(net, run.rates_t_h[0], run.kappa_kg_m3, x, pipe0)
-    slope = np.zeros((len(net.consumers), len(net.fuels)))
-    state = _State(0.0, 0, x, vol, queues, fronts, slope, _INITIAL_STEP_EXP, [], set())
+    inlet = run.inlets.values(x, pipe0)
+    last = inlet[run.inlets.of_consumer]
+    state = _State(0.0, 0, x, vol, pipes, fronts, inlet, last, np.zeros_like(last),
+                   INITIAL_STEP_EXP, [], set())
     return state, rec
 
 
-class _PropagatorCache:
-    """The propagators of the present flows and tank volumes, rebuilt when either changes.
-
-    A filled tank's volume is held at a reference value, refreshed once it has
-    moved by more than 0.5 % since (its dilution rate is q / V).
-    """
-
-    def __init__(self, net: Network, output_step_h: float, volume_m3: np.ndarray) -> None:
-        self.net = net
-        self.output_step_h = output_step_h
-        self.v_ref = volume_m3.copy()
-        self._props: Propagators | None = None
-        self._key: tuple[bytes, bytes] | None = None
-
-    def get(self, fm: FlowMatrices, q: np.ndarray, volume_m3: np.ndarray) -> Propagators:
-        """The propagators for link flows ``q`` (L,) m³/h and stirred volumes (S,) m³."""
-        net = self.net
-        moved = np.abs(volume_m3 - self.v_ref) > _TANK_REFRESH * self.v_ref
-        refresh = net.is_tank & (fm.stirred_in > 0) & moved
-        if refresh.any():
-            self.v_ref = np.where(refresh, volume_m3, self.v_ref)
-        key = (q.tobytes(), self.v_ref.tobytes())
-        if self._props is None or key != self._key:
-            held = np.where(net.is_tank, self.v_ref, volume_m3)
-            self._props, self._key = Propagators(fm, held, self.output_step_h), key
-        return self._props
-
-
-@dataclass(frozen=True)
-class _Trial:
-    """An accepted step, not yet committed, with what chose its length."""
-
-    step: StepResult
-    fm: FlowMatrices
-    consumption_m3h: np.ndarray  # (C,)
-    h_try: float  # the trial length it was cut from, h
-    error: float  # over the allowance
-    k: int  # the step exponent after any halving
-
-
-def _advance(run: _Run, state: _State, rec: Recorder, cache: _PropagatorCache) -> None:
-    """One step: try it, record it, commit it, check the tanks, choose the next length."""
-    net = run.net
+def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> None:
+    """One step: try it, commit it, record it, check the tanks, choose the next length."""
     t = state.time_h
-    seg = int(np.searchsorted(run.segment_bounds_h, t * (1 + 1e-13) + 1e-15, side="right")) - 1
-    phi0 = inlet_composition(net, net.after, state.x, pipe_outlets(state.queues, len(net.fuels)))
-    jump = np.abs(phi0 - rec.last_inlet_end).max(axis=1, keepdims=True) > _JUMP
-    state.slope = np.where(jump, 0.0, state.slope)
-    trial = _try_step(run, state, cache, seg, phi0)
-    step, fm = trial.step, trial.fm
+    seg = bisect.bisect_right(run.bounds_h, t * (1 + 1e-13) + 1e-15) - 1
+    phi0 = state.inlet[run.inlets.of_consumer]
+    change = np.abs(phi0 - state.last_end)
+    if float(np.maximum.reduce(change.ravel())) > _JUMP:  # a front reached an inlet
+        state.slope = np.where(change.max(axis=1, keepdims=True) > _JUMP, 0.0, state.slope)
+    at = Start(t, state.grid, state.k, seg, phi0, state.slope)
+    trial = try_step(run, at, state.x, state.volume_m3, state.pipes, state.fronts, cache)
+    step, fl = trial.step, trial.flows
     h = step.h
-    times, values = step_trace(net, step, state.x, state.queues, fm, t, state.grid,
-                               run.output_step_h)
-    mean = inlet_composition(net, net.after, step.stirred_mean, step.pipe_out[0])
-    rec.add_step(times, values, mean, trial.consumption_m3h, h)
-    x_new, vol_new = commit_step(step, state.x, state.volume_m3, net.is_tank, state.queues, fm)
-    state.fronts = advance_fronts(state.fronts, net.pipe_volume_m3, fm, h)
-    rec.add_state(t + h, vol_new, x_new)
-    _check_dry(net, state.volume_m3, vol_new, fm, t)
-    state.warnings += _capacity_warnings(net, vol_new, t + h, state.over_capacity)
-    state.slope = 2.0 * (rec.last_inlet_end - rec.last_inlet_mean) / h
-    state.x, state.volume_m3 = x_new, vol_new
+    x_new, vol_new = _commit_stirred(run, state, step, fl)
+    qp = fl.pipe_flow
+    flowing = qp > NO_FLOW_M3H
+    through = qp * h
+    interior = _interior(h, state.grid, run.output_step_h)
+    if interior and run.inlets.stirred.size:
+        dense = trial.props.dense(dense_start(state.x, step.g, h), interior)
+        rec.add_dense(dense[:, run.inlets.stirred])
+    every = bool(flowing.all())
+    if not every:
+        through = through * np.heaviside(qp - NO_FLOW_M3H, 0.0)
+    parcels = step.inflow[:3].transpose(1, 0, 2)
+    state.pipes.push(through, parcels, every)
+    end, inlet = _ends(run, state, trial, x_new, through)
+    rec.add(t, h, interior, state.inlet, end, qp, parcels)
+    state.pipes.advance(through)
+    state.fronts = advance_fronts(state.fronts, run.net.pipe_volume_m3, through.tolist(),
+                                  fl.into_pipes[:, len(run.net.stirred):])
+    rec.add_state(h * trial.consumption_m3h, trial.inlet_mean, vol_new, x_new)
+    _check_tanks(run, state, vol_new, fl, t, t + h)
+    state.last_end = end[run.inlets.of_consumer]
+    state.slope = 2.0 * (state.last_end - trial.inlet_mean) / h
+    state.inlet, state.x, state.volume_m3 = inlet, x_new, vol_new
     state.time_h, state.grid = _next_time(t, h, run.output_step_h)
-    state.k = _next_exponent(trial.k, trial.error, h, trial.h_try, run.k_max)
+    state.k = next_exponent(trial.k, trial.error, h, trial.h_try, run.k_max)
     state.n_steps += 1
 
 
-def _try_step(
-    run: _Run, state: _State, cache: _PropagatorCache, seg: int, phi0: np.ndarray
-) -> _Trial:
-    """The next step, halved while its error is over twice the allowance (to the shortest)."""
-    net = run.net
-    t, k = state.time_h, state.k
-    h_try = _trial_length_h(k, t, state.grid, run.output_step_h)
-    seg_end = run.segment_bounds_h[seg + 1]
-    rate = run.rates_t_h[seg]
-    while True:
-        phi_mid = phi0 + 0.5 * h_try * state.slope
-        q, consumption = consumer_flows(net, rate, phi_mid, run.kappa_kg_m3, t)
-        fm = flow_matrices(net, net.after, q)
-        h = min(h_try, seg_end - t, run.end_h - t, next_arrival_h(state.fronts, fm.pipe_flow))
-        h = max(h, _MIN_STEP_H)
-        step = compute_step(state.x, state.queues, fm, cache.get(fm, q, state.volume_m3), h)
-        err = _step_error(net, step, rate, consumption, run.kappa_kg_m3, run.tolerance)
-        if err > 2.0 and k > _MIN_STEP_EXP and h >= 0.99 * h_try:
-            k -= 1
-            h_try = h_try / 2.0
-            continue
-        return _Trial(step, fm, consumption, h_try, err, k)
-
-
-def _trial_length_h(k: int, time_h: float, grid: int | None, output_step_h: float) -> float:
-    """``output_step · 2^k``; off the grid, no further than the next output time."""
-    h_try = output_step_h * 2.0**k
+def _interior(h: float, grid: int | None, output_step_h: float) -> int:
+    """How many output times lie inside a step of ``h`` hours (none when it starts off the
+    grid: it then ends on the next output time)."""
     if grid is None:
-        h_try = min(h_try, (math.floor(time_h / output_step_h + 1e-9) + 1) * output_step_h - time_h)
-    return h_try
+        return 0
+    return max(0, math.ceil(h / output_step_h - 1e-9) - 1)
 
 
-def _step_error(
-    net: Network,
-    step: StepResult,
-    rate_t_h: np.ndarray,
-    consumption_m3h: np.ndarray,
-    kappa_kg_m3: np.ndarray,
-    tolerance: float,
-) -> float:
-    """Step error over its allowance (1 = at tolerance; scales about as h²).
+def _commit_stirred(
+    run: Run, state: _State, step: StepResult, fl: Flows
+) -> tuple[np.ndarray, np.ndarray]:
+    """The stirred compositions (S, F) and volumes (S,) at the step end.
 
-    Two parts: the cubic part of pipe inflows and outflows that the quadratic
-    profiles leave out (against ``tolerance``, volume fraction), and the
-    relative error of the frozen consumption flows against the mean inlet
-    blend (against ``tolerance / 10``).
+    From the content ``V·x0 + h·(Σ q_in·mean_in − q_out·mean_x)`` over the new
+    volume: every fuel is conserved to round-off however long the step
+    ([LEVENSPIEL-1999] mass balance [D]); tanks move by ``h·(q_in − q_out)``.
     """
-    used = consumption_m3h > 0.0
-    err = step.shape_error / tolerance
-    if used.any():
-        mean = inlet_composition(net, net.after, step.stirred_mean, step.pipe_out[0])
-        actual = rate_t_h[used] * 1000.0 / (normalise(mean[used]) @ kappa_kg_m3)
-        rel = float(np.abs(actual / consumption_m3h[used] - 1.0).max())
-        err = max(err, rel / (0.1 * tolerance))
-    return err
+    h, mean = step.h, step.moments[1]
+    inflow = fl.into_stirred.dot(np.concatenate((mean, step.outflow[0])))
+    content = state.volume_m3[:, None] * state.x + h * (inflow - fl.stirred_out[:, None] * mean)
+    volume = state.volume_m3 + h * (fl.stirred_in - fl.stirred_out) * run.tank_mask
+    if float(np.minimum.reduce(volume)) > 0.0:
+        return content / volume[:, None], volume
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return np.where(volume[:, None] > 0.0, content / volume[:, None], state.x), volume
 
 
-def _check_dry(
-    net: Network, volume_m3: np.ndarray, new_volume_m3: np.ndarray, fm: FlowMatrices, t_h: float
+_LEFT_RIGHT = np.array([True, False])
+
+
+def _ends(
+    run: Run, state: _State, trial: Trial, x_new: np.ndarray, through_m3: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """Each source's composition at the step end: the left limit closing it and the right
+    limit opening the next (n_sources, F each).
+
+    A stirred node: the propagators' end state, then the bookkept state. A pipe: its
+    parcels (the step's own pushed in, not yet moved on) at the step's throughput; when
+    it passed more than its volume, that is inside the parcel it took in.
+    """
+    inl, step = run.inlets, trial.step
+    n_st = inl.stirred.size
+    end, inlet = np.empty_like(state.inlet), np.empty_like(state.inlet)
+    if n_st:
+        end[:n_st] = step.moments[0][inl.stirred]
+        inlet[:n_st] = x_new[inl.stirred]
+    if inl.pipes.size:
+        w = through_m3[inl.pipes]
+        at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
+              for x, v in zip(w.tolist(), run.net.pipe_volume_m3[inl.pipes].tolist(), strict=True)]
+        if min(at) >= 0.0:  # every source pipe passed more than its volume
+            basis = np.array([[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at])
+            parcel = step.inflow[:3, inl.pipes].transpose(1, 0, 2)  # (m, 3, F)
+            end[n_st:] = inlet[n_st:] = np.matmul(basis[:, None, :], parcel)[:, 0]
+        else:
+            both = state.pipes.sample(inl.pipes, np.repeat(w[:, None], 2, axis=1), _LEFT_RIGHT)
+            end[n_st:], inlet[n_st:] = both[:, 0], both[:, 1]
+    return end, inlet
+
+
+def _check_tanks(
+    run: Run, state: _State, volume_m3: np.ndarray, fl: Flows, t_h: float, t_end_h: float
 ) -> None:
-    """Raise :class:`FlushError` when a tank ran dry during the step that started at ``t_h``."""
-    dry = np.flatnonzero(net.is_tank & (new_volume_m3 < 0.0))
-    if dry.size:
-        i = int(dry[0])
-        t_dry = t_h + volume_m3[i] / (fm.stirred_out[i] - fm.stirred_in[i])
-        raise FlushError(f"tank {net.stirred[i]!r} runs dry at t = {t_dry:.3f} h")
-
-
-def _capacity_warnings(
-    net: Network, volume_m3: np.ndarray, t_h: float, warned: set[str]
-) -> list[str]:
-    """A warning for each tank first over its capacity at ``t_h`` (added to ``warned``)."""
-    out = []
-    for i in np.flatnonzero(net.is_tank & (volume_m3 > net.capacity_m3 * (1 + 1e-9))):
-        if net.stirred[i] not in warned:
-            warned.add(net.stirred[i])
-            out.append(
-                f"tank {net.stirred[i]!r} exceeds its capacity "
-                f"{net.capacity_m3[i]:g} m³ at t = {t_h:.3f} h"
+    """Raise :class:`FlushError` when a tank ran dry during the step from ``t_h``; warn
+    once for each tank first over its capacity at its end ``t_end_h``."""
+    net = run.net
+    vt = volume_m3[run.tanks].tolist()
+    for i, v, cap in zip(run.tanks.tolist(), vt, net.capacity_m3[run.tanks].tolist(), strict=True):
+        if v < 0.0:
+            t_dry = t_h + state.volume_m3[i] / (fl.stirred_out[i] - fl.stirred_in[i])
+            raise FlushError(f"tank {net.stirred[i]!r} runs dry at t = {t_dry:.3f} h")
+        if v > cap * (1 + 1e-9) and net.stirred[i] not in state.over_capacity:
+            state.over_capacity.add(net.stirred[i])
+            state.warnings.append(
+                f"tank {net.stirred[i]!r} exceeds its capacity {cap:g} m³ at t = {t_end_h:.3f} h"
             )
-    return out
 
 
 def _next_time(time_h: float, h: float, output_step_h: float) -> tuple[float, int | None]:
@@ -371,12 +355,3 @@ def _next_time(time_h: float, h: float, output_step_h: float) -> tuple[float, in
     if abs(t_new - g * output_step_h) <= 1e-9 * output_step_h:
         return g * output_step_h, g
     return t_new, None
-
-
-def _next_exponent(k: int, error: float, h: float, h_try: float, k_max: int) -> int:
-    """Double the next trial step after an easy full step, halve it after one over tolerance."""
-    if error < 0.1 and h >= 0.99 * h_try:
-        return min(k + 1, k_max)
-    if error > 1.0:
-        return max(k - 1, _MIN_STEP_EXP)
-    return k

@@ -3,17 +3,20 @@
 Over a step of ``h`` hours the link flows are held constant. Then:
 
 - stirred volumes (tanks and fixed volumes, the well-stirred model
-  ``V·c' = Σ q_in·(c_in − c)`` of [LEVENSPIEL-1999] [D]) follow a linear ODE
-  solved *exactly* by a matrix exponential ([HIGHAM-2005],
-  :mod:`planner.flushing.expm`) of an augmented system that also carries the
-  pipe outflows entering them as quadratics in time and the first four
-  repeated time integrals of every stirred composition (from which each
-  stirred node's step mean and Legendre moments follow);
-- pipes (plug flow, [LEVENSPIEL-1999] [P]) deliver what their parcel queues
-  hold; when a step passes more than a pipe's volume, the part that enters and
-  leaves within the step
-  depends on this step's inflow, so all pipe outflow moments are found
-  together from one small linear system (exact bookkeeping, no iteration);
+  ``V·c' = Σ q_in·(c_in − c)`` of [LEVENSPIEL-1999] [D]) follow the linear ODE
+  ``x' = A·x + g(t)``, where ``g = Bp·u`` carries the pipe outflows ``u``
+  entering them, quadratics in time. Its solution and the first four repeated
+  time integrals of ``x`` (from which each stirred node's step mean and
+  Legendre moments follow) are exact sums of ``G_k = h^k·φ_k(A·h)``, k = 0 … 7,
+  applied to ``x(0)`` and to the inputs' Taylor coefficients
+  (:mod:`planner.flushing.phi`, [HIGHAM-2005]); those sums depend on ``A`` and
+  ``h`` only, so they are kept (:class:`StepMaps`) and reused while the
+  stirred volumes' flows do not change;
+- pipes (plug flow, [LEVENSPIEL-1999] [P]) deliver what their parcels hold;
+  when a step passes more than a pipe's volume, the part that enters and
+  leaves within the step depends on this step's inflow, so all pipe outflow
+  moments are found together from one small linear system (exact
+  bookkeeping, no iteration);
 - the new state comes from exact volume bookkeeping with those means, so every
   fuel is conserved to round-off however long the step.
 
@@ -22,103 +25,179 @@ Time in hours, volumes m³, flows m³/h, compositions as volume fractions (…, 
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
-from planner.flushing.expm import expm
-from planner.flushing.network import FlowMatrices
-from planner.flushing.pipes import PipeQueue, fresh_moments
+from planner.flushing.phi import phi_double, phi_stack
 
-_NO_FLOW = 1e-14
+_ORDER = 7  # φ_0 … φ_7: the end state and four repeated integrals of a quadratic input
+_CACHED_STEPS = 64  # step lengths kept per stirred-volume matrix
+_CACHED_MATRICES = 8  # stirred-volume matrices kept
+
+
+def _moment_coefficients() -> np.ndarray:
+    """``C`` (20, 8): the step maps as sums of φ_k (module docstring, [D]).
+
+    With ``z_n = X_n/h^n`` (``X_0 = x(h)``, ``X_n = ∫(h − t)^(n−1)/(n−1)!·x dt``)
+    and the input in Legendre form ``g = g0 + g1·P1(t/h) + g2·P2(t/h)`` (Taylor
+    coefficients ``a0 = g0 − g1 + g2``, ``a1 = (2g1 − 6g2)/h``, ``a2 = 12g2/h²``):
+    ``z_n = φ_n·x0 + h·[φ_{n+1}·g0 + (2φ_{n+2} − φ_{n+1})·g1
+    + (φ_{n+1} − 6φ_{n+2} + 12φ_{n+3})·g2]``; the outputs are the end state
+    ``z_0``, the mean ``z_1``, and the Legendre slope ``3(z_1 − 2z_2)``,
+    curvature ``5(z_1 − 6z_2 + 12z_3)`` and cubic ``7(z_1 − 12z_2 + 60z_3 − 120z_4)``.
+    Rows (output, input) with outputs end, mean, slope, curvature, cubic and
+    inputs x0, g0, g1, g2.
+    """
+    z = np.zeros((5, 4, _ORDER + 1))
+    for n in range(5):
+        z[n, 0, n] = 1.0
+        z[n, 1, n + 1] = 1.0
+        z[n, 2, n + 1], z[n, 2, n + 2] = -1.0, 2.0
+        z[n, 3, n + 1], z[n, 3, n + 2], z[n, 3, n + 3] = 1.0, -6.0, 12.0
+    outputs = np.array(
+        [
+            [1.0, 0.0, 0.0, 0.0, 0.0],
+            [0.0, 1.0, 0.0, 0.0, 0.0],
+            [0.0, 3.0, -6.0, 0.0, 0.0],
+            [0.0, 5.0, -30.0, 60.0, 0.0],
+            [0.0, 7.0, -84.0, 420.0, -840.0],
+        ]
+    )
+    return np.einsum("mn,nik->mik", outputs, z).reshape(20, _ORDER + 1)
+
+
+_COEF = _moment_coefficients()
+
+
+class StepMaps:
+    """The linear maps of one step of ``h`` hours for one stirred-volume matrix ``A``.
+
+    ``from_x`` (5S, S) and ``from_g`` (5S, 3S) give the end state and the
+    step's mean, Legendre slope, curvature and cubic of every stirred node
+    (five blocks of S rows) from ``x(0)`` and from the Legendre coefficients
+    ``g0, g1, g2`` of the pipe outflows entering them; ``loop`` (9S, S) is the
+    (mean, slope, curvature) × (g0, g1, g2) block, arranged for the pipe system.
+    """
+
+    __slots__ = ("h", "phi", "from_x", "from_g", "loop")
+
+    def __init__(self, phi: np.ndarray, h: float) -> None:
+        s = phi.shape[1]
+        r = _COEF.dot(phi.reshape(_ORDER + 1, s * s)).reshape(5, 4, s, s)
+        r[:, 1:] *= h
+        full = r.transpose(0, 2, 1, 3).reshape(5 * s, 4 * s)
+        self.h, self.phi = h, phi
+        self.from_x = np.ascontiguousarray(full[:, :s])
+        self.from_g = np.ascontiguousarray(full[:, s:])
+        self.loop = np.ascontiguousarray(full[s : 4 * s, s:]).reshape(9 * s, s)
 
 
 class Propagators:
-    """Matrix exponentials of the augmented system for one set of flows and volumes.
+    """The :class:`StepMaps` of one stirred-volume matrix ``A`` (1/h), by step length.
 
-    Augmented state ``z = [x (S), u, u', u'' (P each), X1 … X4 (S each)]``:
-    stirred compositions, the pipe outflows entering them as quadratics in
-    time (value and two derivatives), and the running repeated
-    integrals of ``x`` (``X_k(h) = ∫(h − t)^(k−1) x dt / (k−1)!``, from which the
-    step's Legendre moments of ``x`` follow). ``power(k)`` is ``exp(M·h_out·2^k)`` (k ≥ 0,
-    by squaring); ``step(h)`` is ``exp(M·h)`` for any h.
+    A step twice one already known is found by one application of the
+    doubling identity (:func:`~planner.flushing.phi.phi_double`). ``dense``
+    gives the stirred state at the output times inside a step.
     """
 
-    def __init__(self, fm: FlowMatrices, volume_m3: np.ndarray, output_step_h: float) -> None:
-        s, p = fm.sp.shape
-        self.s, self.p = s, p
-        n = 5 * s + 3 * p
-        m = np.zeros((n, n))
-        xs, us = slice(0, s), slice(s, s + p)
-        ds, d2s = slice(s + p, s + 2 * p), slice(s + 2 * p, s + 3 * p)
-        xk = [slice(s * k + 3 * p, s * (k + 1) + 3 * p) for k in range(1, 5)]
-        m[xs, xs] = (fm.ss - np.diag(fm.stirred_in)) / volume_m3[:, None]
-        m[xs, us] = fm.sp / volume_m3[:, None]
-        m[us, ds] = np.eye(p)
-        m[ds, d2s] = np.eye(p)
-        m[xk[0], xs] = np.eye(s)
-        for a, b in zip(xk[1:], xk, strict=False):
-            m[a, b] = np.eye(s)
-        self.matrix = m
-        self.slices = (xs, us, ds, d2s, *xk)
+    def __init__(self, a: np.ndarray, output_step_h: float) -> None:
+        self.a = a
         self.output_step_h = output_step_h
-        self._powers: list[np.ndarray] = []
-        self._steps: dict[float, np.ndarray] = {}
+        self._maps: dict[float, StepMaps] = {}
+        self._dense: list[np.ndarray] = []
 
-    def power(self, k: int) -> np.ndarray:
-        """``exp(M·h_out·2^k)``, k ≥ 0."""
-        if not self._powers:
-            self._powers.append(expm(self.matrix * self.output_step_h))
-        while len(self._powers) <= k:
-            self._powers.append(self._powers[-1] @ self._powers[-1])
-        return self._powers[k]
+    def maps(self, h: float) -> StepMaps:
+        """The :class:`StepMaps` of a step of ``h`` hours."""
+        found = self._maps.get(h)
+        if found is None:
+            half = self._maps.get(0.5 * h)
+            phi = phi_double(half.phi) if half is not None else phi_stack(self.a * h, _ORDER)
+            if len(self._maps) >= _CACHED_STEPS:
+                self._maps.clear()
+            found = self._maps[h] = StepMaps(phi, h)
+        return found
 
-    def step(self, h: float) -> np.ndarray:
-        """``exp(M·h)``: a power of the output propagator when ``h = h_out·2^k``."""
-        ratio = h / self.output_step_h
-        k = int(round(np.log2(ratio))) if ratio > 0.999 else -1
-        if k >= 0 and abs(ratio - 2.0**k) <= 1e-9 * ratio:
-            return self.power(k)
-        if h not in self._steps:
-            if len(self._steps) > 32:
-                self._steps.clear()
-            self._steps[h] = expm(self.matrix * h)
-        return self._steps[h]
+    def dense(self, y0: np.ndarray, count: int) -> np.ndarray:
+        """``x`` at ``h_out, 2·h_out, …, count·h_out`` into a step: (count, S, F).
 
-    def dense(self, z0: np.ndarray, count: int) -> np.ndarray:
-        """``z`` at ``h_out, 2·h_out, …, count·h_out`` after ``z0``: shape (count, N, F)."""
-        cur = z0[None]
+        ``y0`` (4S, F) is ``[x(0); a0; a1; a2]``, the state and the Taylor
+        coefficients of the input ``g``; ``[x, g, g', g'']`` advances by
+        ``exp`` of its augmented matrix over ``h_out`` (blocks ``G_k``), applied
+        by repeated squaring.
+        """
+        if not self._dense:
+            self._dense.append(_augmented_step(self.a, self.output_step_h))
+        cur = y0[None]
         level = 0
         while cur.shape[0] < count + 1:
-            cur = np.concatenate((cur, np.matmul(self.power(level), cur)), axis=0)
+            if len(self._dense) <= level:
+                self._dense.append(self._dense[-1] @ self._dense[-1])
+            cur = np.concatenate((cur, np.matmul(self._dense[level], cur)), axis=0)
             level += 1
-        return cur[1 : count + 1]
+        return cur[1 : count + 1, : self.a.shape[0]]
 
 
-@dataclass
-class StepResult:
+def _augmented_step(a: np.ndarray, tau: float) -> np.ndarray:
+    """``exp`` over ``tau`` of ``[x, g, g', g'']`` with ``x' = A·x + g`` and ``g''' = 0``."""
+    s = a.shape[0]
+    phi = phi_stack(a * tau, 3)
+    eye = np.eye(s)
+    e = np.zeros((4 * s, 4 * s))
+    for k in range(4):
+        e[:s, k * s : (k + 1) * s] = tau**k * phi[k]
+    for row in range(1, 4):
+        for k in range(row, 4):
+            shift = tau ** (k - row) / _FACT[k - row]  # g^(row) advances by Taylor's formula
+            e[row * s : (row + 1) * s, k * s : (k + 1) * s] = shift * eye
+    return e
+
+
+_FACT = (1.0, 1.0, 2.0, 6.0)
+
+
+class PropagatorCache:
+    """:class:`Propagators` by the stirred-volume matrix, compared to the last bit."""
+
+    def __init__(self, output_step_h: float) -> None:
+        self.output_step_h = output_step_h
+        self._by_matrix: dict[bytes, Propagators] = {}
+
+    def get(self, a: np.ndarray) -> Propagators:
+        """The :class:`Propagators` of the stirred-volume matrix ``a`` (S, S) [1/h]."""
+        key = a.tobytes()
+        found = self._by_matrix.get(key)
+        if found is None:
+            if len(self._by_matrix) >= _CACHED_MATRICES:
+                self._by_matrix.clear()
+            found = self._by_matrix[key] = Propagators(a.copy(), self.output_step_h)
+        return found
+
+
+class StepResult(NamedTuple):
     """What one step computes, before it is committed."""
 
     h: float
-    z0: np.ndarray  # (N, F) augmented start state
-    x_end: np.ndarray  # (S, F) ODE end state (left limit)
-    stirred_mean: np.ndarray  # (S, F)
-    pipe_in: np.ndarray  # (3, P, F) inlet mean, slope and curvature (the parcel to push)
-    pipe_out: np.ndarray  # (2, P, F) outflow mean and slope
-    shape_error: float  # largest cubic (P3) coefficient of a pipe inflow or outflow
-    props: Propagators  # the propagators used (for dense output)
+    moments: np.ndarray  # (5, S, F): end state, mean, slope, curvature, cubic of x
+    outflow: np.ndarray  # (3, P, F): pipe outflow mean, slope and curvature
+    inflow: np.ndarray  # (4, P, F): pipe inflow mean, slope, curvature (the parcel to push),
+    #                     and the cubic part of its stirred share
+    g: np.ndarray  # (3, S, F): Legendre coefficients of the pipe outflows into the stirred
+    shape_error: float  # largest cubic coefficient the quadratic profiles leave out [-]
 
 
 def compute_step(
     x0: np.ndarray,
-    queues: list[PipeQueue],
-    fm: FlowMatrices,
-    props: Propagators,
-    h: float,
+    known: np.ndarray,
+    fresh: np.ndarray | None,
+    bp: np.ndarray,
+    shares: Shares,
+    maps: StepMaps,
+    checked: np.ndarray,
 ) -> StepResult:
-    """Solve one step with frozen flows, from the stirred state and the pipe queues.
+    """Solve one step with frozen flows, from the stirred state and the pipes' content.
 
-    Stirred volumes follow the linear ODE exactly through ``exp(M·h)``
+    Stirred volumes follow the linear ODE exactly through the step maps
     ([LEVENSPIEL-1999] CSTR model; [HIGHAM-2005] for the exponential); the
     pipes' outflows are the parcels they hold plus, when the step passes more
     than a pipe's volume, what enters and leaves within the step, all found
@@ -128,237 +207,146 @@ def compute_step(
     ----------
     x0 : ndarray (S, F) [-]
         Volume fractions in each stirred node at the step start.
-    queues : list of PipeQueue
-        The pipes' content (read, not changed).
-    fm : FlowMatrices
-        The link flows held over the step [m³/h].
-    props : Propagators
-        The matrix exponentials for these flows and volumes.
+    known : ndarray (P, 4, F) [-]
+        Outflow moments (mean, slope, curvature, cubic) from the parcels now
+        in each pipe (:meth:`~planner.flushing.pipes.PipeSet.window`).
+    fresh : ndarray (P, 4, 3) or None [-]
+        The map from each pipe's inflow moments to its outflow's
+        (:func:`~planner.flushing.pipes.fresh_maps`); None when no pipe passes
+        more than its volume.
+    bp : ndarray (S, P) [1/h]
+        Pipe outflow into each stirred volume over its volume.
+    shares : Shares
+        Share of each pipe's inflow from each stirred volume and each pipe [-].
+    maps : StepMaps
+        The stirred-volume maps for this step length and these flows.
+    checked : ndarray (2, P) [-]
+        1 where the cubic part counts toward the error: of a pipe's outflow
+        into a stirred volume (first row), of a pipe's inflow (second row).
+
+    Returns
+    -------
+    StepResult
+        Moments of the stirred compositions and of the pipe outflows and
+        inflows over the step [-]: exact for stirred volumes and plug flow; the
+        pipes carry quadratic profiles, so a stirred outflow entering a pipe is
+        approximated to its cubic part (``shape_error``, the error estimate).
+    """
+    s, p = bp.shape
+    mx = maps.from_x.dot(x0)
+    if fresh is None:
+        out = known[:, :3].transpose(1, 0, 2)
+    else:
+        out = _pipe_outflows(maps, mx, known, fresh, bp, shares)
+    g = np.matmul(bp, out)
+    moments = mx + maps.from_g.dot(g.reshape(3 * s, -1))
+    moments = moments.reshape(5, s, -1)
+    inflow = np.matmul(shares.ws, moments[1:])
+    inflow[:3] += np.matmul(shares.wp, out)
+    shape = 0.0
+    if p:
+        cubic = np.empty((2, p, x0.shape[1]))
+        if fresh is None:
+            np.abs(known[:, 3], out=cubic[0])
+        else:
+            np.matmul(fresh[:, 3:, :3], inflow[:3].transpose(1, 0, 2), out=cubic[0, :, None])
+            cubic[0] += known[:, 3]
+            np.abs(cubic[0], out=cubic[0])
+        np.abs(inflow[3], out=cubic[1])
+        shape = float(np.maximum.reduce((cubic.max(axis=2) * checked).ravel()))
+    return StepResult(maps.h, moments, out, inflow, g, shape)
+
+
+class Shares(NamedTuple):
+    """Each pipe's inflow shares from the stirred volumes and the pipes (all [-])."""
+
+    ws: np.ndarray  # (P, S)
+    wp: np.ndarray  # (P, P)
+    wp_blocks: np.ndarray  # (3, P, 3P): wp on the diagonal blocks of the pipe system
+
+
+def shares_of(w_in: np.ndarray, s: int) -> Shares:
+    """The :class:`Shares` of the inflow shares ``w_in`` (P, S + P) [-].
+
+    Parameters
+    ----------
+    w_in : ndarray (P, S + P) [-]
+        Share of each pipe's inflow from each stirred volume, then each pipe.
+    s : int [-]
+        Number of stirred volumes S.
+
+    Returns
+    -------
+    Shares
+        ``ws``, ``wp`` as contiguous arrays, and ``wp`` set on the diagonal
+        blocks of a (3, P, 3P) array.
+    """
+    p = w_in.shape[0]
+    blocks = np.zeros((3, p, 3 * p))
+    for j in range(3):
+        blocks[j, :, j * p : (j + 1) * p] = w_in[:, s:]
+    return Shares(np.ascontiguousarray(w_in[:, :s]), np.ascontiguousarray(w_in[:, s:]), blocks)
+
+
+def _pipe_outflows(
+    maps: StepMaps,
+    mx: np.ndarray,
+    known: np.ndarray,
+    fresh: np.ndarray,
+    bp: np.ndarray,
+    shares: Shares,
+) -> np.ndarray:
+    """Outflow moments O0, O1, O2 (3, P, F) of every pipe over the step.
+
+    The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` and
+    ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + loop·(Bp·O)``: with
+    the unknowns ordered (moment, pipe) and the equations (pipe, moment),
+    ``(Π − F·T)·O = K + F·U`` (Π the permutation between the two orders).
+    """
+    s, p = bp.shape
+    f = mx.shape[1]
+    aug = np.concatenate((maps.loop.dot(bp).reshape(3 * s, 3 * p), mx[s : 4 * s]), axis=1)
+    tu = np.matmul(shares.ws, aug.reshape(3, s, 3 * p + f))  # (3, P, 3P + F): [T | U]
+    tu[:, :, : 3 * p] += shares.wp_blocks
+    ftu = np.matmul(fresh[:, :3, :3], tu.transpose(1, 0, 2)).reshape(3 * p, 3 * p + f)
+    system = _permutation(p) - ftu[:, : 3 * p]
+    rhs = known[:, :3].reshape(3 * p, f) + ftu[:, 3 * p :]
+    return np.linalg.solve(system, rhs).reshape(3, p, f)
+
+
+_PERMUTATIONS: dict[int, np.ndarray] = {}
+
+
+def _permutation(p: int) -> np.ndarray:
+    """Π (3P, 3P): row (pipe q, moment i) has its 1 in column (moment i, pipe q)."""
+    found = _PERMUTATIONS.get(p)
+    if found is None:
+        found = np.zeros((3 * p, 3 * p))
+        for q in range(p):
+            for i in range(3):
+                found[q * 3 + i, i * p + q] = 1.0
+        _PERMUTATIONS[p] = found
+    return found
+
+
+def dense_start(x0: np.ndarray, g: np.ndarray, h: float) -> np.ndarray:
+    """``[x(0); a0; a1; a2]`` (4S, F) for :meth:`Propagators.dense`.
+
+    Parameters
+    ----------
+    x0 : ndarray (S, F) [-]
+        Stirred compositions at the step start.
+    g : ndarray (3, S, F) [1/h]
+        Legendre coefficients of the pipe outflows into the stirred volumes.
     h : float [h]
         Step length.
 
     Returns
     -------
-    StepResult
-        Means and moments over the step, the end state, and the cubic part
-        the quadratic profiles leave out [-] (exact for stirred volumes and
-        plug flow; the pipes carry quadratic profiles, so a stirred outflow
-        entering a pipe is approximated to that cubic part).
+    ndarray (4S, F) [-, 1/h, 1/h², 1/h³]
+        The state and the input's Taylor coefficients at the step start.
     """
-    p, f = props.p, x0.shape[1]
-    xs = props.slices[0]
-    big = props.step(h)
-    rows = _moment_rows(big, props.slices, h)
-    queued = _queued_outflow(queues, fm.pipe_flow, h, f)
-    ws, wp = _inflow_weights(fm, queued.flowing)
-    o0, o1, o2 = _pipe_outflows(queued, _outflow_maps(rows, props.slices, h), ws, wp, x0)
-    z0 = _augmented_start(big.shape[0], props.slices, x0, (o0, o1, o2), h)
-    mean_x = rows.mean @ z0
-    i0 = ws @ mean_x + wp @ o0
-    i1 = ws @ (rows.slope @ z0) + wp @ o1
-    i2 = ws @ (rows.curvature @ z0) + wp @ o2
-    x_end = big[xs] @ z0
-    shape = _shape_error(fm, queued, ws @ (rows.cubic @ z0), (i0, i1, i2)) if p else 0.0
-    pipe_in = np.stack((i0, i1, i2))
-    return StepResult(h, z0, x_end, mean_x, pipe_in, np.stack((o0, o1)), shape, props)
-
-
-@dataclass(frozen=True)
-class _MomentRows:
-    """Rows of ``exp(M·h)`` giving the step's Legendre moments of ``x`` from ``z0`` (S, N)."""
-
-    mean: np.ndarray
-    slope: np.ndarray
-    curvature: np.ndarray
-    cubic: np.ndarray
-
-
-def _moment_rows(big: np.ndarray, slices: tuple[slice, ...], h: float) -> _MomentRows:
-    """Legendre moments of x over the step from its repeated integrals X1 … X4 at h."""
-    x1, x2, x3, x4 = slices[4:]
-    rm = big[x1] / h  # step mean of x, as a map of z0
-    rl = 3.0 * (big[x1] / h - 2.0 * big[x2] / (h * h))  # Legendre slope of x
-    rq = 5.0 * (big[x1] / h - 6.0 * big[x2] / h**2 + 12.0 * big[x3] / h**3)  # curvature
-    # cubic Legendre coefficient: P3(1 − v) = −P3(v), ∫(1 − u)^(k−1)·x du = (k−1)!·X_k/h^k
-    rc = -7.0 * (
-        120.0 * big[x4] / h**4 - 60.0 * big[x3] / h**3 + 12.0 * big[x2] / h**2 - big[x1] / h
-    )
-    return _MomentRows(rm, rl, rq, rc)
-
-
-@dataclass(frozen=True)
-class _QueuedOutflow:
-    """What the parcels now in each pipe deliver over the step, and the map of the rest."""
-
-    known: np.ndarray  # (4, P, F) outflow moments from the parcels now in each pipe
-    fresh: np.ndarray  # (P, 4, 3) map from this step's inflow moments to the outflow's
-    flowing: np.ndarray  # (P,) bool
-
-
-def _queued_outflow(
-    queues: list[PipeQueue], pipe_flow_m3h: np.ndarray, h: float, n_fuels: int
-) -> _QueuedOutflow:
-    """Outflow moments of each pipe's present content over a step of ``h`` hours."""
-    p = len(queues)
-    flowing = pipe_flow_m3h > _NO_FLOW
-    known = np.zeros((4, p, n_fuels))
-    fresh = np.zeros((p, 4, 3))
-    for i, queue in enumerate(queues):
-        if not flowing[i]:
-            known[0, i] = queue.outlet()
-            continue
-        through = pipe_flow_m3h[i] * h
-        known[:, i] = queue.window(min(queue.volume_m3, through), through)
-        fresh[i] = fresh_moments(queue.volume_m3, through)
-    return _QueuedOutflow(known, fresh, flowing)
-
-
-def _inflow_weights(fm: FlowMatrices, flowing: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Shares of each pipe's inflow from each stirred node (P, S) and each pipe (P, P)."""
-    qp = fm.pipe_flow
-    with np.errstate(invalid="ignore", divide="ignore"):
-        ws = np.where(flowing[:, None], fm.ps / qp[:, None], 0.0)
-        wp = np.where(flowing[:, None], fm.pp / qp[:, None], 0.0)
-    return ws, wp
-
-
-_Maps = list[tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]]
-
-
-def _outflow_maps(rows: _MomentRows, slices: tuple[slice, ...], h: float) -> _Maps:
-    """Legendre moments (mean, slope, curvature) of x as maps of x0, O0, O1, O2.
-
-    A pipe outflow O0 + O1·P1(τ) + O2·P2(τ) enters the ODE as
-    u(0) = O0 − O1 + O2, u'(0) = (2·O1 − 6·O2)/h, u''(0) = 12·O2/h².
-    """
-    xs, us, ds, d2s = slices[:4]
-    return [
-        (
-            r[:, xs],
-            r[:, us],
-            -r[:, us] + (2.0 / h) * r[:, ds],
-            r[:, us] - (6.0 / h) * r[:, ds] + (12.0 / h**2) * r[:, d2s],
-        )
-        for r in (rows.mean, rows.slope, rows.curvature)
-    ]
-
-
-def _pipe_outflows(
-    queued: _QueuedOutflow, maps: _Maps, ws: np.ndarray, wp: np.ndarray, x0: np.ndarray
-) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Outflow moments O0, O1, O2 (P, F) of every pipe over the step.
-
-    ``y = [O0; O1; O2]``; the inflow moments are ``I_j = ws·(moment j of x) + wp·O_j``
-    and ``O = K + F·I``: one linear system when any pipe passes more than its
-    volume in the step, else just the parcels now in the pipes.
-    """
-    known, fresh = queued.known, queued.fresh
-    if not np.any(fresh):
-        return known[0], known[1], known[2]
-    p, f = fresh.shape[0], x0.shape[1]
-    tx = np.vstack([ws @ mp[0] for mp in maps])
-    ty = np.zeros((3 * p, 3 * p))
-    for j, mp in enumerate(maps):
-        for col in range(3):
-            ty[j * p : (j + 1) * p, col * p : (col + 1) * p] = ws @ mp[col + 1]
-        ty[j * p : (j + 1) * p, j * p : (j + 1) * p] += wp
-    fd = np.zeros((3 * p, 3 * p))
-    diag = np.arange(p)
-    for r_ in range(3):
-        for c_ in range(3):
-            fd[r_ * p + diag, c_ * p + diag] = fresh[:, r_, c_]
-    rhs = known[:3].reshape(3 * p, f) + fd @ (tx @ x0)
-    y = np.linalg.solve(np.eye(3 * p) - fd @ ty, rhs)
-    return y[:p], y[p : 2 * p], y[2 * p :]
-
-
-def _augmented_start(
-    n: int,
-    slices: tuple[slice, ...],
-    x0: np.ndarray,
-    outflow: tuple[np.ndarray, np.ndarray, np.ndarray],
-    h: float,
-) -> np.ndarray:
-    """The augmented start state ``z0`` (N, F): x0, the pipe outflows as quadratics, X = 0."""
-    xs, us, ds, d2s = slices[:4]
-    o0, o1, o2 = outflow
-    z0 = np.zeros((n, x0.shape[1]))
-    z0[xs] = x0
-    z0[us] = o0 - o1 + o2
-    z0[ds] = (2.0 * o1 - 6.0 * o2) / h
-    z0[d2s] = (12.0 / h**2) * o2
-    return z0
-
-
-def _shape_error(
-    fm: FlowMatrices,
-    queued: _QueuedOutflow,
-    i3: np.ndarray,
-    inflow: tuple[np.ndarray, np.ndarray, np.ndarray],
-) -> float:
-    """What the quadratic profiles leave out: the largest cubic coefficient [-].
-
-    The cubic part ``i3`` of every pipe's inflow, and of the outflow of the
-    parcels entering a stirred volume.
-    """
-    fresh, flowing = queued.fresh, queued.flowing
-    o3 = queued.known[3] + sum(fresh[:, 3, j][:, None] * m for j, m in enumerate(inflow))
-    to_stirred = fm.sp.sum(axis=0) > 0.0
-    return float(
-        max(
-            np.abs(o3[flowing & to_stirred]).max(initial=0.0),
-            np.abs(i3[flowing]).max(initial=0.0),
-        )
-    )
-
-
-def commit_step(
-    step: StepResult,
-    x0: np.ndarray,
-    volume_m3: np.ndarray,
-    is_tank: np.ndarray,
-    queues: list[PipeQueue],
-    fm: FlowMatrices,
-) -> tuple[np.ndarray, np.ndarray]:
-    """Advance the pipe queues in place and return the new stirred state (bookkeeping).
-
-    Parameters
-    ----------
-    step : StepResult
-        The step, from :func:`compute_step`.
-    x0 : ndarray (S, F) [-]
-        Volume fractions in each stirred node at the step start.
-    volume_m3 : ndarray (S,) [m³]
-        Stirred volumes at the step start.
-    is_tank : ndarray (S,) of bool [-]
-        Which stirred nodes are tanks (their volume changes).
-    queues : list of PipeQueue
-        The pipes' content: each takes in the step's inflow parcel and gives
-        out its throughput.
-    fm : FlowMatrices
-        The flows held over the step [m³/h].
-
-    Returns
-    -------
-    x : ndarray (S, F) [-]
-        Volume fractions at the step end, from the content
-        ``V·x0 + h·(Σ q_in·mean_in − q_out·mean_x)`` over the new volume:
-        every fuel is conserved to round-off however long the step
-        ([LEVENSPIEL-1999] mass balance [D]).
-    volume_m3 : ndarray (S,) [m³]
-        Stirred volumes at the step end (tanks ``V + h·(q_in − q_out)``).
-    """
-    h = step.h
-    mean_x = step.stirred_mean
-    o0 = step.pipe_out[0]
-    content = volume_m3[:, None] * x0 + h * (fm.ss @ mean_x + fm.sp @ o0)
-    content -= h * fm.stirred_out[:, None] * mean_x
-    new_volume = np.where(is_tank, volume_m3 + h * (fm.stirred_in - fm.stirred_out), volume_m3)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        x_new = np.where(new_volume[:, None] > 0.0, content / new_volume[:, None], x0)
-    for i, queue in enumerate(queues):
-        through = fm.pipe_flow[i] * h
-        if through > _NO_FLOW * h:
-            queue.push(through, step.pipe_in[:, i])
-            queue.pop(through)
-    return x_new, new_volume
+    a0 = g[0] - g[1] + g[2]
+    a1 = (2.0 * g[1] - 6.0 * g[2]) / h
+    a2 = (12.0 / (h * h)) * g[2]
+    return np.concatenate((x0, a0, a1, a2))

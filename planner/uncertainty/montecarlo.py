@@ -39,9 +39,10 @@ from planner.ship.system import FuelSystem
 from planner.uncertainty.inputs import Z95, UncertaintySpec
 from planner.uncertainty.model import circuit_nodes
 from planner.uncertainty.sampling import Samples, draw, input_defs
-from planner.uncertainty.sensitivity import Sensitivity, sensitivity, time_of
+from planner.uncertainty.sensitivity import Sensitivity, sensitivity
 from planner.uncertainty.surrogate import (
     Case,
+    Simulator,
     Surrogate,
     axes_for,
     build_surrogate,
@@ -227,12 +228,11 @@ def _check_indices(lead: np.ndarray, u: np.ndarray, confidence: float, count: in
     return list(dict.fromkeys(picks))[:count]
 
 
-def _warnings(sur: Surrogate, samples: Samples, s: CircuitSummary,
+def _warnings(sur: Surrogate, s: CircuitSummary, theta: np.ndarray,
               t_target: np.ndarray) -> list[str]:
-    """Samples whose new fuel never reaches the target, and samples late past the horizon."""
+    """Samples whose new fuel never reaches the target, and samples late past the horizon
+    (``theta`` (n,) [-]: each sample's share of the new fuel at the target)."""
     out = []
-    fuels = sur.nominal.fuels
-    theta = sur.nominal.levels(samples.sulphur(fuels), s.target_pct, s.direction == "to_compliant")
     never = float(np.mean(~np.isfinite(theta)))
     if never > 0.0:
         out.append(f"in {never:.1%} of samples the new fuel's own sulphur is beyond the target "
@@ -250,7 +250,8 @@ def analyse(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
             spec: UncertaintySpec | None = None, confidence: float = 0.99,
             samples: int = DEFAULT_SAMPLES, seed: int | None = DEFAULT_SEED,
             checks: int = DEFAULT_CHECKS, deterministic: CircuitSummary | None = None,
-            progress: Callable[[int, int], None] | None = None) -> CircuitUncertainty:
+            progress: Callable[[int, int], None] | None = None,
+            simulator: Simulator | None = None) -> CircuitUncertainty:
     """The Monte Carlo of one circuit's changeover.
 
     Parameters
@@ -278,6 +279,9 @@ def analyse(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
         The plain flush's summary, if already computed (else it is).
     progress : callable (done, total), optional
         Called after each simulation.
+    simulator : Simulator, optional
+        What runs the surrogate's and the check's simulations (default
+        :func:`planner.flushing.simulate`; the plan passes its remembering one).
 
     Returns
     -------
@@ -310,28 +314,32 @@ def analyse(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
     n_axes = len(axes_for(defs))
     total = 1 + 2 * n_axes + (checks if n_axes else 0)
     sur = build_surrogate(system, circuit, from_tank, to_tank, schedule, defs, horizon,
-                          min(horizon, 1.5 * t_det), progress=progress, total=total)
+                          min(horizon, 1.5 * t_det), progress=progress, total=total,
+                          simulator=simulator)
     smp = draw(defs, samples, seed)
-    t_target = time_of(sur, smp, target_pct, down)
-    t_limit = time_of(sur, smp, limit_pct, down)
+    u = sur.u(smp)
+    sulphur = smp.sulphur(sur.nominal.fuels)
+    theta = sur.nominal.levels(sulphur, target_pct, down)
+    t_target = sur.time_h(theta, u)
+    t_limit = sur.time_h(sur.nominal.levels(sulphur, limit_pct, down), u)
     lead = t_target + smp.early_h
     sens = sensitivity(sur, smp, lead, target_pct, down)
-    u = sur.u(smp)
     idx = _check_indices(lead, u, confidence, checks) if sur.axes else []
     check = _surrogate_check(system, circuit, from_tank, to_tank, schedule, sur, smp, u, idx,
-                             t_target, target_pct, down, progress)
+                             t_target, target_pct, down, progress, simulator)
     return CircuitUncertainty(
         deterministic=s, spec=spec, confidence=float(confidence), samples=smp,
         time_to_target_h=t_target, time_to_limit_h=t_limit, horizon_h=sur.horizon_h,
         compliant_rate_t_h=_compliant_rate(system, s, schedule, t_det),
         sensitivity=sens, check=check, simulations=sur.simulations + len(idx),
-        warnings=tuple(_warnings(sur, smp, s, t_target)))
+        warnings=tuple(_warnings(sur, s, theta, t_target)))
 
 
 def _surrogate_check(system: FuelSystem, circuit: str, from_tank: str, to_tank: str,
                      schedule: ConsumptionSchedule, sur: Surrogate, smp: Samples,
                      u: np.ndarray, idx: list[int], t_target: np.ndarray, target_pct: float,
-                     down: bool, progress: Callable[[int, int], None] | None) -> SurrogateCheck:
+                     down: bool, progress: Callable[[int, int], None] | None,
+                     simulator: Simulator | None = None) -> SurrogateCheck:
     """Simulate the samples ``idx`` exactly (all their inputs at once) against the surrogate.
 
     ``u`` (n, A) are the samples' ln-factors [-], ``t_target`` (n,) their surrogate times
@@ -342,7 +350,8 @@ def _surrogate_check(system: FuelSystem, circuit: str, from_tank: str, to_tank: 
                   float(smp.values["consumption"][i])) for i in idx]
     done = sur.simulations
     curves, _ = run_cases(system, circuit, from_tank, to_tank, schedule, sur.horizon_h,
-                          sur.horizon_h, cases, progress, done, done + len(cases))
+                          sur.horizon_h, cases, progress, done, done + len(cases),
+                          simulator=simulator)
     sulphur = smp.sulphur(sur.nominal.fuels)
     exact = [float(c.time_to_h(sulphur[i:i + 1], target_pct, down)[0])
              for c, i in zip(curves, idx, strict=True)]

@@ -11,6 +11,11 @@
   rank; samples that never reach the target rank highest), computed with numpy
   (checked against ``scipy.stats.spearmanr`` in the tests, [SCIPY-2020]).
 
+Vectorised: the lead's ranks are found once for every input, ties are found
+on the sorted samples (no second sort), and the swings' ends are evaluated by
+the surrogate in one batch (each end's sulphur level θ* on its own row, as
+before, so every figure is the one the sample-by-sample evaluation gives).
+
 The **main driver** is the input with the largest |ρ|: it accounts for each
 input's actual spread, where a swing shows only its ends.
 """
@@ -34,22 +39,40 @@ def ranks(x: np.ndarray) -> np.ndarray:
     [2.5, 1.0, 2.5, 4.0]
     """
     x = np.asarray(x, dtype=float)
-    order = np.argsort(x, kind="mergesort")
-    r = np.empty(len(x))
-    r[order] = np.arange(1, len(x) + 1)
-    _, inverse, counts = np.unique(x, return_inverse=True, return_counts=True)
-    if len(counts) == len(x):
+    n = len(x)
+    order = np.argsort(x)  # any order among ties: their ranks are averaged below
+    r = np.empty(n)
+    r[order] = np.arange(1, n + 1)
+    xs = x[order]
+    new = np.empty(n, dtype=bool)
+    new[:1] = True
+    np.not_equal(xs[1:], xs[:-1], out=new[1:])
+    if n and np.isnan(xs[-1]):  # NaNs sort last and count as one value, as np.unique has it
+        new[1:] &= ~(np.isnan(xs[1:]) & np.isnan(xs[:-1]))
+    if new.all():
         return r
-    sums = np.bincount(inverse, weights=r)
-    return (sums / counts)[inverse]
+    first = np.flatnonzero(new)
+    last = np.append(first[1:], n) - 1
+    mean = (first + last + 2) / 2.0  # mean of the ranks first + 1 … last + 1 (exact)
+    r[order] = mean[np.cumsum(new) - 1]
+    return r
+
+
+def _centred_ranks(x: np.ndarray) -> np.ndarray:
+    """:func:`ranks` of ``x`` less their mean."""
+    r = ranks(x)
+    return r - r.mean()
+
+
+def _correlation(rx: np.ndarray, ry: np.ndarray) -> float:
+    """Pearson's correlation [-] of centred ranks; 0 when either is constant."""
+    den = float(np.sqrt((rx @ rx) * (ry @ ry)))
+    return float(rx @ ry / den) if den > 0.0 else 0.0
 
 
 def spearman(x: np.ndarray, y: np.ndarray) -> float:
     """Spearman's rank correlation [-] of ``x`` and ``y``; 0 when either is constant."""
-    rx, ry = ranks(x), ranks(y)
-    rx, ry = rx - rx.mean(), ry - ry.mean()
-    den = float(np.sqrt((rx @ rx) * (ry @ ry)))
-    return float(rx @ ry / den) if den > 0.0 else 0.0
+    return _correlation(_centred_ranks(x), _centred_ranks(y))
 
 
 @dataclass(frozen=True)
@@ -149,16 +172,43 @@ def sensitivity(surrogate: Surrogate, samples: Samples, lead: np.ndarray, level_
     Sensitivity
         Swings [h], largest first; Spearman's ρ [-] by input key.
     """
+    uncertain = [d for d in samples.defs if d.uncertain]
+    leads = iter(swing_leads(surrogate, samples.defs, level_pct, down))
     swings = []
-    for d in samples.defs:
-        if not d.uncertain:
-            continue
-        ends = []
-        for value in (d.low, d.high):
-            one = one_at_a_time(samples.defs, d.key, value)
-            ends.append(_h(lead_of(surrogate, one, level_pct, down)[0]))
+    for d in uncertain:
+        low, high = _h(next(leads)), _h(next(leads))
         exact = _exact(surrogate, d, d.low) and _exact(surrogate, d, d.high)
-        swings.append(Swing(d.key, d.label, d.unit, d.low, d.high, ends[0], ends[1], exact))
+        swings.append(Swing(d.key, d.label, d.unit, d.low, d.high, low, high, exact))
     swings.sort(key=lambda s: -(np.inf if s.swing_h is None else s.swing_h))
-    rho = {d.key: spearman(samples.values[d.key], lead) for d in samples.defs if d.uncertain}
+    ry = _centred_ranks(lead)
+    rho = {d.key: _correlation(_centred_ranks(samples.values[d.key]), ry) for d in uncertain}
     return Sensitivity(tuple(swings), rho, {d.key: d.label for d in samples.defs})
+
+
+def swing_leads(surrogate: Surrogate, defs: tuple[InputDef, ...], level_pct: float,
+                down: bool) -> np.ndarray:
+    """The lead [h] with one uncertain input at its low and then its high end, the others
+    nominal, for each uncertain input of ``defs`` in order: ``[low₁, high₁, low₂, …]``.
+
+    One batch through the surrogate; each end's level θ* comes from its own one-row
+    sulphur sample, so each lead is the one :func:`lead_of` gives for that end alone.
+
+    Parameters
+    ----------
+    surrogate : Surrogate
+    defs : tuple of InputDef
+        The inputs.
+    level_pct : float [% m/m]
+        The level the leads are to.
+    down : bool
+        True going to compliant fuel (at or below the level).
+    """
+    ends = [one_at_a_time(defs, d.key, v) for d in defs if d.uncertain for v in (d.low, d.high)]
+    if not ends:
+        return np.zeros(0)
+    fuels = surrogate.nominal.fuels
+    theta = np.concatenate([surrogate.nominal.levels(e.sulphur(fuels), level_pct, down)
+                            for e in ends])
+    batch = Samples(defs, {d.key: np.concatenate([e.values[d.key] for e in ends])
+                           for d in defs}, len(ends), None)
+    return surrogate.time_h(theta, surrogate.u(batch)) + batch.early_h

@@ -12,7 +12,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import NamedTuple
 
-from planner.flushing import ConsumptionSchedule, flush
+from planner.flushing import CircuitSummary, ConsumptionSchedule, flush
 from planner.ship.system import FuelSystem
 from planner.uncertainty.inputs import UncertaintySpec
 from planner.uncertainty.montecarlo import (
@@ -21,6 +21,7 @@ from planner.uncertainty.montecarlo import (
     CircuitUncertainty,
     analyse,
 )
+from planner.uncertainty.surrogate import Simulator
 
 ScheduleSource = ConsumptionSchedule | Callable[[float], ConsumptionSchedule]
 
@@ -69,7 +70,9 @@ def start_quantiles(system: FuelSystem, circuit: str, from_: str, to: str,
                     confidence: float = 0.99, samples: int = DEFAULT_SAMPLES,
                     seed: int | None = DEFAULT_SEED, spec: UncertaintySpec | None = None, *,
                     progress: Callable[[int, int], None] | None = None,
-                    max_iterations: int = 3, tolerance_h: float = 1.0 / 60.0) -> StartQuantiles:
+                    max_iterations: int = 3, tolerance_h: float = 1.0 / 60.0,
+                    deterministic: CircuitSummary | None = None,
+                    simulator: Simulator | None = None) -> StartQuantiles:
     """Lead quantiles of ``circuit``'s changeover from ``from_`` to ``to``.
 
     With a callable ``schedule``, the lead is found by fixed point: the
@@ -104,6 +107,10 @@ def start_quantiles(system: FuelSystem, circuit: str, from_: str, to: str,
         Most analyses of the fixed point.
     tolerance_h : float, default 1/60 [h]
         The fixed point stops when the lead moves by less.
+    deterministic : CircuitSummary, optional
+        With a fixed ``schedule``: the plain flush's summary, if already computed.
+    simulator : Simulator, optional
+        What runs the Monte Carlo's simulations (default :func:`planner.flushing.simulate`).
 
     Returns
     -------
@@ -114,13 +121,15 @@ def start_quantiles(system: FuelSystem, circuit: str, from_: str, to: str,
     spec = spec or UncertaintySpec()
     a_tank, b_tank = system.tank_for(circuit, from_), system.tank_for(circuit, to)
 
-    def run(sched: ConsumptionSchedule) -> CircuitUncertainty:
+    def run(sched: ConsumptionSchedule,
+            known: CircuitSummary | None = None) -> CircuitUncertainty:
         return analyse(system, circuit, a_tank, b_tank, sched, limit_pct=limit_pct,
                        target_pct=target_pct, spec=spec, confidence=confidence,
-                       samples=samples, seed=seed, progress=progress)
+                       samples=samples, seed=seed, progress=progress, simulator=simulator,
+                       deterministic=known)
 
     if isinstance(schedule, ConsumptionSchedule):
-        return _pack(run(schedule))
+        return _pack(run(schedule, deterministic))
     _, det = flush(system, circuit, a_tank, b_tank, schedule(0.0), limit_pct=limit_pct,
                    target_pct=target_pct)
     lead = det.time_to_target_h if det.time_to_target_h is not None else det.horizon_h

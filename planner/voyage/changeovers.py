@@ -20,6 +20,11 @@ regular fuel (a step up at an exit): commenced at the exit, never before;
 complete when every inlet is within :data:`SWITCH_BACK_COMPLETE` of the regular
 fuel's sulphur.
 
+Every flush goes through a :class:`~planner.voyage.flush_cache.FlushCache`
+(the plan's, or one for the call): an iterate, the check after the fixed point
+and the final run with the thermal path reuse the flush already simulated for
+the same inputs, and each start's ``D`` is computed once per search.
+
 Moments are epoch seconds (``*_epoch_s``: seconds since 1970-01-01 UTC);
 durations are seconds (``*_s``) or hours (``*_h``).
 """
@@ -29,8 +34,9 @@ from __future__ import annotations
 from collections.abc import Callable
 from dataclasses import dataclass
 
-from planner.flushing.study import FlushStudy, study
+from planner.flushing.study import FlushStudy
 from planner.ship.system import FuelSystem
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.timeline import Timeline
 
 SWITCH_BACK_COMPLETE = 0.05
@@ -38,6 +44,7 @@ SWITCH_BACK_COMPLETE = 0.05
 from the regular fuel (common practice for 'fully changed over'; our choice)."""
 _TOL_S = 10.0
 _MAX_ITER = 12
+_HORIZON_H = 96.0  # the consumption schedule a flush is given, h from its start
 
 
 class TargetUnreachable(ValueError):
@@ -93,16 +100,18 @@ class CircuitChange:
         return (self.done_epoch_s - self.start_epoch_s) / 3600.0
 
 
-def _run(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str, to_tank: str,
-         start_epoch_s: float, limit_pct: float, level_pct: float, thermal: bool) -> FlushStudy:
-    sched = timeline.consumption_from(start_epoch_s, 96.0)
-    return study(system, circuit, from_tank, to_tank, sched, limit_pct, level_pct,
-                 thermal=thermal)
+def _run(flushes: FlushCache, system: FuelSystem, timeline: Timeline, circuit: str,
+         from_tank: str, to_tank: str, start_epoch_s: float, limit_pct: float,
+         level_pct: float, thermal: bool) -> FlushStudy:
+    sched = timeline.consumption_from(start_epoch_s, _HORIZON_H)
+    return flushes.study(system, circuit, from_tank, to_tank, sched, limit_pct, level_pct,
+                         thermal=thermal)
 
 
 def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,
                       to_tank: str, boundary_epoch_s: float, margin_h: float, limit_pct: float,
-                      target_pct: float) -> CircuitChange:
+                      target_pct: float, flushes: FlushCache | None = None,
+                      thermal: bool = True) -> CircuitChange:
     """Latest start for one circuit so its inlets are at the target by boundary − margin.
 
     Parameters
@@ -123,11 +132,16 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
         The sulphur limit inside the area.
     target_pct : float [% m/m]
         The sulphur the inlets must be at or under by boundary − margin.
+    flushes : FlushCache, optional
+        Where the flushes are remembered (default: a cache for this call).
+    thermal : bool, default True
+        Follow the inlets' viscosity paths in the final study (False: leave them
+        for :meth:`FlushCache.with_thermal`).
 
     Returns
     -------
     CircuitChange
-        The changeover, simulated with the thermal path from its start.
+        The changeover, simulated (with the thermal path) from its start.
 
     Raises
     ------
@@ -135,14 +149,20 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
         If the inlets never get to ``target_pct``.
     """
     due = boundary_epoch_s - margin_h * 3600.0
+    flushes = flushes if flushes is not None else FlushCache()
+    known: dict[float, float] = {}
 
     def duration_s(t: float) -> float:
-        st = _run(system, timeline, circuit, from_tank, to_tank, t, limit_pct, target_pct, False)
+        if t in known:
+            return known[t]
+        st = _run(flushes, system, timeline, circuit, from_tank, to_tank, t, limit_pct,
+                  target_pct, False)
         d = st.summary.time_to_target_h
         if d is None:
             raise TargetUnreachable(f"circuit {circuit}: the target {target_pct:.3f} % is never "
                              "reached (check the fuels and tanks)")
-        return d * 3600.0
+        known[t] = d * 3600.0
+        return known[t]
 
     first = duration_s(due)
     start = due - first
@@ -159,8 +179,8 @@ def plan_to_compliant(system: FuelSystem, timeline: Timeline, circuit: str, from
         start = _bisect_latest_start(duration_s, due, tried)
     while start + duration_s(start) > due + 1.0:  # the fixed point overshot: step back
         start -= 60.0
-    final = _run(system, timeline, circuit, from_tank, to_tank, start, limit_pct, target_pct,
-                 True)
+    final = _run(flushes, system, timeline, circuit, from_tank, to_tank, start, limit_pct,
+                 target_pct, thermal)
     s = final.summary
     done = start + s.time_to_target_h * 3600.0
     at_limit = None if s.time_to_limit_h is None else start + s.time_to_limit_h * 3600.0
@@ -201,7 +221,8 @@ def _bisect_latest_start(duration_s: Callable[[float], float], due: float,
 
 
 def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_tank: str,
-                    to_tank: str, exit_epoch_s: float, limit_pct: float) -> CircuitChange:
+                    to_tank: str, exit_epoch_s: float, limit_pct: float,
+                    flushes: FlushCache | None = None, thermal: bool = True) -> CircuitChange:
     """Switch back commenced at the exit; complete near the regular fuel's sulphur.
 
     Parameters
@@ -218,17 +239,23 @@ def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_t
         The exit from the area, seconds since 1970-01-01 UTC: the valve switch.
     limit_pct : float [% m/m]
         The limit of the area left (its first excess is ``at_limit_epoch_s``).
+    flushes : FlushCache, optional
+        Where the flushes are remembered (default: a cache for this call).
+    thermal : bool, default True
+        Follow the inlets' viscosity paths (False: leave them for
+        :meth:`FlushCache.with_thermal`).
 
     Returns
     -------
     CircuitChange
-        The switch back, simulated with the thermal path from the exit.
+        The switch back, simulated (with the thermal path) from the exit.
     """
     s_old = _main_fuel_sulphur(system, from_tank)
     s_new = _main_fuel_sulphur(system, to_tank)
     level = s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
-    final = _run(system, timeline, circuit, from_tank, to_tank, exit_epoch_s, limit_pct, level,
-                 True)
+    flushes = flushes if flushes is not None else FlushCache()
+    final = _run(flushes, system, timeline, circuit, from_tank, to_tank, exit_epoch_s,
+                 limit_pct, level, thermal)
     s = final.summary
     done = None if s.time_to_target_h is None else exit_epoch_s + s.time_to_target_h * 3600.0
     over = (None if s.first_time_to_limit_h is None

@@ -29,6 +29,7 @@ from geo.plane import AreaShape, area_shape
 from planner.common.timefmt import format_utc
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import plan_to_compliant
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.quantities import Quantities
 from planner.voyage.runs import Change
 from planner.voyage.timeline import Timeline
@@ -98,8 +99,8 @@ def _inside(shape: AreaShape, timeline: Timeline, times: np.ndarray) -> np.ndarr
     return shape.covers(lat, lon)
 
 
-def zone_warnings(timeline: Timeline, changes: Sequence[Change],
-                  shapes: Sequence[AreaShape]) -> list[PlanWarning]:
+def zone_warnings(timeline: Timeline, changes: Sequence[Change], shapes: Sequence[AreaShape],
+                  flushes: FlushCache | None = None) -> list[PlanWarning]:
     """Changeovers under way inside a caution zone, with the start that clears it.
 
     Each changeover is sampled every minute from its valve switch to done.
@@ -112,9 +113,12 @@ def zone_warnings(timeline: Timeline, changes: Sequence[Change],
         The plan's changes, in time order.
     shapes : sequence of AreaShape
         The caution zones (:func:`caution_zone_shapes`).
+    flushes : FlushCache, optional
+        The plan's flushes, for the alternative starts (default: a new cache).
     """
     out = []
     start, end = timeline.start_epoch_s, timeline.end_epoch_s
+    flushes = flushes if flushes is not None else FlushCache()
     for ch in changes:
         for part in ch.circuits:
             if part.done_epoch_s is None or ch.before_departure:
@@ -134,7 +138,8 @@ def zone_warnings(timeline: Timeline, changes: Sequence[Change],
                     if entry is not None and entry > start:
                         alt = plan_to_compliant(timeline.system, timeline, part.circuit,
                                                 part.from_tank, part.to_tank, entry, 0.0,
-                                                ch.limit_pct, ch.target_pct)
+                                                ch.limit_pct, ch.target_pct, flushes,
+                                                thermal=False)
                         advice = (f"start at or before "
                                   f"{format_utc(timeline.utc(alt.start_epoch_s))} to complete "
                                   f"before entering it at {format_utc(timeline.utc(entry))}")
@@ -222,7 +227,8 @@ def start_before_departure_warnings(timeline: Timeline,
 
 
 def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
-                  quantities: Quantities) -> tuple[PlanWarning, ...]:
+                  quantities: Quantities,
+                  flushes: FlushCache | None = None) -> tuple[PlanWarning, ...]:
     """Every check's warnings in print order: quantity, caution zone, viscosity, early start.
 
     Parameters
@@ -235,8 +241,10 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
         The plan's changes, in time order.
     quantities : Quantities
         The plan's fuel figures.
+    flushes : FlushCache, optional
+        The plan's flushes (default: a new cache).
     """
     return tuple(quantity_warnings(timeline.system, quantities)
-                 + zone_warnings(timeline, changes, caution_zone_shapes(voyage))
+                 + zone_warnings(timeline, changes, caution_zone_shapes(voyage), flushes)
                  + viscosity_warnings(changes)
                  + start_before_departure_warnings(timeline, changes))

@@ -13,9 +13,16 @@ instead, and the plan says so.
 from __future__ import annotations
 
 from collections.abc import Callable
+from typing import TYPE_CHECKING
 
 from planner.common.timefmt import iso_utc
+from planner.voyage.changeovers import CircuitChange
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.plan import Plan
+from planner.voyage.runs import Change
+
+if TYPE_CHECKING:
+    from planner.uncertainty import StartQuantiles, UncertaintySpec
 
 
 def add_uncertainty(plan: Plan, doc: dict, confidence: float, samples: int, seed: int,
@@ -42,9 +49,10 @@ def add_uncertainty(plan: Plan, doc: dict, confidence: float, samples: int, seed
     progress : callable, optional
         Called with a line of text before each study.
     """
-    from planner.uncertainty import load_uncertainty, start_quantiles
+    from planner.uncertainty import load_uncertainty
 
     v = plan.voyage
+    flushes = plan.flushes if plan.flushes is not None else FlushCache()
     spec = load_uncertainty(v.ship_file, plan.system, voyage_file=v.file)
     drivers: dict[str, int] = {}
     rows = iter(doc["changeovers"])
@@ -55,10 +63,7 @@ def add_uncertainty(plan: Plan, doc: dict, confidence: float, samples: int, seed
                 continue
             if progress:
                 progress(f"uncertainty: changeover {row['number']}, circuit {part.circuit}")
-            sched = plan.timeline.consumption_from(part.start_epoch_s, 96.0)
-            q = start_quantiles(plan.system, part.circuit, part.from_tank, part.to_tank, sched,
-                                ch.limit_pct, ch.target_pct, confidence=confidence,
-                                samples=samples, seed=seed, spec=spec)
+            q = _quantiles(plan, flushes, ch, part, confidence, samples, seed, spec)
             lead, basis = q.lead_conf_h, "target"
             if lead is None:
                 lead, basis = q.lead_conf_limit_h, "limit"
@@ -81,3 +86,18 @@ def add_uncertainty(plan: Plan, doc: dict, confidence: float, samples: int, seed
     main = max(drivers, key=drivers.get) if drivers else None
     doc["uncertainty"] = {"confidence": confidence, "samples": samples, "seed": seed,
                           "main_driver": main}
+
+
+def _quantiles(plan: Plan, flushes: FlushCache, ch: Change, part: CircuitChange,
+               confidence: float, samples: int, seed: int,
+               spec: UncertaintySpec) -> StartQuantiles:
+    """The Monte Carlo of one circuit's changeover to compliant fuel, from its planned start
+    (the plain flush and every simulation through the plan's ``flushes``)."""
+    from planner.uncertainty import start_quantiles
+
+    sched = plan.timeline.consumption_from(part.start_epoch_s, 96.0)
+    det = flushes.study(plan.system, part.circuit, part.from_tank, part.to_tank, sched,
+                        ch.limit_pct, ch.target_pct, thermal=False).summary
+    return start_quantiles(plan.system, part.circuit, part.from_tank, part.to_tank, sched,
+                           ch.limit_pct, ch.target_pct, confidence=confidence, samples=samples,
+                           seed=seed, spec=spec, deterministic=det, simulator=flushes.simulate)

@@ -17,8 +17,11 @@ Steps (DEVELOPERS.md, "How the plan is made"):
    checked (:mod:`planner.voyage.checks`).
 
 The plan is built whole, once: its checks are pure functions of its parts, so
-nothing is added to it afterwards. Moments are epoch seconds (``*_epoch_s``:
-seconds since 1970-01-01 UTC).
+nothing is added to it afterwards. Every flush goes through one
+:class:`~planner.voyage.flush_cache.FlushCache`, kept with the plan for the
+confidence study; the changes are searched without the inlets' viscosity paths,
+which are followed only for the changes the plan keeps. Moments are epoch
+seconds (``*_epoch_s``: seconds since 1970-01-01 UTC).
 """
 
 from __future__ import annotations
@@ -38,6 +41,7 @@ from planner.fuels import Fuel
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import TargetUnreachable, plan_to_compliant, plan_to_regular
 from planner.voyage.checks import PlanWarning, plan_warnings
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_choice import FuelChoice, choose_fuels, regular_fuel
 from planner.voyage.quantities import Quantities, plan_quantities
 from planner.voyage.runs import Change, Run, make_runs, merge_same_fuel
@@ -73,6 +77,8 @@ class Plan:
         Why the ship stays on compliant fuel between areas, in order.
     warnings : tuple of PlanWarning
         The departure warning (if any), then the checks' warnings in print order.
+    flushes : FlushCache or None
+        The flushes the plan simulated, remembered for the confidence study.
     """
 
     voyage: Voyage
@@ -85,6 +91,7 @@ class Plan:
     quantities: Quantities
     notes: tuple[str, ...] = ()
     warnings: tuple[PlanWarning, ...] = ()
+    flushes: FlushCache | None = None
 
 
 def fuels_on_board(voyage: Voyage, system: FuelSystem) -> list[Fuel]:
@@ -108,8 +115,10 @@ def _area_of(run_in: Run, run_out: Run, direction: str) -> str:
     return run_out.areas[-1] if run_out.areas else "global cap"
 
 
-def _change(system: FuelSystem, timeline: Timeline, voyage: Voyage, before: Run, after: Run,
-            boundary_epoch_s: float, boundary_m: float, before_departure: bool = False) -> Change:
+def _change(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
+            before: Run, after: Run, boundary_epoch_s: float, boundary_m: float,
+            before_departure: bool = False) -> Change:
+    """The change between two runs, every circuit, without the thermal paths."""
     down = after.fuel.sulphur_pct < before.fuel.sulphur_pct
     direction = "to_compliant" if down else "to_regular"
     limit = after.limit_pct if down else before.limit_pct
@@ -120,20 +129,29 @@ def _change(system: FuelSystem, timeline: Timeline, voyage: Voyage, before: Run,
         b = system.tank_for(name, after.fuel.name)
         if down:
             parts.append(plan_to_compliant(system, timeline, name, a, b, boundary_epoch_s,
-                                           voyage.time_margin_h, limit, target))
+                                           voyage.time_margin_h, limit, target, flushes,
+                                           thermal=False))
         else:
-            parts.append(plan_to_regular(system, timeline, name, a, b, boundary_epoch_s, limit))
+            parts.append(plan_to_regular(system, timeline, name, a, b, boundary_epoch_s, limit,
+                                         flushes, thermal=False))
     return Change(_area_of(after, before, direction), direction, boundary_m, boundary_epoch_s,
                   limit, target, tuple(parts), before_departure)
 
 
-def _changes(system: FuelSystem, timeline: Timeline, voyage: Voyage,
+def _changes(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
              runs: list[Run]) -> list[Change]:
-    return [_change(system, timeline, voyage, a, b, b.from_epoch_s, b.from_m)
+    return [_change(flushes, system, timeline, voyage, a, b, b.from_epoch_s, b.from_m)
             for a, b in zip(runs[:-1], runs[1:], strict=True)]
 
 
-def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
+def _with_thermal(flushes: FlushCache, system: FuelSystem, ch: Change) -> Change:
+    """``ch`` with every circuit's inlet viscosity paths."""
+    parts = tuple(replace(p, study=flushes.with_thermal(system, p.study)) for p in ch.circuits)
+    return replace(ch, circuits=parts)
+
+
+def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
+                flushes: FlushCache | None = None) -> Plan:
     """The whole plan (see the module notes).
 
     Parameters
@@ -144,6 +162,8 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
         The ship as she sails it (:func:`planner.voyage.onboard.ship_for_voyage`).
     check : RouteCheck
         The route check, with a schedule.
+    flushes : FlushCache, optional
+        Where the flushes are remembered (default: a new cache, kept with the plan).
 
     Raises
     ------
@@ -154,13 +174,14 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
     """
     if check.schedule is None:
         raise ValueError("planning needs a schedule (departure and speeds)")
+    flushes = flushes if flushes is not None else FlushCache()
     timeline = Timeline(check.schedule, system)
     choices = choose_fuels(check.stretches, fuels_on_board(voyage, system),
                            voyage.sulphur_target_fraction, voyage.file)
     runs = make_runs(choices, timeline)
     notes: list[str] = []
     while True:
-        changes = _simulated(voyage, _changes, system, timeline, voyage, runs)
+        changes = _simulated(voyage, _changes, flushes, system, timeline, voyage, runs)
         stay = _first_needless_switch_back(changes)
         if stay is None:
             break
@@ -176,7 +197,7 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
         regular = _outside_fuel(voyage, system, timeline.utc(first.from_epoch_s), regular)
     warnings: list[PlanWarning] = []
     if first.fuel.sulphur_pct < regular.sulphur_pct:
-        dep = _departure_change(voyage, system, timeline, first, regular)
+        dep = _departure_change(flushes, voyage, system, timeline, first, regular)
         changes.insert(0, dep)
         start = min(c.start_epoch_s for c in dep.circuits)
         warnings.append(PlanWarning("departs_inside", (
@@ -185,18 +206,20 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck) -> Plan:
             f"{format_utc(timeline.utc(first.from_epoch_s))}; start the changeover alongside by "
             f"{format_utc(timeline.utc(start))} (planned at sea consumption: alongside it burns "
             "less, so start earlier still).")))
+    changes = [_with_thermal(flushes, system, ch) for ch in changes]
     quantities = plan_quantities(voyage, timeline, choices, runs, changes)
-    warnings += plan_warnings(voyage, timeline, changes, quantities)
+    warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
-                quantities, tuple(notes), tuple(warnings))
+                quantities, tuple(notes), tuple(warnings), flushes)
 
 
-def _departure_change(voyage: Voyage, system: FuelSystem, timeline: Timeline, first: Run,
-                      regular: Fuel) -> Change:
+def _departure_change(flushes: FlushCache, voyage: Voyage, system: FuelSystem,
+                      timeline: Timeline, first: Run, regular: Fuel) -> Change:
     """The change to the first run's fuel, made alongside, from ``regular``."""
     t0 = first.from_epoch_s
     pre = Run(first.from_m, first.from_m, t0, t0, regular, 4.5, ())
-    dep = _simulated(voyage, _change, system, timeline, voyage, pre, first, t0, 0.0, True)
+    dep = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first, t0, 0.0,
+                     True)
     return replace(dep, area=first.areas[0] if first.areas else dep.area)
 
 

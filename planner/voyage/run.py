@@ -15,11 +15,12 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from geo.compliance import RouteCheck
+    from planner.voyage.flush_cache import FlushCache
     from planner.voyage.plan import Plan
 
 
 def run_route_check(route_file: Path, areas: list[Path], depart: str | None, speed: float | None,
-                    on: str | None) -> RouteCheck:
+                    on: str | None, progress: Callable[[str], None] | None = None) -> RouteCheck:
     """Load the inputs and run the route check (no printing).
 
     Parameters
@@ -34,6 +35,8 @@ def run_route_check(route_file: Path, areas: list[Path], depart: str | None, spe
         Speed for legs without their own speed or ETA.
     on : str or None
         The date whose rules apply when there is no schedule, ``YYYY-MM-DD`` (default: today).
+    progress : callable, optional
+        Called with a short text now and then while big files are read and checked.
     """
     from geo.area_files import load_areas
     from geo.compliance import check_route
@@ -43,15 +46,16 @@ def run_route_check(route_file: Path, areas: list[Path], depart: str | None, spe
     from planner.common.timefmt import parse_day, parse_moment
 
     route = load_route(route_file)
-    area_list = load_areas(areas)
+    area_list = load_areas(areas, progress=progress)
     depart_utc = parse_moment(depart) if depart else None
     day = parse_day(on) if on else date.today()
     path = route_path(route)
     schedule = make_schedule(path, depart_utc, speed)
-    return check_route(path, area_list, schedule, day)
+    return check_route(path, area_list, schedule, day, progress=progress)
 
 
-def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = None) -> Plan:
+def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = None,
+               flushes: FlushCache | None = None) -> Plan:
     """Load the voyage and everything it names, and plan it (no printing).
 
     Parameters
@@ -60,6 +64,9 @@ def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = Non
         The voyage file (TOML).
     progress : callable, optional
         Called with a line of text at each stage.
+    flushes : FlushCache, optional
+        Where the plan's flushes are remembered (default: a new cache, kept with the plan;
+        ``FlushCache(enabled=False)`` simulates every one).
     """
     from geo.area_files import load_areas
     from geo.compliance import check_route
@@ -77,6 +84,7 @@ def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = Non
     path = route_path(load_route(voyage.route_file))
     schedule = make_schedule(path, voyage.depart_utc, voyage.speed_kn)
     step("finding the boundary crossings")
-    check = check_route(path, load_areas(voyage.area_paths), schedule, voyage.depart_utc.date())
+    check = check_route(path, load_areas(voyage.area_paths, progress=step), schedule,
+                        voyage.depart_utc.date(), progress=step)
     step("simulating every changeover on the voyage timeline")
-    return plan_voyage(voyage, system, check)
+    return plan_voyage(voyage, system, check, flushes)

@@ -291,3 +291,70 @@ def test_places_name_polygon_ring_and_vertex(tmp_path: Path) -> None:
         feature(name="Third"),
     )
     refused([path], "feature 2 'Corran Sea ECA', polygon 2, ring 2, vertex 4")
+
+
+# ---- big rings: read at once, refused one by one --------------------------------------------
+
+
+def _circle(n: int = 60) -> list[list[float]]:
+    """A closed ring of n float vertices round 40°S 174°E [deg] (none a whole number)."""
+    az = np.linspace(0.0, 2.0 * np.pi, n, endpoint=False) + 0.1
+    ring = [[174.0 + 0.5 * float(np.cos(a)), -40.0 + 0.5 * float(np.sin(a))] for a in az]
+    return ring + [ring[0]]
+
+
+@pytest.mark.parametrize(
+    ("bad", "parts"),
+    [
+        ([174.5, True], ["vertex 3: [174.5, true]: expected a position [lon, lat] of two numbers"]),
+        ("12", ['vertex 3: "12"']),
+        ({"lo": 1.5, "la": 2.5}, ['vertex 3: {"lo": 1.5, "la": 2.5}']),
+        ([174.5, None], ["vertex 3: [174.5, null]"]),
+        ([[174.5], [-40.5]], ["vertex 3: [[174.5], [-40.5]]"]),
+        ([174.5], ["vertex 3: [174.5]"]),
+        ([174.5, -95.5], ["vertex 3: [174.5, -95.5]: expected a latitude within ±90°"]),
+        ([600.5, -40.5], ["vertex 3: [600.5, -40.5]: expected a longitude"]),
+    ],
+)
+def test_bad_position_in_a_ring_of_floats(tmp_path: Path, bad: object, parts: list[str]) -> None:
+    # the whole ring is read at once when every position is good; a bad one is named
+    ring = _circle()
+    ring[2] = bad
+    refused([write(tmp_path, feature([ring]))], "feature 1 'Test ECA', polygon 1, ring 1, ", *parts)
+
+
+def test_ring_of_floats_kept_as_written_ints_read_as_floats(tmp_path: Path) -> None:
+    ring = _circle()
+    ring[1:3] = [ring[1], ring[1]]  # a repeated vertex is dropped, numbers kept
+    other = [[int(round(x)), int(round(y))] for x, y in ([170, -44], [178, -44], [178, -36])]
+    coords = [[ring], [other + [other[0]]]]
+    (area,) = load_areas([write(tmp_path, feature(coords, "MultiPolygon"))])
+    ext = area.polygons[0].exterior
+    assert ext == tuple(tuple(p) for p in ring[:2] + ring[3:-1])
+    assert all(type(v) is float for p in ext + area.polygons[1].exterior for v in p)
+    bad = _circle()
+    bad[5:7] = [[180.0 + bad[4][0], bad[4][1]], bad[7]]  # a half turn from vertex 5 to 6
+    refused([write(tmp_path, feature([bad], edges="rhumb"))], "edge from vertex 5 to vertex 6")
+
+
+def test_altitudes_in_a_ring_of_floats(tmp_path: Path) -> None:
+    ring = [p + [12.5] for p in _circle()]
+    (area,) = load_areas([write(tmp_path, feature([ring]))])
+    assert area.polygons[0].exterior == tuple((p[0], p[1]) for p in ring[:-1])
+
+
+def test_progress_while_reading(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    import geo.progress
+
+    write(tmp_path, feature(name="A"), feature(name="B"), name="a.geojson")
+    write(tmp_path, feature(name="C"), name="b.geojson")
+    shown: list[str] = []
+    monkeypatch.setattr(geo.progress, "INTERVAL_S", 0.0)  # every report shown
+    assert len(load_areas([tmp_path], progress=shown.append)) == 3
+    assert shown == ["reading areas 1/2", "reading areas 1/2, feature 1/2",
+                     "reading areas 1/2, feature 2/2", "reading areas 2/2",
+                     "reading areas 2/2, feature 1/1"]
+    monkeypatch.setattr(geo.progress, "INTERVAL_S", 3600.0)  # only the first
+    shown.clear()
+    load_areas([tmp_path], progress=shown.append)
+    assert shown == ["reading areas 1/2"]

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from datetime import UTC, date, datetime, timedelta
 
+import numpy as np
 import pytest
 
 from geo.area import Area, Polygon
@@ -147,3 +148,27 @@ def test_schedule_needs_a_speed() -> None:
     with pytest.raises(InputError, match="speed"):
         make_schedule(path, datetime(2027, 1, 1, tzinfo=UTC), None)
     assert make_schedule(path, None, None) is None
+
+
+def test_progress_per_area(monkeypatch: pytest.MonkeyPatch) -> None:
+    import geo.progress
+
+    path = route_path(meridian_route())
+    areas = [box("Wide", 4.0, 6.0, 2.0, 8.0), box("Inner", 4.0, 6.0, 4.0, 6.0)]
+    shown: list[str] = []
+    monkeypatch.setattr(geo.progress, "INTERVAL_S", 0.0)
+    check = check_route(path, areas, None, date(2027, 1, 1), progress=shown.append)
+    assert shown == ["crossings: area 1 of 2", "crossings: area 2 of 2"]
+    assert check.crossings == check_route(path, areas, None, date(2027, 1, 1)).crossings
+
+
+def test_progress_at_most_a_few_times_a_second() -> None:
+    from geo.progress import Throttle
+
+    clock = iter(np.arange(0.0, 10.0, 0.01))  # a report asked for every 10 ms, for 10 s
+    shown: list[str] = []
+    say = Throttle(shown.append, clock=lambda: float(next(clock)))
+    for i in range(1000):
+        say(lambda i=i: f"step {i}")
+    assert shown[0] == "step 0" and 30 <= len(shown) <= 41  # one every 0.25 s
+    Throttle(None)(lambda: "never built")

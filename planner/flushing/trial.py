@@ -1,0 +1,259 @@
+"""One trial step of the flushing simulation: its flows, its length, its error.
+
+The flows of a step follow the consumers' volumetric draw ``v = m / ρ_inlet``
+(mass basis), evaluated at the inlet blend predicted for the middle of the
+step (:mod:`planner.flushing.flows`); the step ends no later than the next
+change of consumption, the horizon and the arrival of a sharp front at a pipe
+outlet (:mod:`planner.flushing.fronts`), so plug-flow delays are exact. Its
+error over the allowance has two parts: the cubic part a pipe's quadratic
+parcel profile misses (against ``tolerance``, volume fraction), and the
+relative error of the frozen flows against the draw at the step's mean inlet
+blend (against ``tolerance / 10``); a step over twice the allowance is halved
+and tried again.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import NamedTuple
+
+import numpy as np
+
+from planner.flushing.flowmap import FlowMap, Flows
+from planner.flushing.fronts import Fronts, next_arrival_h
+from planner.flushing.network import Network
+from planner.flushing.pipes import PipeSet, fresh_maps
+from planner.flushing.record import Inlets
+from planner.flushing.step import (
+    PropagatorCache,
+    Propagators,
+    Shares,
+    StepResult,
+    compute_step,
+    shares_of,
+)
+
+NO_FLOW_M3H = 1e-14  # a pipe with less flow than this is still [m³/h]
+INITIAL_STEP_EXP = -3
+_MIN_STEP_EXP = -10  # shortest step: output step · 2^-10
+_MIN_STEP_H = 1e-12
+_TANK_REFRESH = 0.005  # relative change of a filled tank's volume before rebuilding propagators
+
+
+@dataclass(frozen=True)
+class Run:
+    """What stays fixed over a simulation (``flow_map`` holds the propagators' volumes)."""
+
+    net: Network
+    rates_t_h: np.ndarray  # (segments, C)
+    bounds_h: list[float]  # the segment starts before the end, then the end
+    kappa_kg_m3: np.ndarray  # (F,) what one m³ of each fuel counts for against the rates
+    draw_kg_m3: np.ndarray  # (F, 2): that, and 1 (the fractions' sum)
+    output_step_h: float
+    n_out: int
+    end_h: float
+    tolerance: float
+    k_max: int  # longest step: output step · 2^k_max
+    flow_map: FlowMap
+    inlets: Inlets
+    used: tuple[np.ndarray | None, ...]  # per segment, the consumers with a rate (None: all)
+    tanks: np.ndarray  # indices of the tanks among the stirred nodes
+    filled: np.ndarray  # indices of the tanks some link may fill
+    tank_mask: np.ndarray  # (S,) 1.0 for a tank, 0.0 for a fixed volume
+
+
+class Trial(NamedTuple):
+    """An accepted step, not yet committed, with what chose its length."""
+
+    step: StepResult
+    flows: Flows
+    props: Propagators
+    consumption_m3h: np.ndarray  # (C,)
+    inlet_mean: np.ndarray  # (C, F) mean inlet composition over the step
+    h_try: float  # the trial length it was cut from, h
+    error: float  # over the allowance
+    k: int  # the step exponent after any halving
+
+
+class Start(NamedTuple):
+    """Where a step starts."""
+
+    time_h: float
+    grid: int | None  # index of the output time at time_h (None: between output times)
+    k: int  # trial step: output step · 2^k
+    segment: int  # the consumption segment in force
+    inlet: np.ndarray  # (C, F) composition at each consumer inlet (right limits)
+    slope: np.ndarray  # (C, F) its predicted rate of change, 1/h
+
+
+def try_step(
+    run: Run, at: Start, x: np.ndarray, volume_m3: np.ndarray, pipes: PipeSet, fronts: Fronts,
+    cache: PropagatorCache,
+) -> Trial:
+    """The next step from ``at``, halved while its error is over twice the allowance.
+
+    Parameters
+    ----------
+    run : Run
+        What stays fixed over the simulation.
+    at : Start
+        Where the step starts: time [h], output index, trial exponent,
+        consumption segment, inlet compositions [-] and their slopes [1/h].
+    x : ndarray (S, F) [-]
+        Stirred compositions at the step start.
+    volume_m3 : ndarray (S,) [m³]
+        Stirred volumes at the step start.
+    pipes : PipeSet
+        The pipes' content (read, not changed).
+    fronts : list of list of float [m³]
+        Per pipe, the distances of its sharp fronts from the outlet.
+    cache : PropagatorCache
+        The propagators computed so far.
+
+    Returns
+    -------
+    Trial
+        The step (:func:`~planner.flushing.step.compute_step`) with its flows
+        [m³/h], draws [m³/h], mean inlet blend [-], and its error over the
+        allowance [-]: the cubic part a quadratic parcel profile misses
+        (against ``tolerance``) and the relative error of the frozen flows
+        (against ``tolerance / 10``).
+    """
+    k, t = at.k, at.time_h
+    h_try = _trial_length_h(k, t, at.grid, run.output_step_h)
+    limit_h = run.bounds_h[at.segment + 1] - t
+    rate = run.rates_t_h[at.segment] * 1000.0
+    s = len(run.net.stirred)
+    while True:
+        consumption = _draw_m3h(rate, at.inlet + (0.5 * h_try) * at.slope, run.draw_kg_m3)
+        fl = run.flow_map.flows(consumption, t)
+        if run.filled.size and _refresh(run, volume_m3, fl.stirred_in):
+            fl = run.flow_map.flows(consumption, t)
+        qp = fl.pipe_flow.tolist()
+        h = max(min(h_try, limit_h, next_arrival_h(fronts, qp)), _MIN_STEP_H)
+        props = cache.get(fl.system[:, :s])
+        every = not qp or min(qp) > NO_FLOW_M3H  # every pipe flows
+        shares, checked = _shares(run, fl, every, s)
+        known, fresh = _pipe_windows(run.net.pipe_volume_m3, pipes, fl.pipe_flow, h, every)
+        step = compute_step(x, known, fresh, fl.system[:, s:], shares, props.maps(h), checked)
+        mean = run.inlets.values(step.moments[1], step.outflow[0])[run.inlets.of_consumer]
+        err = max(step.shape_error / run.tolerance,
+                  _flow_error(run, at.segment, consumption, mean))
+        if err > 2.0 and k > _MIN_STEP_EXP and h >= 0.99 * h_try:
+            k -= 1
+            h_try = h_try / 2.0
+            continue
+        return Trial(step, fl, props, consumption, mean, h_try, err, k)
+
+
+def _draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.ndarray:
+    """Volumetric draw (C,) m³/h of rates (C,) kg/h at inlet blends ``phi`` (C, F)."""
+    d = np.maximum(phi, 0.0).dot(kappa)
+    return rate_kg_h * d[:, 1] / d[:, 0]
+
+
+def _refresh(run: Run, volume_m3: np.ndarray, stirred_in_m3h: np.ndarray) -> bool:
+    """Hold a filled tank's new volume once it has moved by more than 0.5 % since it was
+    last held (its dilution rate is q / V); True when one was."""
+    t = run.filled
+    held = run.flow_map.volume_m3
+    moved = (stirred_in_m3h[t] > 0.0) & (np.abs(volume_m3[t] - held[t]) > _TANK_REFRESH * held[t])
+    if not moved.any():
+        return False
+    held = held.copy()
+    held[t[moved]] = volume_m3[t[moved]]
+    run.flow_map.set_volumes(held)
+    return True
+
+
+def _shares(run: Run, fl: Flows, every: bool, s: int) -> tuple[Shares, np.ndarray]:
+    """Each pipe's inflow shares (:class:`~planner.flushing.step.Shares`), and which pipes'
+    cubic parts count (2, P): of the outflow of those feeding a stirred volume, of the
+    inflow of all (that flow)."""
+    qp = fl.pipe_flow
+    checked = np.empty((2, len(qp)))
+    np.heaviside(np.add.reduce(fl.into_stirred[:, s:], axis=0), 0.0, out=checked[0])
+    if every:
+        checked[1] = 1.0
+        if run.flow_map.single_inflow:
+            return run.flow_map.unit_shares, checked
+        return shares_of(fl.into_pipes / qp[:, None], s), checked
+    flowing = qp > NO_FLOW_M3H
+    np.heaviside(qp - NO_FLOW_M3H, 0.0, out=checked[1])
+    checked[0] *= checked[1]
+    inv = np.divide(1.0, qp, out=np.zeros_like(qp), where=flowing)
+    return shares_of(fl.into_pipes * inv[:, None], s), checked
+
+
+def _pipe_windows(
+    volume_m3: np.ndarray, pipes: PipeSet, pipe_flow_m3h: np.ndarray, h: float, every: bool,
+) -> tuple[np.ndarray, np.ndarray | None]:
+    """What the parcels now in the pipes deliver over the step (4, P, F), and the map of
+    the rest (P, 4, 3), None when no pipe passes more than its volume."""
+    through = pipe_flow_m3h * h
+    if every:
+        known = pipes.window(np.minimum(volume_m3, through), 1.0 / through)
+    else:
+        flowing = pipe_flow_m3h > NO_FLOW_M3H
+        inv = np.divide(1.0, through, out=np.zeros_like(through), where=flowing)
+        through = through * np.heaviside(pipe_flow_m3h - NO_FLOW_M3H, 0.0)
+        known = pipes.window(np.minimum(volume_m3, through), inv)
+        known[~flowing, 0] = pipes.outlets()[~flowing]
+    if not any(w > v for w, v in zip(through.tolist(), volume_m3.tolist(), strict=True)):
+        return known, None
+    return known, fresh_maps(volume_m3, through)
+
+
+def _flow_error(
+    run: Run, segment: int, consumption_m3h: np.ndarray, inlet_mean: np.ndarray
+) -> float:
+    """Relative error of the frozen consumption flows against the draw at the step's mean
+    inlet blend, over its allowance (a tenth of the tolerance)."""
+    used = run.used[segment]
+    if used is None:
+        actual = _draw_m3h(run.rates_t_h[segment] * 1000.0, inlet_mean, run.draw_kg_m3)
+        rel = np.abs(actual / consumption_m3h - 1.0)
+    elif used.size:
+        actual = _draw_m3h(run.rates_t_h[segment][used] * 1000.0, inlet_mean[used],
+                           run.draw_kg_m3)
+        rel = np.abs(actual / consumption_m3h[used] - 1.0)
+    else:
+        return 0.0
+    return max(rel.tolist()) / (0.1 * run.tolerance)
+
+
+def _trial_length_h(k: int, time_h: float, grid: int | None, output_step_h: float) -> float:
+    """``output_step · 2^k``; off the grid, no further than the next output time."""
+    h_try = output_step_h * 2.0**k
+    if grid is None:
+        h_try = min(h_try, (math.floor(time_h / output_step_h + 1e-9) + 1) * output_step_h - time_h)
+    return h_try
+
+
+def next_exponent(k: int, error: float, h: float, h_try: float, k_max: int) -> int:
+    """Double the next trial step after an easy full step, halve it after one over tolerance.
+
+    Parameters
+    ----------
+    k : int [-]
+        The step's exponent (its trial length was output step · 2^k).
+    error : float [-]
+        Its error over the allowance.
+    h : float [h]
+        Its length.
+    h_try : float [h]
+        Its trial length.
+    k_max : int [-]
+        The exponent of the longest step.
+
+    Returns
+    -------
+    int [-]
+        The next step's exponent.
+    """
+    if error < 0.1 and h >= 0.99 * h_try:
+        return min(k + 1, k_max)
+    if error > 1.0:
+        return max(k - 1, _MIN_STEP_EXP)
+    return k
