@@ -7,8 +7,9 @@ link flows), not from the simulator's compiled network: well-stirred volumes
 ([LEVENSPIEL-1999] CSTR model [D]), tanks with a moving level, and the
 consumer's draw ``q = m / ρ(f)`` on a mass basis. Pipes are represented by a
 fine chain of stirred cells (tanks in series approach plug flow as the cells
-multiply, [LEVENSPIEL-1999] [P]). The matrix exponential is checked against
-``scipy.linalg.expm`` ([SCIPY-2020], the method of [HIGHAM-2005]).
+multiply, [LEVENSPIEL-1999] [P]). The simulator's matrix exponential and its
+integrals are checked against ``scipy.linalg.expm`` ([SCIPY-2020]) in
+``test_kernels.py``.
 """
 
 import numpy as np
@@ -18,7 +19,6 @@ import scipy.sparse
 from scipy.integrate import solve_ivp
 
 from planner.flushing import ConsumptionSchedule, Switch, simulate
-from planner.flushing.expm import expm
 from planner.ship.system import Flow, Link, Pipe, Stirred
 from tests.helpers.flushing import HFO, HFO_EQ, MGO, MGO_EQ, system
 
@@ -203,12 +203,3 @@ def test_loop_with_pipes_matches_a_fine_plug_discretisation():
     # simulator at tolerance 1e-4 agrees to better than a second
     assert abs(c.time_at_or_below_h(0.10) - t_ref) < SECOND_H
     assert np.abs(c.sulphur_pct - s_ref).max() < 5e-3
-
-
-# 1-norms 0.0012 to 4900: Padé degrees 3, 7 and 13 of [HIGHAM-2005] Table 2.3, then scaling
-@pytest.mark.parametrize("scale", [1e-3, 0.3, 3.0, 60.0, 4000.0])
-def test_own_matrix_exponential_matches_scipy(scale):
-    # [SCIPY-2020] scipy.linalg.expm, the same method, as the reference library
-    rng = np.random.default_rng(7)
-    a = (rng.normal(size=(12, 12)) - 3.0 * np.eye(12)) * scale / 12.0
-    np.testing.assert_allclose(expm(a), scipy.linalg.expm(a), rtol=1e-10, atol=1e-14)
