@@ -37,6 +37,9 @@ _FOLD = str.maketrans(
 )
 
 _NUM = r"\d+(?:\.\d*)?"
+# A plain decimal number, also in the exponent form a spreadsheet or a program writes
+# (``1e-05``, ``-3.5E+01``): read as signed decimal degrees.
+_PLAIN = re.compile(r"[-+]?\d+(?:\.\d*)?(?:E[-+]?\d+)?")
 _POSITION = re.compile(
     rf"""
     (?P<pre>[NSEW])?\s*
@@ -98,6 +101,13 @@ def _parse(value: object, axis: str, file: str, place: str) -> float:
         raise fail()
 
     folded = value.strip().translate(_FOLD).replace("''", '"').upper()
+    if _PLAIN.fullmatch(folded):
+        number = float(folded)
+        if not math.isfinite(number):
+            raise fail("a finite number")
+        if axis == "lat" and abs(number) > 90.0:
+            raise fail("within ±90°")
+        return number
     m = _POSITION.fullmatch(folded)
     if m is None:
         raise fail()

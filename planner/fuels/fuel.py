@@ -48,6 +48,11 @@ DISTILLATE_MAX_DENSITY_KG_M3 = 900.0
 DISTILLATE_MAX_VISCOSITY_40_CST = 11.0
 """Largest viscosity at 40 °C of an ISO 8217 distillate grade (DMB), cSt ([ISO-8217] [M])."""
 
+MAX_SULPHUR_PCT = 4.50
+"""Highest sulphur content accepted, % m/m: the highest global limit there has been
+(4.50 % before 2012, MARPOL Annex VI regulation 14.1, [MARPOL-VI] [P]); a
+higher figure is a typing error."""
+
 MIN_VISCOSITY_POINT_SEPARATION_C = 5.0
 """Two viscosity points closer than this (°C) give an ill-conditioned D341 line; refused."""
 
@@ -87,7 +92,7 @@ class Fuel:
     bdn_ref : str
         Bunker delivery note reference; may be empty.
     sulphur_pct : float
-        Sulphur, % m/m, 0-5.
+        Sulphur, % m/m, 0-4.50 (:data:`MAX_SULPHUR_PCT`).
     density_kg_m3 : float
         Density at 15 °C, kg/m³, 700-1100.
     viscosity_cst : float
@@ -144,7 +149,8 @@ class Fuel:
             object.__setattr__(self, field, value)
 
         put("sulphur_pct", _number(n, "sulphur_pct", self.sulphur_pct))
-        _in_range(n, "sulphur_pct", self.sulphur_pct, 0.0, 5.0, "% m/m")
+        _in_range(n, "sulphur_pct", self.sulphur_pct, 0.0, MAX_SULPHUR_PCT,
+                  "% m/m (the highest global limit there has been, 4.50 %)")
         put("density_kg_m3", _number(n, "density_kg_m3", self.density_kg_m3))
         _in_range(n, "density_kg_m3", self.density_kg_m3, 700.0, 1100.0, "kg/m³ (at 15 °C)")
         put("viscosity_cst", _number(n, "viscosity_cst", self.viscosity_cst))

@@ -10,14 +10,17 @@ the file and the key (``circuits.main.links[2].flow``).
 
 from __future__ import annotations
 
-import tomllib
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from geo.errors import InputError
+from planner.common.imo import check_imo
+from planner.common.input_files import MAX_TOML_BYTES, read_toml
 from planner.fuels import Fuel
+from planner.ship import plausible as pl
 from planner.ship._reader import Reader
 from planner.ship.consumers import CONSUMER_KINDS, Consumer, MainEngine, iso_demand_t_h
 from planner.ship.system import (
@@ -34,7 +37,7 @@ from planner.ship.system import (
 )
 from planner.ship.thermal import InletWindow
 
-MAX_FILE_BYTES = 1024 * 1024
+MAX_FILE_BYTES = MAX_TOML_BYTES
 
 _FUEL_KEYS = (
     "grade",
@@ -54,6 +57,8 @@ _CONSUMER_KEYS = {
     "generator": ("power_kw", "sfoc_g_kwh", "rated_kw"),
     "boiler": ("fuel_t_h", "q_net_ref_mj_kg"),
 }
+_CONSUMER_RANGES = {"mcr_kw": pl.MCR, "sfoc_g_kwh": pl.SFOC, "ref_speed_kn": pl.SPEED,
+                    "power_kw": pl.POWER, "rated_kw": pl.POWER, "fuel_t_h": pl.BOILER_RATE}
 _CHAIN_KEYS = ("tanks", "consumers", "chain", "loop", "loop_flow_m3h", "loop_factor", "loop_return")
 _LINK_KEYS = ("from", "to", "flow", "flow_m3h", "factor", "consumers")
 
@@ -71,12 +76,18 @@ def load_ship(path: str | Path) -> FuelSystem:
     -------
     FuelSystem
         The checked fuel system; a ``[ship] journal`` path is made absolute,
-        relative to the file.
+        relative to the file; values outside their usual range are in its
+        ``input_warnings``.
 
     Raises
     ------
     geo.errors.InputError
-        On any fault, as one line naming the file and the key.
+        On any fault, as one line naming the file and the key: a missing
+        path, a folder or special file, more than :data:`MAX_FILE_BYTES`,
+        non-UTF-8 bytes, invalid TOML, NaN or infinite numbers
+        (:func:`planner.common.input_files.read_toml`), an unknown key (with
+        the nearest valid key), a number outside its accepted range
+        (:mod:`planner.ship.plausible`), a bad IMO check digit.
 
     Examples
     --------
@@ -86,19 +97,8 @@ def load_ship(path: str | Path) -> FuelSystem:
     ...     print(e)
     no_such_ship.toml: missing: expected an existing ship file (TOML)
     """
-    p = Path(path)
     file = str(path)
-    if not p.is_file():
-        raise InputError(file, "", None, "an existing ship file (TOML)")
-    if p.stat().st_size > MAX_FILE_BYTES:
-        raise InputError(file, "file size", p.stat().st_size, f"at most {MAX_FILE_BYTES} bytes")
-    try:
-        data = tomllib.loads(p.read_bytes().decode("utf-8-sig"))
-    except UnicodeDecodeError:
-        raise InputError(file, "", "undecodable bytes", "UTF-8 text") from None
-    except tomllib.TOMLDecodeError as e:
-        raise InputError(file, "", str(e), "valid TOML") from None
-    return parse_ship(data, file)
+    return parse_ship(read_toml(path, "ship file", MAX_FILE_BYTES), file)
 
 
 def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
@@ -150,6 +150,8 @@ def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     imo = ship_t.get("imo", "")
     if not isinstance(imo, str | int) or isinstance(imo, bool):
         raise r.fail("ship.imo", imo, "the IMO number as a string")
+    if str(imo).strip():
+        imo = check_imo(str(imo), file, "ship.imo")
     journal = ""
     if "journal" in ship_t:
         journal = str(Path(file).resolve().parent / r.text(ship_t, "journal", "ship"))
@@ -167,11 +169,14 @@ def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     except FuelSystemError as e:
         raise InputError(file, e.place, e.value, e.expected) from None
     _check_pumps(r, system)
-    return system
+    return replace(system, input_warnings=tuple(r.warnings)) if r.warnings else system
 
 
 _INLET_KEYS = ("target_cst", "min_cst", "max_cst", "max_rate_c_per_min", "supply_temperature_c",
                "max_temperature_c")
+_INLET_RANGES = {"target_cst": pl.VISCOSITY, "min_cst": pl.VISCOSITY, "max_cst": pl.VISCOSITY,
+                 "max_rate_c_per_min": pl.RATE_C_PER_MIN, "supply_temperature_c": pl.TEMPERATURE,
+                 "max_temperature_c": pl.TEMPERATURE}
 
 
 def _inlet(r: Reader, t: object) -> InletWindow:
@@ -179,7 +184,8 @@ def _inlet(r: Reader, t: object) -> InletWindow:
     if not isinstance(t, dict):
         raise r.fail("inlet", t, "an [inlet] table")
     r.keys(t, _INLET_KEYS, "inlet")
-    values = {k: r.number(t, k, "inlet", required=False) for k in _INLET_KEYS if k in t}
+    values = {k: r.number(t, k, "inlet", required=False, plausible=_INLET_RANGES[k])
+              for k in _INLET_KEYS if k in t}
     try:
         return InletWindow(**values)
     except ValueError as e:
@@ -218,15 +224,16 @@ def _fuel(r: Reader, name: str, t: dict) -> Fuel:
 def _tank(r: Reader, name: str, t: dict) -> Tank:
     place = f"tanks.{name}"
     r.keys(t, ("capacity_m3", "fuel", "volume_m3", "content"), place)
-    capacity = r.number(t, "capacity_m3", place, positive=True)
+    capacity = r.number(t, "capacity_m3", place, plausible=pl.TANK_CAPACITY)
     if "content" in t:
         if "fuel" in t or "volume_m3" in t:
             raise r.fail(f"{place}.content", "content", "either content or fuel + volume_m3")
         content = r.table(t, "content", f"{place}.content")
         for fuel in content:
-            r.number(content, fuel, f"{place}.content")
+            r.number(content, fuel, f"{place}.content", plausible=pl.TANK_VOLUME)
     else:
-        content = {r.text(t, "fuel", place): r.number(t, "volume_m3", place)}
+        content = {r.text(t, "fuel", place): r.number(t, "volume_m3", place,
+                                                      plausible=pl.TANK_VOLUME)}
     try:
         return Tank(name, capacity, content)  # type: ignore[arg-type]
     except FuelSystemError as e:
@@ -248,10 +255,14 @@ def _consumer(r: Reader, name: str, t: dict) -> Consumer:
                 isinstance(p, list) and len(p) == 2 for p in curve
             ):
                 raise r.fail(f"{place}.sfoc_curve", curve, "a list of [load_pct, sfoc_g_kwh] pairs")
-            kw[key] = tuple(tuple(p) for p in curve)
+            kw[key] = tuple(
+                (r.value(load, f"{place}.sfoc_curve[{i + 1}]"),
+                 r.value(sfoc, f"{place}.sfoc_curve[{i + 1}]", plausible=pl.SFOC))
+                for i, (load, sfoc) in enumerate(curve))
             continue
         optional = key in ("rated_kw", "q_net_ref_mj_kg")
-        value = r.number(t, key, place, required=not optional)
+        value = r.number(t, key, place, required=not optional,
+                         plausible=_CONSUMER_RANGES.get(key))
         if value is not None:
             kw[key] = value
     try:
@@ -268,19 +279,26 @@ def _volume(r: Reader, name: str, t: dict) -> Pipe | Stirred:
     try:
         if kind == "stirred":
             r.keys(t, ("kind", "volume_m3"), place)
-            return Stirred(name, r.number(t, "volume_m3", place))  # type: ignore[arg-type]
+            return Stirred(name, r.number(t, "volume_m3", place,  # type: ignore[arg-type]
+                                          plausible=pl.STIRRED_VOLUME))
         r.keys(t, ("kind", "volume_m3", "length_m", "bore_mm"), place)
         if "volume_m3" in t:
             if "length_m" in t or "bore_mm" in t:
                 raise r.fail(
                     f"{place}.volume_m3", t["volume_m3"], "either volume_m3 or length_m + bore_mm"
                 )
-            return Pipe(name, r.number(t, "volume_m3", place))  # type: ignore[arg-type]
-        return Pipe.from_length(
+            return Pipe(name, r.number(t, "volume_m3", place,  # type: ignore[arg-type]
+                                       plausible=pl.PIPE_VOLUME))
+        pipe = Pipe.from_length(
             name,
-            r.number(t, "length_m", place),  # type: ignore[arg-type]
-            r.number(t, "bore_mm", place),
+            r.number(t, "length_m", place, plausible=pl.PIPE_LENGTH),  # type: ignore[arg-type]
+            r.number(t, "bore_mm", place, plausible=pl.PIPE_BORE),  # type: ignore[arg-type]
         )
+        if not pl.PIPE_VOLUME.accepts(pipe.volume_m3):
+            raise r.fail(f"{place}.bore_mm", t["bore_mm"],
+                         f"a bore and length giving {pl.PIPE_VOLUME.expected()} "
+                         f"(they give {pipe.volume_m3:.3g} m³)")
+        return pipe
     except FuelSystemError as e:
         raise r.fail(e.place, e.value, e.expected) from None
 
@@ -308,8 +326,9 @@ def _circuit(r: Reader, name: str, t: dict) -> Circuit:
     loop = r.names(t, "loop", place, required=False)
     if loop:
         at = f"{place}.loop"
-        rate = r.number(t, "loop_flow_m3h", place, required=False, positive=True)
-        factor = r.number(t, "loop_factor", place, required=False, positive=True)
+        rate = r.number(t, "loop_flow_m3h", place, required=False, positive=True,
+                        plausible=pl.FLOW_RATE)
+        factor = r.number(t, "loop_factor", place, required=False, plausible=pl.LOOP_FACTOR)
         if (rate is None) == (factor is None):
             raise r.fail(f"{place}.loop_flow_m3h", rate, "one of loop_flow_m3h or loop_factor")
         flow = Flow.fixed(rate) if rate is not None else Flow.consumption(factor)  # type: ignore
@@ -336,8 +355,8 @@ def _link(r: Reader, place: str, x: object) -> Link:
     if not kinds:
         return Link(source, target, None, place)  # type: ignore[arg-type]
     word = x.get("flow")
-    rate = r.number(x, "flow_m3h", place, required=False)
-    factor = r.number(x, "factor", place, required=False)
+    rate = r.number(x, "flow_m3h", place, required=False, plausible=pl.FLOW_RATE)
+    factor = r.number(x, "factor", place, required=False, plausible=pl.LINK_FACTOR)
     if word is not None and word not in ("consumption", "rest"):
         raise r.fail(f"{place}.flow", word, "'consumption' or 'rest' (or give flow_m3h)")
     if word == "rest":

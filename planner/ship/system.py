@@ -36,7 +36,11 @@ from planner.ship.thermal import InletWindow
 
 @dataclass(frozen=True)
 class FuelSystem:
-    """The whole fuel system, checked on creation (names, references, flow balance)."""
+    """The whole fuel system, checked on creation (names, references, flow balance).
+
+    ``input_warnings`` holds the ship file's values that were taken although
+    outside their usual range (:mod:`planner.ship.plausible`), one line each.
+    """
 
     ship: ShipIdentity
     fuels: Mapping[str, Fuel]
@@ -45,6 +49,7 @@ class FuelSystem:
     consumers: Mapping[str, Consumer]
     circuits: Mapping[str, Circuit]
     inlet: InletWindow = field(default_factory=InletWindow)
+    input_warnings: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:
         for name in ("fuels", "tanks", "volumes", "consumers", "circuits"):

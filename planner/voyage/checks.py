@@ -9,6 +9,9 @@
 - Inlet viscosity: any time outside the engine's window is a warning with the
   fix (start the temperature change earlier, or switch more slowly).
 - A changeover to compliant fuel that would have to start before departure.
+- Input taken although unusual: ship-file values outside their usual range
+  (:mod:`planner.ship.plausible`) and route waypoints that look like latitude
+  and longitude exchanged (:mod:`geo.swapped`).
 
 Pure functions of the plan's parts: nothing here builds or changes a plan;
 :func:`planner.voyage.plan.plan_voyage` puts :func:`plan_warnings` after its
@@ -26,6 +29,7 @@ import numpy as np
 
 from geo.area_files import load_caution_zones
 from geo.plane import AreaShape, area_shape
+from geo.swapped import swapped_waypoints
 from planner.common.timefmt import format_utc
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import plan_to_compliant
@@ -38,7 +42,7 @@ from planner.voyage.voyage_file import Voyage
 _ZONE_STEP_S = 60.0
 
 WarningKind = Literal["departs_inside", "quantity", "caution_zone", "viscosity",
-                      "start_before_departure"]
+                      "start_before_departure", "unusual_input", "swapped_lat_lon"]
 
 
 @dataclass(frozen=True)
@@ -49,8 +53,9 @@ class PlanWarning:
     ----------
     kind : WarningKind
         ``"departs_inside"`` (be on compliant fuel before departure),
-        ``"quantity"`` (short of a fuel), ``"caution_zone"``, ``"viscosity"`` or
-        ``"start_before_departure"``.
+        ``"quantity"`` (short of a fuel), ``"caution_zone"``, ``"viscosity"``,
+        ``"start_before_departure"``, ``"unusual_input"`` (a ship-file value
+        outside its usual range) or ``"swapped_lat_lon"`` (a route waypoint).
     text : str
         The warning as printed (JSON ``warnings``, terminal, PDF).
     """
@@ -226,10 +231,27 @@ def start_before_departure_warnings(timeline: Timeline,
     return out
 
 
+def input_warnings(timeline: Timeline) -> list[PlanWarning]:
+    """Input taken although unusual: ship-file values outside their usual range, and route
+    waypoints that look like latitude and longitude exchanged.
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline (its ship and its route).
+    """
+    out = [PlanWarning("unusual_input", text) for text in timeline.system.input_warnings]
+    route = timeline.schedule.path.route
+    out += [PlanWarning("swapped_lat_lon", w.text(route.source))
+            for w in swapped_waypoints(route)]
+    return out
+
+
 def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
                   quantities: Quantities,
                   flushes: FlushCache | None = None) -> tuple[PlanWarning, ...]:
-    """Every check's warnings in print order: quantity, caution zone, viscosity, early start.
+    """Every check's warnings in print order: quantity, caution zone, viscosity, early start,
+    unusual input.
 
     Parameters
     ----------
@@ -247,4 +269,5 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
     return tuple(quantity_warnings(timeline.system, quantities)
                  + zone_warnings(timeline, changes, caution_zone_shapes(voyage), flushes)
                  + viscosity_warnings(changes)
-                 + start_before_departure_warnings(timeline, changes))
+                 + start_before_departure_warnings(timeline, changes)
+                 + input_warnings(timeline))
