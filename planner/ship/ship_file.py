@@ -23,6 +23,7 @@ from planner.fuels import Fuel
 from planner.ship import plausible as pl
 from planner.ship._reader import Reader
 from planner.ship.consumers import CONSUMER_KINDS, Consumer, MainEngine, iso_demand_t_h
+from planner.ship.inlet_limits import WINDOW_KEYS, consumer_window
 from planner.ship.system import (
     VALVE,
     Circuit,
@@ -158,38 +159,51 @@ def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     ship = ShipIdentity(
         r.text(ship_t, "name", "ship"), str(imo), fictional, str(ship_t.get("notes", "")), journal
     )
-    inlet = _inlet(r, data.get("inlet", {}))
+    ship_wide = _window_keys(r, data.get("inlet", {}), "inlet")
+    inlet = _window(r, "inlet", ship_wide)
     fuels = {n: _fuel(r, n, t) for n, t in _tables(r, data, "fuels").items()}
     tanks = {n: _tank(r, n, t) for n, t in _tables(r, data, "tanks").items()}
-    consumers = {n: _consumer(r, n, t) for n, t in _tables(r, data, "consumers").items()}
+    consumer_tables = _tables(r, data, "consumers")
+    consumers = {n: _consumer(r, n, t) for n, t in consumer_tables.items()}
+    inlets = {n: _window(r, f"consumers.{n}.inlet", ship_wide, c,
+                         _window_keys(r, consumer_tables[n].get("inlet", {}),
+                                      f"consumers.{n}.inlet"))
+              for n, c in consumers.items()}
     volumes = {n: _volume(r, n, t) for n, t in _tables(r, data, "volumes").items()}
     circuits = {n: _circuit(r, n, t) for n, t in _tables(r, data, "circuits").items()}
     try:
-        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits, inlet)
+        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits, inlet,
+                            inlets=inlets)
     except FuelSystemError as e:
         raise InputError(file, e.place, e.value, e.expected) from None
     _check_pumps(r, system)
     return replace(system, input_warnings=tuple(r.warnings)) if r.warnings else system
 
 
-_INLET_KEYS = ("target_cst", "min_cst", "max_cst", "max_rate_c_per_min", "supply_temperature_c",
-               "max_temperature_c")
 _INLET_RANGES = {"target_cst": pl.VISCOSITY, "min_cst": pl.VISCOSITY, "max_cst": pl.VISCOSITY,
                  "max_rate_c_per_min": pl.RATE_C_PER_MIN, "supply_temperature_c": pl.TEMPERATURE,
                  "max_temperature_c": pl.TEMPERATURE}
 
 
-def _inlet(r: Reader, t: object) -> InletWindow:
-    """The engines' inlet window (``[inlet]``): heating target, viscosity limits, rate."""
+def _window_keys(r: Reader, t: object, place: str) -> dict[str, float]:
+    """The keys of an inlet table (``[inlet]`` or a consumer's ``inlet``), checked."""
     if not isinstance(t, dict):
-        raise r.fail("inlet", t, "an [inlet] table")
-    r.keys(t, _INLET_KEYS, "inlet")
-    values = {k: r.number(t, k, "inlet", required=False, plausible=_INLET_RANGES[k])
-              for k in _INLET_KEYS if k in t}
+        raise r.fail(place, t, "an inlet table (target_cst, min_cst, max_cst, ...)")
+    r.keys(t, WINDOW_KEYS, place)
+    return {k: r.number(t, k, place, plausible=_INLET_RANGES[k])  # type: ignore[misc]
+            for k in WINDOW_KEYS if k in t}
+
+
+def _window(r: Reader, place: str, ship_wide: dict[str, float],
+            consumer: Consumer | None = None, own: dict[str, float] | None = None
+            ) -> InletWindow:
+    """The ship-wide window (no consumer: two-stroke defaults), or a consumer's own."""
     try:
-        return InletWindow(**values)
+        if consumer is None:
+            return InletWindow(**ship_wide)
+        return consumer_window(consumer, ship_wide, own)
     except ValueError as e:
-        raise r.fail("inlet", values, str(e)) from None
+        raise r.fail(place, {**ship_wide, **(own or {})}, str(e)) from None
 
 
 def _tables(r: Reader, data: dict, key: str) -> dict[str, dict]:
@@ -246,7 +260,7 @@ def _consumer(r: Reader, name: str, t: dict) -> Consumer:
     if kind not in CONSUMER_KINDS:
         raise r.fail(f"{place}.kind", kind, f"one of {', '.join(CONSUMER_KINDS)}")
     allowed = _CONSUMER_KEYS[kind]
-    r.keys(t, ("kind",) + allowed, place)
+    r.keys(t, ("kind", "inlet") + allowed, place)
     kw: dict[str, Any] = {"name": name}
     for key in allowed:
         if key == "sfoc_curve":

@@ -6,8 +6,11 @@
   target) inside a zone of confined or congested water is a warning, with the
   latest start that completes before the zone ([USCG-MSA-03-09]: complete the
   switch well offshore, before restricted waters).
-- Inlet viscosity: any time outside the engine's window is a warning with the
-  fix (start the temperature change earlier, or switch more slowly).
+- Inlet viscosity: any time outside the consumer's own window
+  (:mod:`planner.ship.inlet_limits`) is a warning with a fix that consumer
+  can do: an engine starts the temperature change earlier or switches more
+  slowly; a boiler burner also may be stopped for the switch (common
+  practice), which an engine under way may not.
 - A changeover to compliant fuel that would have to start before departure.
 - Input taken although unusual: ship-file values outside their usual range
   (:mod:`planner.ship.plausible`) and route waypoints that look like latitude
@@ -165,8 +168,31 @@ def zone_warnings(timeline: Timeline, changes: Sequence[Change], shapes: Sequenc
     return out
 
 
-def viscosity_warnings(changes: Sequence[Change]) -> list[PlanWarning]:
-    """Inlet viscosity outside the engine's window during any changeover, with the fix.
+def _viscosity_fix(burner: bool, lead: float | None, direction: str) -> str:
+    """The fix a consumer can do: an engine's, or a boiler burner's (common practice)."""
+    if burner:
+        if lead is not None:
+            return f"start changing the burner heater's temperature {lead * 60:.0f} min before " \
+                   "the valve"
+        if direction == "to_compliant":
+            return ("switch the burner heater off (or bypass it) before the distillate arrives, "
+                    "or stop the burner for the changeover and restart it on distillate with "
+                    "the burner maker's light-fuel settings")
+        return ("stop the burner for the switch back and restart it when its heater has "
+                "brought the residual fuel to the atomising viscosity, or blend the residual "
+                "fuel in more slowly")
+    if lead is not None:
+        return f"start changing the inlet temperature {lead * 60:.0f} min before the valve"
+    if direction == "to_compliant":
+        return ("switch more slowly (blend over a longer time) or cool the distillate: "
+                "changing the temperature earlier alone does not keep it in the window")
+    return ("switch back more slowly (blend the residual fuel in gradually) and heat "
+            "as it arrives: pre-heating the distillate alone does not keep it in the window")
+
+
+def viscosity_warnings(changes: Sequence[Change],
+                       system: FuelSystem | None = None) -> list[PlanWarning]:
+    """Inlet viscosity outside the consumer's own window during any changeover, with the fix.
 
     One warning per circuit, consumer and kind of changeover, naming every
     boundary where it happens.
@@ -174,7 +200,10 @@ def viscosity_warnings(changes: Sequence[Change]) -> list[PlanWarning]:
     Parameters
     ----------
     changes : sequence of Change
-        The plan's changes, in time order (each circuit's study has the viscosity paths).
+        The plan's changes, in time order (each circuit's study has the viscosity paths,
+        each against its consumer's window).
+    system : FuelSystem, optional
+        The ship: a boiler's warning gives a burner's fix (without it, an engine's).
     """
     found: dict[tuple, list] = {}
     for ch in changes:
@@ -192,14 +221,8 @@ def viscosity_warnings(changes: Sequence[Change]) -> list[PlanWarning]:
         areas = ", ".join(dict.fromkeys(h[0] for h in hits))
         _, path, a, b, lead = hits[0]
         w = path.window
-        if lead is not None:
-            fix = f"start changing the inlet temperature {lead * 60:.0f} min before the valve"
-        elif direction == "to_compliant":
-            fix = ("switch more slowly (blend over a longer time) or cool the distillate: "
-                   "changing the temperature earlier alone does not keep it in the window")
-        else:
-            fix = ("switch back more slowly (blend the residual fuel in gradually) and heat "
-                   "as it arrives: pre-heating the distillate alone does not keep it in the window")
+        who = system.consumers.get(consumer) if system is not None else None
+        fix = _viscosity_fix(getattr(who, "kind", "") == "boiler", lead, direction)
         limit = f"{w.min_cst:g} cSt minimum" if kind == "below" else f"{w.max_cst:g} cSt maximum"
         out.append(PlanWarning("viscosity", (
             f"Circuit {circuit}, {consumer}, changeover to {to_fuel} ({areas}): inlet "
@@ -268,6 +291,6 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
     """
     return tuple(quantity_warnings(timeline.system, quantities)
                  + zone_warnings(timeline, changes, caution_zone_shapes(voyage), flushes)
-                 + viscosity_warnings(changes)
+                 + viscosity_warnings(changes, timeline.system)
                  + start_before_departure_warnings(timeline, changes)
                  + input_warnings(timeline))

@@ -36,7 +36,8 @@ def _refused(tmp_path, old, new) -> str:
     ("ref_speed_kn = 14.0", "ref_speed_kts = 14.0", "consumers.main_engine.ref_speed_kts",
      "ref_speed_kn"),
     ("capacity_m3 = 45.0", "capacity = 45.0", "tanks.vlsfo_service.capacity", "capacity_m3"),
-    ("target_cst = 13.0", "target_cSt = 13.0", "inlet.target_cSt", "target_cst"),
+    ("target_cst = 13.0", "target_cSt = 13.0", "consumers.main_engine.inlet.target_cSt",
+     "target_cst"),
     ('journal = "', 'journl = "', "ship.journl", "journal"),
 ])
 def test_unknown_keys_name_the_nearest_valid_key(tmp_path, old, new, place, hint):
