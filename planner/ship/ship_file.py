@@ -52,6 +52,7 @@ _FUEL_KEYS = (
     "water_pct",
     "ash_pct",
     "q_net_mj_kg",
+    "flash_point_c",
 )
 _CONSUMER_KEYS = {
     "main_engine": ("mcr_kw", "sfoc_g_kwh", "ref_speed_kn", "ref_load_pct", "sfoc_curve"),

@@ -50,7 +50,7 @@ from planner.fuels import Fuel
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
-             "q_net_mj_kg")
+             "q_net_mj_kg", "flash_point_c")
 
 
 @dataclass(frozen=True)

@@ -108,3 +108,10 @@ def test_unusual_values_are_kept_with_a_warning(tmp_path, old, new, place, usual
 
 def test_the_sample_ship_has_no_unusual_value():
     assert load_ship("areas_sample/ship.toml").input_warnings == ()
+
+
+def test_ship_file_flash_point_from_the_delivery_note(tmp_path):
+    _, ship = _load(tmp_path, "sulphur_pct = 0.08", "sulphur_pct = 0.08\nflash_point_c = 68.0")
+    assert ship.fuels["mgo"].flash_point == 68.0
+    text = _refused(tmp_path, "sulphur_pct = 0.08", "sulphur_pct = 0.08\nflash_point_c = 400.0")
+    assert ": fuels.mgo: " in text and "flash_point_c" in text
