@@ -88,21 +88,12 @@ def _parse(value: object, axis: str, file: str, place: str) -> float:
     def fail(reason: str = "") -> InputError:
         return InputError(file, place, value, f"{expected} ({reason})" if reason else expected)
 
-    if isinstance(value, bool) or value is None:
+    if isinstance(value, bool) or not isinstance(value, Real | str):
         raise fail()
-    if isinstance(value, Real):
-        number = float(value)
-        if not math.isfinite(number):
-            raise fail("a finite number")
-        if axis == "lat" and abs(number) > 90.0:
-            raise fail("within ±90°")
-        return number
-    if not isinstance(value, str):
-        raise fail()
-
-    folded = value.strip().translate(_FOLD).replace("''", '"').upper()
-    if _PLAIN.fullmatch(folded):
-        number = float(folded)
+    folded = "" if isinstance(value, Real) else value.strip().translate(_FOLD).replace(
+        "''", '"').upper()
+    if isinstance(value, Real) or _PLAIN.fullmatch(folded):
+        number = float(value) if isinstance(value, Real) else float(folded)
         if not math.isfinite(number):
             raise fail("a finite number")
         if axis == "lat" and abs(number) > 90.0:
