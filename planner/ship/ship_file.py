@@ -40,20 +40,9 @@ from planner.ship.thermal import InletWindow
 
 MAX_FILE_BYTES = MAX_TOML_BYTES
 
-_FUEL_KEYS = (
-    "grade",
-    "bdn_ref",
-    "sulphur_pct",
-    "density_kg_m3",
-    "viscosity_cst",
-    "viscosity_ref_c",
-    "viscosity2_cst",
-    "viscosity2_ref_c",
-    "water_pct",
-    "ash_pct",
-    "q_net_mj_kg",
-    "flash_point_c",
-)
+_FUEL_KEYS = ("grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
+              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
+              "q_net_mj_kg", "flash_point_c")
 _CONSUMER_KEYS = {
     "main_engine": ("mcr_kw", "sfoc_g_kwh", "ref_speed_kn", "ref_load_pct", "sfoc_curve"),
     "generator": ("power_kw", "sfoc_g_kwh", "rated_kw"),
@@ -398,17 +387,9 @@ def _check_pumps(r: Reader, system: FuelSystem) -> None:
     for circuit in system.circuits.values():
         fuels = {f for t in circuit.tanks for f in system.tanks[t].content_m3}
         rho = min(system.fuels[f].density_kg_m3 for f in fuels)
-        v = np.array(
-            [
-                iso_demand_t_h(
-                    system.consumers[c],
-                    load_pct=100.0 if isinstance(system.consumers[c], MainEngine) else None,
-                )
-                * 1000.0
-                / rho
-                for c in circuit.consumers
-            ]
-        )
+        v = np.array([iso_demand_t_h(system.consumers[c], load_pct=100.0 if isinstance(
+            system.consumers[c], MainEngine) else None) * 1000.0 / rho
+            for c in circuit.consumers])
         flows = circuit_flows(system, circuit)
         q = flows.rates_m3h(v)
         for i in np.flatnonzero(q < -1e-9):
