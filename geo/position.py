@@ -37,6 +37,9 @@ _FOLD = str.maketrans(
 )
 
 _NUM = r"\d+(?:\.\d*)?"
+# A plain decimal number, also in the exponent form a spreadsheet or a program writes
+# (``1e-05``, ``-3.5E+01``): read as signed decimal degrees.
+_PLAIN = re.compile(r"[-+]?\d+(?:\.\d*)?(?:E[-+]?\d+)?")
 _POSITION = re.compile(
     rf"""
     (?P<pre>[NSEW])?\s*
@@ -85,19 +88,17 @@ def _parse(value: object, axis: str, file: str, place: str) -> float:
     def fail(reason: str = "") -> InputError:
         return InputError(file, place, value, f"{expected} ({reason})" if reason else expected)
 
-    if isinstance(value, bool) or value is None:
+    if isinstance(value, bool) or not isinstance(value, Real | str):
         raise fail()
-    if isinstance(value, Real):
-        number = float(value)
+    folded = "" if isinstance(value, Real) else value.strip().translate(_FOLD).replace(
+        "''", '"').upper()
+    if isinstance(value, Real) or _PLAIN.fullmatch(folded):
+        number = float(value) if isinstance(value, Real) else float(folded)
         if not math.isfinite(number):
             raise fail("a finite number")
         if axis == "lat" and abs(number) > 90.0:
             raise fail("within ±90°")
         return number
-    if not isinstance(value, str):
-        raise fail()
-
-    folded = value.strip().translate(_FOLD).replace("''", '"').upper()
     m = _POSITION.fullmatch(folded)
     if m is None:
         raise fail()

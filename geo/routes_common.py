@@ -30,7 +30,7 @@ LEG_WORDS = {
 LEG_EXPECTED = "a leg type: rhumb or great_circle (or loxodrome / orthodrome), or blank for rhumb"
 SPEED_EXPECTED = "a speed in knots, a number above 0, or blank"
 
-_DECIMAL = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)")
+_DECIMAL = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
 
 
 def read_bytes(path: str | Path) -> bytes:

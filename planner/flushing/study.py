@@ -109,8 +109,8 @@ def study(system: FuelSystem, circuit: str, from_: str, to: str, schedule: Consu
     paths: dict[str, InletPath] = {}
     leads: dict[str, float | None] = {}
     if thermal:
-        window = system.inlet
         for curve in result.circuit_inlets(circuit):
+            window = system.window_for(curve.consumer)
             paths[curve.consumer] = inlet_path(result.fuels, curve.mass_fractions, result.time_h,
                                                window)
             leads[curve.consumer] = (0.0 if not paths[curve.consumer].outside() else

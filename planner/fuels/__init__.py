@@ -9,7 +9,9 @@ One module per physical concept, pure functions over floats or numpy arrays:
 - :mod:`planner.fuels.energy`: ISO 8217 specific energy, CCAI ([ISO-8217]), SFOC
   scaling ([ISO-3046]), SO₂ ([IUPAC-2021], [MEPC-340]);
 - :mod:`planner.fuels.volume`: Table 54B volume correction to 15 °C and mass
-  ([TABLE-54B]).
+  ([TABLE-54B]);
+- :mod:`planner.fuels.flash_point`: ISO 8217 minimum flash points ([ISO-8217]) and
+  the SOLAS 10 °C margin ([SOLAS-1974]).
 """
 
 from planner.fuels.blending import (
@@ -32,6 +34,11 @@ from planner.fuels.energy import (
     so2_co2_ratio_limit,
     so2_formed_kg,
     so2_from_fuel_kg,
+)
+from planner.fuels.flash_point import (
+    FLASH_POINT_MARGIN_C,
+    ISO_8217_MIN_FLASH_POINT_C,
+    grade_min_flash_point_c,
 )
 from planner.fuels.fuel import Fuel
 from planner.fuels.refutas import (
@@ -61,6 +68,8 @@ from planner.fuels.volume import (
 __all__ = [
     "DEFAULT_SLOPE_DISTILLATE",
     "DEFAULT_SLOPE_RESIDUAL",
+    "FLASH_POINT_MARGIN_C",
+    "ISO_8217_MIN_FLASH_POINT_C",
     "ISO_REFERENCE_Q_NET_MJ_KG",
     "SO2_CO2_RATIO_LIMITS",
     "SO2_PER_KG_SULPHUR",
@@ -79,6 +88,7 @@ __all__ = [
     "d341_z",
     "default_slope",
     "density_at_temperature_kg_m3",
+    "grade_min_flash_point_c",
     "gross_specific_energy_mj_kg",
     "mass_fractions",
     "mass_fractions_from_volumes",

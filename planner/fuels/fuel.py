@@ -32,6 +32,7 @@ from numpy.typing import ArrayLike
 
 from planner.fuels._arrays import FloatOrArray
 from planner.fuels.energy import net_specific_energy_mj_kg
+from planner.fuels.flash_point import grade_min_flash_point_c
 from planner.fuels.viscosity import (
     DEFAULT_SLOPE_DISTILLATE,
     MIN_VISCOSITY_CST,
@@ -48,10 +49,16 @@ DISTILLATE_MAX_DENSITY_KG_M3 = 900.0
 DISTILLATE_MAX_VISCOSITY_40_CST = 11.0
 """Largest viscosity at 40 °C of an ISO 8217 distillate grade (DMB), cSt ([ISO-8217] [M])."""
 
+MAX_SULPHUR_PCT = 4.50
+"""Highest sulphur content accepted, % m/m: the highest global limit there has been
+(4.50 % before 2012, MARPOL Annex VI regulation 14.1, [MARPOL-VI] [P]); a
+higher figure is a typing error."""
+
 MIN_VISCOSITY_POINT_SEPARATION_C = 5.0
 """Two viscosity points closer than this (°C) give an ill-conditioned D341 line; refused."""
 
 _REF_TEMPERATURE_RANGE_C = (-40.0, 200.0)
+_FLASH_POINT_RANGE_C = (0.0, 300.0)
 _Q_NET_RANGE_MJ_KG = (30.0, 50.0)
 _WATER_ASH_MAX_PCT = 10.0
 _DISTILLATE_NAMES = ("MGO", "MDO")
@@ -87,7 +94,7 @@ class Fuel:
     bdn_ref : str
         Bunker delivery note reference; may be empty.
     sulphur_pct : float
-        Sulphur, % m/m, 0-5.
+        Sulphur, % m/m, 0-4.50 (:data:`MAX_SULPHUR_PCT`).
     density_kg_m3 : float
         Density at 15 °C, kg/m³, 700-1100.
     viscosity_cst : float
@@ -105,6 +112,9 @@ class Fuel:
     q_net_mj_kg : float or None
         Net specific energy, MJ/kg, 30-50, when measured or stated; otherwise
         estimated by the ISO 8217 annex formula ([ISO-8217], :attr:`q_net`).
+    flash_point_c : float or None
+        Flash point, °C, 0-300, from the delivery note; otherwise the ISO 8217
+        minimum for the grade (:attr:`flash_point`, [ISO-8217] [M]).
 
     Examples
     --------
@@ -128,6 +138,7 @@ class Fuel:
     water_pct: float | None = None
     ash_pct: float | None = None
     q_net_mj_kg: float | None = None
+    flash_point_c: float | None = None
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip():
@@ -144,7 +155,8 @@ class Fuel:
             object.__setattr__(self, field, value)
 
         put("sulphur_pct", _number(n, "sulphur_pct", self.sulphur_pct))
-        _in_range(n, "sulphur_pct", self.sulphur_pct, 0.0, 5.0, "% m/m")
+        _in_range(n, "sulphur_pct", self.sulphur_pct, 0.0, MAX_SULPHUR_PCT,
+                  "% m/m (the highest global limit there has been, 4.50 %)")
         put("density_kg_m3", _number(n, "density_kg_m3", self.density_kg_m3))
         _in_range(n, "density_kg_m3", self.density_kg_m3, 700.0, 1100.0, "kg/m³ (at 15 °C)")
         put("viscosity_cst", _number(n, "viscosity_cst", self.viscosity_cst))
@@ -164,6 +176,9 @@ class Fuel:
         if self.q_net_mj_kg is not None:
             put("q_net_mj_kg", _number(n, "q_net_mj_kg", self.q_net_mj_kg))
             _in_range(n, "q_net_mj_kg", self.q_net_mj_kg, *_Q_NET_RANGE_MJ_KG, "MJ/kg")
+        if self.flash_point_c is not None:
+            put("flash_point_c", _number(n, "flash_point_c", self.flash_point_c))
+            _in_range(n, "flash_point_c", self.flash_point_c, *_FLASH_POINT_RANGE_C, "°C")
 
     def _check_second_point(self) -> None:
         n = self.name
@@ -248,6 +263,22 @@ class Fuel:
         """Temperature, °C, at which this fuel has ``viscosity_cst`` cSt (ASTM D341)."""
         a, b = self.d341_coefficients
         return temperature_for_viscosity(viscosity_cst, a, b)
+
+    @property
+    def flash_point(self) -> float:
+        """Flash point, °C: ``flash_point_c`` when the delivery note gives it, else the
+        ISO 8217 minimum for the grade (60 °C, 43 °C for DMX; [ISO-8217] [M], from memory,
+        :func:`planner.fuels.flash_point.grade_min_flash_point_c`)."""
+        if self.flash_point_c is not None:
+            return self.flash_point_c
+        return grade_min_flash_point_c(self.grade)
+
+    @property
+    def flash_point_source(self) -> str:
+        """Where :attr:`flash_point` comes from, for the messages."""
+        if self.flash_point_c is not None:
+            return "delivery note"
+        return f"ISO 8217 minimum for {self.grade.strip()}, from memory"
 
     @property
     def q_net(self) -> float:

@@ -12,6 +12,7 @@ import math
 from dataclasses import dataclass
 from typing import ClassVar
 
+from planner.common.imo import imo_check_digit, valid_imo  # noqa: F401  (re-exported)
 from planner.fuels.volume import (
     TABLE_54B_MAX_DENSITY_KG_M3,
     TABLE_54B_MIN_DENSITY_KG_M3,
@@ -41,24 +42,6 @@ def _number(cls: str, name: str, value: object, low: float, high: float) -> floa
     if not low <= value <= high:
         raise ValueError(f"{cls}.{name} must be from {low:g} to {high:g}, got {value!r}")
     return float(value)
-
-
-def imo_check_digit(first_six: str) -> int:
-    """Check digit of an IMO ship number from its first six digits.
-
-    Each digit is multiplied by 7, 6, 5, 4, 3, 2 in turn; the last digit of
-    the sum is the check digit [M: the rule as remembered, not checked
-    against the IMO resolution here]. ``imo_check_digit("123456")`` is 7.
-    """
-    if len(first_six) != 6 or not first_six.isdigit():
-        raise ValueError(f"six digits expected, got {first_six!r}")
-    return sum(int(d) * w for d, w in zip(first_six, (7, 6, 5, 4, 3, 2), strict=True)) % 10
-
-
-def valid_imo(number: str) -> bool:
-    """Whether ``number`` is seven digits with a valid check digit (:func:`imo_check_digit`)."""
-    return (len(number) == 7 and number.isdigit()
-            and imo_check_digit(number[:6]) == int(number[6]))
 
 
 @dataclass(frozen=True)

@@ -1,6 +1,9 @@
 """Typed values out of a parsed ship file, each fault an InputError naming the key.
 
-Used by :mod:`planner.ship.ship_file` only.
+Used by :mod:`planner.ship.ship_file` only. A number may carry a
+:class:`planner.ship.plausible.Plausible` range: outside its accepted range it
+is refused, outside its usual range it is kept and a warning is collected in
+:attr:`Reader.warnings`.
 """
 
 from __future__ import annotations
@@ -9,6 +12,8 @@ import math
 from numbers import Real
 
 from geo.errors import InputError
+from planner.common.keys import check_keys
+from planner.ship.plausible import Plausible
 
 
 class Reader:
@@ -16,6 +21,7 @@ class Reader:
 
     def __init__(self, file: str) -> None:
         self.file = file
+        self.warnings: list[str] = []
 
     def fail(self, place: str, value: object, expected: str) -> InputError:
         return InputError(self.file, place, value, expected)
@@ -29,23 +35,42 @@ class Reader:
         return value
 
     def keys(self, data: dict, allowed: tuple[str, ...], place: str) -> None:
-        for k in data:
-            if k not in allowed:
-                raise self.fail(f"{place}.{k}", k, f"one of the keys {', '.join(allowed)}")
+        check_keys(data, allowed, self.file, place)
 
     def number(
-        self, data: dict, key: str, place: str, required: bool = True, positive: bool = False
+        self, data: dict, key: str, place: str, required: bool = True, positive: bool = False,
+        plausible: Plausible | None = None,
     ) -> float | None:
         value = data.get(key)
+        where = f"{place}.{key}" if place else key
         if value is None:
             if required:
-                raise self.fail(f"{place}.{key}", None, "a number")
+                raise self.fail(where, None, "a number")
             return None
+        return self.value(value, where, positive, plausible)
+
+    def value(self, value: object, where: str, positive: bool = False,
+              plausible: Plausible | None = None) -> float:
+        """A number found at ``where``, checked against its ranges."""
         if isinstance(value, bool) or not isinstance(value, Real) or not math.isfinite(value):
-            raise self.fail(f"{place}.{key}", value, "a number")
-        if positive and value <= 0:
-            raise self.fail(f"{place}.{key}", value, "a number above 0")
-        return float(value)
+            raise self.fail(where, value, "a finite number")
+        x = float(value)
+        if positive and x <= 0:
+            raise self.fail(where, value, "a number above 0")
+        if plausible is not None:
+            self.check_plausible(x, where, plausible)
+        return x
+
+    def check_plausible(self, x: float, where: str, plausible: Plausible) -> None:
+        """Refuse ``x`` outside the accepted range; warn outside the usual range."""
+        if not plausible.accepts(x):
+            raise self.fail(where, x, plausible.expected())
+        if not plausible.usual(x):
+            hint = f" ({plausible.hint})" if plausible.hint else ""
+            self.warnings.append(
+                f"{self.file}: {where} = {x:g} {plausible.unit} is outside the usual "
+                f"{plausible.usual_low:g}-{plausible.usual_high:g} {plausible.unit}{hint}; "
+                "check the ship file.")
 
     def text(self, data: dict, key: str, place: str, required: bool = True) -> str | None:
         value = data.get(key)

@@ -10,16 +10,20 @@ the file and the key (``circuits.main.links[2].flow``).
 
 from __future__ import annotations
 
-import tomllib
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from geo.errors import InputError
+from planner.common.imo import check_imo
+from planner.common.input_files import MAX_TOML_BYTES, read_toml
 from planner.fuels import Fuel
+from planner.ship import plausible as pl
 from planner.ship._reader import Reader
 from planner.ship.consumers import CONSUMER_KINDS, Consumer, MainEngine, iso_demand_t_h
+from planner.ship.inlet_limits import WINDOW_KEYS, consumer_window
 from planner.ship.system import (
     VALVE,
     Circuit,
@@ -34,26 +38,18 @@ from planner.ship.system import (
 )
 from planner.ship.thermal import InletWindow
 
-MAX_FILE_BYTES = 1024 * 1024
+MAX_FILE_BYTES = MAX_TOML_BYTES
 
-_FUEL_KEYS = (
-    "grade",
-    "bdn_ref",
-    "sulphur_pct",
-    "density_kg_m3",
-    "viscosity_cst",
-    "viscosity_ref_c",
-    "viscosity2_cst",
-    "viscosity2_ref_c",
-    "water_pct",
-    "ash_pct",
-    "q_net_mj_kg",
-)
+_FUEL_KEYS = ("grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
+              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
+              "q_net_mj_kg", "flash_point_c")
 _CONSUMER_KEYS = {
     "main_engine": ("mcr_kw", "sfoc_g_kwh", "ref_speed_kn", "ref_load_pct", "sfoc_curve"),
     "generator": ("power_kw", "sfoc_g_kwh", "rated_kw"),
     "boiler": ("fuel_t_h", "q_net_ref_mj_kg"),
 }
+_CONSUMER_RANGES = {"mcr_kw": pl.MCR, "sfoc_g_kwh": pl.SFOC, "ref_speed_kn": pl.SPEED,
+                    "power_kw": pl.POWER, "rated_kw": pl.POWER, "fuel_t_h": pl.BOILER_RATE}
 _CHAIN_KEYS = ("tanks", "consumers", "chain", "loop", "loop_flow_m3h", "loop_factor", "loop_return")
 _LINK_KEYS = ("from", "to", "flow", "flow_m3h", "factor", "consumers")
 
@@ -71,12 +67,18 @@ def load_ship(path: str | Path) -> FuelSystem:
     -------
     FuelSystem
         The checked fuel system; a ``[ship] journal`` path is made absolute,
-        relative to the file.
+        relative to the file; values outside their usual range are in its
+        ``input_warnings``.
 
     Raises
     ------
     geo.errors.InputError
-        On any fault, as one line naming the file and the key.
+        On any fault, as one line naming the file and the key: a missing
+        path, a folder or special file, more than :data:`MAX_FILE_BYTES`,
+        non-UTF-8 bytes, invalid TOML, NaN or infinite numbers
+        (:func:`planner.common.input_files.read_toml`), an unknown key (with
+        the nearest valid key), a number outside its accepted range
+        (:mod:`planner.ship.plausible`), a bad IMO check digit.
 
     Examples
     --------
@@ -86,19 +88,8 @@ def load_ship(path: str | Path) -> FuelSystem:
     ...     print(e)
     no_such_ship.toml: missing: expected an existing ship file (TOML)
     """
-    p = Path(path)
     file = str(path)
-    if not p.is_file():
-        raise InputError(file, "", None, "an existing ship file (TOML)")
-    if p.stat().st_size > MAX_FILE_BYTES:
-        raise InputError(file, "file size", p.stat().st_size, f"at most {MAX_FILE_BYTES} bytes")
-    try:
-        data = tomllib.loads(p.read_bytes().decode("utf-8-sig"))
-    except UnicodeDecodeError:
-        raise InputError(file, "", "undecodable bytes", "UTF-8 text") from None
-    except tomllib.TOMLDecodeError as e:
-        raise InputError(file, "", str(e), "valid TOML") from None
-    return parse_ship(data, file)
+    return parse_ship(read_toml(path, "ship file", MAX_FILE_BYTES), file)
 
 
 def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
@@ -150,40 +141,59 @@ def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     imo = ship_t.get("imo", "")
     if not isinstance(imo, str | int) or isinstance(imo, bool):
         raise r.fail("ship.imo", imo, "the IMO number as a string")
+    if str(imo).strip():
+        imo = check_imo(str(imo), file, "ship.imo")
     journal = ""
     if "journal" in ship_t:
         journal = str(Path(file).resolve().parent / r.text(ship_t, "journal", "ship"))
     ship = ShipIdentity(
         r.text(ship_t, "name", "ship"), str(imo), fictional, str(ship_t.get("notes", "")), journal
     )
-    inlet = _inlet(r, data.get("inlet", {}))
+    ship_wide = _window_keys(r, data.get("inlet", {}), "inlet")
+    inlet = _window(r, "inlet", ship_wide)
     fuels = {n: _fuel(r, n, t) for n, t in _tables(r, data, "fuels").items()}
     tanks = {n: _tank(r, n, t) for n, t in _tables(r, data, "tanks").items()}
-    consumers = {n: _consumer(r, n, t) for n, t in _tables(r, data, "consumers").items()}
+    consumer_tables = _tables(r, data, "consumers")
+    consumers = {n: _consumer(r, n, t) for n, t in consumer_tables.items()}
+    inlets = {n: _window(r, f"consumers.{n}.inlet", ship_wide, c,
+                         _window_keys(r, consumer_tables[n].get("inlet", {}),
+                                      f"consumers.{n}.inlet"))
+              for n, c in consumers.items()}
     volumes = {n: _volume(r, n, t) for n, t in _tables(r, data, "volumes").items()}
     circuits = {n: _circuit(r, n, t) for n, t in _tables(r, data, "circuits").items()}
     try:
-        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits, inlet)
+        system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits, inlet,
+                            inlets=inlets)
     except FuelSystemError as e:
         raise InputError(file, e.place, e.value, e.expected) from None
     _check_pumps(r, system)
-    return system
+    return replace(system, input_warnings=tuple(r.warnings)) if r.warnings else system
 
 
-_INLET_KEYS = ("target_cst", "min_cst", "max_cst", "max_rate_c_per_min", "supply_temperature_c",
-               "max_temperature_c")
+_INLET_RANGES = {"target_cst": pl.VISCOSITY, "min_cst": pl.VISCOSITY, "max_cst": pl.VISCOSITY,
+                 "max_rate_c_per_min": pl.RATE_C_PER_MIN, "supply_temperature_c": pl.TEMPERATURE,
+                 "max_temperature_c": pl.TEMPERATURE}
 
 
-def _inlet(r: Reader, t: object) -> InletWindow:
-    """The engines' inlet window (``[inlet]``): heating target, viscosity limits, rate."""
+def _window_keys(r: Reader, t: object, place: str) -> dict[str, float]:
+    """The keys of an inlet table (``[inlet]`` or a consumer's ``inlet``), checked."""
     if not isinstance(t, dict):
-        raise r.fail("inlet", t, "an [inlet] table")
-    r.keys(t, _INLET_KEYS, "inlet")
-    values = {k: r.number(t, k, "inlet", required=False) for k in _INLET_KEYS if k in t}
+        raise r.fail(place, t, "an inlet table (target_cst, min_cst, max_cst, ...)")
+    r.keys(t, WINDOW_KEYS, place)
+    return {k: r.number(t, k, place, plausible=_INLET_RANGES[k])  # type: ignore[misc]
+            for k in WINDOW_KEYS if k in t}
+
+
+def _window(r: Reader, place: str, ship_wide: dict[str, float],
+            consumer: Consumer | None = None, own: dict[str, float] | None = None
+            ) -> InletWindow:
+    """The ship-wide window (no consumer: two-stroke defaults), or a consumer's own."""
     try:
-        return InletWindow(**values)
+        if consumer is None:
+            return InletWindow(**ship_wide)
+        return consumer_window(consumer, ship_wide, own)
     except ValueError as e:
-        raise r.fail("inlet", values, str(e)) from None
+        raise r.fail(place, {**ship_wide, **(own or {})}, str(e)) from None
 
 
 def _tables(r: Reader, data: dict, key: str) -> dict[str, dict]:
@@ -218,15 +228,16 @@ def _fuel(r: Reader, name: str, t: dict) -> Fuel:
 def _tank(r: Reader, name: str, t: dict) -> Tank:
     place = f"tanks.{name}"
     r.keys(t, ("capacity_m3", "fuel", "volume_m3", "content"), place)
-    capacity = r.number(t, "capacity_m3", place, positive=True)
+    capacity = r.number(t, "capacity_m3", place, plausible=pl.TANK_CAPACITY)
     if "content" in t:
         if "fuel" in t or "volume_m3" in t:
             raise r.fail(f"{place}.content", "content", "either content or fuel + volume_m3")
         content = r.table(t, "content", f"{place}.content")
         for fuel in content:
-            r.number(content, fuel, f"{place}.content")
+            r.number(content, fuel, f"{place}.content", plausible=pl.TANK_VOLUME)
     else:
-        content = {r.text(t, "fuel", place): r.number(t, "volume_m3", place)}
+        content = {r.text(t, "fuel", place): r.number(t, "volume_m3", place,
+                                                      plausible=pl.TANK_VOLUME)}
     try:
         return Tank(name, capacity, content)  # type: ignore[arg-type]
     except FuelSystemError as e:
@@ -239,7 +250,7 @@ def _consumer(r: Reader, name: str, t: dict) -> Consumer:
     if kind not in CONSUMER_KINDS:
         raise r.fail(f"{place}.kind", kind, f"one of {', '.join(CONSUMER_KINDS)}")
     allowed = _CONSUMER_KEYS[kind]
-    r.keys(t, ("kind",) + allowed, place)
+    r.keys(t, ("kind", "inlet") + allowed, place)
     kw: dict[str, Any] = {"name": name}
     for key in allowed:
         if key == "sfoc_curve":
@@ -248,10 +259,14 @@ def _consumer(r: Reader, name: str, t: dict) -> Consumer:
                 isinstance(p, list) and len(p) == 2 for p in curve
             ):
                 raise r.fail(f"{place}.sfoc_curve", curve, "a list of [load_pct, sfoc_g_kwh] pairs")
-            kw[key] = tuple(tuple(p) for p in curve)
+            kw[key] = tuple(
+                (r.value(load, f"{place}.sfoc_curve[{i + 1}]"),
+                 r.value(sfoc, f"{place}.sfoc_curve[{i + 1}]", plausible=pl.SFOC))
+                for i, (load, sfoc) in enumerate(curve))
             continue
         optional = key in ("rated_kw", "q_net_ref_mj_kg")
-        value = r.number(t, key, place, required=not optional)
+        value = r.number(t, key, place, required=not optional,
+                         plausible=_CONSUMER_RANGES.get(key))
         if value is not None:
             kw[key] = value
     try:
@@ -268,19 +283,26 @@ def _volume(r: Reader, name: str, t: dict) -> Pipe | Stirred:
     try:
         if kind == "stirred":
             r.keys(t, ("kind", "volume_m3"), place)
-            return Stirred(name, r.number(t, "volume_m3", place))  # type: ignore[arg-type]
+            return Stirred(name, r.number(t, "volume_m3", place,  # type: ignore[arg-type]
+                                          plausible=pl.STIRRED_VOLUME))
         r.keys(t, ("kind", "volume_m3", "length_m", "bore_mm"), place)
         if "volume_m3" in t:
             if "length_m" in t or "bore_mm" in t:
                 raise r.fail(
                     f"{place}.volume_m3", t["volume_m3"], "either volume_m3 or length_m + bore_mm"
                 )
-            return Pipe(name, r.number(t, "volume_m3", place))  # type: ignore[arg-type]
-        return Pipe.from_length(
+            return Pipe(name, r.number(t, "volume_m3", place,  # type: ignore[arg-type]
+                                       plausible=pl.PIPE_VOLUME))
+        pipe = Pipe.from_length(
             name,
-            r.number(t, "length_m", place),  # type: ignore[arg-type]
-            r.number(t, "bore_mm", place),
+            r.number(t, "length_m", place, plausible=pl.PIPE_LENGTH),  # type: ignore[arg-type]
+            r.number(t, "bore_mm", place, plausible=pl.PIPE_BORE),  # type: ignore[arg-type]
         )
+        if not pl.PIPE_VOLUME.accepts(pipe.volume_m3):
+            raise r.fail(f"{place}.bore_mm", t["bore_mm"],
+                         f"a bore and length giving {pl.PIPE_VOLUME.expected()} "
+                         f"(they give {pipe.volume_m3:.3g} m³)")
+        return pipe
     except FuelSystemError as e:
         raise r.fail(e.place, e.value, e.expected) from None
 
@@ -308,8 +330,9 @@ def _circuit(r: Reader, name: str, t: dict) -> Circuit:
     loop = r.names(t, "loop", place, required=False)
     if loop:
         at = f"{place}.loop"
-        rate = r.number(t, "loop_flow_m3h", place, required=False, positive=True)
-        factor = r.number(t, "loop_factor", place, required=False, positive=True)
+        rate = r.number(t, "loop_flow_m3h", place, required=False, positive=True,
+                        plausible=pl.FLOW_RATE)
+        factor = r.number(t, "loop_factor", place, required=False, plausible=pl.LOOP_FACTOR)
         if (rate is None) == (factor is None):
             raise r.fail(f"{place}.loop_flow_m3h", rate, "one of loop_flow_m3h or loop_factor")
         flow = Flow.fixed(rate) if rate is not None else Flow.consumption(factor)  # type: ignore
@@ -336,8 +359,8 @@ def _link(r: Reader, place: str, x: object) -> Link:
     if not kinds:
         return Link(source, target, None, place)  # type: ignore[arg-type]
     word = x.get("flow")
-    rate = r.number(x, "flow_m3h", place, required=False)
-    factor = r.number(x, "factor", place, required=False)
+    rate = r.number(x, "flow_m3h", place, required=False, plausible=pl.FLOW_RATE)
+    factor = r.number(x, "factor", place, required=False, plausible=pl.LINK_FACTOR)
     if word is not None and word not in ("consumption", "rest"):
         raise r.fail(f"{place}.flow", word, "'consumption' or 'rest' (or give flow_m3h)")
     if word == "rest":
@@ -364,17 +387,9 @@ def _check_pumps(r: Reader, system: FuelSystem) -> None:
     for circuit in system.circuits.values():
         fuels = {f for t in circuit.tanks for f in system.tanks[t].content_m3}
         rho = min(system.fuels[f].density_kg_m3 for f in fuels)
-        v = np.array(
-            [
-                iso_demand_t_h(
-                    system.consumers[c],
-                    load_pct=100.0 if isinstance(system.consumers[c], MainEngine) else None,
-                )
-                * 1000.0
-                / rho
-                for c in circuit.consumers
-            ]
-        )
+        v = np.array([iso_demand_t_h(system.consumers[c], load_pct=100.0 if isinstance(
+            system.consumers[c], MainEngine) else None) * 1000.0 / rho
+            for c in circuit.consumers])
         flows = circuit_flows(system, circuit)
         q = flows.rates_m3h(v)
         for i in np.flatnonzero(q < -1e-9):

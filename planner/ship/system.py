@@ -36,7 +36,14 @@ from planner.ship.thermal import InletWindow
 
 @dataclass(frozen=True)
 class FuelSystem:
-    """The whole fuel system, checked on creation (names, references, flow balance)."""
+    """The whole fuel system, checked on creation (names, references, flow balance).
+
+    ``inlet`` is the ship-wide window (the ship file's ``[inlet]`` over the
+    two-stroke defaults); ``inlets`` holds each consumer's own window
+    (:mod:`planner.ship.inlet_limits`), which :meth:`window_for` returns.
+    ``input_warnings`` holds the ship file's values that were taken although
+    outside their usual range (:mod:`planner.ship.plausible`), one line each.
+    """
 
     ship: ShipIdentity
     fuels: Mapping[str, Fuel]
@@ -45,11 +52,20 @@ class FuelSystem:
     consumers: Mapping[str, Consumer]
     circuits: Mapping[str, Circuit]
     inlet: InletWindow = field(default_factory=InletWindow)
+    input_warnings: tuple[str, ...] = ()
+    inlets: Mapping[str, InletWindow] = field(default_factory=dict)
 
     def __post_init__(self) -> None:
-        for name in ("fuels", "tanks", "volumes", "consumers", "circuits"):
+        for name in ("fuels", "tanks", "volumes", "consumers", "circuits", "inlets"):
             object.__setattr__(self, name, MappingProxyType(dict(getattr(self, name))))
         _check_system(self)
+        for name in self.inlets:
+            if name not in self.consumers:
+                raise FuelSystemError(f"consumers.{name}.inlet", name, "a consumer of [consumers]")
+
+    def window_for(self, consumer: str) -> InletWindow:
+        """The inlet window of ``consumer``: its own, else the ship-wide :attr:`inlet`."""
+        return self.inlets.get(consumer, self.inlet)
 
     def node_kind(self, name: str) -> str:
         """``"tank"``, ``"stirred"``, ``"pipe"``, ``"consumer"``, a pseudo-node name, or ``""``."""

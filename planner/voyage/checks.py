@@ -6,9 +6,19 @@
   target) inside a zone of confined or congested water is a warning, with the
   latest start that completes before the zone ([USCG-MSA-03-09]: complete the
   switch well offshore, before restricted waters).
-- Inlet viscosity: any time outside the engine's window is a warning with the
-  fix (start the temperature change earlier, or switch more slowly).
+- Inlet viscosity: any time outside the consumer's own window
+  (:mod:`planner.ship.inlet_limits`) is a warning with a fix that consumer
+  can do: an engine starts the temperature change earlier or switches more
+  slowly; a boiler burner also may be stopped for the switch (common
+  practice), which an engine under way may not.
 - A changeover to compliant fuel that would have to start before departure.
+- Flash point: a distillate held within 10 °C of its flash point in a heated
+  tank (SOLAS II-2 regulation 4.2.2.5, [SOLAS-1974] [M]) or, during a
+  changeover, in the heater and the lines after it (the same margin, applied
+  by us as a caution: :mod:`planner.ship.flash_margin`).
+- Input taken although unusual: ship-file values outside their usual range
+  (:mod:`planner.ship.plausible`) and route waypoints that look like latitude
+  and longitude exchanged (:mod:`geo.swapped`).
 
 Pure functions of the plan's parts: nothing here builds or changes a plan;
 :func:`planner.voyage.plan.plan_voyage` puts :func:`plan_warnings` after its
@@ -26,7 +36,10 @@ import numpy as np
 
 from geo.area_files import load_caution_zones
 from geo.plane import AreaShape, area_shape
+from geo.swapped import swapped_waypoints
 from planner.common.timefmt import format_utc
+from planner.fuels import FLASH_POINT_MARGIN_C
+from planner.ship.flash_margin import flash_margin_span
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import plan_to_compliant
 from planner.voyage.flush_cache import FlushCache
@@ -38,7 +51,8 @@ from planner.voyage.voyage_file import Voyage
 _ZONE_STEP_S = 60.0
 
 WarningKind = Literal["departs_inside", "quantity", "caution_zone", "viscosity",
-                      "start_before_departure"]
+                      "start_before_departure", "unusual_input", "swapped_lat_lon",
+                      "flash_point"]
 
 
 @dataclass(frozen=True)
@@ -49,8 +63,10 @@ class PlanWarning:
     ----------
     kind : WarningKind
         ``"departs_inside"`` (be on compliant fuel before departure),
-        ``"quantity"`` (short of a fuel), ``"caution_zone"``, ``"viscosity"`` or
-        ``"start_before_departure"``.
+        ``"quantity"`` (short of a fuel), ``"caution_zone"``, ``"viscosity"``,
+        ``"start_before_departure"``, ``"unusual_input"`` (a ship-file value
+        outside its usual range), ``"swapped_lat_lon"`` (a route waypoint) or
+        ``"flash_point"`` (a distillate near its flash point).
     text : str
         The warning as printed (JSON ``warnings``, terminal, PDF).
     """
@@ -160,8 +176,31 @@ def zone_warnings(timeline: Timeline, changes: Sequence[Change], shapes: Sequenc
     return out
 
 
-def viscosity_warnings(changes: Sequence[Change]) -> list[PlanWarning]:
-    """Inlet viscosity outside the engine's window during any changeover, with the fix.
+def _viscosity_fix(burner: bool, lead: float | None, direction: str) -> str:
+    """The fix a consumer can do: an engine's, or a boiler burner's (common practice)."""
+    if burner:
+        if lead is not None:
+            return f"start changing the burner heater's temperature {lead * 60:.0f} min before " \
+                   "the valve"
+        if direction == "to_compliant":
+            return ("switch the burner heater off (or bypass it) before the distillate arrives, "
+                    "or stop the burner for the changeover and restart it on distillate with "
+                    "the burner maker's light-fuel settings")
+        return ("stop the burner for the switch back and restart it when its heater has "
+                "brought the residual fuel to the atomising viscosity, or blend the residual "
+                "fuel in more slowly")
+    if lead is not None:
+        return f"start changing the inlet temperature {lead * 60:.0f} min before the valve"
+    if direction == "to_compliant":
+        return ("switch more slowly (blend over a longer time) or cool the distillate: "
+                "changing the temperature earlier alone does not keep it in the window")
+    return ("switch back more slowly (blend the residual fuel in gradually) and heat "
+            "as it arrives: pre-heating the distillate alone does not keep it in the window")
+
+
+def viscosity_warnings(changes: Sequence[Change],
+                       system: FuelSystem | None = None) -> list[PlanWarning]:
+    """Inlet viscosity outside the consumer's own window during any changeover, with the fix.
 
     One warning per circuit, consumer and kind of changeover, naming every
     boundary where it happens.
@@ -169,7 +208,10 @@ def viscosity_warnings(changes: Sequence[Change]) -> list[PlanWarning]:
     Parameters
     ----------
     changes : sequence of Change
-        The plan's changes, in time order (each circuit's study has the viscosity paths).
+        The plan's changes, in time order (each circuit's study has the viscosity paths,
+        each against its consumer's window).
+    system : FuelSystem, optional
+        The ship: a boiler's warning gives a burner's fix (without it, an engine's).
     """
     found: dict[tuple, list] = {}
     for ch in changes:
@@ -187,14 +229,8 @@ def viscosity_warnings(changes: Sequence[Change]) -> list[PlanWarning]:
         areas = ", ".join(dict.fromkeys(h[0] for h in hits))
         _, path, a, b, lead = hits[0]
         w = path.window
-        if lead is not None:
-            fix = f"start changing the inlet temperature {lead * 60:.0f} min before the valve"
-        elif direction == "to_compliant":
-            fix = ("switch more slowly (blend over a longer time) or cool the distillate: "
-                   "changing the temperature earlier alone does not keep it in the window")
-        else:
-            fix = ("switch back more slowly (blend the residual fuel in gradually) and heat "
-                   "as it arrives: pre-heating the distillate alone does not keep it in the window")
+        who = system.consumers.get(consumer) if system is not None else None
+        fix = _viscosity_fix(getattr(who, "kind", "") == "boiler", lead, direction)
         limit = f"{w.min_cst:g} cSt minimum" if kind == "below" else f"{w.max_cst:g} cSt maximum"
         out.append(PlanWarning("viscosity", (
             f"Circuit {circuit}, {consumer}, changeover to {to_fuel} ({areas}): inlet "
@@ -226,10 +262,98 @@ def start_before_departure_warnings(timeline: Timeline,
     return out
 
 
+def _flash_text(fuel_name: str, fp: float, source: str) -> str:
+    return f"{fuel_name} (flash point {fp:g} °C, {source})"
+
+
+def flash_point_warnings(voyage: Voyage, timeline: Timeline,
+                         changes: Sequence[Change]) -> list[PlanWarning]:
+    """A distillate within 10 °C of its flash point in a heated tank or a heated volume.
+
+    Tanks: each sounding's temperature against its distillate's flash point
+    (SOLAS II-2 regulation 4.2.2.5, [SOLAS-1974] [M]). Changeovers: each
+    consumer's inlet temperature path while the fuel there is mainly
+    distillate (:func:`planner.ship.flash_margin.flash_margin_span`; the margin
+    applied to heaters and lines as a caution). One warning per circuit, kind
+    of changeover and fuel, naming its consumers and every boundary.
+
+    Parameters
+    ----------
+    voyage : Voyage
+        The voyage (its tank soundings and their temperatures).
+    timeline : Timeline
+        Its timeline (the ship with the voyage's fuels).
+    changes : sequence of Change
+        The plan's changes (each circuit's study has the temperature paths).
+    """
+    system, margin = timeline.system, FLASH_POINT_MARGIN_C
+    out = []
+    for tank, content in voyage.tanks.items():
+        fuel = system.fuels.get(content.fuel)
+        if fuel is None or fuel.is_residual:
+            continue
+        if content.temperature_c > fuel.flash_point - margin:
+            out.append(PlanWarning("flash_point", (
+                f"Tank {tank}: {_flash_text(fuel.name, fuel.flash_point, fuel.flash_point_source)}"
+                f" is at {content.temperature_c:g} °C, within {margin:g} °C of its flash point; "
+                f"SOLAS II-2 regulation 4.2.2.5 does not allow heating fuel in a tank above "
+                f"{fuel.flash_point - margin:g} °C.")))
+    found: dict[tuple, list] = {}
+    for ch in changes:
+        for part in ch.circuits:
+            curves = {c.consumer: c for c in part.study.result.circuit_inlets(part.circuit)}
+            for consumer, path in part.study.paths.items():
+                curve = curves.get(consumer)
+                if curve is None:
+                    continue
+                span = flash_margin_span(curve.fuels, curve.mass_fractions, curve.time_h,
+                                         path.temperature_c, path.time_h, margin)
+                if span is not None:
+                    key = (part.circuit, ch.direction, part.to_fuel, span.fuel.name)
+                    found.setdefault(key, []).append((ch.area, consumer, span))
+    for (circuit, _, to_fuel, _), hits in found.items():
+        areas = ", ".join(dict.fromkeys(h[0] for h in hits))
+        consumers = ", ".join(dict.fromkeys(h[1] for h in hits))
+        span = max((h[2] for h in hits), key=lambda s: s.max_temperature_c)
+        f = span.fuel
+        burners = all(getattr(system.consumers.get(h[1]), "kind", "") == "boiler" for h in hits)
+        if burners:
+            fix = ("switch the burner heater off (or bypass it) before the distillate arrives")
+        else:
+            fix = (f"the inlet temperature, changing no faster than its limit, is at or below "
+                   f"{span.limit_c:g} °C only after {span.to_h:.2f} h: blend the distillate in "
+                   "more slowly, so that the fuel is mainly distillate only from then on")
+        out.append(PlanWarning("flash_point", (
+            f"Circuit {circuit} ({consumers}), changeover to {to_fuel} ({areas}): the heated fuel "
+            f"is mainly {_flash_text(f.name, f.flash_point, f.flash_point_source)} at up to "
+            f"{span.max_temperature_c:.0f} °C {span.from_h:.2f}-{span.to_h:.2f} h after the "
+            f"switch, within {margin:g} °C of its flash point; {fix}. The {margin:g} °C margin "
+            "is SOLAS II-2 regulation 4.2.2.5's for heated fuel tanks, applied here to the "
+            "heaters and lines as a caution.")))
+    return out
+
+
+def input_warnings(timeline: Timeline) -> list[PlanWarning]:
+    """Input taken although unusual: ship-file values outside their usual range, and route
+    waypoints that look like latitude and longitude exchanged.
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline (its ship and its route).
+    """
+    out = [PlanWarning("unusual_input", text) for text in timeline.system.input_warnings]
+    route = timeline.schedule.path.route
+    out += [PlanWarning("swapped_lat_lon", w.text(route.source))
+            for w in swapped_waypoints(route)]
+    return out
+
+
 def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
                   quantities: Quantities,
                   flushes: FlushCache | None = None) -> tuple[PlanWarning, ...]:
-    """Every check's warnings in print order: quantity, caution zone, viscosity, early start.
+    """Every check's warnings in print order: quantity, caution zone, viscosity, early start,
+    flash point, unusual input.
 
     Parameters
     ----------
@@ -246,5 +370,7 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
     """
     return tuple(quantity_warnings(timeline.system, quantities)
                  + zone_warnings(timeline, changes, caution_zone_shapes(voyage), flushes)
-                 + viscosity_warnings(changes)
-                 + start_before_departure_warnings(timeline, changes))
+                 + viscosity_warnings(changes, timeline.system)
+                 + start_before_departure_warnings(timeline, changes)
+                 + flash_point_warnings(voyage, timeline, changes)
+                 + input_warnings(timeline))

@@ -158,16 +158,17 @@ def thermal_study(system: FuelSystem, base: FlushStudy) -> FlushStudy:
     Parameters
     ----------
     system : FuelSystem
-        The system simulated (its inlet window).
+        The system simulated (each consumer's inlet window).
     base : FlushStudy
         A study without the thermal path.
     """
-    result, window = base.result, system.inlet
+    result = base.result
     paths, leads = {}, {}
     found: dict[Hashable, tuple[InletPath, float | None]] = {}
     for curve in result.circuit_inlets(base.summary.circuit):
         blend = np.asarray(curve.mass_fractions)
-        key = (blend.dtype.str, blend.shape, blend.tobytes())
+        window = system.window_for(curve.consumer)
+        key = (blend.dtype.str, blend.shape, blend.tobytes(), window)
         if key not in found:
             path = inlet_path(result.fuels, blend, result.time_h, window)
             found[key] = (path, 0.0 if not path.outside() else

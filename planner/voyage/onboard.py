@@ -8,10 +8,10 @@ at 15 °C by the Table 54B volume correction factor ([TABLE-54B],
 
 from __future__ import annotations
 
-import tomllib
 from pathlib import Path
 
 from geo.errors import InputError
+from planner.common.input_files import read_toml
 from planner.fuels import standard_volume_m3
 from planner.ship.ship_file import load_ship
 from planner.ship.system import FuelSystem, FuelSystemError
@@ -27,8 +27,8 @@ def is_voyage_file(path: str | Path) -> bool:
         A TOML file (False if it cannot be read or parsed).
     """
     try:
-        return "voyage" in tomllib.loads(Path(path).read_text(encoding="utf-8"))
-    except (OSError, tomllib.TOMLDecodeError, UnicodeDecodeError):
+        return "voyage" in read_toml(path, "ship or voyage file")
+    except InputError:
         return False
 
 
@@ -57,6 +57,11 @@ def ship_for_voyage(voyage: Voyage) -> FuelSystem:
             raise InputError(voyage.file, f'tank."{name}"', name,
                              f"a tank of the ship file: {', '.join(sorted(system.tanks))}")
         fuel = voyage.fuel(content.fuel)
+        capacity = system.tanks[name].capacity_m3
+        if content.volume_m3 > capacity:
+            raise InputError(voyage.file, f'tank."{name}".volume_m3', content.volume_m3,
+                             f"a sounding of at most the tank's capacity, {capacity:g} m³ "
+                             "(ship file)")
         v15 = float(standard_volume_m3(content.volume_m3, fuel.density_kg_m3,
                                        content.temperature_c))
         try:

@@ -33,7 +33,6 @@ file and the key.
 
 from __future__ import annotations
 
-import tomllib
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
 from pathlib import Path
@@ -45,12 +44,13 @@ from planner.common.defaults import (
     MAX_CONFIDENCE,
     MIN_CONFIDENCE,
 )
+from planner.common.input_files import read_toml
 from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
-             "q_net_mj_kg")
+             "q_net_mj_kg", "flash_point_c")
 
 
 @dataclass(frozen=True)
@@ -228,12 +228,7 @@ def load_voyage(path: str | Path) -> Voyage:
     """
     file = str(path)
     p = Path(path)
-    try:
-        doc = tomllib.loads(p.read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise InputError(file, "", None, "an existing voyage file") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(file, "", str(exc), "valid TOML") from None
+    doc = read_toml(path, "voyage file")
     base = p.resolve().parent
     v = _table(doc, "voyage", file)
     ship = _path(base, _text(v, "ship", file, "voyage"), file, "voyage.ship")

@@ -56,7 +56,7 @@ def test_frozen_and_keyword_only():
         ({"grade": 380}, "grade"),
         ({"bdn_ref": None}, "bdn_ref"),
         ({"sulphur_pct": -0.01}, "sulphur_pct"),
-        ({"sulphur_pct": 5.01}, "sulphur_pct"),
+        ({"sulphur_pct": 4.51}, "sulphur_pct"),  # above the 4.50 % of [MARPOL-VI] reg. 14.1
         ({"sulphur_pct": float("nan")}, "sulphur_pct"),
         ({"sulphur_pct": "0.5"}, "sulphur_pct"),
         ({"sulphur_pct": True}, "sulphur_pct"),
@@ -91,13 +91,13 @@ def test_every_refusal(changes, match):
 
 
 def test_refusal_message_names_the_fuel_and_value():
-    with pytest.raises(ValueError, match=r"'HFO port'.*sulphur_pct.*between 0 and 5.*7\.0"):
+    with pytest.raises(ValueError, match=r"'HFO port'.*sulphur_pct.*between 0 and 4.5.*7\.0"):
         make(sulphur_pct=7.0)
 
 
 def test_limits_are_inclusive():
     make(sulphur_pct=0.0)
-    make(sulphur_pct=5.0)
+    make(sulphur_pct=4.5)  # the highest global limit, [MARPOL-VI] reg. 14.1
     make(density_kg_m3=700.0, grade="DMA", viscosity_cst=2.0, viscosity_ref_c=40.0)
     make(density_kg_m3=1100.0)
     make(viscosity_cst=0.21)
