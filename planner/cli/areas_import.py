@@ -99,7 +99,7 @@ def _import_gis(source: Path, name: str | None, limit: float | None, start: date
 
     given = Given(limit, start, end, edges, name_field, name, crs)
     got = read_gis_areas(source, layer=layer, given=given)
-    moved = f", reprojected from {got.crs} to WGS84" if got.reprojected else ""
+    moved = ", reprojected to WGS84" if got.reprojected else ""
     note = f"Read from {source.name}, layer {got.layer} ({got.crs}{moved})."
     features = []
     for area, origin in zip(got.areas, got.origins, strict=True):
