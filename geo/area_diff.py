@@ -1,7 +1,8 @@
 """What changed between two versions of an area set: areas, properties, vertices.
 
-Areas are matched by name (ignoring case); an area whose name is gone and a
-new one with the very same rings are reported as renamed. For each matched
+Areas are matched by name (ignoring case; a change of case is reported as a
+rename); an area whose name is gone and the one new area with the very same
+rings are reported as renamed. For each matched
 area the properties (limit, dates in force, edges, source) are compared, then
 the polygons in order and, in each, the exterior and the holes in order. Two
 rings with the same vertices in the same cyclic order, either way round and
@@ -133,16 +134,14 @@ def _ring_key(ring: Ring) -> tuple:
 
 
 def _renames(gone: Sequence[Area], fresh: Sequence[Area]) -> dict[str, Area]:
-    """Old name -> new area, for names that went while the same rings came under another."""
-    by_shape: dict[tuple, Area] = {}
-    for b in fresh:
-        by_shape.setdefault(_shape_key(b), b)
-    out = {}
-    for a in gone:
-        b = by_shape.pop(_shape_key(a), None)
-        if b is not None:
-            out[a.name] = b
-    return out
+    """Old name -> new area, where the rings of one gone area are those of one new area only."""
+    from collections import Counter
+
+    old_keys, new_keys = [_shape_key(a) for a in gone], [_shape_key(b) for b in fresh]
+    once = {k for k, n in Counter(old_keys).items() if n == 1} & {
+        k for k, n in Counter(new_keys).items() if n == 1}
+    by_shape = {k: b for k, b in zip(new_keys, fresh, strict=True) if k in once}
+    return {a.name: by_shape[k] for k, a in zip(old_keys, gone, strict=True) if k in once}
 
 
 def _area_changes(a: Area, b: Area) -> list[Change]:

@@ -58,15 +58,23 @@ def _lines(c: Change) -> list[str]:
                 f"{a['edges']} edges"]
     if c.kind == "renamed":
         return [f"  renamed from: {c.old}"]
-    head = f"  {what}" + (f", {c.place}" if c.place else "")
-    if c.kind.startswith("vertex"):
-        rows = [head + (f": moved {c.moved_m:,.1f} m" if c.moved_m is not None else "")]
+    if " " in c.kind:  # polygon, ring or vertex added, removed or moved
+        from geo.ellipsoid import NM_M
+
+        verb = c.kind.split()[1]
+        if not c.kind.startswith("vertex"):
+            count = c.new if c.old is None else c.old
+            return [f"  {c.place} {verb} ({count} vertices)"]
+        moved = "" if c.moved_m is None else \
+            f" {c.moved_m:,.1f} m ({c.moved_m / NM_M:,.2f} nm)"
+        rows = [f"  {c.place} {verb}{moved}"]
         if c.old is not None:
             rows.append(f"      old  {_shown(c.old, c.kind)}")
         if c.new is not None:
             rows.append(f"      new  {_shown(c.new, c.kind)}")
         return rows
-    return [head, f"      old  {_shown(c.old, c.kind)}", f"      new  {_shown(c.new, c.kind)}"]
+    return [f"  {what}", f"      old  {_shown(c.old, c.kind)}",
+            f"      new  {_shown(c.new, c.kind)}"]
 
 
 def _areas(n: int) -> str:
