@@ -1,9 +1,11 @@
 """Read areas from GIS files (Shapefile, GeoPackage, KML) through pyogrio and its GDAL.
 
-pyogrio (with the GDAL it bundles) is the optional extra ``changeover[gis]``
-and is imported only when a GIS file is read. Each Polygon or MultiPolygon
-feature of the layer becomes one area; a file in another coordinate reference
-system is reprojected to WGS84 longitude and latitude by pyproj [WGS84] [P].
+pyogrio (with the GDAL it bundles [GDAL-OGR]) is the optional extra
+``changeover[gis]`` and is imported only when a GIS file is read: Shapefile
+[ESRI-SHAPEFILE], GeoPackage [OGC-GEOPACKAGE] and KML [OGC-KML]. Each Polygon
+or MultiPolygon feature of the layer becomes one area; a file in another
+coordinate reference system is reprojected to WGS84 longitude and latitude by
+pyproj [PROJ-SOFTWARE] [WGS84] [P].
 The file's attributes are matched to ours by :data:`FIELD_NAMES` (case
 ignored; the first one with a value wins), which covers the 10-letter names a
 Shapefile cuts ours to and a KML placemark's name and time span. What a

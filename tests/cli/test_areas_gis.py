@@ -1,13 +1,15 @@
 """``changeover areas import`` of GIS files (Shapefile, GeoPackage, KML) through pyogrio.
 
 The sample scenario's three invented areas (a MultiPolygon with a hole, one written
-with longitudes past 180°, one with rhumb edges) are written here with pyogrio (GDAL)
-in each format and must import to the same areas: ``geo.area_diff`` finds nothing but
-their source, and the route check gives the same crossings. A Shapefile in UTM zone 60S
-(EPSG:32760, positions transformed by pyproj in the test) must come back within 1 mm of
-the WGS84 vertices, measured with pyproj's geodesic [KARNEY-2013]. A KML file written
-by hand (a placemark's name, ExtendedData and TimeSpan) checks the KML reading apart
-from GDAL's own writer. Every refusal: one line naming the file, exit 2, nothing written.
+with longitudes past 180°, one with rhumb edges) are written here with pyogrio (GDAL
+[GDAL-OGR]) in each format ([ESRI-SHAPEFILE], [OGC-GEOPACKAGE], [OGC-KML]) and must
+import to the same areas: ``geo.area_diff`` finds nothing but their source, and the
+route check gives the same crossings. A Shapefile in UTM zone 60S (EPSG:32760,
+positions transformed by pyproj [PROJ-SOFTWARE] in the test) must come back within
+1 mm of the WGS84 vertices, measured with pyproj's geodesic [KARNEY-2013]. A KML file
+written by hand (a placemark's name, ExtendedData and TimeSpan) checks the KML reading
+apart from GDAL's own writer. Every refusal: one line naming the file, exit 2, nothing
+written.
 """
 
 from __future__ import annotations
