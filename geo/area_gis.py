@@ -62,7 +62,7 @@ class Given:
     effective_from, effective_until : dates in force (UTC)
     edges : one of :data:`geo.area.EDGE_KINDS`
     name_field : the attribute holding the name, instead of :data:`FIELD_NAMES`
-    name : the name, for a layer of one feature without one
+    name : the name of the one feature of a layer (refused for a layer of several)
     crs : the coordinate reference system of a file that does not say, e.g. ``EPSG:4326``
     """
 
@@ -201,8 +201,11 @@ def _properties(row: Mapping[str, object], path: Path, n: int, given: Given,
     if given.name_field and given.name_field.casefold() not in {k.casefold() for k in row}:
         raise InputError(path, "--name-field", given.name_field,
                          f"one of the layer's attributes: {', '.join(row)}")
+    if given.name and count != 1:
+        raise InputError("--name", "", given.name, f"no --name for a layer of {count} "
+                         "features: their names come from an attribute (--name-field)")
     key, name = _value(row, aliases)
-    if name is None and given.name and count == 1:
+    if given.name:
         name, origin["name"] = given.name, "option"
     if name is None:
         raise InputError(path, place, None, f"a name in an attribute ({', '.join(aliases)}); "

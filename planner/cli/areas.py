@@ -80,7 +80,8 @@ def import_cmd(
              "FILE.kml).")],
     out: Annotated[Path, typer.Option("--out", help="The area file to write (*.geojson).")],
     name: Annotated[str | None, typer.Option(
-        help="The area's name (a list: required; a GIS layer of one unnamed feature).")] = None,
+        help="The area's name (a list: required; a GIS layer of one feature: instead of "
+             "the file's).")] = None,
     limit: Annotated[float | None, LimitOpt.__metadata__[0]] = None,
     from_: Annotated[str | None, typer.Option(
         "--from", help="First day in force, YYYY-MM-DD, from 00:00 UTC (a list: required; a "

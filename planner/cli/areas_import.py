@@ -77,6 +77,10 @@ def _import_list(source: Path, name: str | None, limit: float | None, start: dat
     _required(name, "--name", "the area's name, e.g. --name 'Corran Sea ECA'")
     _required(limit, "--limit", "the area's sulphur limit in % m/m, e.g. --limit 0.10")
     _required(start, "--from", "the first day in force, e.g. --from 2027-03-01")
+    if not name.strip():
+        from geo.errors import InputError
+
+        raise InputError("--name", "", name, "the area's name, non-empty text")
     points = read_point_list(source)
     props = AreaProperties(name.strip(), float(limit), start, end, edges or "geodesic",
                            str(source))

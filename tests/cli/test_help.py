@@ -24,7 +24,7 @@ from planner.cli.log import log_app
 from tests.helpers.paths import ROOT
 
 FORBIDDEN = ("pyproj", "numpy", "shapely", "matplotlib", "reportlab", "scipy", "rich",
-             "markdown_it", "pydantic")
+             "markdown_it", "pydantic", "pyogrio")
 """Top-level packages the help must not import."""
 
 COMPUTING_PACKAGES = ("planner.fuels", "planner.ship", "planner.flushing",
