@@ -62,16 +62,9 @@ def check_cmd(
     if json_out:
         typer.echo(dumps({"on": day.isoformat(), "areas": rows}))
         return
-    from planner.cli.console import console, table
+    from planner.cli.areas_table import print_areas
 
-    t = table(f"Control areas (in force judged on {day.isoformat()})", [
-        ("Name", "w"), ("Limit % m/m", "r"), ("From", "l"), ("Until", "l"), ("Edges", "l"),
-        ("Vertices", "r"), ("Area km²", "r"), ("In force", "l")])
-    for r in rows:
-        t.add_row(r["name"], f"{r['limit_pct']:.2f}", str(r["effective_from"]),
-                  str(r["effective_until"] or "—"), r["edges"], str(r["vertices"]),
-                  f"{r['area_km2']:,.0f}", "yes" if r["in_force_today"] else "no")
-    console().print(t)
+    print_areas(f"Control areas (in force judged on {day.isoformat()})", rows)
 
 
 def import_cmd(
