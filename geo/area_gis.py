@@ -51,6 +51,10 @@ FIELD_NAMES: Mapping[str, tuple[str, ...]] = {
 
 INSTALL = "pip install 'changeover[gis]'"
 
+LIMIT_DECIMALS = 6
+"""A limit attribute is read to this many decimals [% m/m]: a single-precision attribute
+holds 0.10 as 0.1000000015."""
+
 
 @dataclass(frozen=True)
 class Given:
@@ -251,7 +255,7 @@ def _number(value: object, path: Path, where: str) -> float:
     if not (math.isfinite(v) and 0.0 <= v <= 100.0) or isinstance(value, bool):
         raise InputError(path, where, value, "a number of % m/m sulphur from 0 to 100, "
                          "such as 0.10")
-    return v
+    return round(v, LIMIT_DECIMALS)
 
 
 _DATE = re.compile(r"(\d{4})[-/]?(\d{2})[-/]?(\d{2})(?:[T ].*)?")

@@ -56,7 +56,8 @@ def write_gis(path: Path, areas=AREAS, *, fields: dict[str, list] | None = None,
                   "effective_from": [a.effective_from.isoformat() for a in areas],
                   "edges": [a.edges for a in areas]}
     geoms = np.array(shapely.to_wkb([_shape(a, transform) for a in areas]), dtype=object)
-    data = [np.array(v, dtype=np.float64 if isinstance(v[0], float) else object)
+    data = [v if isinstance(v, np.ndarray) else
+            np.array(v, dtype=np.float64 if isinstance(v[0], float) else object)
             for v in fields.values()]
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")  # GDAL laundering Shapefile names, folding 184° to -176°
@@ -127,6 +128,21 @@ HANDWRITTEN_KML = """<?xml version="1.0" encoding="UTF-8"?>
 <kml xmlns="http://www.opengis.net/kml/2.2">
 <Document><name>Invented areas (not legal boundaries)</name>
 <Placemark>
+  <name>Corran Sea ECA</name>
+  <ExtendedData><Data name="sulphur_limit_pct"><value>0.10</value></Data>
+    <Data name="effective_from"><value>2019-01-01</value></Data></ExtendedData>
+  <MultiGeometry>
+    <Polygon><outerBoundaryIs><LinearRing><coordinates>
+      170,-44 178,-44 178,-36 170,-36 170,-44</coordinates></LinearRing></outerBoundaryIs>
+      <innerBoundaryIs><LinearRing><coordinates>
+      173,-41 175,-41 175,-39 173,-39 173,-41</coordinates></LinearRing></innerBoundaryIs>
+    </Polygon>
+    <Polygon><outerBoundaryIs><LinearRing><coordinates>
+      176.5,-43 177.8,-43 177.8,-38 176.5,-38 176.5,-43</coordinates></LinearRing>
+    </outerBoundaryIs></Polygon>
+  </MultiGeometry>
+</Placemark>
+<Placemark>
   <name>Meridian Reach ECA</name>
   <TimeSpan><begin>2021-07-01</begin></TimeSpan>
   <ExtendedData><Data name="limit_pct"><value>0.10</value></Data></ExtendedData>
@@ -145,8 +161,7 @@ def test_a_handwritten_kml(tmp_path):
     out = tmp_path / "reach.geojson"
     r = import_(source, out)
     assert r.returncode == 0, r.stderr
-    (area,) = load_areas([out])
-    diff = diff_areas([AREAS[1]], [area])
+    diff = diff_areas(AREAS[:2], load_areas([out]))  # a MultiGeometry with a hole; a TimeSpan
     assert {c.kind for c in diff.changes} == {"source"}, diff.changes
 
 
@@ -162,6 +177,17 @@ def test_a_limit_or_dates_given_for_features_without(tmp_path):
     assert "Given on the command line: sulphur_limit_pct, effective_from" in \
            doc["features"][0]["properties"]["note"]
     assert [a.effective_from.isoformat() for a in load_areas([out])] == ["2019-01-01"] * 3
+
+
+def test_a_single_precision_limit_and_a_date_field(tmp_path):
+    source = write_gis(tmp_path / "f32.gpkg", AREAS[:1], fields={
+        "name": ["Corran Sea ECA"], "limit_pct": np.array([0.1], dtype=np.float32),
+        "valid_from": np.array(["2019-01-01"], dtype="datetime64[D]")})
+    assert float(np.float32(0.1)) != 0.1  # what the file holds
+    out = tmp_path / "f32.geojson"
+    assert import_(source, out).returncode == 0
+    (area,) = load_areas([out])
+    assert area.sulphur_limit_pct == 0.1 and area.effective_from.isoformat() == "2019-01-01"
 
 
 def test_name_field_and_layer(tmp_path):
