@@ -78,6 +78,12 @@ class Given:
     name: str | None = None
     crs: str | None = None
 
+    def __post_init__(self) -> None:
+        if self.edges is not None and self.edges not in EDGE_KINDS:
+            raise ValueError(f"edges {self.edges!r} not one of {EDGE_KINDS}")
+        if self.sulphur_limit_pct is not None and not 0.0 <= self.sulphur_limit_pct <= 100.0:
+            raise ValueError(f"limit {self.sulphur_limit_pct} % outside 0..100")
+
 
 @dataclass(frozen=True)
 class GisImport:
@@ -146,8 +152,8 @@ def _pyogrio(path: str | Path):
 def _layer(pyogrio, path: Path, layer: str | None) -> str:
     try:
         layers = [str(row[0]) for row in pyogrio.list_layers(path)]
-    except Exception as e:
-        raise InputError(path, "", Text(str(e).splitlines()[0]),
+    except Exception as e:  # GDAL's own words, up to its advice
+        raise InputError(path, "", Text(str(e).splitlines()[0].split(";")[0].strip()),
                          "a Shapefile, GeoPackage or KML file") from None
     if layer is not None:
         if layer not in layers:

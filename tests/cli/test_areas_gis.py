@@ -338,3 +338,39 @@ def test_name_given_for_one_feature_and_refused_for_several(tmp_path):
     three = write_gis(tmp_path / "three.gpkg")
     assert "--name: 'X': expected no --name for a layer of 3 features" in _refused(
         tmp_path, three, "--name", "X")
+
+
+def _write_one(path: Path, geom, crs: str = "EPSG:4326") -> Path:
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        raw.write(path, np.array([geom if geom is None else shapely.to_wkb(geom)], dtype=object),
+                  [np.array(["A"], dtype=object), np.array([0.1]),
+                   np.array(["2019-01-01"], dtype=object)],
+                  ["name", "sulphur_limit_pct", "effective_from"], driver="GPKG", crs=crs,
+                  geometry_type="Polygon")
+    return path
+
+
+def test_refusals_of_unreadable_or_empty_files_and_bad_geometry(tmp_path):
+    junk = tmp_path / "junk.gpkg"
+    junk.write_text("not a geopackage", encoding="utf-8")
+    assert "not recognized as being in a supported file format.: expected a Shapefile, " \
+           "GeoPackage or KML file" in _refused(tmp_path, junk)
+    assert "nowhere.shp: no such file: expected a Shapefile" in _refused(
+        tmp_path, tmp_path / "nowhere.shp")
+    empty = tmp_path / "empty.gpkg"
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        raw.write(empty, np.array([], dtype=object), [np.array([], dtype=object)], ["name"],
+                  driver="GPKG", crs="EPSG:4326", geometry_type="Polygon")
+    assert "layer empty: no features: expected at least one area" in _refused(tmp_path, empty)
+    far = _write_one(tmp_path / "far.gpkg", shapely.Polygon([(0, 0), (1e9, 0), (1e9, 1e9)]),
+                     crs="EPSG:32760")
+    assert "feature 1 'A', polygon 1, ring 1: positions off the globe" in _refused(tmp_path, far)
+    thin = _write_one(tmp_path / "thin.gpkg", shapely.Polygon([(170, -40), (171, -40),
+                                                               (171, -40), (170, -40)]))
+    assert "feature 1 'A', polygon 1: a ring of fewer than three distinct vertices" in \
+           _refused(tmp_path, thin)
+    none = _write_one(tmp_path / "none.gpkg", None)
+    assert "feature 1 'A', geometry: no geometry: expected a Polygon or MultiPolygon" in \
+           _refused(tmp_path, none)
