@@ -56,6 +56,10 @@ def run_import(source: Path, out: Path, *, name: str | None, limit: float | None
         raise InputError("--until", "", until, f"a date not before --from {start.isoformat()}")
     kind = source.suffix.lower()
     if kind in LIST_SUFFIXES:
+        for option, value in (("--layer", layer), ("--name-field", name_field), ("--crs", crs)):
+            if value is not None:
+                raise InputError(option, "", value, f"no {option} for a list of positions "
+                                 "(GIS files only)")
         report = _import_list(source, name, limit, start, end, edges)
     elif kind in GIS_SUFFIXES:
         report = _import_gis(source, name, limit, start, end, edges, layer, name_field, crs)

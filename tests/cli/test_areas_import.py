@@ -150,6 +150,8 @@ REFUSALS = [
     (BODY, [*BASE, "--until", "2026-01-01"], ["--until: '2026-01-01': expected a date not "
                                               "before --from 2027-03-01"]),
     (BODY, [*BASE, "--edges", "straight"], ["--edges: 'straight': expected geodesic | rhumb |"]),
+    (BODY, [*BASE, "--layer", "eca"], ["--layer: 'eca': expected no --layer for a list"]),
+    (BODY, [*BASE, "--crs", "EPSG:4326"], ["--crs: 'EPSG:4326': expected no --crs for a list"]),
     (BOWTIE, BASE, ["points, polygon 1, ring 1: crosses or touches itself at 39°",
                     "(edges starting at vertices 1, 3)"]),
     (HALF_TURN, BASE, ["points, polygon 1, ring 1, edge from vertex 1 to vertex 2",
