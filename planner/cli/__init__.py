@@ -26,8 +26,8 @@ line on standard error, exit status 2, no output written.
 - typer reads every command's signature on each start; each is evaluated once
   here (:func:`_registered`) rather than compiled from strings twice by typer.
 
-``changeover`` or ``changeover log`` alone prints the help on standard output
-and exits with status 2 (:func:`_help_when_bare`).
+``changeover``, ``changeover areas`` or ``changeover log`` alone prints the help on
+standard output and exits with status 2 (:func:`_help_when_bare`).
 """
 
 from __future__ import annotations
@@ -40,18 +40,25 @@ from collections.abc import Callable
 import typer
 
 from geo.errors import InputError
-from planner.cli import flush, log, plan, procedure, route
+from planner.cli import areas, flush, log, plan, procedure, route
 
 COMPUTING: dict[str, Callable[..., None]] = {
     "flush": flush.flush_cmd,
     "plan": plan.plan_cmd,
     "procedure": procedure.procedure_cmd,
     "route": route.route_cmd,
-    "areas": route.areas_cmd,
 }
 """The commands that compute, in the order the help lists them; each checks PROJ first."""
 
-_CONTEXT = {"default_map": {"help": False, "log": {"help": False}}}
+AREAS: dict[str, Callable[..., None]] = {
+    "check": areas.check_cmd,
+    "import": areas.import_cmd,
+    "diff": areas.diff_cmd,
+}
+"""The ``areas`` group's commands (all compute and check PROJ first); ``check`` is also what
+``changeover areas PATHS...`` runs (:class:`planner.cli.areas.AreasGroup`)."""
+
+_CONTEXT = {"default_map": {"help": False, "log": {"help": False}, "areas": {"help": False}}}
 """The groups' ``--help`` is False unless given (see the module's notes)."""
 
 app = typer.Typer(
@@ -68,7 +75,7 @@ app = typer.Typer(
 
 @app.callback(invoke_without_command=True)
 def _help_when_bare(ctx: typer.Context) -> None:
-    """``changeover`` or ``changeover log`` alone: the help on standard output, exit 2."""
+    """``changeover``, ``changeover areas`` or ``changeover log`` alone: the help, exit 2."""
     if ctx.invoked_subcommand is None:
         typer.echo(ctx.get_help())
         raise typer.Exit(2)
@@ -112,6 +119,11 @@ def _registered(command: Callable[..., None], proj: bool) -> Callable[..., None]
 
 for _name, _command in COMPUTING.items():
     app.command(_name, short_help=_summary(_command.__doc__))(_registered(_command, proj=True))
+for _name, _command in AREAS.items():
+    areas.areas_app.command(_name, short_help=_summary(_command.__doc__))(
+        _registered(_command, proj=True))
+areas.areas_app.callback(invoke_without_command=True)(_help_when_bare)
+app.add_typer(areas.areas_app, name="areas", short_help=_summary(areas.areas_app.info.help))
 for _info in log.log_app.registered_commands:
     _info.short_help = _info.short_help or _summary(_info.callback.__doc__)
     _info.callback = _registered(_info.callback, proj=False)

@@ -1,6 +1,7 @@
-"""``changeover route`` and ``changeover areas``: the master's route check.
+"""``changeover route``: the master's route check.
 
-Holds both commands and the tables the route check prints. Each computes
+Holds the command and the tables the route check prints (``changeover areas``
+is in :mod:`planner.cli.areas`). It computes
 everything first, then prints and writes; rich and matplotlib are imported
 inside the functions, and matplotlib only when a map is asked for. While they
 read and compute, a status line on standard error says what they are doing
@@ -11,7 +12,7 @@ work's own progress texts where it gives them. ``--json``, ``--depart`` and
 
 from __future__ import annotations
 
-from datetime import UTC, datetime, timezone
+from datetime import timezone
 from pathlib import Path
 from typing import TYPE_CHECKING, Annotated
 
@@ -116,36 +117,3 @@ def print_route_check(check: RouteCheck, zone: timezone) -> None:
     con.print(a)
     con.print("[dim]Advisory only. Official area boundaries and limits are those in MARPOL "
               "Annex VI and national law.[/dim]")
-
-
-def areas_cmd(
-    paths: Annotated[list[Path], typer.Argument(help="Area GeoJSON files or folders.")],
-    json_out: JsonOpt = False,
-    on: Annotated[str | None, typer.Option(help="Date for 'in force' (default today).")] = None,
-) -> None:
-    """List the control areas in files or folders, with their limits, dates and size."""
-    from geo.area_files import load_areas
-    from geo.area_measure import describe
-    from planner.cli.progress import progress_kwargs, status
-    from planner.common.outputs import dumps
-    from planner.common.timefmt import parse_day
-
-    day = parse_day(on) if on else datetime.now(UTC).date()
-    with status("reading the areas", json_out) as say:
-        found = load_areas(paths, **progress_kwargs(load_areas, say))
-        if say:
-            say("measuring the areas")
-        rows = [describe(a, day) for a in found]
-    if json_out:
-        typer.echo(dumps({"on": day.isoformat(), "areas": rows}))
-        return
-    from planner.cli.console import console, table
-
-    t = table(f"Control areas (in force judged on {day.isoformat()})", [
-        ("Name", "w"), ("Limit % m/m", "r"), ("From", "l"), ("Until", "l"), ("Edges", "l"),
-        ("Vertices", "r"), ("Area km²", "r"), ("In force", "l")])
-    for r in rows:
-        t.add_row(r["name"], f"{r['limit_pct']:.2f}", str(r["effective_from"]),
-                  str(r["effective_until"] or "—"), r["edges"], str(r["vertices"]),
-                  f"{r['area_km2']:,.0f}", "yes" if r["in_force_today"] else "no")
-    console().print(t)

@@ -18,12 +18,13 @@ from pathlib import Path
 
 import pytest
 
-from planner.cli import COMPUTING
+from planner.cli import AREAS, COMPUTING
+from planner.cli.areas import areas_app
 from planner.cli.log import log_app
 from tests.helpers.paths import ROOT
 
 FORBIDDEN = ("pyproj", "numpy", "shapely", "matplotlib", "reportlab", "scipy", "rich",
-             "markdown_it", "pydantic")
+             "markdown_it", "pydantic", "pyogrio")
 """Top-level packages the help must not import."""
 
 COMPUTING_PACKAGES = ("planner.fuels", "planner.ship", "planner.flushing",
@@ -32,8 +33,9 @@ COMPUTING_PACKAGES = ("planner.fuels", "planner.ship", "planner.flushing",
 """Planner packages below the command line; of geo only ``geo.errors`` may be imported."""
 
 LOG = [c.name for c in log_app.registered_commands]
-HELP_CASES = [["--help"], [], ["log", "--help"], ["log"]] + [
-    [name, "--help"] for name in COMPUTING] + [["log", name, "--help"] for name in LOG]
+HELP_CASES = [["--help"], [], ["log", "--help"], ["log"], ["areas", "--help"], ["areas"]] + [
+    [name, "--help"] for name in COMPUTING] + [["log", name, "--help"] for name in LOG] + [
+    ["areas", name, "--help"] for name in AREAS]
 
 SAMPLE = ROOT / "areas_sample"
 COMMAND_ARGS = {
@@ -41,7 +43,12 @@ COMMAND_ARGS = {
     "plan": ["plan", "areas_sample/voyage.toml"],
     "procedure": ["procedure", "areas_sample/ship.toml", "--json"],
     "route": ["route", "areas_sample/aldmere_to_skarvik.csv", "--areas", "areas_sample"],
-    "areas": ["areas", "areas_sample"],
+}
+AREAS_ARGS = {
+    "areas": ["areas", "areas_sample"],  # the old form: check
+    "areas check": ["areas", "check", "areas_sample"],
+    "areas import": ["areas", "import", "areas_sample/none.txt", "--out", "none.geojson"],
+    "areas diff": ["areas", "diff", "areas_sample", "areas_sample"],
 }
 
 
@@ -83,7 +90,7 @@ def test_help_imports_nothing_heavy(args: list[str]):
     assert not heavy(names), f"changeover {' '.join(args)} imports {heavy(names)}"
 
 
-@pytest.mark.parametrize("group", [[], ["log"]], ids=["changeover", "log"])
+@pytest.mark.parametrize("group", [[], ["log"], ["areas"]], ids=["changeover", "log", "areas"])
 def test_a_group_alone_prints_its_help_and_exits_2(group: list[str]):
     r = run(*group)
     assert r.returncode == 2 and not r.stderr, r.stderr
@@ -97,6 +104,11 @@ def test_listings_give_each_command_its_whole_summary():
         first = command.__doc__.split("\n\n")[0]
         assert flat(f"{name} {first}") in flat(top.stdout), name
     assert flat(f"log {log_app.info.help}") in flat(top.stdout)
+    assert flat(f"areas {areas_app.info.help}") in flat(top.stdout)
+    group = run("areas", "--help")
+    for name, command in AREAS.items():
+        first = command.__doc__.split("\n\n")[0]
+        assert flat(f"{name} {first}") in flat(group.stdout), name
     for info in log_app.registered_commands:
         first = info.callback.__doc__.split("\n\n")[0]
         assert flat(f"{info.name} {first}") in flat(log.stdout), info.name
@@ -122,10 +134,11 @@ def old_proj(tmp_path_factory) -> dict[str, str]:
     return {"PYTHONPATH": os.pathsep.join([str(d), str(ROOT)])}
 
 
-@pytest.mark.parametrize("name", sorted(COMMAND_ARGS))
+@pytest.mark.parametrize("name", sorted(COMMAND_ARGS) + sorted(AREAS_ARGS))
 def test_too_old_proj_stops_a_computing_command(old_proj, name: str):
     assert set(COMMAND_ARGS) == set(COMPUTING)
-    r = run(*COMMAND_ARGS[name], env=old_proj)
+    assert {k.split()[-1] for k in AREAS_ARGS} == set(AREAS) | {"areas"}
+    r = run(*{**COMMAND_ARGS, **AREAS_ARGS}[name], env=old_proj)
     assert r.returncode == 1, r.stderr
     assert r.stderr.startswith("changeover: PROJ 9.1.1 is too old: changeover needs PROJ "
                                ">= 9.2"), r.stderr

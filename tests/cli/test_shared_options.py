@@ -54,7 +54,8 @@ BAD = {"--confidence": ("1.5", ("0.5", "0.9999")), "--samples": ("10", ("100",))
        "--seed": ("-1", ("0",)), "--limit": ("-1", ("5",)), "--target-pct": ("0.2", ("0.1",))}
 # declared once: flag -> commands that must all have it, declared identically
 SHARED = {
-    "--json": ("flush", "plan", "procedure", "route", "areas", "log show", "log verify"),
+    "--json": ("flush", "plan", "procedure", "route", "areas check", "areas import",
+               "areas diff", "log show", "log verify"),
     "--limit": ("flush", "procedure"), "--target-pct": ("flush", "procedure"),
     "--confidence": ("flush", "plan"), "--samples": ("flush", "plan"),
     "--seed": ("flush", "plan"), "--depart": ("route",), "--tz": ("route",),
@@ -148,6 +149,12 @@ def _type(param) -> str:
     return str(getattr(described, "annotation", None) or getattr(param, "type", None))
 
 
+OPTIONAL = {("--limit", "areas import")}
+"""Shared options a command takes without their default (the same flag, help and check):
+``areas import`` needs ``--limit`` for a list and only for features without one in a GIS
+file, so it has no default there."""
+
+
 @pytest.mark.parametrize("flag", sorted(SHARED))
 def test_a_shared_option_is_declared_once(flag: str):
     commands = _commands()
@@ -156,9 +163,15 @@ def test_a_shared_option_is_declared_once(flag: str):
         (p,) = [p for p in commands[name].params if flag in p.opts]
         declared[name] = (tuple(p.opts), _type(p), p.default, p.help)
     assert len(set(declared.values())) == 1, declared
+    for flag_, name in OPTIONAL:
+        if flag_ == flag:
+            (p,) = [p for p in commands[name].params if flag in p.opts]
+            opts, _, _, help_ = next(iter(declared.values()))
+            assert (tuple(p.opts), p.default, p.help) == (opts, None, help_), name
     # and no other command has its own --limit, --confidence, ... (log has its own --tz)
     for name, cmd in commands.items():
-        if name not in SHARED[flag] and not (flag == "--tz" and name.startswith("log ")):
+        if name not in SHARED[flag] and (flag, name) not in OPTIONAL and not (
+                flag == "--tz" and name.startswith("log ")):
             assert not any(flag in p.opts for p in cmd.params), (flag, name)
 
 
