@@ -41,7 +41,8 @@ from typing import TypeVar
 
 from geo.compliance import RouteCheck
 from geo.errors import InputError
-from geo.limits import global_cap_pct
+from geo.limits import global_cap_changes_utc, global_cap_pct
+from geo.schedule import to_epoch
 from planner.common.timefmt import format_utc
 from planner.flushing import FlushError
 from planner.fuels import Fuel
@@ -248,12 +249,26 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     if not changes:
         reason = no_changeover_reason(check, runs, departs_compliant=inside)
         notes.append(reason)
-    changes = [_with_thermal(flushes, system, ch) for ch in changes]
+    changes = [_with_thermal(flushes, system, _with_event(check, ch)) for ch in changes]
     quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes)
     warnings += passed_over_warnings(timeline, choices, voyage.fuel_choice_margin)
     warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
                 quantities, tuple(notes), tuple(warnings), flushes, reason)
+
+
+def _with_event(check: RouteCheck, ch: Change) -> Change:
+    """``ch`` with what its boundary is (:attr:`Change.event`): a departure, an area's
+    coming into or going out of force while inside it, a change of the global cap, else a
+    crossing."""
+    if ch.before_departure or ch.area == "departure":
+        return replace(ch, event="departure")
+    for f in check.force_events:
+        if abs(to_epoch(f.time_utc) - ch.boundary_epoch_s) < 1.0 and f.area == ch.area:
+            return replace(ch, event=f.event)
+    if any(abs(to_epoch(m) - ch.boundary_epoch_s) < 1.0 for m in global_cap_changes_utc()):
+        return replace(ch, event="cap_change")
+    return replace(ch, event="enter" if ch.direction == "to_compliant" else "exit")
 
 
 def _target_notes(voyage: Voyage, changes: list[Change]) -> list[str]:

@@ -13,6 +13,7 @@ from planner.common.timefmt import format_offset, iso_utc
 from planner.voyage.fuel_choice import FuelChoice, regular_fuel
 from planner.voyage.plan import Plan
 from planner.voyage.quantities import so2_by_area, sulphur_by_area
+from planner.voyage.route_report import force_event_rows
 
 CAUTIONS = (
     "Advisory only: the engine and boiler makers' instructions and the ship's safety "
@@ -136,6 +137,8 @@ def changeover_rows(plan: Plan) -> list[dict]:
                 "margin_h": margin,
                 "duration_h": part.duration_h,
                 "before_departure": ch.before_departure,
+                "boundary_event": ch.boundary_event,
+                "clock_deadline": ch.clock_deadline,
                 "min_viscosity_cst": st.min_viscosity_cst if st.paths else None,
                 "max_viscosity_cst": st.max_viscosity_cst if st.paths else None,
             })
@@ -184,6 +187,7 @@ def plan_json(plan: Plan) -> dict:
         },
         "port": _port(plan),
         "changeovers": changeover_rows(plan),
+        "force_events": force_event_rows(plan.check),
         "stretches": [
             {"from_nm": c.stretch.from_nm, "to_nm": c.stretch.to_nm,
              "limit_pct": c.stretch.limit_pct, "areas": list(c.stretch.areas),
