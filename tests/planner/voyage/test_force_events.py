@@ -85,3 +85,57 @@ def test_no_arrival_time_uncertainty_on_a_clock_deadline(tmp_path):
     sd_h = 15.0 / 1.96 / 60.0
     assert cross["lead_confidence_h"] - cross["lead_p50_h"] == pytest.approx(Z99 * sd_h,
                                                                              rel=0.1)
+
+
+def _copy(tmp_path):
+    for f in VOYAGES.iterdir():
+        if f.suffix in (".csv", ".geojson") or f.name.startswith("ship_"):
+            shutil.copy(f, tmp_path / f.name)
+
+
+def test_an_area_ceasing_while_inside_is_its_own_event(tmp_path):
+    # closed_form's area (5°E-10°E, in force from 2020) made to cease at the end of
+    # 2030-03-10 (effective_until = 2030-03-10: in force to 24:00 UTC); the ship enters at
+    # 5°E on 2030-03-10 and is still inside at midnight: the switch back is commenced at
+    # 00:00 UTC on 2030-03-11, on the clock, where she then is
+    _copy(tmp_path)
+    area = (VOYAGES / "meridian_5e.geojson").read_text()
+    assert '"effective_from": "2020-01-01"' in area
+    (tmp_path / "meridian_5e.geojson").write_text(area.replace(
+        '"effective_from": "2020-01-01"',
+        '"effective_from": "2020-01-01", "effective_until": "2030-03-10"'))
+    route = "name,lat,lon,leg,speed_kn\nWest Point,50.0,2.0,,\nDeep Point,50.0,9.0,rhumb,12.0\n"
+    (tmp_path / "parallel_east.csv").write_text(route)
+    text = (VOYAGES / "closed_form.toml").read_text().replace(
+        'depart = "2030-03-10T06:00Z"', 'depart = "2030-03-10T14:00Z"')
+    (tmp_path / "v.toml").write_text(text)
+    _, doc = plan_doc(tmp_path / "v.toml")
+    (ev,) = doc["force_events"]
+    assert (ev["event"], ev["time_utc"]) == ("ceases", "2030-03-11T00:00:00Z")
+    # 10 h × 12 kn = 120 nm from 2°E
+    assert ev["distance_nm"] == pytest.approx(120.0, abs=1e-6)
+    assert ev["limit_after_pct"] == 0.5
+    back = [r for r in doc["changeovers"] if r["direction"] == "to_regular"]
+    assert [(r["boundary_event"], r["start_utc"]) for r in back] == [
+        ("ceases", "2030-03-11T00:00:00Z")]
+
+
+def test_a_circuit_on_compliant_fuel_at_departure_outside_switches_back_at_departure(tmp_path):
+    # closed_form departs outside the area with [port] departure_fuel = { main = "mgo" }:
+    # the switch back is commenced at departure and completes, at 12 kn, after the CSTR
+    # washout to 5 % of the step: (V/q)·ln(1/0.05) ([LEVENSPIEL-1999] [D]; the planner's
+    # stated completion level SWITCH_BACK_COMPLETE)
+    from planner.voyage.changeovers import SWITCH_BACK_COMPLETE
+    from tests.helpers.plan import V_M3, flow_m3_h
+
+    _copy(tmp_path)
+    text = (VOYAGES / "closed_form.toml").read_text() + (
+        '\n[port]\ndeparture_fuel = { main = "mgo" }\n')
+    (tmp_path / "v.toml").write_text(text)
+    _, doc = plan_doc(tmp_path / "v.toml")
+    first = doc["changeovers"][0]
+    assert (first["direction"], first["boundary_event"], first["from_fuel"]) == (
+        "to_regular", "departure", "mgo")
+    assert first["start_utc"] == doc["voyage"]["depart_utc"]
+    back_h = V_M3 / flow_m3_h(12.0) * math.log(1.0 / SWITCH_BACK_COMPLETE)
+    assert first["duration_h"] == pytest.approx(back_h, abs=3.0 / 3600.0)
