@@ -102,8 +102,7 @@ class Timeline:
             The consumers to give (default: all of the ship's).
         """
         names = consumers if consumers is not None else list(self.system.consumers)
-        port = self.port
-        assert port is not None
+        port = self.port if self.port is not None else default_port_state(self.system)
         if epoch_s < self.start_epoch_s:
             return {n: port.departure_iso_t_h[n] for n in names}
         if epoch_s >= self.end_epoch_s:
