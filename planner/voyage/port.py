@@ -28,7 +28,7 @@ from types import MappingProxyType
 
 from geo.errors import InputError
 from planner.ship.consumers import Consumer, MainEngine
-from planner.ship.system import FuelSystem
+from planner.ship.system import FuelSystem, FuelSystemError
 from planner.voyage.voyage_file import Voyage
 
 
@@ -152,16 +152,23 @@ def port_state(voyage: Voyage, system: FuelSystem) -> PortState:
     Raises
     ------
     InputError
-        For a consumer or circuit the ship file lacks, or a load above 100 % of a sea rate.
+        For a consumer or circuit the ship file lacks, a load above 100 % of a sea rate, or
+        a departure fuel no tank at the circuit's valve holds.
     """
     spec = voyage.port
     dep = _loads(system, spec.departure_load_pct, voyage.file, "departure_load_pct")
     arr = (dep if spec.arrival_load_pct is None else
            _loads(system, spec.arrival_load_pct, voyage.file, "arrival_load_pct"))
-    for circuit in spec.departure_fuel:
+    for circuit, fuel in spec.departure_fuel.items():
         if circuit not in system.circuits:
             raise InputError(voyage.file, f"port.departure_fuel.{circuit}", circuit,
                              f"a circuit of the ship file: {', '.join(system.circuits)}")
+        try:
+            system.tank_for(circuit, fuel)
+        except FuelSystemError:
+            tanks = ", ".join(system.circuits[circuit].tanks)
+            raise InputError(voyage.file, f"port.departure_fuel.{circuit}", fuel,
+                             f"the fuel of one tank at the circuit's valve ({tanks})") from None
     cons = system.consumers
     return PortState({n: alongside_iso_t_h(cons[n], p) for n, p in dep.items()},
                      {n: alongside_iso_t_h(cons[n], p) for n, p in arr.items()},

@@ -160,3 +160,21 @@ def test_the_sample_caution_only_for_the_sample_areas():
     assert not any("sample" in c for c in doc["cautions"])
     _, sample = plan_doc(ROOT / "areas_sample" / "voyage.toml")
     assert SAMPLE_CAUTION in sample["cautions"]
+
+
+@pytest.mark.parametrize("table, place, expected", [
+    ('departure_fuel = { boilr = "mgo" }', "port.departure_fuel.boilr", "a circuit of the ship"),
+    ('departure_load_pct = { dg9 = 50.0 }', "port.departure_load_pct.dg9", "a consumer of the"),
+    ('departure_load_pct = { main_engine = 150.0 }', "port.departure_load_pct.main_engine",
+     "a number from 0.0 to 110.0"),
+    ('arrival_hours = -2.0', "port.arrival_hours", "a number from 0.0"),
+])
+def test_bad_port_tables_are_refused_naming_the_key(tmp_path, table, place, expected):
+    from planner.voyage.onboard import ship_for_voyage
+    from planner.voyage.port import port_state
+
+    p = voyage(tmp_path, "closed_form", extra=f"\n[port]\n{table}\n")
+    with pytest.raises(InputError) as e:
+        v = load_voyage(p)
+        port_state(v, ship_for_voyage(v))
+    assert f"v.toml: {place}:" in str(e.value) and expected in str(e.value)
