@@ -178,3 +178,22 @@ def test_bad_port_tables_are_refused_naming_the_key(tmp_path, table, place, expe
         v = load_voyage(p)
         port_state(v, ship_for_voyage(v))
     assert f"v.toml: {place}:" in str(e.value) and expected in str(e.value)
+
+
+@pytest.mark.requires_poppler
+def test_the_pdf_says_why_there_is_no_changeover(tmp_path):
+    # the old PDF said "the route crosses no control area in force" whatever the reason:
+    # false for a route that enters an area before its date
+    import subprocess
+    import sys
+
+    pdf = tmp_path / "p.pdf"
+    r = subprocess.run([sys.executable, "-m", "planner", "plan",
+                        str(VOYAGES / "future_before.toml"), "--pdf", str(pdf)], cwd=ROOT,
+                       capture_output=True, text=True, timeout=120)
+    assert r.returncode == 0, r.stderr
+    text = " ".join(subprocess.run(["pdftotext", str(pdf), "-"], capture_output=True,
+                                   text=True, check=True).stdout.split())
+    assert "crosses no control area" not in text
+    assert ("No changeover: the route enters Future Five ECA (in force from 2030-07-01) only "
+            "while it is not in force.") in text
