@@ -113,12 +113,16 @@ class Quantities:
         Fuel in the tanks at departure by fuel name.
     so2 : tuple of StretchSO2
         SO₂ on every stretch of the route check, in route order.
+    so2_alongside : StretchSO2 or None
+        SO₂ alongside after an arrival inside an area (``[port] arrival_hours``; a row at
+        the route's end, ``from_m == to_m``), or None.
     """
 
     needs: tuple[FuelNeed, ...]
     totals_t: dict[str, float]
     on_board_t: dict[str, float]
     so2: tuple[StretchSO2, ...]
+    so2_alongside: StretchSO2 | None = None
 
 
 ValvePeriod = tuple[str, float, float, Fuel, CircuitChange | None]
@@ -263,24 +267,63 @@ def stretch_so2(timeline: Timeline, choices: Sequence[FuelChoice], runs: Sequenc
         The plan's flushes (their inlet records; a longer one is simulated through it).
     """
     regular = regular_fuel(choices)
-    fuels = dict(timeline.system.fuels)
     sched = timeline.schedule
-    by_circuit = [(p[0], (p[1], p[2], p[3], p[4])) for p in periods]
+    by_circuit = _by_circuit(periods)
     out = []
     for c in choices:
         st = c.stretch
         fuel = next((r.fuel for r in runs if r.from_m <= st.from_m + 1e-6 <= r.to_m), c.fuel)
         t0, t1 = (float(x) for x in sched.epoch_at([st.from_m, st.to_m]))
-        burnt = stretch_burnt_t(timeline, flushes, by_circuit, t0, t1)
-        mass = sum(burnt.values())
-        energy = sum(m * fuels[n].q_net for n, m in burnt.items())
-        sulphur_kg = sulphur_burnt_t(burnt, fuels) * 1000.0
-        mass_reg = energy / regular.q_net
-        out.append(StretchSO2(st.from_m, st.to_m, st.areas, fuel.name, mass,
-                              float(so2_formed_kg(sulphur_kg)),
-                              float(so2_from_fuel_kg(mass_reg * 1000.0, regular.sulphur_pct)),
-                              sulphur_kg, burnt))
+        out.append(_so2_row(timeline, flushes, by_circuit, regular, t0, t1, st.from_m, st.to_m,
+                            st.areas, fuel.name))
     return out
+
+
+def _by_circuit(periods: Sequence[ValvePeriod]) -> list:
+    return [(p[0], (p[1], p[2], p[3], p[4])) for p in periods]
+
+
+def _so2_row(timeline: Timeline, flushes: FlushCache, by_circuit: list, regular: Fuel,
+             t0: float, t1: float, from_m: float, to_m: float, areas: tuple[str, ...],
+             fuel: str) -> StretchSO2:
+    """The SO₂ row of the moments ``t0`` to ``t1`` (epoch seconds)."""
+    fuels = dict(timeline.system.fuels)
+    burnt = stretch_burnt_t(timeline, flushes, by_circuit, t0, t1)
+    mass = sum(burnt.values())
+    energy = sum(m * fuels[n].q_net for n, m in burnt.items())
+    sulphur_kg = sulphur_burnt_t(burnt, fuels) * 1000.0
+    mass_reg = energy / regular.q_net
+    return StretchSO2(from_m, to_m, areas, fuel, mass, float(so2_formed_kg(sulphur_kg)),
+                      float(so2_from_fuel_kg(mass_reg * 1000.0, regular.sulphur_pct)),
+                      sulphur_kg, burnt)
+
+
+def alongside_so2(timeline: Timeline, choices: Sequence[FuelChoice], runs: Sequence[Run],
+                  periods: Sequence[ValvePeriod], flushes: FlushCache) -> StretchSO2 | None:
+    """SO₂ alongside after an arrival inside an area, from the inlet blends (None: the
+    arrival is outside every area, or no hours alongside are given).
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline (its port state).
+    choices : sequence of FuelChoice
+        The fuel choice of every stretch (the last stretch's areas, the regular fuel).
+    runs : sequence of Run
+        The plan's runs.
+    periods : sequence of ValvePeriod
+        Every circuit's valve periods (:func:`valve_periods`), the last ones run on alongside.
+    flushes : FlushCache
+        The plan's flushes.
+    """
+    hours = alongside_h(timeline, runs)
+    if hours <= 0.0:
+        return None
+    end = timeline.end_epoch_s
+    length = choices[-1].stretch.to_m
+    return _so2_row(timeline, flushes, _by_circuit(periods), regular_fuel(choices), end,
+                    end + hours * 3600.0, length, length, choices[-1].stretch.areas,
+                    runs[-1].fuel.name)
 
 
 def so2_by_area(rows: Sequence[StretchSO2]) -> dict[str, tuple[float, float]]:
@@ -338,4 +381,5 @@ def plan_quantities(voyage: Voyage, timeline: Timeline, choices: Sequence[FuelCh
     needs = fuel_needs(voyage, timeline, runs, changes)
     periods = valve_periods(voyage, timeline, runs, changes)
     return Quantities(tuple(needs), totals_t(needs), on_board_t(timeline.system),
-                      tuple(stretch_so2(timeline, choices, runs, periods, flushes)))
+                      tuple(stretch_so2(timeline, choices, runs, periods, flushes)),
+                      alongside_so2(timeline, choices, runs, periods, flushes))

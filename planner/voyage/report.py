@@ -168,6 +168,8 @@ def plan_json(plan: Plan) -> dict:
     # that never leaves an area burns only its compliant fuel)
     compliant = {c.fuel.name for c in plan.choices if c.stretch.areas}
     so2 = q.so2
+    port = q.so2_alongside
+    so2_all = list(so2) + ([port] if port is not None else [])
     sched = plan.timeline.schedule
     return {
         "voyage": {
@@ -214,15 +216,24 @@ def plan_json(plan: Plan) -> dict:
                            "sulphur_kg": r.sulphur_kg, "burnt_t": dict(r.burnt_t or {})}
                           for r in so2],
             "areas": {a: {"so2_kg": p, "so2_on_regular_kg": q,
-                          "sulphur_kg": sulphur_by_area(so2).get(a, 0.0)}
-                      for a, (p, q) in so2_by_area(so2).items()},
-            "total_kg": sum(r.so2_kg for r in so2),
+                          "sulphur_kg": sulphur_by_area(so2_all).get(a, 0.0)}
+                      for a, (p, q) in so2_by_area(so2_all).items()},
+            "alongside": None if port is None else {
+                "areas": list(port.areas), "hours": _alongside_hours(plan),
+                "fuel": port.fuel, "fuel_t": port.fuel_t, "so2_kg": port.so2_kg,
+                "so2_on_regular_kg": port.so2_regular_kg, "sulphur_kg": port.sulphur_kg},
+            "total_kg": sum(r.so2_kg for r in so2_all),
         },
         "notes": list(plan.notes),
         "no_changeover_reason": plan.no_changeover_reason,
         "warnings": [w.text for w in plan.warnings],
         "cautions": plan_cautions(plan),
     }
+
+
+def _alongside_hours(plan: Plan) -> float:
+    """The hours alongside after arrival the plan counts, h."""
+    return plan.timeline.port.arrival_hours if plan.timeline.port is not None else 0.0
 
 
 def _port(plan: Plan) -> dict:

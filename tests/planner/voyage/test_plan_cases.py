@@ -23,6 +23,7 @@ from planner.voyage.changeovers import SWITCH_BACK_COMPLETE
 from planner.voyage.checks import plan_warnings
 from tests.helpers.plan import (
     NM_M,
+    S_MGO,
     V_M3,
     VOYAGES,
     dg_flow_m3_h,
@@ -187,6 +188,15 @@ def test_departing_inside_and_never_leaving_still_warns():
     (mgo,) = [r for r in doc["fuel_needed"] if r["fuel"] == "mgo"]
     assert abs(seconds(mgo["to_utc"], arrive + timedelta(hours=6.0))) <= 1.0
     assert mgo["alongside_h"] == pytest.approx(6.0)
+    # the SO₂ alongside is counted inside the area: 6 h at the generator's rate of mgo
+    # (0.05 %; the inlet has long settled on it), × 64.066/32.06 ([IUPAC-2021] [D])
+    port = doc["so2"]["alongside"]
+    assert port["areas"] == ["Meridian Five ECA"] and port["hours"] == 6.0
+    assert port["fuel_t"] == pytest.approx(dg_rate_t_h() * 6.0, rel=1e-9)
+    assert port["sulphur_kg"] == pytest.approx(dg_rate_t_h() * 6.0 * S_MGO * 10.0, rel=1e-3)
+    area = doc["so2"]["areas"]["Meridian Five ECA"]
+    assert area["so2_kg"] == pytest.approx(
+        sum(r["so2_kg"] for r in doc["so2"]["stretches"]) + port["so2_kg"], rel=1e-12)
 
 
 # --- 5. two areas close together / far apart ------------------------------------------------
