@@ -127,8 +127,7 @@ def test_areas_listing():
     assert r.returncode == 0, r.stderr
     doc = json.loads(r.stdout)
     names = {a["name"]: a for a in doc["areas"]}
-    assert set(names) == {"Corran Sea ECA", "Meridian Reach ECA", "Skarvik Basin ECA",
-                          "Tarrow Approaches ECA"}
+    assert set(names) == {"Corran Sea ECA", "Meridian Reach ECA", "Skarvik Basin ECA"}
     assert names["Skarvik Basin ECA"]["in_force_today"] is False
     assert names["Corran Sea ECA"]["in_force_today"] is True
     assert all(a["area_km2"] > 1e5 for a in doc["areas"])
