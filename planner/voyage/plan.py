@@ -244,6 +244,10 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     changes[:0] = departure
     if warning is not None:
         warnings.append(warning)
+    elif inside and changes:
+        notes.append(f"The voyage departs inside {', '.join(check.stretches[0].areas)} with "
+                     f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
+                     "changeover alongside.")
     notes += _target_notes(voyage, changes)
     reason = None
     if not changes:
@@ -297,27 +301,29 @@ def _at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
     port = timeline.port
     given = port.departure_fuel if port is not None else {}
     on = {c: voyage.fuel(given.get(c, regular.name)) for c in system.circuits}
-    down = tuple(c for c, f in on.items() if f.sulphur_pct > first.fuel.sulphur_pct)
-    up = tuple(c for c, f in on.items() if f.sulphur_pct < first.fuel.sulphur_pct)
     out: list[Change] = []
     warning = None
     t0 = first.from_epoch_s
-    if down:
-        dep = _departure_change(flushes, voyage, system, timeline, first, on[down[0]], down)
-        out.append(dep)
-        start = min(c.start_epoch_s for c in dep.circuits)
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # one change per fuel left
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct > first.fuel.sulphur_pct:
+            out.append(_departure_change(flushes, voyage, system, timeline, first,
+                                         on[circuits[0]], circuits))
+    if out and inside:
+        start = min(c.start_epoch_s for ch in out for c in ch.circuits)
         load = port.describe_departure() if port is not None else ""
-        if inside:
-            warning = PlanWarning("departs_inside", (
-                f"The voyage departs inside {dep.area}: every consumer must be on "
-                f"{first.fuel.name} before departure at {format_utc(timeline.utc(t0))}; start "
-                f"the changeover alongside by {format_utc(timeline.utc(start))} (planned at "
-                f"the consumption alongside: {load})."))
-    if up:
-        pre = Run(first.from_m, first.from_m, t0, t0, on[up[0]], first.limit_pct, ())
-        back = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first, t0,
-                          0.0, False, up)
-        out.append(replace(back, area="departure"))
+        warning = PlanWarning("departs_inside", (
+            f"The voyage departs inside {out[0].area}: every consumer must be on "
+            f"{first.fuel.name} before departure at {format_utc(timeline.utc(t0))}; start "
+            f"the changeover alongside by {format_utc(timeline.utc(start))} (planned at "
+            f"the consumption alongside: {load})."))
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # commenced at departure
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct < first.fuel.sulphur_pct:
+            pre = Run(first.from_m, first.from_m, t0, t0, on[circuits[0]], first.limit_pct, ())
+            back = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first,
+                              t0, 0.0, False, circuits)
+            out.append(replace(back, area="departure"))
     return out, warning
 
 

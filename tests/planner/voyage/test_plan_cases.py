@@ -144,6 +144,8 @@ def test_departing_inside_on_compliant_fuel_needs_no_changeover_alongside():
     _, doc = plan_doc("depart_inside_on_mgo")
     assert [r["direction"] for r in doc["changeovers"]] == ["to_regular"]
     assert not any("departs inside" in w for w in doc["warnings"])
+    assert ("The voyage departs inside Meridian Five ECA with every circuit already on mgo "
+            "([port] departure_fuel): no changeover alongside.") in doc["notes"]
     # mgo is drawn from departure (no flush alongside): (ME at 12 kn + dg) × hours to 10°E
     t_exit = hours(parallel_m(6.0, 10.0), 12.0)
     mgo = [r for r in doc["fuel_needed"] if r["fuel"] == "mgo"]
