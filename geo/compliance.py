@@ -7,7 +7,9 @@ among the areas the ship is inside *and* that are in force at that moment,
 else the global cap of the day. With a schedule, moments when an area comes
 into or goes out of force, or the global cap changes, split the stretches at
 the place the ship is then; without one, everything is judged on one date
-(``on``).
+(``on``). An area that comes into force (or ceases to be in force) while the
+ship is inside it is an event of its own (:class:`ForceEvent`: a moment on the
+clock at the place the ship then is), not a boundary crossing.
 """
 
 from __future__ import annotations
@@ -41,6 +43,43 @@ class TimedCrossing:
     time_utc: datetime | None
     in_force: bool
     limit_pct: float
+
+
+FORCE_EVENTS = ("comes_into_force", "ceases")
+"""The kinds of :class:`ForceEvent`."""
+
+
+@dataclass(frozen=True)
+class ForceEvent:
+    """An area coming into force, or ceasing to be in force, while the ship is inside it.
+
+    Its limit starts (or stops) by the clock at 00:00 UTC of the area's date
+    ([MARPOL-VI] [P]; :attr:`geo.area.Area.starts_utc`), wherever the ship then is: a
+    deadline in time, not a position she reaches.
+
+    ``area`` the area's name; ``event`` one of :data:`FORCE_EVENTS`; ``time_utc`` the
+    moment (UTC datetime); ``distance_m`` [m] along the route, ``lat``, ``lon`` [deg]
+    (WGS84) where the ship is then; ``leg`` the leg she is on (from 0); ``limit_pct``
+    [% m/m] the limit on the stretch just after it.
+    """
+
+    area: str
+    event: str
+    time_utc: datetime
+    distance_m: float
+    lat: float
+    lon: float
+    leg: int
+    limit_pct: float
+
+    def __post_init__(self) -> None:
+        if self.event not in FORCE_EVENTS:
+            raise ValueError(f"force event {self.event!r} not one of {FORCE_EVENTS}")
+
+    @property
+    def distance_nm(self) -> float:
+        """Where along the route [nm]."""
+        return self.distance_m / NM_M
 
 
 @dataclass(frozen=True)
@@ -94,6 +133,7 @@ class RouteCheck:
     crossings: tuple[TimedCrossing, ...]
     stretches: tuple[Stretch, ...]
     passages: tuple[AreaPassage, ...]
+    force_events: tuple[ForceEvent, ...] = ()
 
     def limit_at(self, distance_m: float) -> float:
         """The limit [% m/m] at ``distance_m`` [m] along the route (the stretch that holds it).
@@ -201,8 +241,37 @@ def check_route(path: RoutePath, areas: list[Area], schedule: Schedule | None, o
         if schedule is not None:
             hours = sum(schedule.hours_between(a, b) for a, b, s in t.intervals() if s)
         passages.append(AreaPassage(t.area, t.inside_m / NM_M, hours))
+    forced = _force_events(path, tracks, schedule, stretches) if schedule is not None else []
     return RouteCheck(path, schedule, on, tuple(tracks), tuple(timed), tuple(stretches),
-                      tuple(passages))
+                      tuple(passages), tuple(forced))
+
+
+def _force_events(path: RoutePath, tracks: list[AreaTrack], schedule: Schedule,
+                  stretches: list[Stretch]) -> list[ForceEvent]:
+    """Every area coming into or going out of force strictly during the voyage while the
+    ship is inside it, in time order."""
+    t0, t1 = schedule.knot_epoch_s[0], schedule.knot_epoch_s[-1]
+    ends = [st.to_m for st in stretches]
+    out = []
+    for t in tracks:
+        moments = [("comes_into_force", t.area.starts_utc)]
+        if t.area.ends_utc is not None:
+            moments.append(("ceases", t.area.ends_utc))
+        for kind, m in moments:
+            e = to_epoch(m)
+            if not t0 < e < t1:
+                continue
+            d = float(schedule.distance_at_epoch([e])[0])
+            if not bool(_inside_at(t, np.array([d]))[0]):
+                continue
+            lat, lon = path.position([d])
+            leg = int(np.clip(np.searchsorted(path.start_m, d, side="right") - 1, 0,
+                              path.n_legs - 1))
+            out.append(ForceEvent(t.area.name, kind, m, d, float(lat[0]),
+                                  float((lon[0] + 180.0) % 360.0 - 180.0), leg,
+                                  _limit_at(stretches, d + 1e-3, ends)))
+    out.sort(key=lambda f: f.time_utc)
+    return out
 
 
 def _stretches(path: RoutePath, areas: list[Area], tracks: list[AreaTrack],

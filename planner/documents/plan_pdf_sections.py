@@ -106,7 +106,8 @@ def title_facts(doc: dict) -> list[tuple[str, object]]:
     enter = sum(1 for g in grouped if g[0].get("direction") == "to_compliant")
     summary = (f"{len(grouped)} ({enter} to compliant fuel, {len(grouped) - enter} back to "
                f"regular fuel), {len(doc.get('changeovers', []))} circuit changeovers in all"
-               if grouped else "none: the route crosses no control area in force")
+               if grouped else "none (" + str(doc.get("no_changeover_reason") or
+                                              "no changeover is needed") + ")")
     need, have = doc.get("compliant_fuel_needed_t"), doc.get("compliant_fuel_on_board_t")
     compliant = "—"
     if need is not None and have is not None:

@@ -85,9 +85,8 @@ def changeover_table(doc: dict) -> list:
 
     grouped = groups(doc.get("changeovers", []))
     if not grouped:
-        return [para("Changeovers", "h1"),
-                para("No changeover is needed: the route crosses no control area in force on "
-                     "the voyage's dates.")]
+        reason = doc.get("no_changeover_reason") or "No changeover is needed."
+        return [para("Changeovers", "h1"), para(reason)]
     rows: list[list] = []
     spans: list[tuple[int, int]] = []
     for i, g in enumerate(grouped, 1):

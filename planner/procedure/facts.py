@@ -150,6 +150,7 @@ class CircuitFacts:
     rows: tuple[DurationRow, ...]
     returns_to: tuple[str, ...]       # volumes that take back fuel not burnt
     returns_to_tank: bool             # a return line follows the valve to the tank in use
+    alongside: DurationRow | None = None  # alongside, main engine stopped (None: nothing burns)
 
     @property
     def pipe_m3(self) -> float:
@@ -320,10 +321,30 @@ def circuit_facts(system: FuelSystem, name: str, limit_pct: float, target_pct: f
     elif a != b:
         rows = [_row(system, name, a, b, None, None, limit_pct, target_pct, margin_h)]
     back, to_tank = _returns(system, name)
+    port = _alongside(system, name, a, b, limit_pct, target_pct, margin_h) if a != b else None
     return CircuitFacts(name, circuit.tanks, consumers, _volumes(system, name, main(a)), a, b,
                         main(a), main(b), engine is not None,
                         engine.ref_load_pct if engine is not None else None, tuple(rows),
-                        back, to_tank)
+                        back, to_tank, port)
+
+
+def _alongside(system: FuelSystem, name: str, a: str, b: str, limit: float, target: float,
+               margin: float) -> DurationRow | None:
+    """The changeover alongside at the ship file's port state (main engine stopped, the rest
+    as at sea, :func:`planner.voyage.port.default_port_state`); None if the circuit then
+    burns nothing."""
+    from planner.flushing import ConsumptionSchedule
+    from planner.voyage.port import default_port_state
+
+    rates = default_port_state(system).departure_iso_t_h
+    mine = {c: rates[c] for c in system.circuits[name].consumers}
+    if sum(mine.values()) <= 0.0:
+        return None
+    st = study(system, name, a, b, ConsumptionSchedule.constant(mine), limit, target)
+    s = st.summary
+    before = None if s.time_to_target_h is None else s.time_to_target_h + margin
+    return DurationRow(0.0, 0.0, s.time_to_limit_h, s.time_to_target_h, before, None,
+                       {k: float(v) for k, v in s.burnt_t.items()}, _viscosity(st))
 
 
 def _warnings(facts: ProcedureFacts) -> tuple[str, ...]:

@@ -113,6 +113,17 @@ def checks(f: ProcedureFacts) -> list[str]:
         "Bridge: the officer of the watch knows the changeover is starting, that propulsion or "
         "power may be lost, and the emergency steps if it is.",
     ]
+    port = [c for c in f.circuits if c.rows]
+    if port:
+        parts = [(f"circuit {c.name} {dur(c.alongside.time_to_target_h)}"
+                  if c.alongside is not None and c.alongside.time_to_target_h is not None
+                  else f"circuit {c.name} cannot be flushed (nothing it feeds burns fuel)")
+                 for c in port]
+        items.append(
+            "Alongside: with the main engine stopped (generators and boiler as at sea) the "
+            f"changeover takes {names(parts)}, far longer than at sea. Departing from a port "
+            f"inside an area, start it at least that long plus {dur(f.margin_h)} before "
+            "departure.")
     return items
 
 

@@ -43,6 +43,7 @@ from planner.ship.flash_margin import flash_margin_span
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import plan_to_compliant
 from planner.voyage.flush_cache import FlushCache
+from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.quantities import Quantities
 from planner.voyage.runs import Change
 from planner.voyage.timeline import Timeline
@@ -52,7 +53,7 @@ _ZONE_STEP_S = 60.0
 
 WarningKind = Literal["departs_inside", "quantity", "caution_zone", "viscosity",
                       "start_before_departure", "unusual_input", "swapped_lat_lon",
-                      "flash_point"]
+                      "flash_point", "fuel_passed_over"]
 
 
 @dataclass(frozen=True)
@@ -65,8 +66,10 @@ class PlanWarning:
         ``"departs_inside"`` (be on compliant fuel before departure),
         ``"quantity"`` (short of a fuel), ``"caution_zone"``, ``"viscosity"``,
         ``"start_before_departure"``, ``"unusual_input"`` (a ship-file value
-        outside its usual range), ``"swapped_lat_lon"`` (a route waypoint) or
-        ``"flash_point"`` (a distillate near its flash point).
+        outside its usual range), ``"swapped_lat_lon"`` (a route waypoint),
+        ``"flash_point"`` (a distillate near its flash point) or ``"fuel_passed_over"``
+        (a fuel within the limit by its delivery note that the fuel-choice margin passes
+        over).
     text : str
         The warning as printed (JSON ``warnings``, terminal, PDF).
     """
@@ -374,3 +377,51 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
                  + start_before_departure_warnings(timeline, changes)
                  + flash_point_warnings(voyage, timeline, changes)
                  + input_warnings(timeline))
+
+
+def passed_over_warnings(timeline: Timeline, choices: Sequence[FuelChoice],
+                         choice_margin: float) -> list[PlanWarning]:
+    """A fuel within a stretch's limit by its delivery note that the fuel-choice margin passes
+    over, with the extra lower-sulphur fuel it costs.
+
+    One warning per run of neighbouring stretches with the same passed-over fuel and the
+    same fuel chosen instead. The cost is the mass of the chosen fuel burnt on those
+    stretches (:meth:`~planner.voyage.timeline.Timeline.burnt_t`, every consumer).
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline.
+    choices : sequence of FuelChoice
+        The fuel choice of every stretch, in route order.
+    choice_margin : float [-]
+        The voyage's fuel-choice margin (named in the text).
+    """
+    groups: list[list[FuelChoice]] = []
+    for c in choices:
+        if not c.passed_over:
+            continue
+        prev = groups[-1][-1] if groups else None
+        if (prev is not None and prev.stretch.to_m == c.stretch.from_m
+                and prev.fuel.name == c.fuel.name
+                and prev.passed_over[0].name == c.passed_over[0].name):
+            groups[-1].append(c)
+        else:
+            groups.append([c])
+    out = []
+    sched = timeline.schedule
+    for g in groups:
+        legal = g[0].passed_over[0]
+        pick = g[0].fuel
+        a, b = g[0].stretch, g[-1].stretch
+        t0, t1 = (float(x) for x in sched.epoch_at([a.from_m, b.to_m]))
+        mass = timeline.burnt_t(t0, t1, pick)
+        limit = min(c.stretch.limit_pct for c in g)
+        where = ", ".join(dict.fromkeys(x for c in g for x in c.stretch.areas)) or "global cap"
+        out.append(PlanWarning("fuel_passed_over", (
+            f"{legal.name} ({legal.sulphur_pct:.3f} % by its delivery note) meets the "
+            f"{limit:.2f} % limit on {a.from_nm:.1f}-{b.to_nm:.1f} nm ({where}) but the "
+            f"fuel-choice margin {choice_margin * 100:g} % passes it over ([margins] "
+            f"fuel_choice_margin): {pick.name} is burnt there instead, {mass:.1f} t more "
+            f"{pick.name}.")))
+    return out

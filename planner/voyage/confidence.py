@@ -7,7 +7,11 @@ reached) at P50 and at the chosen confidence; the start is then
 ``boundary − time margin − lead``. The consumption is the voyage timeline's
 from the deterministic start. When the fuel itself may lie above the target
 (its delivery-note sulphur is uncertain too), the lead to the limit is used
-instead, and the plan says so.
+instead, and the plan says so. A boundary that is a moment on the clock (an
+area coming into force while the ship is inside it, a departure:
+:attr:`planner.voyage.runs.Change.clock_deadline`) gets no arrival-time
+uncertainty (``boundary_time_min`` is 0 for it): the ship's speed does not move
+it.
 """
 
 from __future__ import annotations
@@ -93,8 +97,12 @@ def _quantiles(plan: Plan, flushes: FlushCache, ch: Change, part: CircuitChange,
                spec: UncertaintySpec) -> StartQuantiles:
     """The Monte Carlo of one circuit's changeover to compliant fuel, from its planned start
     (the plain flush and every simulation through the plan's ``flushes``)."""
+    from dataclasses import replace
+
     from planner.uncertainty import start_quantiles
 
+    if ch.clock_deadline:
+        spec = replace(spec, boundary_time_min=0.0)
     sched = plan.timeline.consumption_from(part.start_epoch_s, 96.0)
     det = flushes.study(plan.system, part.circuit, part.from_tank, part.to_tank, sched,
                         ch.limit_pct, ch.target_pct, thermal=False).summary

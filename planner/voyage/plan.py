@@ -4,14 +4,22 @@ Steps (DEVELOPERS.md, "How the plan is made"):
 
 1. the route check gives the limit on every stretch (:mod:`geo.compliance`);
 2. each stretch gets the highest-sulphur fuel on board that meets its limit
-   with the sulphur margin (:mod:`planner.voyage.fuel_choice`); neighbouring
-   stretches on the same fuel form one *run* (:mod:`planner.voyage.runs`);
+   by its delivery-note sulphur (with the optional fuel-choice margin,
+   :mod:`planner.voyage.fuel_choice`); neighbouring stretches on the same fuel
+   form one *run* (:mod:`planner.voyage.runs`);
 3. between runs, each circuit changes over: latest start before a step down,
-   commenced at the exit after a step up (:mod:`planner.voyage.changeovers`);
+   commenced at the exit after a step up (:mod:`planner.voyage.changeovers`),
+   flushing to the sulphur target (``sulphur_target_fraction`` × limit, or
+   halfway between the fuel's sulphur and the limit when the fuel is above
+   that);
 4. a switch back and forth that cannot finish before the next step down's
-   start is dropped: the ship stays on the compliant fuel, and the plan says
-   why; a voyage that departs inside an area must be on compliant fuel before
-   departure, and the plan says so;
+   start, or would leave the ship on regular fuel for less than the minimum
+   time, is dropped: the ship stays on the compliant fuel, and the plan says
+   why and what it costs (:mod:`planner.voyage.stay`); a voyage that departs
+   inside an area must be on compliant fuel before departure (each circuit
+   from the fuel the voyage file says it is on, flushed at the consumption
+   alongside, :mod:`planner.voyage.port`), and the plan says so; a plan with
+   no changeover says why (:mod:`planner.voyage.explain`);
 5. quantities and SO₂ are computed (:mod:`planner.voyage.quantities`), and
    quantities, caution zones, the inlet viscosity path and early starts are
    checked (:mod:`planner.voyage.checks`).
@@ -33,18 +41,26 @@ from typing import TypeVar
 
 from geo.compliance import RouteCheck
 from geo.errors import InputError
-from geo.limits import global_cap_pct
-from geo.schedule import from_epoch
+from geo.limits import global_cap_changes_utc, global_cap_pct
+from geo.schedule import to_epoch
 from planner.common.timefmt import format_utc
 from planner.flushing import FlushError
 from planner.fuels import Fuel
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import TargetUnreachable, plan_to_compliant, plan_to_regular
-from planner.voyage.checks import PlanWarning, plan_warnings
+from planner.voyage.checks import PlanWarning, passed_over_warnings, plan_warnings
+from planner.voyage.explain import no_changeover_reason
 from planner.voyage.flush_cache import FlushCache
-from planner.voyage.fuel_choice import FuelChoice, choose_fuels, regular_fuel
+from planner.voyage.fuel_choice import (
+    FuelChoice,
+    choose_fuels,
+    fuel_choice_target_pct,
+    regular_fuel,
+)
+from planner.voyage.port import port_state
 from planner.voyage.quantities import Quantities, plan_quantities
 from planner.voyage.runs import Change, Run, make_runs, merge_same_fuel
+from planner.voyage.stay import needless_switch_back
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
 
@@ -74,11 +90,14 @@ class Plan:
     quantities : Quantities
         Fuel needed and on board, SO₂ per stretch.
     notes : tuple of str
-        Why the ship stays on compliant fuel between areas, in order.
+        Why the ship stays on compliant fuel between areas, in order; a flushing target
+        moved off the fraction; why there is no changeover.
     warnings : tuple of PlanWarning
         The departure warning (if any), then the checks' warnings in print order.
     flushes : FlushCache or None
         The flushes the plan simulated, remembered for the confidence study.
+    no_changeover_reason : str or None
+        Why the plan has no changeover (None when it has one).
     """
 
     voyage: Voyage
@@ -92,6 +111,7 @@ class Plan:
     notes: tuple[str, ...] = ()
     warnings: tuple[PlanWarning, ...] = ()
     flushes: FlushCache | None = None
+    no_changeover_reason: str | None = None
 
 
 def fuels_on_board(voyage: Voyage, system: FuelSystem) -> list[Fuel]:
@@ -115,16 +135,38 @@ def _area_of(run_in: Run, run_out: Run, direction: str) -> str:
     return run_out.areas[-1] if run_out.areas else "global cap"
 
 
+def flushing_target_pct(limit_pct: float, fraction: float, fuel: Fuel) -> float:
+    """The sulphur the inlets are flushed to, % m/m: ``fraction`` × limit, or halfway
+    between the fuel's own sulphur and the limit when the fuel is at or above that (a
+    0.47 % fuel under the 0.50 % cap: 0.485 %).
+
+    Parameters
+    ----------
+    limit_pct : float [% m/m]
+        The limit on the compliant side.
+    fraction : float [-]
+        The voyage's sulphur target fraction.
+    fuel : Fuel
+        The compliant fuel.
+    """
+    target = limit_pct * fraction
+    if fuel.sulphur_pct < target:
+        return target
+    return 0.5 * (fuel.sulphur_pct + limit_pct)
+
+
 def _change(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
             before: Run, after: Run, boundary_epoch_s: float, boundary_m: float,
-            before_departure: bool = False) -> Change:
-    """The change between two runs, every circuit, without the thermal paths."""
+            before_departure: bool = False,
+            circuits: tuple[str, ...] | None = None) -> Change:
+    """The change between two runs, every circuit (or those named), without the thermal
+    paths."""
     down = after.fuel.sulphur_pct < before.fuel.sulphur_pct
     direction = "to_compliant" if down else "to_regular"
     limit = after.limit_pct if down else before.limit_pct
-    target = limit * voyage.sulphur_target_fraction
+    target = flushing_target_pct(limit, voyage.sulphur_target_fraction, after.fuel)
     parts = []
-    for name in system.circuits:
+    for name in (circuits if circuits is not None else tuple(system.circuits)):
         a = system.tank_for(name, before.fuel.name)
         b = system.tank_for(name, after.fuel.name)
         if down:
@@ -175,14 +217,14 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     if check.schedule is None:
         raise ValueError("planning needs a schedule (departure and speeds)")
     flushes = flushes if flushes is not None else FlushCache()
-    timeline = Timeline(check.schedule, system)
+    timeline = Timeline(check.schedule, system, port_state(voyage, system))
     choices = choose_fuels(check.stretches, fuels_on_board(voyage, system),
-                           voyage.sulphur_target_fraction, voyage.file)
+                           voyage.fuel_choice_margin, voyage.file)
     runs = make_runs(choices, timeline)
     notes: list[str] = []
     while True:
         changes = _simulated(voyage, _changes, flushes, system, timeline, voyage, runs)
-        stay = _first_needless_switch_back(changes)
+        stay = needless_switch_back(changes, timeline, voyage.min_time_on_regular_h)
         if stay is None:
             break
         k, why = stay
@@ -193,40 +235,121 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
         runs = merge_same_fuel(runs)
     regular = regular_fuel(choices)
     first = runs[0]
-    if first.areas:  # departs inside an area: the fuel she burns outside, even if never again
+    inside = bool(check.stretches[0].areas)
+    if inside:  # departs inside an area: the fuel she burns outside, even if never again
         regular = _outside_fuel(voyage, system, timeline.utc(first.from_epoch_s), regular)
     warnings: list[PlanWarning] = []
-    if first.fuel.sulphur_pct < regular.sulphur_pct:
-        dep = _departure_change(flushes, voyage, system, timeline, first, regular)
-        changes.insert(0, dep)
-        start = min(c.start_epoch_s for c in dep.circuits)
-        warnings.append(PlanWarning("departs_inside", (
-            f"The voyage departs inside {dep.area}: every consumer must be on "
-            f"{first.fuel.name} before departure at "
-            f"{format_utc(timeline.utc(first.from_epoch_s))}; start the changeover alongside by "
-            f"{format_utc(timeline.utc(start))} (planned at sea consumption: alongside it burns "
-            "less, so start earlier still).")))
-    changes = [_with_thermal(flushes, system, ch) for ch in changes]
-    quantities = plan_quantities(voyage, timeline, choices, runs, changes)
+    departure, warning = _at_departure(flushes, voyage, system, timeline, first, regular,
+                                       inside)
+    changes[:0] = departure
+    if warning is not None:
+        warnings.append(warning)
+    elif inside and changes:
+        notes.append(f"The voyage departs inside {', '.join(check.stretches[0].areas)} with "
+                     f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
+                     "changeover alongside.")
+    notes += _target_notes(voyage, changes)
+    reason = None
+    if not changes:
+        reason = no_changeover_reason(check, runs, departs_compliant=inside)
+        notes.append(reason)
+    changes = [_with_thermal(flushes, system, _with_event(check, ch)) for ch in changes]
+    quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes)
+    warnings += passed_over_warnings(timeline, choices, voyage.fuel_choice_margin)
     warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
-                quantities, tuple(notes), tuple(warnings), flushes)
+                quantities, tuple(notes), tuple(warnings), flushes, reason)
+
+
+def _with_event(check: RouteCheck, ch: Change) -> Change:
+    """``ch`` with what its boundary is (:attr:`Change.event`): a departure, an area's
+    coming into or going out of force while inside it, a change of the global cap, else a
+    crossing."""
+    if ch.before_departure or ch.area == "departure":
+        return replace(ch, event="departure")
+    for f in check.force_events:
+        if abs(to_epoch(f.time_utc) - ch.boundary_epoch_s) < 1.0 and f.area == ch.area:
+            return replace(ch, event=f.event)
+    if any(abs(to_epoch(m) - ch.boundary_epoch_s) < 1.0 for m in global_cap_changes_utc()):
+        return replace(ch, event="cap_change")
+    return replace(ch, event="enter" if ch.direction == "to_compliant" else "exit")
+
+
+def _target_notes(voyage: Voyage, changes: list[Change]) -> list[str]:
+    """A note for each changeover whose flushing target is not the voyage's fraction."""
+    out = []
+    for ch in changes:
+        plain = ch.limit_pct * voyage.sulphur_target_fraction
+        if ch.direction == "to_compliant" and abs(ch.target_pct - plain) > 1e-12:
+            fuel = ch.circuits[0].to_fuel if ch.circuits else "the compliant fuel"
+            share = voyage.sulphur_target_fraction * 100
+            out.append(f"Flushing target for {ch.area}: {ch.target_pct:.3f} %, halfway between "
+                       f"{fuel}'s own sulphur and the {ch.limit_pct:.2f} % limit ({share:g} % "
+                       "of the limit is below the fuel).")
+    return out
+
+
+def _at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
+                  first: Run, regular: Fuel, inside: bool
+                  ) -> tuple[list[Change], PlanWarning | None]:
+    """The changes at departure, from the fuel each circuit is on (``[port] departure_fuel``,
+    default ``regular``) to the first run's: a change to a lower-sulphur fuel made alongside,
+    before departure; a change to a higher-sulphur fuel commenced at departure.
+
+    Returns the changes (to compliant first) and the departure warning, if any.
+    """
+    port = timeline.port
+    given = port.departure_fuel if port is not None else {}
+    on = {c: voyage.fuel(given.get(c, regular.name)) for c in system.circuits}
+    out: list[Change] = []
+    warning = None
+    t0 = first.from_epoch_s
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # one change per fuel left
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct > first.fuel.sulphur_pct:
+            out.append(_departure_change(flushes, voyage, system, timeline, first,
+                                         on[circuits[0]], circuits))
+    if out and inside:
+        start = min(c.start_epoch_s for ch in out for c in ch.circuits)
+        load = port.describe_departure() if port is not None else ""
+        warning = PlanWarning("departs_inside", (
+            f"The voyage departs inside {out[0].area}: every consumer must be on "
+            f"{first.fuel.name} before departure at {format_utc(timeline.utc(t0))}; start "
+            f"the changeover alongside by {format_utc(timeline.utc(start))} (planned at "
+            f"the consumption alongside: {load})."))
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # commenced at departure
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct < first.fuel.sulphur_pct:
+            pre = Run(first.from_m, first.from_m, t0, t0, on[circuits[0]], first.limit_pct, ())
+            back = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first,
+                              t0, 0.0, False, circuits)
+            out.append(replace(back, area="departure"))
+    return out, warning
 
 
 def _departure_change(flushes: FlushCache, voyage: Voyage, system: FuelSystem,
-                      timeline: Timeline, first: Run, regular: Fuel) -> Change:
-    """The change to the first run's fuel, made alongside, from ``regular``."""
+                      timeline: Timeline, first: Run, regular: Fuel,
+                      circuits: tuple[str, ...]) -> Change:
+    """The change of ``circuits`` to the first run's fuel, made alongside, from ``regular``."""
     t0 = first.from_epoch_s
+    port = timeline.port
+    for c in circuits:
+        cons = system.circuits[c].consumers
+        if port is not None and sum(port.departure_iso_t_h[n] for n in cons) <= 0.0:
+            raise InputError(voyage.file, "port.departure_load_pct", port.describe_departure(),
+                             f"a consumer of circuit {c} ({', '.join(cons)}) burning fuel "
+                             f"alongside: it must be flushed to {first.fuel.name} before "
+                             "departure")
     pre = Run(first.from_m, first.from_m, t0, t0, regular, 4.5, ())
     dep = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first, t0, 0.0,
-                     True)
+                     True, circuits)
     return replace(dep, area=first.areas[0] if first.areas else dep.area)
 
 
 def _outside_fuel(voyage: Voyage, system: FuelSystem, when: datetime, regular: Fuel) -> Fuel:
     """The fuel the ship burns outside any area at ``when`` (UTC): the highest-sulphur fuel
     on board within the global cap's target (or ``regular`` if none is higher)."""
-    cap = global_cap_pct(when) * voyage.sulphur_target_fraction
+    cap = fuel_choice_target_pct(global_cap_pct(when), voyage.fuel_choice_margin)
     ok = [f for f in fuels_on_board(voyage, system) if f.sulphur_pct <= cap + 1e-12]
     return max(ok + [regular], key=lambda f: f.sulphur_pct)
 
@@ -243,26 +366,3 @@ def _simulated(voyage: Voyage, fn: Callable[..., T], *args: object) -> T:
     except TargetUnreachable as exc:
         raise InputError(voyage.file, "margins.sulphur_target_fraction", str(exc),
                          "a sulphur target above the compliant fuel's own sulphur") from None
-
-
-def _first_needless_switch_back(changes: list[Change]) -> tuple[int, str] | None:
-    """A switch back whose next step down must start before it completes: ``(run index of
-    the compliant run before it, why)``."""
-    for k in range(len(changes) - 1):
-        back, fwd = changes[k], changes[k + 1]
-        if back.direction != "to_regular" or fwd.direction != "to_compliant":
-            continue
-        done = [c.done_epoch_s for c in back.circuits]
-        next_start = min(c.start_epoch_s for c in fwd.circuits)
-        if any(d is None for d in done) or max(done) > next_start:
-            fuel = back.circuits[0].from_fuel
-            end = max((d for d in done if d is not None), default=None)
-            why = (f"Stay on {fuel} from the exit of {back.area} to {fwd.area}: switching back "
-                   f"would complete at {format_utc(_utc(end))} but the next changeover must "
-                   f"start by {format_utc(_utc(next_start))}.")
-            return k, why
-    return None
-
-
-def _utc(epoch_s: float | None) -> datetime | None:
-    return None if epoch_s is None else from_epoch(epoch_s)

@@ -7,11 +7,13 @@ offset; positions in decimal degrees (tables show degrees and minutes).
 
 from __future__ import annotations
 
+from geo.area import Area
 from geo.ellipsoid import NM_M
 from planner.common.timefmt import format_offset, iso_utc
 from planner.voyage.fuel_choice import FuelChoice, regular_fuel
 from planner.voyage.plan import Plan
-from planner.voyage.quantities import so2_by_area
+from planner.voyage.quantities import so2_by_area, sulphur_by_area
+from planner.voyage.route_report import force_event_rows
 
 CAUTIONS = (
     "Advisory only: the engine and boiler makers' instructions and the ship's safety "
@@ -19,9 +21,44 @@ CAUTIONS = (
     "A changeover can cause loss of propulsion or power: avoid starting one in confined or "
     "congested waters, traffic lanes or pilotage areas, and keep the engine room manned.",
     "Check the compatibility of the fuels before mixing them.",
-    "Official area boundaries and limits are those in MARPOL Annex VI and national law; the "
-    "sample areas are fictional.",
+    "Official area boundaries and limits are those in MARPOL Annex VI and national law; "
+    "check the area files against them.",
 )
+"""The plan's cautions, always printed ([MARPOL-VI]; [USCG-MSA-03-09] on loss of propulsion)."""
+
+SAMPLE_CAUTION = ("The sample areas (areas_sample/) are fictional, drawn for the demo only: "
+                  "they are not legal boundaries.")
+"""Added when any area loaded is one of the sample's (:func:`is_sample_area`)."""
+
+SAMPLE_SOURCE = "changeover demo scenario"
+"""The ``source`` property every sample area file carries (``areas_sample/*.geojson``)."""
+
+
+def is_sample_area(area: Area) -> bool:
+    """Whether an area is one of the fictional sample's: its GeoJSON ``source`` property
+    starts with :data:`SAMPLE_SOURCE`.
+
+    Parameters
+    ----------
+    area : Area
+        A loaded area.
+    """
+    return area.source.strip().lower().startswith(SAMPLE_SOURCE)
+
+
+def plan_cautions(plan: Plan) -> list[str]:
+    """The cautions of a plan: :data:`CAUTIONS`, and :data:`SAMPLE_CAUTION` when it uses a
+    sample area.
+
+    Parameters
+    ----------
+    plan : Plan
+        The plan.
+    """
+    out = list(CAUTIONS)
+    if any(is_sample_area(t.area) for t in plan.check.tracks):
+        out.append(SAMPLE_CAUTION)
+    return out
 
 
 def _ship_time(plan: Plan, epoch_s: float | None) -> str | None:
@@ -100,6 +137,8 @@ def changeover_rows(plan: Plan) -> list[dict]:
                 "margin_h": margin,
                 "duration_h": part.duration_h,
                 "before_departure": ch.before_departure,
+                "boundary_event": ch.boundary_event,
+                "clock_deadline": ch.clock_deadline,
                 "min_viscosity_cst": st.min_viscosity_cst if st.paths else None,
                 "max_viscosity_cst": st.max_viscosity_cst if st.paths else None,
             })
@@ -129,6 +168,8 @@ def plan_json(plan: Plan) -> dict:
     # that never leaves an area burns only its compliant fuel)
     compliant = {c.fuel.name for c in plan.choices if c.stretch.areas}
     so2 = q.so2
+    port = q.so2_alongside
+    so2_all = list(so2) + ([port] if port is not None else [])
     sched = plan.timeline.schedule
     return {
         "voyage": {
@@ -143,8 +184,12 @@ def plan_json(plan: Plan) -> dict:
             "ship_utc_offset": format_offset(plan.voyage.ship_tz),
             "time_margin_h": plan.voyage.time_margin_h,
             "sulphur_target_fraction": plan.voyage.sulphur_target_fraction,
+            "fuel_choice_margin": plan.voyage.fuel_choice_margin,
+            "min_time_on_regular_h": plan.voyage.min_time_on_regular_h,
         },
+        "port": _port(plan),
         "changeovers": changeover_rows(plan),
+        "force_events": force_event_rows(plan.check),
         "stretches": [
             {"from_nm": c.stretch.from_nm, "to_nm": c.stretch.to_nm,
              "limit_pct": c.stretch.limit_pct, "areas": list(c.stretch.areas),
@@ -155,7 +200,8 @@ def plan_json(plan: Plan) -> dict:
         "fuel_needed": [
             {"fuel": n.fuel, "from_utc": iso_utc(plan.timeline.utc(n.from_epoch_s)),
              "to_utc": iso_utc(plan.timeline.utc(n.to_epoch_s)), "mass_t": n.mass_t,
-             "volume_m3_15c": n.volume_m3} for n in needs if n.mass_t > 0
+             "volume_m3_15c": n.volume_m3, "circuit": n.circuit, "alongside_h": n.alongside_h}
+            for n in needs if n.mass_t > 0
         ],
         "fuel_totals": {f: {"needed_t": t, "on_board_t": have.get(f, 0.0),
                             "needed_m3_15c": t * 1000.0 / plan.system.fuels[f].density_kg_m3}
@@ -166,16 +212,40 @@ def plan_json(plan: Plan) -> dict:
         "so2": {
             "stretches": [{"from_nm": r.from_m / NM_M, "to_nm": r.to_m / NM_M,
                            "areas": list(r.areas), "fuel": r.fuel, "fuel_t": r.fuel_t,
-                           "so2_kg": r.so2_kg, "so2_on_regular_kg": r.so2_regular_kg}
+                           "so2_kg": r.so2_kg, "so2_on_regular_kg": r.so2_regular_kg,
+                           "sulphur_kg": r.sulphur_kg, "burnt_t": dict(r.burnt_t or {})}
                           for r in so2],
-            "areas": {a: {"so2_kg": p, "so2_on_regular_kg": q}
-                      for a, (p, q) in so2_by_area(so2).items()},
-            "total_kg": sum(r.so2_kg for r in so2),
+            "areas": {a: {"so2_kg": p, "so2_on_regular_kg": q,
+                          "sulphur_kg": sulphur_by_area(so2_all).get(a, 0.0)}
+                      for a, (p, q) in so2_by_area(so2_all).items()},
+            "alongside": None if port is None else {
+                "areas": list(port.areas), "hours": _alongside_hours(plan),
+                "fuel": port.fuel, "fuel_t": port.fuel_t, "so2_kg": port.so2_kg,
+                "so2_on_regular_kg": port.so2_regular_kg, "sulphur_kg": port.sulphur_kg},
+            "total_kg": sum(r.so2_kg for r in so2_all),
         },
         "notes": list(plan.notes),
+        "no_changeover_reason": plan.no_changeover_reason,
         "warnings": [w.text for w in plan.warnings],
-        "cautions": list(CAUTIONS),
+        "cautions": plan_cautions(plan),
     }
+
+
+def _alongside_hours(plan: Plan) -> float:
+    """The hours alongside after arrival the plan counts, h."""
+    return plan.timeline.port.arrival_hours if plan.timeline.port is not None else 0.0
+
+
+def _port(plan: Plan) -> dict:
+    """The port state the plan used: loads and rates alongside, hours after arrival."""
+    port = plan.timeline.port
+    if port is None:
+        return {}
+    return {"departure_load_pct": dict(port.departure_load_pct),
+            "departure_iso_t_h": dict(port.departure_iso_t_h),
+            "arrival_iso_t_h": dict(port.arrival_iso_t_h),
+            "arrival_hours": port.arrival_hours,
+            "departure_fuel": dict(port.departure_fuel)}
 
 
 def _why(plan: Plan, choice: FuelChoice) -> str:

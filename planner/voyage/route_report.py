@@ -57,6 +57,7 @@ def route_json(check: RouteCheck, tz: timezone | None = None) -> dict:
             }
             for tc in check.crossings
         ],
+        "force_events": force_event_rows(check),
         "stretches": [
             {
                 "from_nm": st.from_nm,
@@ -79,6 +80,26 @@ def route_json(check: RouteCheck, tz: timezone | None = None) -> dict:
         ],
     }
     return out
+
+
+def force_event_rows(check: RouteCheck) -> list[dict]:
+    """Each area coming into force (or ceasing) while the ship is inside it, as plain data.
+
+    Parameters
+    ----------
+    check : RouteCheck
+        The route check (with a schedule; none without one).
+
+    Returns
+    -------
+    list of dict
+        ``area``, ``event`` (``"comes_into_force"`` or ``"ceases"``), ``time_utc`` (ISO
+        8601 UTC), ``lat``, ``lon`` (degrees, WGS84), ``leg`` (from 1), ``distance_nm``,
+        ``limit_after_pct`` (% m/m), in time order.
+    """
+    return [{"area": f.area, "event": f.event, "time_utc": iso_utc(f.time_utc), "lat": f.lat,
+             "lon": f.lon, "leg": f.leg + 1, "distance_nm": f.distance_nm,
+             "limit_after_pct": f.limit_pct} for f in check.force_events]
 
 
 def route_geojson(check: RouteCheck) -> dict:
@@ -118,5 +139,13 @@ def route_geojson(check: RouteCheck) -> dict:
             "properties": {"kind": "crossing", "area": c.area, "event": c.event,
                            "leg": c.leg + 1, "distance_nm": c.distance_nm,
                            "time_utc": iso_utc(tc.time_utc), "in_force": tc.in_force},
+        })
+    for f in check.force_events:
+        features.append({
+            "type": "Feature",
+            "geometry": {"type": "Point", "coordinates": [f.lon, f.lat]},
+            "properties": {"kind": "force_event", "area": f.area, "event": f.event,
+                           "leg": f.leg + 1, "distance_nm": f.distance_nm,
+                           "time_utc": iso_utc(f.time_utc)},
         })
     return {"type": "FeatureCollection", "features": features}

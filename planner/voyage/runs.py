@@ -71,6 +71,13 @@ class Change:
         Each circuit's changeover, in the ship file's circuit order.
     before_departure : bool
         The voyage departs inside the area: the change is made alongside.
+    event : str
+        What the boundary is: ``"enter"`` or ``"exit"`` (a boundary crossing),
+        ``"comes_into_force"`` or ``"ceases"`` (the area's date, while the ship is inside
+        it: a clock deadline, :class:`geo.compliance.ForceEvent`), ``"departure"`` (made
+        alongside before departure, or commenced at departure) or ``"cap_change"`` (the
+        global cap changes under way). Empty: not yet known (``enter`` / ``exit`` by
+        direction).
     """
 
     area: str
@@ -81,6 +88,20 @@ class Change:
     target_pct: float
     circuits: tuple[CircuitChange, ...]
     before_departure: bool = False
+    event: str = ""
+
+    @property
+    def boundary_event(self) -> str:
+        """:attr:`event`, or ``"enter"`` / ``"exit"`` by direction when not set."""
+        if self.event:
+            return self.event
+        return "enter" if self.direction == "to_compliant" else "exit"
+
+    @property
+    def clock_deadline(self) -> bool:
+        """The boundary is a moment on the clock, not a place the ship reaches (an area's
+        date, a departure or a change of the global cap): no arrival-time uncertainty."""
+        return self.boundary_event in ("comes_into_force", "ceases", "departure", "cap_change")
 
 
 def _joined(first: Run, second: Run, reasons: tuple[str, ...]) -> Run:

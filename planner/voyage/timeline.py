@@ -4,7 +4,9 @@ Built on the route's schedule (:mod:`geo.schedule`): constant speed on each
 leg, stops where an ETD follows an ETA. The main engine follows the propeller
 law from its reference point (power ∝ speed³, [PROPELLER-LAW], common practice)
 and is stopped when the ship is; generators and boilers run at their constant
-rates throughout. Rates are at the ISO reference net specific energy
+rates throughout the voyage. Before departure and after arrival every consumer
+burns at its rate alongside (:mod:`planner.voyage.port`: by default the main
+engine stopped and the rest as at sea). Rates are at the ISO reference net specific energy
 (42.7 MJ/kg, [ISO-3046] [M]); the flushing model and :meth:`Timeline.burnt_t`
 scale them to the fuel actually burnt.
 
@@ -26,6 +28,7 @@ from planner.flushing import ConsumptionSchedule
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG, Fuel
 from planner.ship.consumers import MainEngine
 from planner.ship.system import FuelSystem
+from planner.voyage.port import PortState, default_port_state
 
 
 @dataclass(frozen=True, eq=False)
@@ -38,10 +41,18 @@ class Timeline:
         The route's schedule: distance [m] against epoch seconds at its knots.
     system : FuelSystem
         The ship as she sails the voyage (her consumers and their ratings).
+    port : PortState, optional
+        The consumption alongside before departure and after arrival (default: the ship
+        file's, :func:`planner.voyage.port.default_port_state`).
     """
 
     schedule: Schedule
     system: FuelSystem
+    port: PortState | None = None
+
+    def __post_init__(self) -> None:
+        if self.port is None:
+            object.__setattr__(self, "port", default_port_state(self.system))
 
     @property
     def start_epoch_s(self) -> float:
@@ -80,9 +91,8 @@ class Timeline:
                       consumers: Sequence[str] | None = None) -> dict[str, float]:
         """Each consumer's fuel rate at the ISO reference energy, t/h, at a moment.
 
-        Before departure and after arrival the ship is taken as at sea at her
-        first (last) leg's speed: a changeover that must start before departure
-        is planned as if under way, and says so.
+        Before departure and after arrival, each consumer's rate alongside
+        (:attr:`port`).
 
         Parameters
         ----------
@@ -91,9 +101,13 @@ class Timeline:
         consumers : sequence of str, optional
             The consumers to give (default: all of the ship's).
         """
-        t = min(max(epoch_s, self.start_epoch_s), np.nextafter(self.end_epoch_s, -np.inf))
-        v = self.speed_kn(t)
         names = consumers if consumers is not None else list(self.system.consumers)
+        port = self.port if self.port is not None else default_port_state(self.system)
+        if epoch_s < self.start_epoch_s:
+            return {n: port.departure_iso_t_h[n] for n in names}
+        if epoch_s >= self.end_epoch_s:
+            return {n: port.arrival_iso_t_h[n] for n in names}
+        v = self.speed_kn(epoch_s)
         out = {}
         for n in names:
             c = self.system.consumers[n]

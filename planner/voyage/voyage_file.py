@@ -25,7 +25,15 @@ Format (ours; an annotated example is ``areas_sample/voyage.toml``)::
 
     [margins]
     time_before_boundary_h = 1.0         # default 1 h (common practice)
-    sulphur_target_fraction = 0.9        # aim at 90 % of the limit (default)
+    sulphur_target_fraction = 0.9        # flush to 90 % of the limit (default)
+    fuel_choice_margin = 0.0             # fuel chosen at or under limit × (1 − this); default 0
+    min_time_on_regular_h = 4.0          # shorter than this on regular fuel: stay compliant
+
+    [port]                               # optional: the ship alongside (planner.voyage.port)
+    departure_load_pct = { dg1 = 80.0 }  # % of the sea rate (main engine: % MCR)
+    arrival_load_pct = { dg1 = 80.0 }    # default: as at departure
+    arrival_hours = 12.0                 # alongside after arrival (default 0)
+    departure_fuel = { boiler = "mgo" }  # each circuit's fuel at departure (default regular)
 
 Every bad or missing value is one :class:`geo.errors.InputError` naming the
 file and the key.
@@ -45,12 +53,50 @@ from planner.common.defaults import (
     MIN_CONFIDENCE,
 )
 from planner.common.input_files import read_toml
+from planner.common.keys import check_keys
 from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
              "q_net_mj_kg", "flash_point_c")
+TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty")
+VOYAGE_KEYS = ("name", "ship", "route", "areas", "caution_zones", "depart", "ship_time",
+               "speed_kn", "zone_change")
+ZONE_CHANGE_KEYS = ("at_utc", "ship_time")
+TANK_KEYS = ("fuel", "volume_m3", "temperature_c")
+MARGIN_KEYS = ("time_before_boundary_h", "sulphur_target_fraction", "fuel_choice_margin",
+               "min_time_on_regular_h", "confidence")
+PORT_KEYS = ("departure_load_pct", "arrival_load_pct", "arrival_hours", "departure_fuel")
+
+DEFAULT_MIN_TIME_ON_REGULAR_H = 4.0
+"""Shorter than this fully on regular fuel between two areas, the ship stays on compliant
+fuel [h]: each changeover carries a loss-of-propulsion risk ([USCG-MSA-03-09]), not worth
+taking for a few hours of cheaper fuel (our choice, common practice)."""
+
+
+@dataclass(frozen=True)
+class PortSpec:
+    """The voyage file's ``[port]`` table as written (checked against the ship later).
+
+    Parameters
+    ----------
+    departure_load_pct : dict of str to float [%]
+        Consumers named for alongside before departure: % of the sea rate (main engine:
+        % MCR); consumers not named keep the ship file's default.
+    arrival_load_pct : dict of str to float [%] or None
+        The same after arrival (None: as before departure).
+    arrival_hours : float [h]
+        Hours alongside after arrival (their compliant fuel is counted when the arrival
+        port is inside an area).
+    departure_fuel : dict of str to str
+        The fuel each named circuit is on at departure (others: the regular fuel).
+    """
+
+    departure_load_pct: dict[str, float] = field(default_factory=dict)
+    arrival_load_pct: dict[str, float] | None = None
+    arrival_hours: float = 0.0
+    departure_fuel: dict[str, str] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -106,6 +152,12 @@ class Voyage:
         Aim at this share of each limit.
     confidence : float or None [-]
         The confidence of the starts to add (Monte Carlo), if any.
+    fuel_choice_margin : float [-]
+        A fuel is chosen for a stretch if its sulphur is at or under limit × (1 − this).
+    min_time_on_regular_h : float [h]
+        Less than this fully on regular fuel between two areas: stay on compliant fuel.
+    port : PortSpec
+        The ship alongside before departure and after arrival.
     """
 
     file: str
@@ -123,6 +175,9 @@ class Voyage:
     time_margin_h: float = DEFAULT_MARGIN_H
     sulphur_target_fraction: float = DEFAULT_TARGET_FRACTION
     confidence: float | None = None
+    fuel_choice_margin: float = 0.0
+    min_time_on_regular_h: float = DEFAULT_MIN_TIME_ON_REGULAR_H
+    port: PortSpec = field(default_factory=PortSpec)
 
     def fuel(self, name: str) -> Fuel:
         """The delivery-note fuel called ``name``.
@@ -230,7 +285,9 @@ def load_voyage(path: str | Path) -> Voyage:
     p = Path(path)
     doc = read_toml(path, "voyage file")
     base = p.resolve().parent
+    check_keys(doc, TOP_KEYS, file, "")
     v = _table(doc, "voyage", file)
+    check_keys(v, VOYAGE_KEYS, file, "voyage")
     ship = _path(base, _text(v, "ship", file, "voyage"), file, "voyage.ship")
     route = _path(base, _text(v, "route", file, "voyage"), file, "voyage.route")
     areas_raw = v.get("areas")
@@ -253,6 +310,7 @@ def load_voyage(path: str | Path) -> Voyage:
         place = f"voyage.zone_change[{i + 1}]"
         if not isinstance(zc, dict):
             raise InputError(file, place, zc, "a table with at_utc and ship_time")
+        check_keys(zc, ZONE_CHANGE_KEYS, file, place)
         at = parse_moment(_text(zc, "at_utc", file, place), file=file, place=f"{place}.at_utc")
         zone = parse_offset(_text(zc, "ship_time", file, place), file=file,
                             place=f"{place}.ship_time")
@@ -273,6 +331,7 @@ def load_voyage(path: str | Path) -> Voyage:
         place = f'tank."{tname}"'
         if not isinstance(t, dict):
             raise InputError(file, place, t, "a table with fuel and volume_m3")
+        check_keys(t, TANK_KEYS, file, place)
         fuel = _text(t, "fuel", file, place)
         if fuel not in names:
             raise InputError(file, f"{place}.fuel", fuel, f"one of the fuels: {', '.join(names)}")
@@ -281,12 +340,49 @@ def load_voyage(path: str | Path) -> Voyage:
                        low=-10.0, high=150.0)
         tanks[tname] = TankContent(fuel, vol, temp)
     m = _table(doc, "margins", file, required=False)
+    check_keys(m, MARGIN_KEYS, file, "margins")
     margin_h = _number(m, "time_before_boundary_h", file, "margins", required=False,
                        default=DEFAULT_MARGIN_H, low=0.0, high=48.0)
     frac = _number(m, "sulphur_target_fraction", file, "margins", required=False,
                    default=DEFAULT_TARGET_FRACTION, low=0.1, high=1.0)
     conf = _number(m, "confidence", file, "margins", required=False, low=MIN_CONFIDENCE,
                    high=MAX_CONFIDENCE)
+    choice = _number(m, "fuel_choice_margin", file, "margins", required=False, default=0.0,
+                     low=0.0, high=0.5)
+    regular_h = _number(m, "min_time_on_regular_h", file, "margins", required=False,
+                        default=DEFAULT_MIN_TIME_ON_REGULAR_H, low=0.0, high=240.0)
+    port = _port(_table(doc, "port", file, required=False), file, names)
     return Voyage(file, _text(v, "name", file, "voyage", required=False) or p.stem, ship, route,
                   areas, depart, tz, speed, fuels, tanks, tuple(changes), cautions, margin_h,
-                  frac, conf)
+                  frac, conf, choice, regular_h, port)
+
+
+def _loads(tab: dict, key: str, file: str) -> dict[str, float] | None:
+    raw = tab.get(key)
+    if raw is None:
+        return None
+    if not isinstance(raw, dict):
+        raise InputError(file, f"port.{key}", raw, "a table of consumer = load % "
+                         "(e.g. { dg1 = 80.0 })")
+    return {str(k): _number(raw, k, file, f"port.{key}", low=0.0, high=110.0) for k in raw}
+
+
+def _port(tab: dict, file: str, fuels: list[str]) -> PortSpec:
+    """The ``[port]`` table; consumer and circuit names are checked against the ship in
+    :func:`planner.voyage.port.port_state`."""
+    check_keys(tab, PORT_KEYS, file, "port")
+    dep = _loads(tab, "departure_load_pct", file) or {}
+    arr = _loads(tab, "arrival_load_pct", file)
+    hours = _number(tab, "arrival_hours", file, "port", required=False, default=0.0, low=0.0,
+                    high=24.0 * 60)
+    raw = tab.get("departure_fuel") or {}
+    if not isinstance(raw, dict):
+        raise InputError(file, "port.departure_fuel", raw, 'a table of circuit = fuel name '
+                         '(e.g. { boiler = "mgo" })')
+    dep_fuel = {}
+    for circuit, name in raw.items():
+        if name not in fuels:
+            raise InputError(file, f"port.departure_fuel.{circuit}", name,
+                             f"one of the fuels: {', '.join(fuels)}")
+        dep_fuel[str(circuit)] = name
+    return PortSpec(dep, arr, hours, dep_fuel)

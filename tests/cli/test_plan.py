@@ -138,7 +138,7 @@ def _bad_copy(tmp_path: Path, edit) -> Path:
     (lambda s: s.replace('"2027-05-30T06:00+12:00"', '"2027-05-30 06:00"'),
      "voyage.depart"),                                                          # no offset
     (lambda s: s.replace('"2027-05-30T06:00+12:00"', '"next Tuesday"'), "voyage.depart"),
-    (lambda s: s.replace('fuel = "mgo"\nvolume_m3 = 100.0', 'fuel = "ulsgo"\nvolume_m3 = 100.0'),
+    (lambda s: s.replace('fuel = "mgo"\nvolume_m3 = 110.0', 'fuel = "ulsgo"\nvolume_m3 = 110.0'),
      'tank."mgo_storage".fuel'),                                                # unknown fuel
 ])
 def test_bad_voyage_exit_2_one_line_nothing_written(tmp_path, edit, key):

@@ -71,6 +71,21 @@ def mass_rate_t_h(speed_kn: float) -> float:
     return iso * ISO_Q_NET / Q_NET
 
 
+# ship_t1g.toml: the same with a generator on the circuit (1500 kW at 200 g/kWh)
+DG_KW, DG_SFOC_G_KWH = 1500.0, 200.0
+
+
+def dg_rate_t_h() -> float:
+    """Generator fuel, t/h of a fuel of Q_NET: P·SFOC·42.7/Q ([ISO-3046] [M])."""
+    return DG_KW * DG_SFOC_G_KWH / 1e6 * ISO_Q_NET / Q_NET
+
+
+def dg_flow_m3_h() -> float:
+    """The generator's volumetric draw through the stirred volume, m³/h (alongside, main
+    engine stopped)."""
+    return dg_rate_t_h() * 1000.0 / RHO
+
+
 def flow_m3_h(speed_kn: float) -> float:
     """Volumetric draw through the stirred volume, m³/h (equal densities: blend-independent)."""
     return mass_rate_t_h(speed_kn) * 1000.0 / RHO

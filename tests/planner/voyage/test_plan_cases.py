@@ -17,12 +17,17 @@ from datetime import timedelta
 
 import pytest
 
+from geo.errors import InputError
 from planner.common.timefmt import format_utc
 from planner.voyage.changeovers import SWITCH_BACK_COMPLETE
 from planner.voyage.checks import plan_warnings
 from tests.helpers.plan import (
     NM_M,
+    S_MGO,
     V_M3,
+    VOYAGES,
+    dg_flow_m3_h,
+    dg_rate_t_h,
     flow_m3_h,
     hours,
     mass_rate_t_h,
@@ -47,6 +52,10 @@ FLUSH_12_H = V_M3 / Q12 * washout_log(0.9 * 0.10)  # to the default target 90 % 
 # a switch back is complete within 5 % of the fuels' difference (the planner's stated
 # choice, SWITCH_BACK_COMPLETE): washout to 5 % of the step, (V/q)·ln(1/0.05)
 BACK_12_H = V_M3 / Q12 * math.log(1.0 / SWITCH_BACK_COMPLETE)
+
+
+def iso_z(moment) -> str:
+    return moment.strftime("%Y-%m-%dT%H:%M:%SZ")
 
 
 def rows(doc, direction=None):
@@ -101,19 +110,28 @@ def test_area_coming_into_force_while_inside_it():
 # --- 4. departing inside an area -----------------------------------------------------------
 
 def test_departing_inside_plans_the_changeover_before_departure():
+    # ship_t1g: the stirred volume V feeds the main engine and a generator; alongside the
+    # main engine is stopped (the ship file's default port state), so the flush before
+    # departure runs at the generator's draw alone. Closed form ([LEVENSPIEL-1999] CSTR
+    # washout [D]): T = V / q_dg · ln((S₀ − S₁) / (S_t − S₁)), q_dg = 1500 kW × 200 g/kWh
+    # × 42.7/40 / 880 kg/m³ = 0.364 m³/h, S_t = 0.9 × 0.10 %: T = 5.96 h (not the 1.2 h at
+    # sea consumption the plan used before it knew the port state).
     plan, doc = plan_doc("depart_inside")
     first = doc["changeovers"][0]
     assert first["before_departure"] is True
     assert first["direction"] == "to_compliant" and first["to_fuel"] == "mgo"
     assert first["boundary_utc"] == doc["voyage"]["depart_utc"]
-    # planned at the first leg's consumption: compliant 1 h (margin) before departure
+    port_h = V_M3 / dg_flow_m3_h() * washout_log(0.9 * 0.10)
+    assert port_h == pytest.approx(5.96, abs=0.01)
+    assert first["duration_h"] == pytest.approx(port_h, abs=TIME_TOL_S / 3600.0)
     depart = utc(doc["voyage"]["depart_utc"])
-    assert abs(seconds(first["start_utc"], depart - timedelta(hours=FLUSH_12_H + 1.0))) <= 3.5
+    assert abs(seconds(first["start_utc"], depart - timedelta(hours=port_h + 1.0))) <= TIME_TOL_S
     assert abs(seconds(first["compliant_utc"], depart - timedelta(hours=1.0))) <= TIME_TOL_S
     (warn,) = [w for w in doc["warnings"] if "departs inside" in w]
     assert (plan.warnings[0].kind, plan.warnings[0].text) == ("departs_inside", warn)  # first
     assert "Meridian Five ECA" in warn and "mgo before departure" in warn
     assert format_utc(utc(first["start_utc"])) in warn  # when to start, alongside
+    assert "alongside: main_engine stopped, dg 100 %" in warn
     # the switch back commences at the exit (10°E), never before
     (back,) = rows(doc, "to_regular")
     assert back["start_utc"] == back["boundary_utc"]
@@ -121,21 +139,66 @@ def test_departing_inside_plans_the_changeover_before_departure():
     assert abs(seconds(back["start_utc"], at_lon(doc, 10.0, from_lon=6.0))) <= 1.0
 
 
+def test_departing_inside_on_compliant_fuel_needs_no_changeover_alongside():
+    # [port] departure_fuel = { main = "mgo" }: the circuit is already on mgo at departure
+    _, doc = plan_doc("depart_inside_on_mgo")
+    assert [r["direction"] for r in doc["changeovers"]] == ["to_regular"]
+    assert not any("departs inside" in w for w in doc["warnings"])
+    assert ("The voyage departs inside Meridian Five ECA with every circuit already on mgo "
+            "([port] departure_fuel): no changeover alongside.") in doc["notes"]
+    # mgo is drawn from departure (no flush alongside): (ME at 12 kn + dg) × hours to 10°E
+    t_exit = hours(parallel_m(6.0, 10.0), 12.0)
+    mgo = [r for r in doc["fuel_needed"] if r["fuel"] == "mgo"]
+    assert [r["circuit"] for r in mgo] == ["main"]
+    assert mgo[0]["from_utc"] == doc["voyage"]["depart_utc"]
+    assert mgo[0]["mass_t"] == pytest.approx((mass_rate_t_h(12.0) + dg_rate_t_h()) * t_exit,
+                                             rel=1e-9)
+
+
+def test_a_circuit_that_burns_nothing_alongside_is_refused(tmp_path):
+    # ship_t1 has only the main engine: stopped alongside, the circuit cannot be flushed
+    text = (VOYAGES / "depart_inside.toml").read_text().replace("ship_t1g.toml", "ship_t1.toml")
+    for f in ("ship_t1.toml", "depart_inside.csv", "meridian_5e.geojson"):
+        (tmp_path / f).write_text((VOYAGES / f).read_text())
+    (tmp_path / "v.toml").write_text(text)
+    with pytest.raises(InputError) as e:
+        plan_doc(tmp_path / "v.toml")
+    msg = str(e.value)
+    assert "v.toml: port.departure_load_pct: 'main_engine stopped'" in msg
+    assert "circuit main (main_engine) burning fuel alongside" in msg
+
+
 def test_departing_inside_and_never_leaving_still_warns():
     # the whole voyage is inside: still a plain warning and a before-departure changeover
     # from the fuel she burns outside (hfo 0.40 %, within the 0.50 % global cap)
-    _, doc = plan_doc("all_inside")
+    plan, doc = plan_doc("all_inside")
     (row,) = doc["changeovers"]
     assert row["before_departure"] is True and (row["from_fuel"], row["to_fuel"]) == (
         "hfo", "mgo")
     assert any("departs inside Meridian Five ECA" in w and "before departure" in w
                for w in doc["warnings"])
-    # the compliant fuel is counted even though no regular fuel is burnt under way:
-    # from the valve switch alongside to the arrival, at sea consumption
-    arrive = utc(doc["voyage"]["arrive_utc"])
-    hours_on = seconds(arrive, row["start_utc"]) / 3600.0
-    assert doc["compliant_fuel_needed_t"] == pytest.approx(mass_rate_t_h(12.0) * hours_on,
-                                                           rel=1e-3)
+    # the compliant fuel, by hand: alongside from the valve switch to departure at the
+    # generator's rate, under way at the main engine's (propeller law, 12 kn) plus the
+    # generator's, and the [port] arrival_hours = 6 h alongside after arrival (still
+    # inside the area) at the generator's rate
+    depart, arrive = utc(doc["voyage"]["depart_utc"]), utc(doc["voyage"]["arrive_utc"])
+    before_h = (depart.timestamp() - plan.changes[0].circuits[0].start_epoch_s) / 3600.0
+    sea_h = (plan.timeline.end_epoch_s - depart.timestamp()) / 3600.0  # unrounded arrival
+    need = (dg_rate_t_h() * before_h + (mass_rate_t_h(12.0) + dg_rate_t_h()) * sea_h
+            + dg_rate_t_h() * 6.0)
+    assert doc["compliant_fuel_needed_t"] == pytest.approx(need, rel=1e-9)
+    (mgo,) = [r for r in doc["fuel_needed"] if r["fuel"] == "mgo"]
+    assert abs(seconds(mgo["to_utc"], arrive + timedelta(hours=6.0))) <= 1.0
+    assert mgo["alongside_h"] == pytest.approx(6.0)
+    # the SO₂ alongside is counted inside the area: 6 h at the generator's rate of mgo
+    # (0.05 %; the inlet has long settled on it), × 64.066/32.06 ([IUPAC-2021] [D])
+    port = doc["so2"]["alongside"]
+    assert port["areas"] == ["Meridian Five ECA"] and port["hours"] == 6.0
+    assert port["fuel_t"] == pytest.approx(dg_rate_t_h() * 6.0, rel=1e-9)
+    assert port["sulphur_kg"] == pytest.approx(dg_rate_t_h() * 6.0 * S_MGO * 10.0, rel=1e-3)
+    area = doc["so2"]["areas"]["Meridian Five ECA"]
+    assert area["so2_kg"] == pytest.approx(
+        sum(r["so2_kg"] for r in doc["so2"]["stretches"]) + port["so2_kg"], rel=1e-12)
 
 
 # --- 5. two areas close together / far apart ------------------------------------------------
@@ -173,13 +236,42 @@ def test_far_areas_switch_back_and_forth():
     for r, lon in zip(rows(doc, "to_regular"), exits, strict=True):
         assert r["start_utc"] == r["boundary_utc"]  # commenced at the exit
         assert r["boundary_lon"] == pytest.approx(lon, abs=1e-9)
-        assert abs(seconds(r["complete_utc"], r["start_utc"]) - 3600 * BACK_12_H) <= TIME_TOL_S
+    first_back, last_back = rows(doc, "to_regular")
+    assert abs(seconds(first_back["complete_utc"], first_back["start_utc"])
+               - 3600 * BACK_12_H) <= TIME_TOL_S
+    # the last one is still under way at the arrival (8.5°E, 1.6 h after the exit); alongside
+    # the T1 ship's only consumer, the main engine, is stopped (the default port state), so
+    # it never completes: no completion time is made up
+    assert hours(parallel_m(8.0, 8.5), 12.0) < BACK_12_H
+    assert last_back["complete_utc"] is None
     entries = [lon for _, lon, _ in FAR_AREAS]
     for r, lon in zip(rows(doc, "to_compliant"), entries, strict=True):
         start = at_lon(doc, lon) - timedelta(hours=FLUSH_12_H + 1.0)
         assert abs(seconds(r["start_utc"], start)) <= TIME_TOL_S + 0.5
     # the switch back after West Far completes before the changeover for East Far starts
     assert utc(doc["changeovers"][1]["complete_utc"]) < utc(doc["changeovers"][2]["start_utc"])
+
+
+def test_a_short_time_on_regular_fuel_stays_compliant_and_says_what_it_costs():
+    # far_areas_default: the same voyage with the default minimum of 4 h fully on regular
+    # fuel. By hand: 3° of longitude at 50°N between West Far's exit and East Far's entry,
+    # at 12 kn; the switch back takes BACK_12_H, the next changeover FLUSH_12_H plus the
+    # 1 h margin: 9.65 − 3.0 − 2.17 − 1 = 3.5 h on regular fuel, under 4 h.
+    gap_h = hours(parallel_m(4.0, 7.0), 12.0)
+    on_regular_h = gap_h - BACK_12_H - FLUSH_12_H - 1.0
+    assert 3.0 < on_regular_h < 4.0
+    _, doc = plan_doc("far_areas_default")
+    assert doc["voyage"]["min_time_on_regular_h"] == 4.0
+    assert [(r["area"], r["direction"]) for r in doc["changeovers"]] == [
+        ("West Far ECA", "to_compliant"), ("East Far ECA", "to_regular")]
+    (note,) = doc["notes"]
+    assert note.startswith("Stay on mgo from the exit of West Far ECA to East Far ECA")
+    assert f"fully on hfo for only {on_regular_h:.1f} h" in note
+    assert "minimum 4 h on regular fuel" in note
+    # the cost: mgo burnt from the exit (where the switch back would start) to the start
+    # the next changeover would have had, at the main engine's rate (propeller law, 12 kn)
+    extra = mass_rate_t_h(12.0) * (gap_h - FLUSH_12_H - 1.0)
+    assert f"costs about {extra:.1f} t more mgo" in note
 
 
 # --- 6. short of compliant fuel -------------------------------------------------------------

@@ -157,6 +157,32 @@ def test_closed_form_fuel_quantities(closed):
     assert not any("Short of" in w for w in doc["warnings"])
 
 
+def test_closed_form_sulphur_inside_the_area_is_the_washout_integral(closed):
+    # Inside the area (boundary to arrival) the inlet is still a blend: the CSTR washout
+    # S(t) = S₁ + (S₀ − S₁)·exp(−(t − t_s)/τ), τ = V/q ([LEVENSPIEL-1999] [D]), burnt at the
+    # constant mass rate ṁ (propeller law at 12 kn). Integrated by hand from a = t_b − t_s to
+    # a + L (L: boundary to arrival):
+    #   m_S = ṁ/100 · [S₁·L + (S₀ − S₁)·τ·(e^(−a/τ) − e^(−(a+L)/τ))],
+    # and SO₂ = m_S × 64.066/32.06 ([IUPAC-2021] [D]). On pure mgo it would be ṁ·L·S₁/100.
+    plan, doc = closed
+    part = plan.changes[0].circuits[0]
+    tau = V_M3 / flow_m3_h(12.0)
+    a = (plan.changes[0].boundary_epoch_s - part.start_epoch_s) / 3600.0
+    length = (plan.timeline.end_epoch_s - plan.changes[0].boundary_epoch_s) / 3600.0
+    rate = mass_rate_t_h(12.0)
+    sulphur_kg = 1000.0 * rate / 100.0 * (
+        S_MGO * length + (S_HFO - S_MGO) * tau * (np.exp(-a / tau) - np.exp(-(a + length) / tau)))
+    pure_kg = 1000.0 * rate / 100.0 * S_MGO * length
+    assert sulphur_kg / pure_kg - 1.0 > 0.03  # the blend adds about 4 % here
+    # tolerance: the flow is read on the simulation's output times (10 s apart), so the
+    # arrival's stop (between two of them) costs at most 5 s of flow: 4e-4 of 3.2 h
+    area = doc["so2"]["areas"]["Meridian Five ECA"]
+    assert area["sulphur_kg"] == pytest.approx(sulphur_kg, rel=5e-4)
+    assert area["so2_kg"] == pytest.approx(sulphur_kg * 64.066 / 32.06, rel=5e-4)
+    # the fuel rows carry their circuit (the ship has one)
+    assert {r["circuit"] for r in doc["fuel_needed"]} == {"main"}
+
+
 # --- a speed change during the flush --------------------------------------------------
 
 def _speed_change_figures(plan):
