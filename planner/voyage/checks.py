@@ -9,6 +9,10 @@
 - Inlet viscosity: any time outside the engine's window is a warning with the
   fix (start the temperature change earlier, or switch more slowly).
 - A changeover to compliant fuel that would have to start before departure.
+- A tank at a changeover valve that runs dry, after the flush is complete, within
+  :data:`SERVICE_ENDURANCE_H` of the valve switch and before the circuit's next
+  changeover or the arrival (the flush's
+  :attr:`~planner.flushing.FlushResult.tank_dry_h`; no transfer into it is modelled).
 
 Pure functions of the plan's parts: nothing here builds or changes a plan;
 :func:`planner.voyage.plan.plan_voyage` puts :func:`plan_warnings` after its
@@ -36,9 +40,13 @@ from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
 
 _ZONE_STEP_S = 60.0
+SERVICE_ENDURANCE_H = 8.0
+"""A service tank holds at least 8 h at MCR ([SOLAS-1974] II-1/26.11 [P]); one at the valve
+that runs dry sooner at the planned draw must be refilled by transfer while the changeover
+is watched, so the plan warns (a later dry time is the ordinary transfer routine)."""
 
 WarningKind = Literal["departs_inside", "quantity", "caution_zone", "viscosity",
-                      "start_before_departure"]
+                      "start_before_departure", "tank_dry"]
 
 
 @dataclass(frozen=True)
@@ -226,6 +234,40 @@ def start_before_departure_warnings(timeline: Timeline,
     return out
 
 
+def tank_dry_warnings(timeline: Timeline, changes: Sequence[Change]) -> list[PlanWarning]:
+    """A tank that runs dry after a changeover's flush, within :data:`SERVICE_ENDURANCE_H`
+    of the switch and before the circuit's next changeover or the arrival, with its time.
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline (its end is the arrival).
+    changes : sequence of Change
+        The plan's changes, in time order (each circuit's flush gives when each of its
+        tanks runs dry, h after the valve switch, the draw held at the final blend).
+    """
+    starts: dict[str, list[float]] = {}
+    for ch in changes:
+        for part in ch.circuits:
+            starts.setdefault(part.circuit, []).append(part.start_epoch_s)
+    out = []
+    for ch in changes:
+        for part in ch.circuits:
+            later = [t for t in starts[part.circuit] if t > part.start_epoch_s]
+            until = min(later, default=timeline.end_epoch_s)
+            for tank, dry_h in part.study.result.tank_dry_h.items():
+                dry = part.start_epoch_s + dry_h * 3600.0
+                if dry >= until or dry_h >= SERVICE_ENDURANCE_H:
+                    continue
+                done = "" if part.duration_h is None else (
+                    f"; the flush is complete {part.duration_h * 60:.0f} min after the switch")
+                out.append(PlanWarning("tank_dry", (
+                    f"Circuit {part.circuit}: tank {tank} runs dry at "
+                    f"{format_utc(timeline.utc(dry))}, {dry_h:.1f} h after the valve is "
+                    f"switched for {ch.area}{done}; refill it by transfer before then.")))
+    return out
+
+
 def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
                   quantities: Quantities,
                   flushes: FlushCache | None = None) -> tuple[PlanWarning, ...]:
@@ -247,4 +289,5 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
     return tuple(quantity_warnings(timeline.system, quantities)
                  + zone_warnings(timeline, changes, caution_zone_shapes(voyage), flushes)
                  + viscosity_warnings(changes)
-                 + start_before_departure_warnings(timeline, changes))
+                 + start_before_departure_warnings(timeline, changes)
+                 + tank_dry_warnings(timeline, changes))

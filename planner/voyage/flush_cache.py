@@ -141,9 +141,9 @@ def schedule_window(schedule: ConsumptionSchedule, consumers: Sequence[str],
 
 
 def simulated_end_h(result: FlushResult) -> float:
-    """The last moment a simulation computed, h after the switch (its output grid's end, or a
-    later trace point)."""
-    ends = [float(result.time_h[-1])]
+    """The last moment a simulation computed or read of its schedule, h after the switch (its
+    output grid's end, a later trace point, or how far it extended the tanks' levels)."""
+    ends = [float(result.time_h[-1]), float(result.schedule_read_h)]
     ends += [float(c.trace_time_h[-1]) for c in result.inlets.values() if c.trace_time_h.size]
     return max(ends)
 
