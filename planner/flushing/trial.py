@@ -38,7 +38,6 @@ NO_FLOW_M3H = 1e-14  # a pipe with less flow than this is still [m³/h]
 INITIAL_STEP_EXP = -3
 _MIN_STEP_EXP = -10  # shortest step: output step · 2^-10
 _MIN_STEP_H = 1e-12
-_DOUBLE_BELOW = 0.25  # double the next step after one with less error than this (over allowance)
 _TANK_REFRESH = 0.005  # relative change of a filled tank's volume before rebuilding propagators
 
 
@@ -268,7 +267,7 @@ def next_exponent(k: int, error: float, h: float, h_try: float, k_max: int) -> i
     int [-]
         The next step's exponent.
     """
-    if error < _DOUBLE_BELOW and h >= 0.99 * h_try:
+    if error < 0.1 and h >= 0.99 * h_try:
         return min(k + 1, k_max)
     if error > 1.0:
         return max(k - 1, _MIN_STEP_EXP)
