@@ -37,6 +37,9 @@ import pyproj
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from cpu import cpu_model  # noqa: E402
 
 from geo.area_files import load_areas  # noqa: E402
 
@@ -104,7 +107,7 @@ def run_child(folder: Path, repeat: int) -> dict:
 
 
 def machine() -> str:
-    return (f"{platform.processor() or platform.machine()}, {os.cpu_count()} cores, "
+    return (f"{cpu_model()}, {os.cpu_count()} cores, "
             f"Python {platform.python_version()}, load average {os.getloadavg()[0]:.2f}")
 
 

@@ -25,6 +25,9 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from cpu import cpu_model  # noqa: E402
 
 from planner.voyage.confidence import add_uncertainty  # noqa: E402
 from planner.voyage.flush_cache import FlushCache  # noqa: E402
@@ -81,7 +84,7 @@ def command(repeats: int) -> None:
 
 def main() -> None:
     repeats = int(sys.argv[1]) if len(sys.argv) > 1 else 3
-    print(f"machine: {platform.processor() or platform.machine()}, {os.cpu_count()} CPUs, "
+    print(f"machine: {cpu_model()}, {os.cpu_count()} CPUs, "
           f"Python {platform.python_version()}")
     run(True, None)  # warm imports and caches of the libraries
     compare("plan build + JSON", None, repeats)

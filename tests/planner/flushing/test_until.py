@@ -110,3 +110,30 @@ def test_the_stop_is_final_on_every_test_ship(path, load_pct):
             assert s.time_to_target_h == pytest.approx(ref.time_to_target_h, abs=1e-9)
             assert s.time_to_limit_h == pytest.approx(ref.time_to_limit_h, abs=1e-9)
             assert s.burnt_t == pytest.approx(ref.burnt_t, abs=1e-9)
+
+
+def test_the_parcel_bound_is_above_every_profile_value():
+    """``w·m + |w·g| + max(w·k, −w·k/2)`` against the profiles sampled densely (the shifted
+    Legendre polynomials P₁ = 2s − 1 and P₂ = 6s² − 6s + 1 on [0, 1], closed form)."""
+    import numpy as np
+
+    from planner.flushing.pipes import PipeSet, profile
+
+    rng = np.random.default_rng(7)
+    pipes = PipeSet(np.array([1.0, 2.0]), np.array([[0.3, 0.7], [0.9, 0.1]]))
+    for _ in range(6):
+        pipes.push(np.array([0.3, 0.5]), rng.normal(0.0, 0.3, (2, 3, 2)), True)
+        pipes.advance(np.array([0.3, 0.5]))
+    w = np.array([1.5, -0.5])
+    s = np.linspace(0.0, 1.0, 2001)
+    lo, hi = pipes._lo, pipes._hi
+    for p in range(2):
+        inside = (pipes.start[lo:hi, p] < pipes.volume_m3[p]) & (
+            pipes.start[lo:hi, p] + pipes.length[lo:hi, p] > 0.0)
+        coef = pipes.coef[lo:hi, p][inside]
+        values = profile(np.repeat(coef[:, None], s.size, axis=1), np.tile(s, (len(coef), 1)))
+        exact = float((values @ w).max())
+        mask = np.array([q == p for q in range(2)])
+        bound = pipes.max_linear(w, mask)
+        assert exact <= bound + 1e-12
+        assert bound - exact <= 3.0 * float(np.abs(coef @ w).sum(axis=1).max())
