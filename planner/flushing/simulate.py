@@ -53,11 +53,10 @@ from planner.flushing.trial import (
     Run,
     Start,
     Trial,
-    draw_m3h,
     next_exponent,
     try_step,
 )
-from planner.flushing.until import Until, Watch, dry_after_h
+from planner.flushing.until import Until, Watch, run_dry_after_h
 from planner.ship.system import FuelSystem
 
 __all__ = ["FlushError", "Until", "simulate"]
@@ -176,7 +175,8 @@ def simulate(
             n_out, end = state.grid, "settled"
             break
     if watch is not None:
-        dry = {**_dry_after(run, state), **dry}
+        dry = {**run_dry_after_h(run, state.inlet[run.inlets.of_consumer], state.volume_m3,
+                                 state.time_h), **dry}
     warnings = tuple(state.warnings)
     return build_result(net, rec, n_out, run.output_step_h, warnings, state.n_steps,
                         tank_dry_h=dry, end=end,
@@ -187,19 +187,6 @@ def _over(watch: Watch, state: _State) -> bool:
     """At an output time: is the flush over (:meth:`Watch.over`)?"""
     return watch.over(state.time_h, state.inlet, state.x, state.stirred_out_m3h, state.pipes,
                       state.pipe_flow_m3h)
-
-
-def _dry_after(run: Run, state: _State) -> dict[str, float]:
-    """When each tank would run dry after the simulated time, at the final inlet blend."""
-    phi = state.inlet[run.inlets.of_consumer]
-
-    def flows(consumption_m3h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        fl = run.flow_map.flows(consumption_m3h, state.time_h)
-        return fl.stirred_in.copy(), fl.stirred_out.copy()
-
-    return dry_after_h(run.net, run.rates_t_h, run.bounds_h,
-                       lambda rate: draw_m3h(rate, phi, run.draw_kg_m3), flows,
-                       state.volume_m3, state.time_h)
 
 
 def _settings(

@@ -37,6 +37,7 @@ import numpy as np
 
 from planner.flushing.network import Network
 from planner.flushing.pipes import PipeSet
+from planner.flushing.trial import Run, draw_m3h
 
 _UNFLOWING_M3H = 1e-12  # a node with less outflow than this delivers nothing [m³/h]
 RECORD_WAIT = 3.0
@@ -196,3 +197,33 @@ def dry_after_h(net: Network, rates_t_h: np.ndarray, bounds_h: list[float],
         vol = vol - net_out * (t1 - t)
         t = t1
     return out
+
+
+def run_dry_after_h(run: Run, inlet: np.ndarray, volume_m3: np.ndarray,
+                    time_h: float) -> dict[str, float]:
+    """:func:`dry_after_h` for a simulation's run, at the inlet blends it ended with.
+
+    Parameters
+    ----------
+    run : Run
+        The simulation's fixed parameters (network, rates, segments, flows).
+    inlet : ndarray (C, F) [-]
+        Each consumer's inlet composition at the end.
+    volume_m3 : ndarray (S,) [m³]
+        The stirred volumes at the end.
+    time_h : float [h]
+        The end, h after the switch.
+
+    Returns
+    -------
+    dict
+        Tank name -> the time it runs dry [h after the switch].
+    """
+
+    def flows(consumption_m3h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        fl = run.flow_map.flows(consumption_m3h, time_h)
+        return fl.stirred_in.copy(), fl.stirred_out.copy()
+
+    return dry_after_h(run.net, run.rates_t_h, run.bounds_h,
+                       lambda rate: draw_m3h(rate, inlet, run.draw_kg_m3), flows,
+                       volume_m3, time_h)
