@@ -36,6 +36,7 @@ from numbers import Real
 from pathlib import Path
 
 import numpy as np
+import orjson
 from numpy.typing import NDArray
 
 from geo.area import EDGE_KINDS, Area, Polygon
@@ -152,24 +153,22 @@ def _refuse_constant(name: str) -> float:
     raise ValueError(f"{name} is not a JSON number")
 
 
-def _features(path: Path) -> list[dict]:
+def _parse(path: Path) -> object:
+    """The file's JSON, by orjson: several times faster than the standard library on large
+    area files and, like :func:`_parse_checked`, it refuses NaN and Infinity. A file it does
+    not take is read again by :func:`_parse_checked`, which gives the one-line error."""
     try:
-        text = path.read_bytes().decode("utf-8-sig")
-    except UnicodeDecodeError as e:
-        raise InputError(path, f"byte {e.start + 1}", Text("not UTF-8"), "UTF-8 text") from None
+        data = path.read_bytes()
     except OSError as e:
         raise InputError(path, "", Text(e.strerror or "unreadable"), "a readable file") from None
     try:
-        doc = json.loads(text, parse_constant=_refuse_constant)
-    except json.JSONDecodeError as e:
-        raise InputError(
-            path,
-            f"line {e.lineno}, column {e.colno}",
-            Text(e.msg),
-            "GeoJSON (RFC 7946), valid JSON",
-        ) from None
-    except ValueError as e:
-        raise InputError(path, "", Text(str(e)), "GeoJSON (RFC 7946), valid JSON") from None
+        return orjson.loads(data[3:] if data.startswith(b"\xef\xbb\xbf") else data)
+    except orjson.JSONDecodeError:
+        return _parse_checked(path)
+
+
+def _features(path: Path) -> list[dict]:
+    doc = _parse(path)
     kind = doc.get("type") if isinstance(doc, dict) else None
     if kind == "Feature":
         return [doc]
@@ -189,6 +188,29 @@ def _features(path: Path) -> list[dict]:
         kind if isinstance(kind, str) else Text("no type"),
         "a Feature or FeatureCollection (an area needs its properties)",
     )
+
+
+def _parse_checked(path: Path) -> object:
+    """The file's JSON by the standard library, bad input as one :class:`InputError` line
+    (the place as line and column)."""
+    try:
+        text = path.read_bytes().decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        raise InputError(path, f"byte {e.start + 1}", Text("not UTF-8"), "UTF-8 text") from None
+    except OSError as e:
+        raise InputError(path, "", Text(e.strerror or "unreadable"), "a readable file") from None
+    try:
+        doc = json.loads(text, parse_constant=_refuse_constant)
+    except json.JSONDecodeError as e:
+        raise InputError(
+            path,
+            f"line {e.lineno}, column {e.colno}",
+            Text(e.msg),
+            "GeoJSON (RFC 7946), valid JSON",
+        ) from None
+    except ValueError as e:
+        raise InputError(path, "", Text(str(e)), "GeoJSON (RFC 7946), valid JSON") from None
+    return doc
 
 
 def _area(path: Path, i: int, feature: object, seen: dict[str, str]) -> Area:

@@ -15,6 +15,11 @@ DEFAULT_TARGET_FRACTION = 0.9
 DEFAULT_MARGIN_H = 1.0
 """Be compliant this long before the boundary [h] (common practice)."""
 
+SERVICE_ENDURANCE_H = 8.0
+"""A service tank holds at least 8 h at MCR ([SOLAS-1974] II-1/26.11 [P]); one at the valve
+that runs dry sooner at the planned draw must be refilled by transfer while the changeover
+is watched, so the plan warns (a later dry time is the ordinary transfer routine) [h]."""
+
 MIN_CONFIDENCE = 0.5
 """Lowest confidence a Monte Carlo start may be asked for [-] (below it is not a margin)."""
 

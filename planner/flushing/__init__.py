@@ -11,15 +11,17 @@ exponential):
   (:mod:`~planner.flushing.schedule`): consumption against time;
 - :class:`FlushResult`, :class:`InletCurve`, :class:`TankCurve`
   (:mod:`~planner.flushing.result`): curves, crossing times, masses;
-- :func:`flush`, :func:`summarize`, :class:`CircuitSummary`
-  (:mod:`~planner.flushing.summary`): the headline figures per circuit.
+- :func:`flush`, :func:`summarize`, :class:`CircuitSummary`, :class:`NeverReached`
+  (:mod:`~planner.flushing.summary`): the headline figures per circuit;
+- :class:`Until` (:mod:`~planner.flushing.until`): when a flush is over.
 """
 
 from planner.flushing.network import Switch, make_switch
 from planner.flushing.result import FlushResult, InletCurve, TankCurve
 from planner.flushing.schedule import ConsumptionSchedule, schedule_at
 from planner.flushing.simulate import FlushError, simulate
-from planner.flushing.summary import CircuitSummary, flush, summarize
+from planner.flushing.summary import CircuitSummary, NeverReached, flush, summarize
+from planner.flushing.until import Until
 
 __all__ = [
     "CircuitSummary",
@@ -27,8 +29,10 @@ __all__ = [
     "FlushError",
     "FlushResult",
     "InletCurve",
+    "NeverReached",
     "Switch",
     "TankCurve",
+    "Until",
     "flush",
     "make_switch",
     "schedule_at",

@@ -29,6 +29,14 @@ class FlushError(ValueError):
     """The simulation cannot go on: a tank runs dry or a flow would reverse."""
 
 
+class TankDry(FlushError):
+    """A tank runs dry during a step: ``tank`` at ``time_h`` [h after the switch]."""
+
+    def __init__(self, tank: str, time_h: float) -> None:
+        super().__init__(f"tank {tank!r} runs dry at t = {time_h:.3f} h")
+        self.tank, self.time_h = tank, float(time_h)
+
+
 def normalise(phi: np.ndarray) -> np.ndarray:
     """Volume fractions clipped at 0 and scaled to sum 1 along the last axis.
 

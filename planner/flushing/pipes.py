@@ -119,6 +119,19 @@ class PipeSet:
              ((2.0 * s1 - 3.0) * s1 + 1.0) * s1 - ((2.0 * s0 - 3.0) * s0 + 1.0) * s0), axis=-1)
         return np.einsum("np,npb,npbf->f", ln, parts, self.coef[lo:hi])
 
+    def max_linear(self, w: np.ndarray, pipes: np.ndarray) -> float:
+        """An upper bound of ``w·c`` (``w`` (F,)) over every parcel with a part inside the
+        pipes selected by ``pipes`` (P,) bool: ``w·m + |w·g| + max(w·k, −w·k/2)`` (|P₁| ≤ 1,
+        −½ ≤ P₂ ≤ 1). −inf when no parcel is inside them."""
+        lo, hi = self._lo, self._hi
+        st, ln = self.start[lo:hi], self.length[lo:hi]
+        inside = (st < self.volume_m3) & (st + ln > 0.0) & pipes
+        if not inside.any():
+            return -np.inf
+        g = self.coef[lo:hi][inside] @ w  # (n, 3)
+        bound = g[:, 0] + np.abs(g[:, 1]) + np.maximum(g[:, 2], -0.5 * g[:, 2])
+        return float(bound.max())
+
     def push(self, volume_m3: np.ndarray, coefficients: np.ndarray, every: bool) -> None:
         """Add a parcel at the inlet end of every pipe: ``volume_m3`` (P,) m³ of
         ``coefficients`` (P, 3, F); unless ``every``, pipes with no volume take none."""

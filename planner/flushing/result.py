@@ -16,7 +16,7 @@ and a front (two samples at one time) gives its time exactly.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cached_property
 from types import MappingProxyType
 
@@ -166,6 +166,15 @@ class FlushResult:
 
     ``inventory_*_m3`` and ``burnt_m3`` are per fuel (F,) over the whole
     network (tanks, volumes and pipes): initial = final + burnt to round-off.
+
+    ``end`` says why the record ends at ``time_h[-1]``: ``"horizon"`` (the time
+    asked for), ``"settled"`` (every inlet at the level and nothing flowing
+    above it, :mod:`planner.flushing.until`) or ``"tank_dry"`` (a tank ran dry
+    after the inlets reached the level). ``tank_dry_h`` maps each tank that runs
+    dry, in the simulation or after it at the final blend along the rest of the
+    schedule, to that time [h after the switch]. ``schedule_read_h``: how far the
+    consumption schedule was read [h after the switch]: the end of the record, or the
+    longest horizon when the dry times were extended along the schedule.
     """
 
     fuels: tuple[Fuel, ...]
@@ -178,6 +187,9 @@ class FlushResult:
     burnt_m3: np.ndarray
     warnings: tuple[str, ...]
     n_steps: int
+    tank_dry_h: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+    end: str = "horizon"
+    schedule_read_h: float = 0.0
 
     def circuit_inlets(self, circuit: str) -> list[InletCurve]:
         """The inlet curves of ``circuit``'s consumers."""
@@ -211,6 +223,10 @@ def build_result(
     output_step_h: float,
     warnings: tuple[str, ...],
     n_steps: int,
+    *,
+    tank_dry_h: Mapping[str, float] | None = None,
+    end: str = "horizon",
+    schedule_read_h: float = 0.0,
 ) -> FlushResult:
     """Assemble a :class:`FlushResult` from the simulator's record.
 
@@ -227,6 +243,12 @@ def build_result(
         The simulation's warnings (a tank over its capacity).
     n_steps : int [-]
         Number of internal steps taken.
+    tank_dry_h : mapping, optional [h]
+        Tank name -> when it runs dry, h after the switch.
+    end : str, default "horizon"
+        Why the record ends (:class:`FlushResult`).
+    schedule_read_h : float, default 0 [h]
+        How far the schedule was read, if beyond the record.
 
     Returns
     -------
@@ -274,6 +296,9 @@ def build_result(
         burnt_m3=burnt[-1].sum(0),
         warnings=warnings,
         n_steps=n_steps,
+        tank_dry_h=MappingProxyType(dict(tank_dry_h or {})),
+        end=end,
+        schedule_read_h=max(float(schedule_read_h), float(step_t[-1])),
     )
 
 

@@ -39,7 +39,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from planner.flushing.flowmap import FlowMap, Flows
-from planner.flushing.flows import FlushError, steady_state
+from planner.flushing.flows import FlushError, TankDry, steady_state
 from planner.flushing.fronts import Fronts, advance_fronts, initial_fronts
 from planner.flushing.network import STIRRED, Network, Switch, compile_network
 from planner.flushing.pipes import PipeSet
@@ -56,9 +56,10 @@ from planner.flushing.trial import (
     next_exponent,
     try_step,
 )
+from planner.flushing.until import Until, Watch, run_dry_after_h
 from planner.ship.system import FuelSystem
 
-__all__ = ["FlushError", "simulate"]
+__all__ = ["FlushError", "Until", "simulate"]
 
 _JUMP = 1e-9  # a change of inlet volume fraction between steps that resets the slope [-]
 
@@ -72,6 +73,7 @@ def simulate(
     output_step_s: float = 10.0,
     tolerance: float = 1e-3,
     max_step_h: float = 2.0,
+    until: Until | None = None,
 ) -> FlushResult:
     """Simulate the circuits of ``switches`` from the switch (t = 0) to ``horizon_h``.
 
@@ -94,6 +96,14 @@ def simulate(
         out; the frozen consumption flows may be off by a tenth of it (relative).
     max_step_h : float, default 2 [h]
         Longest internal step.
+    until : Until, optional
+        Stop at the first output time at which the circuit's inlets are at the
+        level and nothing still flowing upstream is above it
+        (:mod:`planner.flushing.until`); ``horizon_h`` is then the longest
+        simulated time. A tank running dry after the inlets reached the level
+        ends the simulation there instead of refusing it; either way
+        :attr:`FlushResult.tank_dry_h` gives when each tank runs (or would run,
+        at the final blend along the rest of the schedule) dry.
 
     Returns
     -------
@@ -104,7 +114,8 @@ def simulate(
     Raises
     ------
     FlushError
-        When a tank runs dry or a link flow would turn negative.
+        When a tank runs dry (before the inlets reach the level, with ``until``)
+        or a link flow would turn negative.
     ValueError
         A horizon or an option that is not positive, or a consumer without rate.
 
@@ -147,10 +158,39 @@ def simulate(
     run = _settings(net, schedule, horizon_h, output_step_s, tolerance, max_step_h)
     state, rec = _start(run)
     cache = PropagatorCache(run.output_step_h)
+    watch = None if until is None else Watch(until, net, run.inlets.of_consumer)
+    n_out, end, dry = run.n_out, "horizon", {}
     while state.time_h < run.end_h - 1e-12 * run.end_h:
-        _advance(run, state, rec, cache)
+        try:
+            _advance(run, state, rec, cache)
+        except TankDry as exc:
+            if watch is None or watch.reached_h is None:
+                raise FlushError(str(exc) if watch is None else
+                                 f"{exc}, before every inlet of circuit {until.circuit!r} "
+                                 f"is at {until.level_pct:.3f} % m/m") from None
+            dry[exc.tank] = exc.time_h
+            n_out, end = math.floor(state.time_h / run.output_step_h + 1e-9), "tank_dry"
+            break
+        if watch is not None and state.grid is not None and _over(watch, state):
+            n_out, end = state.grid, "settled"
+            break
+    read_h = 0.0
+    if watch is not None:
+        read_h = run.end_h
+        if until.dry_within_h is not None:
+            read_h = min(read_h, max(state.time_h, until.dry_within_h))
+        dry = {**run_dry_after_h(run, state.inlet[run.inlets.of_consumer], state.volume_m3,
+                                 state.time_h, read_h), **dry}
     warnings = tuple(state.warnings)
-    return build_result(net, rec, run.n_out, run.output_step_h, warnings, state.n_steps)
+    return build_result(net, rec, n_out, run.output_step_h, warnings, state.n_steps,
+                        tank_dry_h=dry, end=end,
+                        schedule_read_h=read_h)
+
+
+def _over(watch: Watch, state: _State) -> bool:
+    """At an output time: is the flush over (:meth:`Watch.over`)?"""
+    return watch.over(state.time_h, state.inlet, state.x, state.stirred_out_m3h, state.pipes,
+                      state.pipe_flow_m3h)
 
 
 def _settings(
@@ -213,6 +253,8 @@ class _State:
     warnings: list[str]
     over_capacity: set[str]  # tanks already warned about
     n_steps: int = 0
+    stirred_out_m3h: np.ndarray | None = None  # the last step's outflows (S,)
+    pipe_flow_m3h: np.ndarray | None = None  # the last step's pipe flows (P,)
 
 
 def _start(run: Run) -> tuple[_State, Recorder]:
@@ -243,6 +285,7 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     step, fl = trial.step, trial.flows
     h = step.h
     x_new, vol_new = _commit_stirred(run, state, step, fl)
+    _check_tanks(run, state, vol_new, fl, t, t + h)
     qp = fl.pipe_flow
     flowing = qp > NO_FLOW_M3H
     through = qp * h
@@ -261,7 +304,7 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     state.fronts = advance_fronts(state.fronts, run.net.pipe_volume_m3, through.tolist(),
                                   fl.into_pipes[:, len(run.net.stirred):])
     rec.add_state(h * trial.consumption_m3h, trial.inlet_mean, vol_new, x_new)
-    _check_tanks(run, state, vol_new, fl, t, t + h)
+    state.stirred_out_m3h, state.pipe_flow_m3h = fl.stirred_out.copy(), qp.copy()
     state.last_end = end[run.inlets.of_consumer]
     state.slope = 2.0 * (state.last_end - trial.inlet_mean) / h
     state.inlet, state.x, state.volume_m3 = inlet, x_new, vol_new
@@ -333,14 +376,16 @@ def _ends(
 def _check_tanks(
     run: Run, state: _State, volume_m3: np.ndarray, fl: Flows, t_h: float, t_end_h: float
 ) -> None:
-    """Raise :class:`FlushError` when a tank ran dry during the step from ``t_h``; warn
-    once for each tank first over its capacity at its end ``t_end_h``."""
+    """Raise :class:`TankDry` when a tank would run dry during the step from ``t_h`` (before
+    anything of the step is recorded); warn once for each tank first over its capacity at
+    its end ``t_end_h``."""
     net = run.net
     vt = volume_m3[run.tanks].tolist()
-    for i, v, cap in zip(run.tanks.tolist(), vt, net.capacity_m3[run.tanks].tolist(), strict=True):
+    for i, v in zip(run.tanks.tolist(), vt, strict=True):
         if v < 0.0:
             t_dry = t_h + state.volume_m3[i] / (fl.stirred_out[i] - fl.stirred_in[i])
-            raise FlushError(f"tank {net.stirred[i]!r} runs dry at t = {t_dry:.3f} h")
+            raise TankDry(net.stirred[i], t_dry)
+    for i, v, cap in zip(run.tanks.tolist(), vt, net.capacity_m3[run.tanks].tolist(), strict=True):
         if v > cap * (1 + 1e-9) and net.stirred[i] not in state.over_capacity:
             state.over_capacity.add(net.stirred[i])
             state.warnings.append(

@@ -75,7 +75,8 @@ def default_tanks(system: FuelSystem, circuit: str) -> tuple[str, str]:
 
 
 def study(system: FuelSystem, circuit: str, from_: str, to: str, schedule: ConsumptionSchedule,
-          limit_pct: float, target_pct: float, *, thermal: bool = True) -> FlushStudy:
+          limit_pct: float, target_pct: float, *, thermal: bool = True,
+          dry_within_h: float | None = None) -> FlushStudy:
     """Simulate a circuit's changeover and follow each inlet's viscosity path.
 
     Parameters
@@ -94,6 +95,9 @@ def study(system: FuelSystem, circuit: str, from_: str, to: str, schedule: Consu
     thermal : bool, default True
         Also each inlet's temperature and viscosity path and the lead it
         needs (:mod:`planner.ship.thermal`); False leaves them out.
+    dry_within_h : float, optional [h]
+        How long after the switch to look for tanks running dry
+        (:func:`~planner.flushing.summary.flush`).
 
     Returns
     -------
@@ -105,7 +109,7 @@ def study(system: FuelSystem, circuit: str, from_: str, to: str, schedule: Consu
         stays inside the engine's window).
     """
     result, summary = flush(system, circuit, from_, to, schedule, limit_pct=limit_pct,
-                            target_pct=target_pct)
+                            target_pct=target_pct, dry_within_h=dry_within_h)
     paths: dict[str, InletPath] = {}
     leads: dict[str, float | None] = {}
     if thermal:

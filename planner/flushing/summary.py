@@ -15,10 +15,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from planner.flushing.flows import FlushError
 from planner.flushing.network import Switch, make_switch
 from planner.flushing.result import FlushResult
 from planner.flushing.schedule import ConsumptionSchedule
 from planner.flushing.simulate import simulate
+from planner.flushing.until import Until
 from planner.ship.system import FuelSystem
 
 
@@ -136,6 +138,63 @@ def summarize(
     )
 
 
+SETTLE_FRACTION = 1e-3
+"""A flush is recorded until every inlet is within 0.1 % of the fuels' sulphur difference of
+the new fuel (our choice: past every target, so the viscosity path reaches the new fuel; the
+steps there are long and few)."""
+
+
+class NeverReached(FlushError):
+    """The new fuel itself is over the limit: no flush can bring the inlets to it."""
+
+
+def _content_sulphur_pct(system: FuelSystem, tank: str) -> tuple[float, str]:
+    """Sulphur of a tank's content by mass, % m/m, and what it is (a fuel's name or a blend)."""
+    content = system.tanks[tank].content_m3
+    mass = {f: v * system.fuels[f].density_kg_m3 for f, v in content.items() if v > 0.0}
+    total = sum(mass.values())
+    s = sum(m * system.fuels[f].sulphur_pct for f, m in mass.items()) / total
+    what = f"fuel {next(iter(mass))!r}" if len(mass) == 1 else "the blend"
+    return s, what
+
+
+def stop_level_pct(system: FuelSystem, sw: Switch, limit_pct: float,
+                   target_pct: float) -> float | None:
+    """The level a flush runs until: the target, else the limit when only that is reachable.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    sw : Switch
+        The changeover (its tanks).
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target.
+
+    Returns
+    -------
+    float or None [% m/m]
+        None when neither is reachable going back to a fuel (the flush then runs to
+        its longest horizon, as it has no end to wait for).
+
+    Raises
+    ------
+    NeverReached
+        Going to a lower-sulphur fuel whose tank content is over the limit: one line
+        naming the fuel, its sulphur and the limit.
+    """
+    s_to, what = _content_sulphur_pct(system, sw.to_tank)
+    s_from, _ = _content_sulphur_pct(system, sw.from_tank)
+    if s_to <= s_from:
+        if s_to > limit_pct:
+            raise NeverReached(
+                f"{what} in tank {sw.to_tank!r} has {s_to:.2f} % m/m sulphur: it can never "
+                f"bring the inlets of circuit {sw.circuit!r} to the {limit_pct:.2f} % m/m limit")
+        return target_pct if s_to < target_pct else limit_pct if s_to < limit_pct else None
+    return target_pct if s_to > target_pct else limit_pct if s_to > limit_pct else None
+
+
 def flush(
     system: FuelSystem,
     circuit: str,
@@ -145,12 +204,16 @@ def flush(
     *,
     limit_pct: float,
     target_pct: float,
-    horizon_h: float = 6.0,
+    horizon_h: float = 0.0,
     max_horizon_h: float = 96.0,
     others: Sequence[Switch] = (),
+    tail_factor: float = 0.0,
+    tail_h: float = 0.0,
+    settle_fraction: float = SETTLE_FRACTION,
+    dry_within_h: float | None = None,
     **options: float,
 ) -> tuple[FlushResult, CircuitSummary]:
-    """Simulate ``circuit``'s changeover until its target is reached, and summarise it.
+    """Simulate ``circuit``'s changeover until its target is reached for good, and summarise it.
 
     Parameters
     ----------
@@ -165,12 +228,24 @@ def flush(
         Sulphur limit.
     target_pct : float [% m/m]
         Planning target (:func:`summarize`).
-    horizon_h : float, default 6 [h]
-        First horizon; it doubles until the target is reached, or
+    horizon_h : float, default 0 [h]
+        Simulate at least this long.
     max_horizon_h : float, default 96 [h]
-        this longest horizon is simulated.
+        Simulate at most this long.
     others : sequence of Switch
         More switches simulated alongside (other circuits sharing tanks).
+    tail_factor : float, default 0 [-]
+        Go on to ``(1 + tail_factor)·t₁ + tail_h`` after the inlets first
+        reached the target at ``t₁`` (a chart's context).
+    tail_h : float, default 0 [h]
+        See ``tail_factor``.
+    settle_fraction : float, default :data:`SETTLE_FRACTION` [-]
+        The record goes on until every inlet is also this close to the new fuel's
+        sulphur (a fraction of the two tanks' difference), so the viscosity path
+        read from it reaches the new fuel (0: stop at the target).
+    dry_within_h : float, optional [h]
+        Look for tanks running dry after the stop only this long after the switch
+        (None: to ``max_horizon_h``); the schedule is read no further.
     **options : float
         ``output_step_s`` [s], ``tolerance`` [-], ``max_step_h`` [h] of
         :func:`~planner.flushing.simulate.simulate`.
@@ -178,18 +253,40 @@ def flush(
     Returns
     -------
     result : FlushResult
-        The last simulation.
+        The simulation, ended at the first output time at which every inlet of
+        the circuit is at the target (or at the limit when the target is out
+        of reach), and nothing still flowing is beyond it, and (waited for up
+        to three times as long) the same within ``settle_fraction`` of the new
+        fuel
+        (:mod:`planner.flushing.until`; provably for good), or at
+        ``max_horizon_h``. A tank that runs dry only after the inlets reached
+        the target ends it there and is given in ``result.tank_dry_h``, with
+        every tank that would run dry later along ``schedule``.
     summary : CircuitSummary
         Its summary for ``circuit``; ``time_to_target_h`` None when the target
         is not reached by ``max_horizon_h``. The models are the simulator's
         ([LEVENSPIEL-1999] well-stirred washout and plug flow): exact for plug
         flow, and within a second of the closed forms at the default tolerance
         in the tests.
+
+    Raises
+    ------
+    NeverReached
+        The new fuel is itself over the limit (:func:`stop_level_pct`).
+    FlushError
+        A tank runs dry before the inlets reach the target, or a pump cannot
+        cover the consumption.
     """
     sw = make_switch(system, circuit, from_, to)
-    while True:
-        result = simulate(system, (sw, *others), schedule, horizon_h, **options)
-        summary = summarize(system, result, circuit, limit_pct, target_pct)
-        if summary.time_to_target_h is not None or horizon_h >= max_horizon_h:
-            return result, summary
-        horizon_h = min(2.0 * horizon_h, max_horizon_h)
+    level = stop_level_pct(system, sw, limit_pct, target_pct)
+    s_to, s_from = (_content_sulphur_pct(system, t)[0] for t in (sw.to_tank, sw.from_tank))
+    down = s_to <= s_from
+    record = None
+    if level is not None and settle_fraction > 0.0:
+        near = s_to + settle_fraction * (s_from - s_to)
+        record = min(level, near) if down else max(level, near)
+    until = None if level is None else Until(circuit, level, down, tail_factor, tail_h,
+                                             horizon_h, record, dry_within_h)
+    result = simulate(system, (sw, *others), schedule, max(max_horizon_h, horizon_h),
+                      until=until, **options)
+    return result, summarize(system, result, circuit, limit_pct, target_pct)

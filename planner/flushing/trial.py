@@ -126,7 +126,7 @@ def try_step(
     rate = run.rates_t_h[at.segment] * 1000.0
     s = len(run.net.stirred)
     while True:
-        consumption = _draw_m3h(rate, at.inlet + (0.5 * h_try) * at.slope, run.draw_kg_m3)
+        consumption = draw_m3h(rate, at.inlet + (0.5 * h_try) * at.slope, run.draw_kg_m3)
         fl = run.flow_map.flows(consumption, t)
         if run.filled.size and _refresh(run, volume_m3, fl.stirred_in):
             fl = run.flow_map.flows(consumption, t)
@@ -147,8 +147,23 @@ def try_step(
         return Trial(step, fl, props, consumption, mean, h_try, err, k)
 
 
-def _draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.ndarray:
-    """Volumetric draw (C,) m³/h of rates (C,) kg/h at inlet blends ``phi`` (C, F)."""
+def draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.ndarray:
+    """Volumetric draw of each consumer at its inlet blend, ``v = m·(φ·1)/(φ·κ)``.
+
+    Parameters
+    ----------
+    rate_kg_h : ndarray (C,) [kg/h]
+        The consumers' rates.
+    phi : ndarray (C, F) [-]
+        Volume fractions of the fuels at each inlet.
+    kappa : ndarray (F, 2) [kg/m³]
+        What one m³ of each fuel counts for against the rates, and 1 (the fractions' sum).
+
+    Returns
+    -------
+    ndarray (C,) [m³/h]
+        The draws ([LEVENSPIEL-1999] mass balance [D]).
+    """
     d = np.maximum(phi, 0.0).dot(kappa)
     return rate_kg_h * d[:, 1] / d[:, 0]
 
@@ -212,10 +227,10 @@ def _flow_error(
     inlet blend, over its allowance (a tenth of the tolerance)."""
     used = run.used[segment]
     if used is None:
-        actual = _draw_m3h(run.rates_t_h[segment] * 1000.0, inlet_mean, run.draw_kg_m3)
+        actual = draw_m3h(run.rates_t_h[segment] * 1000.0, inlet_mean, run.draw_kg_m3)
         rel = np.abs(actual / consumption_m3h - 1.0)
     elif used.size:
-        actual = _draw_m3h(run.rates_t_h[segment][used] * 1000.0, inlet_mean[used],
+        actual = draw_m3h(run.rates_t_h[segment][used] * 1000.0, inlet_mean[used],
                            run.draw_kg_m3)
         rel = np.abs(actual / consumption_m3h[used] - 1.0)
     else:

@@ -41,6 +41,7 @@ from typing import TypeVar
 
 import numpy as np
 
+from planner.common.defaults import SERVICE_ENDURANCE_H
 from planner.flushing import ConsumptionSchedule, FlushResult, Switch, flush, simulate
 from planner.flushing.study import FlushStudy
 from planner.ship.system import FuelSystem
@@ -141,9 +142,9 @@ def schedule_window(schedule: ConsumptionSchedule, consumers: Sequence[str],
 
 
 def simulated_end_h(result: FlushResult) -> float:
-    """The last moment a simulation computed, h after the switch (its output grid's end, or a
-    later trace point)."""
-    ends = [float(result.time_h[-1])]
+    """The last moment a simulation computed or read of its schedule, h after the switch (its
+    output grid's end, a later trace point, or how far it extended the tanks' levels)."""
+    ends = [float(result.time_h[-1]), float(result.schedule_read_h)]
     ends += [float(c.trace_time_h[-1]) for c in result.inlets.values() if c.trace_time_h.size]
     return max(ends)
 
@@ -263,7 +264,8 @@ class FlushCache:
 
         def compute() -> FlushStudy:
             result, summary = flush(system, circuit, from_tank, to_tank, schedule,
-                                    limit_pct=limit_pct, target_pct=target_pct)
+                                    limit_pct=limit_pct, target_pct=target_pct,
+                                    dry_within_h=SERVICE_ENDURANCE_H)
             return FlushStudy(result, summary, {}, {})
 
         st = self._remember("flush", base, schedule, _consumers(system, circuit), compute,

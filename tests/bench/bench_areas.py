@@ -5,10 +5,12 @@ pyproj.Geod.fwd, radius 300 km round 50°N, 10° of longitude apart) totalling
 the given number of vertices into a temporary folder, then, in a fresh
 process per size so that the peak memory is that size's own:
 
-- *json*: reading and parsing the files with the standard library, the least
-  any loader pays (the baseline the ratio is taken against);
-- *load_areas*: reading, every check on every ring, and the plane rings the
-  checks build (kept with each area for the crossing search);
+- *json*: reading and parsing the files with the standard library's ``json``
+  (the baseline the ratio is taken against: a plain-Python loader pays at least
+  this);
+- *load_areas*: reading (parsed by orjson), every check on every ring, and the
+  plane rings the checks build (kept with each area for the crossing search),
+  so a ratio below 1 is a loader faster than the standard library's parse alone;
 - the peak resident memory of that process (``resource.getrusage``).
 
 Not collected by pytest (pytest runs with --ignore=tests/bench). Run from the
@@ -37,6 +39,9 @@ import pyproj
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from cpu import cpu_model  # noqa: E402
 
 from geo.area_files import load_areas  # noqa: E402
 
@@ -104,7 +109,7 @@ def run_child(folder: Path, repeat: int) -> dict:
 
 
 def machine() -> str:
-    return (f"{platform.processor() or platform.machine()}, {os.cpu_count()} cores, "
+    return (f"{cpu_model()}, {os.cpu_count()} cores, "
             f"Python {platform.python_version()}, load average {os.getloadavg()[0]:.2f}")
 
 

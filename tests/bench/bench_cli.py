@@ -30,6 +30,9 @@ import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[2]
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from cpu import cpu_model  # noqa: E402
 
 _SCRIPT = Path(sys.executable).with_name("changeover")
 CHANGEOVER = [str(_SCRIPT)] if _SCRIPT.exists() else [sys.executable, "-m", "planner"]
@@ -74,7 +77,7 @@ def report(times: dict[str, list[tuple[float, float]]]) -> None:
     above it [ms], median processor time [ms]."""
     wall = {name: [w for w, _ in ts] for name, ts in times.items()}
     base_med, base_min = statistics.median(wall[BASELINE]), min(wall[BASELINE])
-    print(f"machine: {platform.processor() or platform.machine()}, {os.cpu_count()} CPUs, "
+    print(f"machine: {cpu_model()}, {os.cpu_count()} CPUs, "
           f"Python {platform.python_version()}, {len(wall[BASELINE])} runs each")
     print(f"{'command':<24}{'median ms':>10}{'min ms':>8}{'median/base':>13}{'min/base':>10}"
           f"{'above base ms':>15}{'cpu ms':>8}")

@@ -30,6 +30,9 @@ import numpy as np
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from cpu import cpu_model  # noqa: E402
 
 from planner.flushing import flush, make_switch, schedule_at  # noqa: E402
 from planner.flushing.network import CONSUMER, PIPE, STIRRED, compile_network  # noqa: E402
@@ -146,7 +149,7 @@ def spread(times: list[float]) -> str:
 
 
 def main() -> None:
-    print(f"machine: {platform.processor() or platform.machine()} "
+    print(f"machine: {cpu_model()} "
           f"({platform.machine()}), {os.cpu_count()} cores, Python {platform.python_version()}, "
           f"numpy {np.__version__}")
     for name, path, from_, to in CASES:

@@ -27,6 +27,9 @@ import numpy as np
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from cpu import cpu_model  # noqa: E402
 
 from planner.flushing import schedule_at  # noqa: E402
 from planner.ship.ship_file import load_ship  # noqa: E402
@@ -84,7 +87,7 @@ def main() -> None:
                     spec=spec, samples=10_000, seed=0, progress=count)
         times.append(time.perf_counter() - t0)
     whole = statistics.median(times)
-    print(f"machine: {platform.processor() or platform.machine()}, {os.cpu_count()} CPUs, "
+    print(f"machine: {cpu_model()}, {os.cpu_count()} CPUs, "
           f"Python {platform.python_version()}, numpy {np.__version__}")
     print(f"{ship.ship.name} (fictional), main circuit, 10 000 samples, seed 0")
     print(f"  whole analysis: {whole:.2f} s median of 3 "

@@ -13,6 +13,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from planner.common.defaults import SERVICE_ENDURANCE_H
 from planner.flushing import ConsumptionSchedule, Switch, flush, schedule_at, simulate
 from planner.flushing.study import study
 from planner.ship.ship_file import load_ship
@@ -51,6 +52,8 @@ def same_result(a, b) -> bool:
         for f in ("trace_time_h", "trace_fractions", "fractions", "burnt_m3"):
             if not np.array_equal(getattr(ca, f), getattr(cb, f)):
                 return False
+    if dict(a.tank_dry_h) != dict(b.tank_dry_h) or a.end != b.end:
+        return False
     return all(np.array_equal(t.fractions, b.tanks[k].fractions) for k, t in a.tanks.items())
 
 
@@ -58,7 +61,7 @@ def test_a_hit_is_the_uncached_study(ship):
     cache = FlushCache()
     s = steps(ship)
     got = cache.study(ship, CIRCUIT, FROM, TO, s, LIMIT, TARGET)
-    ref = study(ship, CIRCUIT, FROM, TO, s, LIMIT, TARGET)
+    ref = study(ship, CIRCUIT, FROM, TO, s, LIMIT, TARGET, dry_within_h=SERVICE_ENDURANCE_H)
     assert got.summary == ref.summary
     assert same_result(got.result, ref.result)
     assert got.lead_h == ref.lead_h and got.paths.keys() == ref.paths.keys()
@@ -125,8 +128,10 @@ def test_what_the_simulation_does_not_read_hits(ship):
     loaded again: hits, and the uncached flush of each is the same bit for bit."""
     cache = FlushCache()
     first = cache.study(ship, CIRCUIT, FROM, TO, steps(ship), LIMIT, TARGET, thermal=False)
-    assert first.summary.horizon_h == 6.0
-    later = steps(ship, (0.0, 6.5), aux_boiler=(0.3, 0.1), main_engine=(1.3, 0.2))
+    # the flush ends once settled, but the tanks' levels are followed to the longest horizon
+    assert first.summary.horizon_h < 1.0 and first.result.end == "settled"
+    assert first.result.schedule_read_h == 96.0
+    later = steps(ship, (0.0, 96.5), aux_boiler=(0.3, 0.1), main_engine=(1.3, 0.2))
     other = steps(ship, main_engine=(0.4,), dg1=(0.0,))
     for system, sched in ((ship, later), (ship, other), (load_ship(SHIP), steps(ship))):
         assert cache.study(system, CIRCUIT, FROM, TO, sched, LIMIT, TARGET,
@@ -135,6 +140,18 @@ def test_what_the_simulation_does_not_read_hits(ship):
                                 target_pct=TARGET)
         assert summary == first.summary and same_result(result, first.result)
     assert cache.counts()["flush"] == (3, 1)
+
+
+def test_a_change_after_the_flush_that_moves_a_tank_dry_time_misses(ship):
+    """The boiler's draw doubled 10 h after the switch: the flush is the same, but the
+    service tank runs dry sooner, so the cache must not hand back the first result."""
+    cache = FlushCache()
+    first = cache.study(ship, CIRCUIT, FROM, TO, steps(ship), LIMIT, TARGET, thermal=False)
+    more = steps(ship, (0.0, 10.0), aux_boiler=(0.3, 30.0))
+    got = cache.study(ship, CIRCUIT, FROM, TO, more, LIMIT, TARGET, thermal=False)
+    assert got is not first and cache.counts()["flush"] == (0, 2)
+    assert got.summary == first.summary
+    assert got.result.tank_dry_h["mgo_service"] < 10.0 + 26.0 / (30.0 / 0.85) + 1e-6
 
 
 def test_the_window_keeps_a_segment_at_the_end(ship):

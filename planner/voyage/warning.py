@@ -1,0 +1,39 @@
+"""One warning of the plan, typed: its kind and the text as printed.
+
+The checks that make them are in :mod:`planner.voyage.checks` (quantity, caution
+zones, viscosity, early start, unusual input) and :mod:`planner.voyage.fuel_checks`
+(flash point, a tank running dry after the flush, a legal fuel passed over).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+WarningKind = Literal["departs_inside", "quantity", "caution_zone", "viscosity",
+                      "start_before_departure", "unusual_input", "swapped_lat_lon",
+                      "flash_point", "fuel_passed_over",
+                      "tank_dry"]
+
+
+@dataclass(frozen=True)
+class PlanWarning:
+    """One warning of the plan.
+
+    Parameters
+    ----------
+    kind : WarningKind
+        ``"departs_inside"`` (be on compliant fuel before departure),
+        ``"quantity"`` (short of a fuel), ``"caution_zone"``, ``"viscosity"``,
+        ``"start_before_departure"``, ``"unusual_input"`` (a ship-file value
+        outside its usual range), ``"swapped_lat_lon"`` (a route waypoint),
+        ``"flash_point"`` (a distillate near its flash point), ``"fuel_passed_over"``
+        (a fuel within the limit by its delivery note that the fuel-choice margin passes
+        over) or ``"tank_dry"`` (a tank at a changeover valve that runs dry soon after
+        the flush).
+    text : str
+        The warning as printed (JSON ``warnings``, terminal, PDF).
+    """
+
+    kind: WarningKind
+    text: str
