@@ -106,7 +106,8 @@ def test_any_input_that_matters_misses(ship, what):
     assert cache.counts()["flush"] == (0, 2)
     assert got is not first
     result, summary = flush(args["system"], CIRCUIT, args["from_"], args["to"],
-                            args["schedule"], limit_pct=args["limit"], target_pct=args["target"])
+                            args["schedule"], limit_pct=args["limit"], target_pct=args["target"],
+                            dry_within_h=SERVICE_ENDURANCE_H)
     assert got.summary == summary and same_result(got.result, result)
 
 
@@ -118,7 +119,8 @@ def test_the_same_change_of_consumption_later_misses(ship):
     first = cache.study(ship, CIRCUIT, FROM, TO, early, LIMIT, TARGET, thermal=False)
     got = cache.study(ship, CIRCUIT, FROM, TO, later, LIMIT, TARGET, thermal=False)
     assert got is not first and cache.counts()["flush"] == (0, 2)
-    result, summary = flush(ship, CIRCUIT, FROM, TO, later, limit_pct=LIMIT, target_pct=TARGET)
+    result, summary = flush(ship, CIRCUIT, FROM, TO, later, limit_pct=LIMIT, target_pct=TARGET,
+                            dry_within_h=SERVICE_ENDURANCE_H)
     assert got.summary == summary and same_result(got.result, result)
     assert summary.time_to_target_h != first.summary.time_to_target_h
 
@@ -128,30 +130,32 @@ def test_what_the_simulation_does_not_read_hits(ship):
     loaded again: hits, and the uncached flush of each is the same bit for bit."""
     cache = FlushCache()
     first = cache.study(ship, CIRCUIT, FROM, TO, steps(ship), LIMIT, TARGET, thermal=False)
-    # the flush ends once settled, but the tanks' levels are followed to the longest horizon
+    # the flush ends once settled, but the tanks' levels are followed for the service
+    # tank's endurance (a tank running dry later is the ordinary transfer routine)
     assert first.summary.horizon_h < 1.0 and first.result.end == "settled"
-    assert first.result.schedule_read_h == 96.0
-    later = steps(ship, (0.0, 96.5), aux_boiler=(0.3, 0.1), main_engine=(1.3, 0.2))
+    assert first.result.schedule_read_h == SERVICE_ENDURANCE_H
+    later = steps(ship, (0.0, SERVICE_ENDURANCE_H + 0.5), aux_boiler=(0.3, 0.1),
+                  main_engine=(1.3, 0.2))
     other = steps(ship, main_engine=(0.4,), dg1=(0.0,))
     for system, sched in ((ship, later), (ship, other), (load_ship(SHIP), steps(ship))):
         assert cache.study(system, CIRCUIT, FROM, TO, sched, LIMIT, TARGET,
                            thermal=False) is first
         result, summary = flush(system, CIRCUIT, FROM, TO, sched, limit_pct=LIMIT,
-                                target_pct=TARGET)
+                                target_pct=TARGET, dry_within_h=SERVICE_ENDURANCE_H)
         assert summary == first.summary and same_result(result, first.result)
     assert cache.counts()["flush"] == (3, 1)
 
 
 def test_a_change_after_the_flush_that_moves_a_tank_dry_time_misses(ship):
-    """The boiler's draw doubled 10 h after the switch: the flush is the same, but the
+    """The boiler's draw raised 5 h after the switch: the flush is the same, but the
     service tank runs dry sooner, so the cache must not hand back the first result."""
     cache = FlushCache()
     first = cache.study(ship, CIRCUIT, FROM, TO, steps(ship), LIMIT, TARGET, thermal=False)
-    more = steps(ship, (0.0, 10.0), aux_boiler=(0.3, 30.0))
+    more = steps(ship, (0.0, 5.0), aux_boiler=(0.3, 30.0))
     got = cache.study(ship, CIRCUIT, FROM, TO, more, LIMIT, TARGET, thermal=False)
     assert got is not first and cache.counts()["flush"] == (0, 2)
     assert got.summary == first.summary
-    assert got.result.tank_dry_h["mgo_service"] < 10.0 + 26.0 / (30.0 / 0.85) + 1e-6
+    assert got.result.tank_dry_h["mgo_service"] < 5.0 + 26.0 / (30.0 / 0.85) + 1e-6
 
 
 def test_the_window_keeps_a_segment_at_the_end(ship):
