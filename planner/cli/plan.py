@@ -80,25 +80,49 @@ def _build(voyage: Path, confidence: float | None, samples: int, seed: int,
 
 def _write(plan: Plan, doc: dict, geojson: Path | None, chart: Path | None,
            map_png: Path | None, pdf: Path | None) -> None:
-    """The files asked for: chart, map, PDF and GeoJSON."""
+    """The files asked for: chart, map, PDF (with the map and the chart) and GeoJSON."""
     from planner.common.outputs import write_json
     from planner.voyage.report import plan_geojson
 
     if chart is not None:
-        from planner.charts.plan_chart import draw_plan_chart
+        from planner.charts.route_map import save_figure
 
-        draw_plan_chart(plan, chart)
+        save_figure(_chart(plan, doc), chart)
     if map_png is not None:
-        from planner.charts.plan_marks import plan_marks
-        from planner.charts.route_map import draw_route_map
+        from planner.charts.route_map import save_figure
 
-        draw_route_map(plan.check, map_png, extra=plan_marks(plan, doc))
+        save_figure(_map(plan, doc), map_png)
     if pdf is not None:
+        from planner.charts.route_map import figure_png
         from planner.documents.plan_pdf import write_plan_pdf
 
-        write_plan_pdf(pdf, doc)
+        figures = [(figure_png(_map(plan, doc)), "Route map: the areas, caution zones, route "
+                    "and crossings, numbered as the changeovers above (a crossing without a "
+                    "changeover is unnumbered); dots: changeover starts with their number. "
+                    "A sketch, not for navigation."),
+                   (figure_png(_chart(plan, doc)), "Sulphur at each circuit's inlet along the "
+                    "voyage against UTC, with the limit in force; the lines are the crossings, "
+                    "numbered as the changeovers.")]
+        write_plan_pdf(pdf, doc, figures=figures)
     if geojson is not None:
         write_json(geojson, plan_geojson(plan, doc))
+
+
+def _map(plan: Plan, doc: dict):
+    """The route map figure with the plan's marks and changeover numbers."""
+    from planner.charts.plan_marks import crossing_labels, events_of, plan_marks
+    from planner.charts.route_map import map_figure
+
+    return map_figure(plan.check, plan_marks(plan, doc),
+                      crossing_labels(events_of(plan, doc)))
+
+
+def _chart(plan: Plan, doc: dict):
+    """The sulphur chart figure, its events numbered as the changeovers."""
+    from planner.charts.plan_chart import chart_figure
+    from planner.charts.plan_marks import events_of
+
+    return chart_figure(plan, events_of(plan, doc))
 
 
 def _document(plan: Plan, confidence: float | None, samples: int, seed: int,

@@ -14,6 +14,7 @@ Building blocks, each returning reportlab flowables:
 - :func:`data_table`: a table with a repeated head row, widths in mm;
 - :func:`signature_block`: signature, name and date lines for each role;
 - :func:`caution_box`: a ruled, tinted box with a heading and lines;
+- :func:`figure`: a chart or map (PNG) the frame's width, with its caption;
 - :func:`build_pdf`: lays out the story and writes the file all-or-nothing.
 """
 
@@ -98,6 +99,21 @@ def _cell(value: object, style: str):
 
 class Markup(str):
     """Cell text that already holds Paragraph markup (``<strike>``, ``<b>``)."""
+
+
+def figure(png: bytes, caption: str, width_mm: float = FRAME_WIDTH_MM) -> list:
+    """A picture (PNG bytes) the frame's width, its aspect kept, with a caption beneath;
+    kept together on one page."""
+    import io
+
+    from reportlab.lib.units import mm
+    from reportlab.lib.utils import ImageReader
+    from reportlab.platypus import Image, KeepTogether
+
+    w_px, h_px = ImageReader(io.BytesIO(png)).getSize()
+    w = width_mm * mm
+    return [KeepTogether([Image(io.BytesIO(png), width=w, height=w * h_px / w_px),
+                          para(caption, "small")])]
 
 
 def data_table(header: Sequence[str], rows: Sequence[Sequence[object]],

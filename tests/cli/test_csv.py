@@ -22,7 +22,8 @@ from tests.helpers.terminal import position
 SAMPLE = ROOT / "areas_sample"
 ROUTE = ["route", "areas_sample/aldmere_to_skarvik.csv", "--depart", "2027-05-30T06:00+12:00"]
 UNIT = re.compile(r"\((h|nm|t|kg|°|° '|kn|m³|m³/h|min|cSt|% m/m|% MCR|m³ at 15 °C|number|"
-                  r"UTC, ISO 8601|ship's time, ISO 8601|fraction|t, by fuel|\+12:00|h after the switch)\)$")
+                  r"UTC, ISO 8601|ship's time, ISO 8601|fraction|t, by fuel|\+12:00|"
+                  r"h after the switch)\)$")
 WORDS = {"Area", "Circuit", "Direction", "From fuel", "To fuel", "Fuel", "Under", "Event",
          "In force", "Main driver", "Volume", "Kind", "Fed from"}
 
