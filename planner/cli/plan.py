@@ -41,6 +41,12 @@ def plan_cmd(
                                                  "changeover points (PNG).")] = None,
     pdf: Annotated[Path | None, typer.Option(help="The plan for signature (PDF).")] = None,
     csv: CsvOpt = None,
+    sheets: Annotated[Path | None, typer.Option(help="Watch sheets: one page per changeover "
+                                                "for the engineer on watch and the bridge "
+                                                "(PDF).")] = None,
+    paper: Annotated[str, typer.Option(help="Paper of --sheets: a4 or letter.")] = "a4",
+    gpx: Annotated[Path | None, typer.Option(help="Changeover start, compliant and boundary "
+                                             "points as GPX 1.1 waypoints.")] = None,
     confidence: ConfidenceOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
@@ -49,11 +55,13 @@ def plan_cmd(
     from planner.common.outputs import dumps
 
     check_csv_folder(csv)
+    _check_paper(paper)
     check_confidence(confidence)
     n_samples, n_seed = check_samples(samples, PLAN_SAMPLES), check_seed(seed)
     plan, doc = _build(voyage, confidence, n_samples, n_seed, json_out)
     _write(plan, doc, geojson, chart, map_png, pdf)
-    written = [p for p in (geojson, chart, map_png, pdf) if p is not None]
+    _write_watch(plan, doc, sheets, paper, gpx)
+    written = [p for p in (geojson, chart, map_png, pdf, sheets, gpx) if p is not None]
     if csv is not None:
         from planner.cli.csv_tables import plan_csv, write_csv_dir
 
@@ -106,6 +114,32 @@ def _write(plan: Plan, doc: dict, geojson: Path | None, chart: Path | None,
         write_plan_pdf(pdf, doc, figures=figures)
     if geojson is not None:
         write_json(geojson, plan_geojson(plan, doc))
+
+
+def _check_paper(paper: str) -> None:
+    """``--paper``: a4 or letter."""
+    from geo.errors import InputError
+
+    if paper not in ("a4", "letter"):
+        raise InputError("--paper", "", paper, "a4 or letter")
+
+
+def _write_watch(plan: Plan, doc: dict, sheets: Path | None, paper: str,
+                 gpx: Path | None) -> None:
+    """The watch sheets (PDF) and the GPX waypoints, when asked for."""
+    if sheets is not None:
+        from planner.documents.watch_facts import watch_sheets
+        from planner.documents.watch_sheets_pdf import write_watch_sheets
+
+        v = doc["voyage"]
+        write_watch_sheets(sheets, watch_sheets(plan), ship=f"{v['ship']} · IMO {v['imo']}",
+                           voyage=v["name"], paper=paper)
+    if gpx is not None:
+        from planner.charts.plan_marks import events_of
+        from planner.documents.gpx_marks import plan_waypoints, write_gpx
+
+        write_gpx(gpx, plan_waypoints(doc, events_of(plan, doc)),
+                  name=f"{doc['voyage']['name']}: changeover marks")
 
 
 def _map(plan: Plan, doc: dict):
