@@ -119,6 +119,12 @@ def print_flush(system: FuelSystem, studies: list[FlushStudy], tables: dict[str,
     echo_lines(flush_lines(system, studies, tables, load, mc, margin_h, width()))
 
 
+def _within(u: CircuitUncertainty, x: float | None) -> str:
+    """A time after the switch [h], or a dash when it is beyond the analysis horizon (a
+    quantile that falls among samples never reaching the level)."""
+    return DASH if x is None or not x <= u.horizon_h else f"{x:.2f}"
+
+
 def uncertainty_table(mc: list[CircuitUncertainty]) -> TextTable:
     """Quantiles of the time to target and the lead at the confidence, per circuit."""
     c = mc[0].confidence
@@ -128,8 +134,9 @@ def uncertainty_table(mc: list[CircuitUncertainty]) -> TextTable:
         q = u.time_quantiles("target")
         lo, hi = u.lead_at_confidence_interval_h
         extra = u.extra_compliant_t
-        rows.append([atom(u.circuit), _short(u.deterministic.time_to_target_h), _short(q[0.5]),
-                     _short(q[0.9]), _short(q[0.99]), _short(u.time_at_confidence_h),
+        rows.append([atom(u.circuit), _short(u.deterministic.time_to_target_h),
+                     _within(u, q[0.5]), _within(u, q[0.9]), _within(u, q[0.99]),
+                     _within(u, u.time_at_confidence_h),
                      _short(u.lead_at_confidence_h),
                      DASH if lo is None and hi is None else f"{_short(lo)}-{_short(hi)}",
                      _short(u.lead_limit_at_confidence_h),

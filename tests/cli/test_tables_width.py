@@ -173,3 +173,44 @@ def test_procedure_table_whole(tmp_path):
             for r in c["rows"]:
                 assert on_a_line(f"{r['time_to_target_h']:.2f}", text)
                 assert on_a_line(f"{r['start_before_h']:.2f}", text)
+
+
+def test_plan_confidence_table_whole():
+    args = [*PLAN, "--confidence", "0.9", "--samples", "100"]
+    doc = json.loads(piped([*args, "--json"]))
+    rows = [r for r in doc["changeovers"] if "start_p50_utc" in r]
+    assert rows
+    for width, text in outputs(args).items():
+        check_lines(text, width)
+        for r in rows:
+            assert on_a_line(utc_full(r["start_p50_utc"]), text)
+            assert on_a_line(utc_full(r["start_confidence_utc"]), text)
+            assert on_a_line(f"{r['lead_confidence_h']:.2f}", text)
+
+
+def test_flush_uncertainty_tables_whole():
+    args = ["flush", "areas_sample/ship.toml", "--circuit", "main", "--confidence", "0.9",
+            "--samples", "100"]
+    doc = json.loads(piped([*args, "--json"]))
+    u = doc["circuits"][0]["uncertainty"]
+    for width, text in outputs(args).items():
+        check_lines(text, width)
+        assert on_a_line(f"{u['lead_at_confidence_h']:.2f}", text)
+        assert on_a_line(f"{u['time_to_target_at_confidence_h']:.2f}", text)
+        for s in u["swings"]:
+            assert on_a_line(f"{s['low']:.4f} % m/m" if s["unit"] == "% m/m" else
+                             f"{s['low']:.3f}", text)
+        # no quantile beyond the analysis horizon is printed as a number
+        assert not re.search(r"\d{9,}", text)
+
+
+def test_readme_excerpt_is_the_real_output_at_80_columns(plan):
+    from tests.helpers.paths import ROOT
+
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    marker = "A real excerpt, at 80 columns:\n\n```\n"
+    assert marker in readme
+    excerpt = readme.split(marker, 1)[1].split("\n```", 1)[0]
+    _, texts = plan
+    assert excerpt in texts[80]
+    assert all(len(line) <= 80 for line in excerpt.splitlines())
