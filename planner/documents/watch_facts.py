@@ -182,9 +182,12 @@ def watch_sheets(plan: Plan) -> list[WatchSheet]:
             steps += _steps(plan, part, ch.limit_pct, down)
         boundary = _moment(plan, ch.boundary_epoch_s)
         assert boundary is not None
-        steps.append(Step(boundary, "", f"boundary: {'enter' if down else 'exit'} {ch.area} ("
-                          + ("every inlet compliant by now" if down else
-                             "the switch back may begin") + ")", record=True))
+        if ch.before_departure:
+            what = f"departure inside {ch.area}: every inlet compliant before departure"
+        else:
+            what = f"boundary: {'enter' if down else 'exit'} {ch.area} (" + (
+                "every inlet compliant by now" if down else "the switch back may begin") + ")"
+        steps.append(Step(boundary, "", what, record=True))
         steps.sort(key=lambda s: (s.when is None, s.when.utc if s.when else 0))
         readings, step = _readings(plan, ch.circuits)
         out.append(WatchSheet(

@@ -118,6 +118,8 @@ def _readings(s: WatchSheet, day: str, ship_day: str, off: str) -> list:
 def _event(what: str) -> str:
     """A step's short name for the record: ``valve switched``, ``compliant`` ..."""
     head = what.split(":")[0]
+    if head.startswith("departure inside"):
+        return "departed"
     return {"switch the valve": "valve switched", "boundary": "boundary crossed"}.get(head, head)
 
 
