@@ -3,9 +3,9 @@
 Every boundary crossing is an event; a crossing where a changeover is made
 carries that changeover's number (the one in the plan's tables, the PDF and
 ``log start --changeover N``), and a crossing with none is listed unnumbered
-with why. A changeover tied to no crossing (one before departure, or an event
-the plan adds such as an area coming into force while the ship is inside it)
-is an event of its own at its boundary. The map, the chart and the GPX
+with why. A changeover tied to no crossing (one before departure, or one at an
+area coming into force, or ceasing to apply, while the ship is inside it) is an
+event of its own at its boundary, named so. The map, the chart and the GPX
 waypoints all take their labels from :func:`plan_events`, so they agree.
 Pure data (no matplotlib).
 """
@@ -20,9 +20,10 @@ MATCH_NM = 0.01
 
 @dataclass(frozen=True)
 class PlanEvent:
-    """One event: ``number`` (the changeover's, or None), ``kind`` (``enter``, ``exit``
-    or the changeover's own direction), the area, the moment (ISO 8601 UTC or None), the
-    position [° WGS84], the distance from departure [nm] and a short note."""
+    """One event: ``number`` (the changeover's, or None), ``kind`` (``enter``, ``exit``,
+    ``before departure``, ``comes into force`` or ``ceases to apply``), the area, the
+    moment (ISO 8601 UTC or None), the position [° WGS84], the distance from departure
+    [nm] and a short note."""
 
     number: int | None
     kind: str
@@ -69,15 +70,21 @@ def plan_events(crossings: list[dict], changeovers: list[dict]) -> list[PlanEven
                     and abs(r["boundary_nm"] - c["distance_nm"]) <= MATCH_NM), None)
         if hit is not None:
             used.add(hit["number"])
-        note = _note(hit) if hit else "no changeover here (the fuel in use already meets " \
-            "the limit after it)" if c["event"] == "enter" else \
-            "no changeover here (stay on compliant fuel to the next area)"
+        if hit:
+            note = _note(hit)
+        elif not c.get("in_force", True):
+            note = "not in force then: no changeover here"
+        elif c["event"] == "enter":
+            note = "no changeover here (the fuel in use already meets the limit after it)"
+        else:
+            note = "no changeover here (stay on compliant fuel to the next area)"
         out.append(PlanEvent(hit["number"] if hit else None, c["event"], c["area"],
                              c["time_utc"], c["lat"], c["lon"], c["distance_nm"], note))
     for n, r in firsts.items():
         if n in used or r.get("boundary_lat") is None:
             continue
-        kind = "before departure" if r.get("before_departure") else r["direction"]
+        kind = ("before departure" if r.get("before_departure") else
+                "comes into force" if r["direction"] == "to_compliant" else "ceases to apply")
         out.append(PlanEvent(n, kind, r["area"], r.get("boundary_utc"), r["boundary_lat"],
                              r["boundary_lon"], r.get("boundary_nm") or 0.0, _note(r)))
     return sorted(out, key=lambda e: (e.distance_nm, e.number or 0))

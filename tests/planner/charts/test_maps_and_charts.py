@@ -208,3 +208,26 @@ def test_lat_labels_and_steps():
         "41°15'S", "41°S", "40°45'S", "40°30'S", "40°15'S", "40°S", "39°45'S"]
     assert lat_label(0.0) == "0°" and lat_label(12.5) == "12°30'N"
     assert tick_step_min(0.05) == 1 and tick_step_min(40.0) == 300
+
+
+def test_an_area_coming_into_force_inside_is_its_own_numbered_event(tmp_path):
+    """tests/data/voyages/future_inside.toml (its head comment): the ship enters Future
+    Five ECA at 5°E (23:40Z) before the area comes into force at 2030-07-01 00:00Z
+    (future_5e.geojson ``effective_from``), 20 min later at 12 kn, 4 nm on, at 120.0 nm;
+    the changeover is for that moment, not for the crossing."""
+    from planner.charts.plan_marks import events_of
+    from planner.voyage.report import plan_json
+    from planner.voyage.run import build_plan
+
+    plan = build_plan(ROOT / "tests" / "data" / "voyages" / "future_inside.toml")
+    doc = plan_json(plan)
+    events = events_of(plan, doc)
+    assert [(e.number, e.kind) for e in events] == [(None, "enter"), (1, "comes into force")]
+    crossing, in_force = events
+    assert crossing.note.startswith("not in force then")
+    assert in_force.time_utc == "2030-07-01T00:00:00Z"
+    assert abs(in_force.distance_nm - 120.0) < 0.01 and crossing.distance_nm < 120.0
+    pdf = tmp_path / "chart.pdf"
+    run("plan", "tests/data/voyages/future_inside.toml", "--chart", str(pdf))
+    assert "1 comes into force Future Five ECA" in text(pdf)
+    assert "- enter Future Five ECA" in text(pdf)
