@@ -1,17 +1,24 @@
-"""Voyage chart: sulphur at each circuit's inlet along the voyage, the limit, the boundaries.
+"""Voyage chart: sulphur at each circuit's inlet along the voyage, the limit, the events.
 
-Moments are epoch seconds (``*_epoch_s``: seconds since 1970-01-01 UTC) until
-they are drawn, against UTC.
+Every crossing is marked and labelled as on the plan's map and in its tables
+(:mod:`planner.charts.plan_events`: the changeover's number where one is made,
+unnumbered where none is). Moments are epoch seconds (``*_epoch_s``: seconds
+since 1970-01-01 UTC) until they are drawn, against UTC. PNG, or PDF for a
+``.pdf`` name.
 """
 
 from __future__ import annotations
 
+from datetime import datetime
 from pathlib import Path
 
 import numpy as np
 
-from planner.common.outputs import write_atomic
+from planner.charts.plan_events import PlanEvent
 from planner.voyage.plan import Plan
+
+LINE_STYLES = ("-", "--", "-.", ":")
+"""One per circuit, so the chart reads in black and white."""
 
 
 def inlet_sulphur_along_voyage(plan: Plan, circuit: str) -> tuple[np.ndarray, np.ndarray]:
@@ -40,8 +47,16 @@ def inlet_sulphur_along_voyage(plan: Plan, circuit: str) -> tuple[np.ndarray, np
     return np.array(ts), np.array(ss)
 
 
-def draw_plan_chart(plan: Plan, out: str | Path) -> None:
-    """Write the PNG: inlet sulphur per circuit against UTC, with the limit in force."""
+def draw_plan_chart(plan: Plan, out: str | Path, events: list[PlanEvent] | None = None) -> None:
+    """Write the chart (PNG, or PDF for a ``.pdf`` name); see :func:`chart_figure`."""
+    from planner.charts.route_map import save_figure
+
+    save_figure(chart_figure(plan, events), out)
+
+
+def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
+    """Inlet sulphur per circuit against UTC, with the limit in force and each event
+    (default: each changeover's boundary, numbered in order) as a labelled line."""
     import matplotlib
 
     matplotlib.use("Agg")
@@ -54,21 +69,29 @@ def draw_plan_chart(plan: Plan, out: str | Path) -> None:
                          for v in np.atleast_1d(epoch_s)])
 
     fig, ax = plt.subplots(figsize=(11, 5.5), dpi=120)
-    for circuit in plan.system.circuits:
+    for k, circuit in enumerate(plan.system.circuits):
         t, s = inlet_sulphur_along_voyage(plan, circuit)
-        ax.plot(dt(t), s, lw=1.5, label=f"inlet sulphur, circuit {circuit}")
+        ax.plot(dt(t), s, lw=1.5, ls=LINE_STYLES[k % len(LINE_STYLES)],
+                label=f"inlet sulphur, circuit {circuit}")
     sched = plan.timeline.schedule
     lt, lv = [], []
     for st in plan.check.stretches:
         a, b = (float(x) for x in sched.epoch_at([st.from_m, st.to_m]))
         lt += [a, b]
         lv += [st.limit_pct, st.limit_pct]
-    ax.plot(dt(lt), lv, color="crimson", lw=1.2, ls="--", label="limit in force")
-    for n, ch in enumerate(plan.changes, start=1):
-        ax.axvline(dt(ch.boundary_epoch_s)[0], color="grey", lw=0.7, ls=":")
-        ax.annotate(f"{n} {'enter' if ch.direction == 'to_compliant' else 'exit'} {ch.area}",
-                    (dt(ch.boundary_epoch_s)[0], 0.02), rotation=90, fontsize=7, va="bottom",
-                    xytext=(2, 0), textcoords="offset points")
+    ax.plot(dt(lt), lv, color="black", lw=1.0, label="limit in force")
+    if events is None:
+        events = [PlanEvent(n, "enter" if ch.direction == "to_compliant" else "exit", ch.area,
+                            plan.timeline.utc(ch.boundary_epoch_s).isoformat(), 0.0, 0.0, 0.0,
+                            "") for n, ch in enumerate(plan.changes, start=1)]
+    for e in events:
+        if e.time_utc is None:
+            continue
+        when = datetime.fromisoformat(e.time_utc.replace("Z", "+00:00")).replace(tzinfo=None)
+        ax.axvline(when, color="grey", lw=0.7, ls=":")
+        ax.annotate(f"{e.label or '-'} {e.kind} {e.area}", (when, 0.02), rotation=90,
+                    fontsize=7, va="bottom", xytext=(2, 0), textcoords="offset points",
+                    weight="bold" if e.label else "normal")
     ax.set_ylabel("sulphur, % m/m")
     ax.set_xlabel("UTC")
     ax.xaxis.set_major_formatter(mdates.DateFormatter("%d %b %H:%M"))
@@ -79,5 +102,4 @@ def draw_plan_chart(plan: Plan, out: str | Path) -> None:
     ax.set_title(f"{plan.system.ship.name}: sulphur at the inlets along the voyage "
                  "(advisory)")
     fig.tight_layout()
-    write_atomic(out, lambda p: fig.savefig(p, format="png"), suffix=".png")
-    plt.close(fig)
+    return fig

@@ -1,22 +1,47 @@
-"""Plan marks for the route map: caution zones and every changeover start.
+"""Plan marks for the route map: caution zones, every changeover start with its number,
+and the crossings labelled with the plan's changeover numbers.
 
 A drawing callback for :func:`planner.charts.route_map.draw_route_map`
-(matplotlib is imported by the map, inside its drawing function).
+(matplotlib is imported by the map, inside its drawing function), and the
+crossing labels (:func:`crossing_labels`) from :mod:`planner.charts.plan_events`.
 """
 
 from __future__ import annotations
 
 from collections.abc import Callable
 
+from planner.charts.plan_events import PlanEvent, plan_events
 from planner.voyage.checks import caution_zone_shapes
 from planner.voyage.plan import Plan
 
+CROSSING_KINDS = ("enter", "exit")
+
+
+def events_of(plan: Plan, doc: dict) -> list[PlanEvent]:
+    """The plan's events (every crossing, numbered where a changeover is made)."""
+    from planner.voyage.route_report import route_json
+
+    return plan_events(route_json(plan.check)["crossings"], doc["changeovers"])
+
+
+def crossing_labels(events: list[PlanEvent]) -> list[tuple[str, str]]:
+    """(label, legend line) of each crossing, in the route's order."""
+    out = []
+    for e in events:
+        if e.kind in CROSSING_KINDS:
+            out.append((e.label, f"{e.label or '-':>2}  {e.kind:<5} {e.area} at "
+                        f"{e.distance_nm:,.1f} nm: {e.note}"))
+    return out
+
 
 def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
-    """Extra drawing for the route map: caution zones and every changeover start.
+    """Extra drawing for the route map: caution zones, every changeover start labelled with
+    its changeover's number, and the events that are no crossing (before departure).
 
     ``doc`` is the plan's ``--json`` document (the starts are read from its rows).
     """
+    events = [e for e in events_of(plan, doc) if e.kind not in CROSSING_KINDS]
+
     def draw(ax) -> None:
         import numpy as np
         import shapely
@@ -32,11 +57,19 @@ def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
                 ax.fill(xs, ys, facecolor="none", edgecolor="dimgrey", hatch="////", lw=0.8,
                         label="caution zone" if k == 0 else None)
         first = True
-        for r in doc["changeovers"]:
+        for k, r in enumerate(doc["changeovers"]):
             if r["direction"] != "to_compliant" or r["start_lat"] is None:
                 continue
             lon = r["start_lon"] + 360.0 * round((lon_mid - r["start_lon"]) / 360.0)
             ax.plot(lon, r["start_lat"], "o", color="darkorange", ms=6, mec="black",
-                    label="changeover start" if first else None)
+                    label="changeover start (its number)" if first else None)
+            ax.annotate(str(r["number"]), (lon, r["start_lat"]), textcoords="offset points",
+                        xytext=(-7, 6 if k % 2 else -12), fontsize=8, color="saddlebrown",
+                        ha="center")
             first = False
+        for e in events:
+            lon = e.lon + 360.0 * round((lon_mid - e.lon) / 360.0)
+            ax.plot(lon, e.lat, "D", color="purple", ms=6, label=e.kind)
+            ax.annotate(e.label, (lon, e.lat), textcoords="offset points", xytext=(0, 9),
+                        fontsize=8, ha="center", weight="bold")
     return draw

@@ -2,7 +2,12 @@
 
 Drawn in longitude and latitude with the longitude unwrapped around the
 route (a route across 180° stays in one piece) and the aspect set for the
-mid latitude. A sketch for checking, not a chart for navigation.
+mid latitude. Ticks fall on round steps and say exactly where they are
+(:mod:`planner.charts.geo_ticks`: whole degrees, or degrees and minutes when
+zoomed in). Crossings are numbered 1, 2, ... along the route, or carry the
+labels given (the plan's changeover numbers). Written as PNG, or as PDF when
+the file name ends in ``.pdf`` (vector: its text can be read back). A sketch
+for checking, not a chart for navigation.
 """
 
 from __future__ import annotations
@@ -24,20 +29,45 @@ def _route_line(check: RouteCheck):
     return path.position(d)
 
 
-def _lon_label(x: float) -> str:
-    w = (x + 180.0) % 360.0 - 180.0
-    if abs(abs(w) - 180.0) < 1e-9 or abs(w) < 1e-9:
-        return f"{abs(w):.0f}°"
-    return f"{abs(w):.0f}°{'E' if w > 0 else 'W'}"
+def save_figure(fig, out: str | Path) -> None:
+    """Write a figure atomically: PDF when ``out`` ends in ``.pdf``, else PNG; then close
+    it."""
+    import matplotlib.pyplot as plt
+
+    kind = "pdf" if str(out).lower().endswith(".pdf") else "png"
+    write_atomic(out, lambda p: fig.savefig(p, format=kind), suffix=f".{kind}")
+    plt.close(fig)
 
 
-def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
-    """Write the map PNG. ``extra(ax)`` may draw more (changeover points) on top."""
+def figure_png(fig, dpi: int = 200) -> bytes:
+    """A figure as PNG bytes (for a document), then closed."""
+    import io
+
+    import matplotlib.pyplot as plt
+
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=dpi)
+    plt.close(fig)
+    return buf.getvalue()
+
+
+def draw_route_map(check: RouteCheck, out: str | Path, extra=None,
+                   labels: list[tuple[str, str]] | None = None) -> None:
+    """Write the map (PNG, or PDF for a ``.pdf`` name); see :func:`map_figure`."""
+    save_figure(map_figure(check, extra, labels), out)
+
+
+def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | None = None):
+    """The map as a matplotlib figure. ``extra(ax)`` may draw more (changeover points) on
+    top; ``labels`` gives each crossing's (label, legend line) in order (default: 1, 2,
+    ... with event, area and distance)."""
     import matplotlib
 
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
     import shapely
+
+    from planner.charts.geo_ticks import lat_label, lon_label, ticks_deg
 
     lat, lon = _route_line(check)
     pad = 1.5
@@ -77,28 +107,30 @@ def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
         ax.plot(wl, w.lat, "ks", ms=4)
         ax.annotate(w.name, (wl, w.lat), textcoords="offset points", xytext=(4, -10), fontsize=8)
     notes = []
-    for n, tc in enumerate(check.crossings, start=1):
+    if labels is None:
+        labels = [(str(n), f"{n}  {tc.crossing.event:<5} {tc.crossing.area}  at "
+                   f"{tc.crossing.distance_m / NM_M:,.1f} nm")
+                  for n, tc in enumerate(check.crossings, start=1)]
+    shown = set()
+    for n, (tc, (label, note)) in enumerate(zip(check.crossings, labels, strict=True), 1):
         c = tc.crossing
         cl = c.lon + 360.0 * np.round((lon.mean() - c.lon) / 360.0)
         enter = c.event == "enter"
         ax.plot(cl, c.lat, "v" if enter else "^", color="crimson" if enter else "royalblue",
-                ms=8, label=("enter" if enter else "exit") if n <= 2 else None)
-        ax.annotate(str(n), (cl, c.lat), textcoords="offset points", fontsize=8,
-                    xytext=(0, 9 if n % 2 else -16), ha="center", weight="bold")
-        notes.append(f"{n}  {c.event:<5} {c.area}  at {c.distance_m / NM_M:,.1f} nm")
+                ms=8, label=None if c.event in shown else ("enter" if enter else "exit"))
+        shown.add(c.event)
+        if label:
+            ax.annotate(label, (cl, c.lat), textcoords="offset points", fontsize=8,
+                        xytext=(0, 9 if n % 2 else -16), ha="center", weight="bold")
+        notes.append(note)
     if notes:
         fig.text(0.01, 0.01, "\n".join(notes), fontsize=7, family="monospace", va="bottom")
     if extra is not None:
         extra(ax)
-    ax.set_xlim(x0, x1)
-    ax.set_ylim(y0, y1)
     ax.set_aspect(aspect)
-    ticks = ax.get_xticks()
-    ax.set_xticks(ticks)
-    ax.set_xticklabels([_lon_label(t) for t in ticks])
-    ax.set_yticks(ax.get_yticks())
-    ax.set_yticklabels([f"{abs(t):.0f}°{'N' if t > 0 else 'S' if t < 0 else ''}"
-                        for t in ax.get_yticks()])
+    xt, yt = ticks_deg(x0, x1, 10), ticks_deg(y0, y1, 8)
+    ax.set_xticks(xt, [lon_label(t) for t in xt])
+    ax.set_yticks(yt, [lat_label(t) for t in yt])
     ax.set_ylim(y0, y1)
     ax.set_xlim(x0, x1)
     ax.set_xlabel("longitude")
@@ -108,5 +140,4 @@ def draw_route_map(check: RouteCheck, out: str | Path, extra=None) -> None:
     ax.grid(True, lw=0.3)
     ax.legend(loc="best", fontsize=8)
     fig.tight_layout(rect=(0, 0.03 + 0.018 * len(notes) / (height + 1.8) * 6, 1, 1))
-    write_atomic(out, lambda p: fig.savefig(p, format="png"), suffix=".png")
-    plt.close(fig)
+    return fig

@@ -15,6 +15,7 @@ from typing import TYPE_CHECKING, Annotated
 
 import typer
 
+from planner.cli.csv_tables import CsvOpt, check_csv_folder
 from planner.cli.options import (
     FLUSH_CONFIDENCE,
     FLUSH_SAMPLES,
@@ -83,11 +84,13 @@ def flush_cmd(
     sensitivity_chart: Annotated[Path | None, typer.Option(
         help="Draw what moves the start: one-at-a-time swings and rank correlations (PNG).")]
     = None,
+    csv: CsvOpt = None,
 ) -> None:
     """Flushing time of each circuit after the changeover valve is switched."""
     from planner.common.outputs import dumps
     from planner.voyage.onboard import load_ship_or_voyage
 
+    check_csv_folder(csv)
     check_limit(limit)
     check_confidence(confidence)
     n_samples, n_seed = check_samples(samples, FLUSH_SAMPLES), check_seed(seed)
@@ -105,6 +108,11 @@ def flush_cmd(
     margin_h = check_margin(None, voyage)
     doc = _document(studies, tables if table else None, load, mc, margin_h)
     _draw(system, studies, mc, chart, sensitivity_chart)
+    written = []
+    if csv is not None:
+        from planner.cli.csv_tables import flush_csv, write_csv_dir
+
+        written = write_csv_dir(csv, flush_csv(doc))
     if json_out:
         typer.echo(dumps(doc))
         return
@@ -115,6 +123,8 @@ def flush_cmd(
         typer.echo(f"wrote {chart}")
     if sensitivity_chart is not None and mc:
         typer.echo(f"wrote {sensitivity_chart}")
+    for p in written:
+        typer.echo(f"wrote {p}")
 
 
 def _check_load(load: float | None) -> None:
@@ -165,9 +175,13 @@ def _document(studies: list[FlushStudy], tables: dict[str, list] | None, load: f
               mc: list[CircuitUncertainty] | None, margin_h: float) -> dict:
     """The JSON document: the circuits (with their uncertainty) and, when ``--table`` was
     given (``tables`` not None, perhaps empty), the load tables."""
+    from planner.cli.flush_print import back_on_regular
     from planner.flushing.study import flush_json
 
     doc = flush_json(studies, load)
+    for entry, st in zip(doc["circuits"], studies, strict=True):
+        if st.summary.direction == "to_regular":
+            entry["back_on_regular_pct"], entry["back_on_regular_h"] = back_on_regular(st)
     if mc is not None:
         from planner.uncertainty import uncertainty_json
 

@@ -12,6 +12,7 @@ from typing import TYPE_CHECKING, Annotated
 
 import typer
 
+from planner.cli.csv_tables import CsvOpt, check_csv_folder
 from planner.cli.options import (
     PLAN_SAMPLES,
     ConfidenceOpt,
@@ -26,8 +27,6 @@ from planner.cli.options import (
 if TYPE_CHECKING:
     from collections.abc import Callable
 
-    from rich.console import Console
-
     from planner.voyage.plan import Plan
 
 
@@ -41,6 +40,13 @@ def plan_cmd(
     map_png: Annotated[Path | None, typer.Option("--map", help="Map of areas, route and "
                                                  "changeover points (PNG).")] = None,
     pdf: Annotated[Path | None, typer.Option(help="The plan for signature (PDF).")] = None,
+    csv: CsvOpt = None,
+    sheets: Annotated[Path | None, typer.Option(help="Watch sheets: one page per changeover "
+                                                "for the engineer on watch and the bridge "
+                                                "(PDF).")] = None,
+    paper: Annotated[str, typer.Option(help="Paper of --sheets: a4 or letter.")] = "a4",
+    gpx: Annotated[Path | None, typer.Option(help="Changeover start, compliant and boundary "
+                                             "points as GPX 1.1 waypoints.")] = None,
     confidence: ConfidenceOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
@@ -48,17 +54,24 @@ def plan_cmd(
     """When and where each changeover starts, what it needs, and what to watch."""
     from planner.common.outputs import dumps
 
+    check_csv_folder(csv)
+    _check_paper(paper)
     check_confidence(confidence)
     n_samples, n_seed = check_samples(samples, PLAN_SAMPLES), check_seed(seed)
     plan, doc = _build(voyage, confidence, n_samples, n_seed, json_out)
     _write(plan, doc, geojson, chart, map_png, pdf)
+    _write_watch(plan, doc, sheets, paper, gpx)
+    written = [p for p in (geojson, chart, map_png, pdf, sheets, gpx) if p is not None]
+    if csv is not None:
+        from planner.cli.csv_tables import plan_csv, write_csv_dir
+
+        written += write_csv_dir(csv, plan_csv(doc))
     if json_out:
         typer.echo(dumps(doc))
         return
     print_plan(doc)
-    for p in (geojson, chart, map_png, pdf):
-        if p is not None:
-            typer.echo(f"wrote {p}")
+    for p in written:
+        typer.echo(f"wrote {p}")
 
 
 def _build(voyage: Path, confidence: float | None, samples: int, seed: int,
@@ -75,25 +88,75 @@ def _build(voyage: Path, confidence: float | None, samples: int, seed: int,
 
 def _write(plan: Plan, doc: dict, geojson: Path | None, chart: Path | None,
            map_png: Path | None, pdf: Path | None) -> None:
-    """The files asked for: chart, map, PDF and GeoJSON."""
+    """The files asked for: chart, map, PDF (with the map and the chart) and GeoJSON."""
     from planner.common.outputs import write_json
     from planner.voyage.report import plan_geojson
 
     if chart is not None:
-        from planner.charts.plan_chart import draw_plan_chart
+        from planner.charts.route_map import save_figure
 
-        draw_plan_chart(plan, chart)
+        save_figure(_chart(plan, doc), chart)
     if map_png is not None:
-        from planner.charts.plan_marks import plan_marks
-        from planner.charts.route_map import draw_route_map
+        from planner.charts.route_map import save_figure
 
-        draw_route_map(plan.check, map_png, extra=plan_marks(plan, doc))
+        save_figure(_map(plan, doc), map_png)
     if pdf is not None:
+        from planner.charts.route_map import figure_png
         from planner.documents.plan_pdf import write_plan_pdf
 
-        write_plan_pdf(pdf, doc)
+        figures = [(figure_png(_map(plan, doc)), "Route map: the areas, caution zones, route "
+                    "and crossings, numbered as the changeovers above (a crossing without a "
+                    "changeover is unnumbered); dots: changeover starts with their number. "
+                    "A sketch, not for navigation."),
+                   (figure_png(_chart(plan, doc)), "Sulphur at each circuit's inlet along the "
+                    "voyage against UTC, with the limit in force; the lines are the crossings, "
+                    "numbered as the changeovers.")]
+        write_plan_pdf(pdf, doc, figures=figures)
     if geojson is not None:
         write_json(geojson, plan_geojson(plan, doc))
+
+
+def _check_paper(paper: str) -> None:
+    """``--paper``: a4 or letter."""
+    from geo.errors import InputError
+
+    if paper not in ("a4", "letter"):
+        raise InputError("--paper", "", paper, "a4 or letter")
+
+
+def _write_watch(plan: Plan, doc: dict, sheets: Path | None, paper: str,
+                 gpx: Path | None) -> None:
+    """The watch sheets (PDF) and the GPX waypoints, when asked for."""
+    if sheets is not None:
+        from planner.documents.watch_facts import watch_sheets
+        from planner.documents.watch_sheets_pdf import write_watch_sheets
+
+        v = doc["voyage"]
+        write_watch_sheets(sheets, watch_sheets(plan), ship=f"{v['ship']} · IMO {v['imo']}",
+                           voyage=v["name"], paper=paper)
+    if gpx is not None:
+        from planner.charts.plan_marks import events_of
+        from planner.documents.gpx_marks import plan_waypoints, write_gpx
+
+        write_gpx(gpx, plan_waypoints(doc, events_of(plan, doc)),
+                  name=f"{doc['voyage']['name']}: changeover marks")
+
+
+def _map(plan: Plan, doc: dict):
+    """The route map figure with the plan's marks and changeover numbers."""
+    from planner.charts.plan_marks import crossing_labels, events_of, plan_marks
+    from planner.charts.route_map import map_figure
+
+    return map_figure(plan.check, plan_marks(plan, doc),
+                      crossing_labels(events_of(plan, doc)))
+
+
+def _chart(plan: Plan, doc: dict):
+    """The sulphur chart figure, its events numbered as the changeovers."""
+    from planner.charts.plan_chart import chart_figure
+    from planner.charts.plan_marks import events_of
+
+    return chart_figure(plan, events_of(plan, doc))
 
 
 def _document(plan: Plan, confidence: float | None, samples: int, seed: int,
@@ -111,98 +174,29 @@ def _document(plan: Plan, confidence: float | None, samples: int, seed: int,
     return doc
 
 
-def _dm(lat: float | None, lon: float | None) -> str:
-    from geo.position import format_position
+def plan_lines(doc: dict, cols: int) -> list[str]:
+    """The plan as text ``cols`` characters wide: its head line, the tables
+    (:mod:`planner.cli.plan_tables`), then the notes, warnings and cautions."""
+    from planner.cli.console import table_lines, text_lines
+    from planner.cli.plan_tables import plan_tables, utc_full
 
-    return "—" if lat is None else format_position(lat, lon)
-
-
-def _t(iso: str | None) -> str:
-    return "—" if iso is None else iso.replace("T", " ")[:16] + ("Z" if iso.endswith("Z") else "")
+    v = doc["voyage"]
+    out = text_lines(f"{v['ship']} — {v['name']}: {v['distance_nm']:,.1f} nm, departs "
+                     f"{utc_full(v['depart_utc'])}, arrives {utc_full(v['arrive_utc'])}; "
+                     f"compliant {v['time_margin_h']:g} h before each boundary, sulphur "
+                     f"target {v['sulphur_target_fraction']:.0%} of the limit", cols)
+    out += ["", *table_lines(plan_tables(doc), cols)]
+    for n in doc["notes"]:
+        out += text_lines(n, cols, "Note: ")
+    for w in doc["warnings"]:
+        out += text_lines(w, cols, "Warning: ")
+    for c in doc["cautions"]:
+        out += text_lines(c, cols)
+    return out
 
 
 def print_plan(doc: dict) -> None:
-    """The plan as tables on the terminal."""
-    from planner.cli.console import console
+    """The plan on standard output, laid out for its width."""
+    from planner.cli.console import echo_lines, width
 
-    con = console()
-    v = doc["voyage"]
-    con.print(f"[bold]{v['ship']}[/bold] — {v['name']}: {v['distance_nm']:,.1f} nm, departs "
-              f"{_t(v['depart_utc'])}, arrives {_t(v['arrive_utc'])}; compliant "
-              f"{v['time_margin_h']:g} h before each boundary, sulphur target "
-              f"{v['sulphur_target_fraction']:.0%} of the limit")
-    _print_changeovers(con, doc)
-    if "uncertainty" in doc:
-        _print_confidence(con, doc)
-    _print_fuel(con, doc)
-    for n in doc["notes"]:
-        con.print(f"[cyan]Note:[/cyan] {n}")
-    for w in doc["warnings"]:
-        con.print(f"[yellow]Warning:[/yellow] {w}")
-    for c in doc["cautions"]:
-        con.print(f"[dim]{c}[/dim]")
-
-
-def _print_changeovers(con: Console, doc: dict) -> None:
-    """The changeovers table: start, compliant and boundary, times and positions."""
-    from planner.cli.console import table
-
-    t = table("Changeovers", [("#", "r"), ("Area", "w"), ("Circuit", "l"), ("Change", "l"),
-                              ("Start UTC", "l"), ("Start ship's time", "l"),
-                              ("Start position", "l"), ("Compliant / done UTC", "l"),
-                              ("Boundary UTC", "l"), ("Boundary position", "l"),
-                              ("Margin h", "r"), ("Takes h", "r")])
-    for r in doc["changeovers"]:
-        change = f"{r['from_fuel']} → {r['to_fuel']}"
-        done = r["compliant_utc"] or r["complete_utc"]
-        t.add_row(str(r["number"]), r["area"], r["circuit"], change, _t(r["start_utc"]),
-                  (r["start_ship_time"] or "—").replace("T", " "),
-                  _dm(r["start_lat"], r["start_lon"]), _t(done), _t(r["boundary_utc"]),
-                  _dm(r["boundary_lat"], r["boundary_lon"]), f"{r['margin_h']:.2f}",
-                  "—" if r["duration_h"] is None else f"{r['duration_h']:.2f}")
-    con.print(t)
-
-
-def _print_confidence(con: Console, doc: dict) -> None:
-    """The starts at the confidence (Monte Carlo), changeovers to compliant fuel only."""
-    from planner.cli.console import table
-
-    u = doc["uncertainty"]
-    ut = table(f"Start at {u['confidence']:.0%} confidence ({u['samples']} samples, seed "
-               f"{u['seed']}; main driver: {u['main_driver'] or '—'})",
-               [("#", "r"), ("Circuit", "l"), ("P50 start UTC", "l"),
-                (f"{u['confidence']:.0%} start UTC", "l"), ("Lead h", "r"),
-                ("Extra compliant t", "r"), ("Driver", "w")])
-    for r in doc["changeovers"]:
-        if "start_p50_utc" in r:
-            ut.add_row(str(r["number"]), r["circuit"], _t(r["start_p50_utc"]),
-                       _t(r["start_confidence_utc"]),
-                       "—" if r["lead_confidence_h"] is None else
-                       f"{r['lead_confidence_h']:.2f}",
-                       "—" if r["extra_compliant_t"] is None else
-                       f"{r['extra_compliant_t']:.2f}", r["main_driver"] or "—")
-    con.print(ut)
-
-
-def _print_fuel(con: Console, doc: dict) -> None:
-    """Fuel on each stretch, fuel needed against on board, and the SO₂ formed in each area."""
-    from planner.cli.console import table
-
-    s = table("Fuel on each stretch", [("From nm", "r"), ("To nm", "r"), ("Limit %", "r"),
-                                       ("Under", "w"), ("Fuel", "l"), ("From UTC", "l")])
-    for st in doc["stretches"]:
-        s.add_row(f"{st['from_nm']:,.1f}", f"{st['to_nm']:,.1f}", f"{st['limit_pct']:.2f}",
-                  ", ".join(st["areas"]) or "global cap", st["fuel"], _t(st["from_utc"]))
-    con.print(s)
-    q = table("Fuel needed (valve switch to valve switch) against fuel on board",
-              [("Fuel", "l"), ("Needed t", "r"), ("Needed m³ at 15 °C", "r"),
-               ("On board t", "r"), ("Spare t", "r")])
-    for f, x in doc["fuel_totals"].items():
-        q.add_row(f, f"{x['needed_t']:.1f}", f"{x['needed_m3_15c']:.1f}",
-                  f"{x['on_board_t']:.1f}", f"{x['on_board_t'] - x['needed_t']:.1f}")
-    con.print(q)
-    so = table("SO₂ formed inside each area", [("Area", "w"), ("As planned kg", "r"),
-                                               (f"On {doc['regular_fuel']} kg", "r")])
-    for a, x in doc["so2"]["areas"].items():
-        so.add_row(a, f"{x['so2_kg']:,.0f}", f"{x['so2_on_regular_kg']:,.0f}")
-    con.print(so)
+    echo_lines(plan_lines(doc, width()))

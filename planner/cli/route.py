@@ -12,16 +12,13 @@ work's own progress texts where it gives them. ``--json``, ``--depart`` and
 
 from __future__ import annotations
 
-from datetime import timezone
 from pathlib import Path
-from typing import TYPE_CHECKING, Annotated
+from typing import Annotated
 
 import typer
 
+from planner.cli.csv_tables import CsvOpt, check_csv_folder
 from planner.cli.options import DepartOpt, JsonOpt, TzOpt
-
-if TYPE_CHECKING:
-    from geo.compliance import RouteCheck
 
 AreasOpt = Annotated[list[Path], typer.Option("--areas", "-a", help="Area GeoJSON file or folder "
                                               "of .geojson files (repeatable).")]
@@ -41,6 +38,7 @@ def route_cmd(
     = None,
     map_png: Annotated[Path | None, typer.Option("--map", help="Draw a PNG map of areas, route "
                                                  "and crossings.")] = None,
+    csv: CsvOpt = None,
 ) -> None:
     """Where and when the route enters and leaves each area, and the limit on every stretch."""
     from planner.cli.options import ship_zone
@@ -49,6 +47,7 @@ def route_cmd(
     from planner.voyage import run
     from planner.voyage.route_report import route_geojson, route_json
 
+    check_csv_folder(csv)
     zone = ship_zone(tz, depart)
     with status("checking the route", json_out) as say:
         check = run.run_route_check(route_file, areas, depart, speed, on,
@@ -62,58 +61,39 @@ def route_cmd(
             draw_route_map(check, map_png)
         if geojson is not None:
             write_json(geojson, route_geojson(check))
+    written = [p for p in (geojson, map_png) if p is not None]
+    if csv is not None:
+        from planner.cli.csv_tables import route_csv, write_csv_dir
+
+        written += write_csv_dir(csv, route_csv(doc))
     if json_out:
         typer.echo(dumps(doc))
         return
-    print_route_check(check, zone)
-    for p in (geojson, map_png):
-        if p is not None:
-            typer.echo(f"wrote {p}")
+    print_route_check(doc)
+    for p in written:
+        typer.echo(f"wrote {p}")
 
 
-def print_route_check(check: RouteCheck, zone: timezone) -> None:
-    """Tables of crossings, stretches and time inside each area."""
-    from geo.position import format_position
-    from planner.cli.console import console, table
-    from planner.common.timefmt import format_offset, format_ship, format_utc
+def route_lines(doc: dict, cols: int) -> list[str]:
+    """The route check as text ``cols`` characters wide: the head line, then the tables of
+    crossings, stretches and time inside each area (:mod:`planner.cli.route_tables`)."""
+    from planner.cli.console import table_lines, text_lines
+    from planner.cli.plan_tables import utc_full
+    from planner.cli.route_tables import route_tables
 
-    con = console()
-    path = check.path
-    sched = check.schedule
-    head = f"Route {path.route.name or path.route.source}: {path.length_nm:,.1f} nm in " \
-           f"{path.n_legs} legs"
-    if sched:
-        head += f", departs {format_utc(sched.depart_utc)}, arrives {format_utc(sched.arrive_utc)}"
+    r = doc["route"]
+    head = f"Route {r['name'] or r['file']}: {r['distance_nm']:,.1f} nm in {r['legs']} legs"
+    if r["depart_utc"]:
+        head += f", departs {utc_full(r['depart_utc'])}, arrives {utc_full(r['arrive_utc'])}"
     else:
-        head += f"; no times given, areas judged as in force on {check.on.isoformat()}"
-    con.print(head)
-    t = table("Boundary crossings", [
-        ("Area", "w"), ("Event", "l"), ("Position", "l"), ("Leg", "r"), ("Dist nm", "r"),
-        ("UTC", "l"), (f"Ship's time {format_offset(zone)}", "l"), ("In force", "l"),
-        ("Then limit %", "r")])
-    for tc in check.crossings:
-        c = tc.crossing
-        t.add_row(c.area, c.event, format_position(c.lat, c.lon), str(c.leg + 1),
-                  f"{c.distance_nm:,.2f}", format_utc(tc.time_utc),
-                  format_ship(tc.time_utc, zone, with_offset=False), "yes" if tc.in_force else "no",
-                  f"{tc.limit_pct:.2f}")
-    if not check.crossings:
-        con.print("The route crosses no area boundary.")
-    else:
-        con.print(t)
-    s = table("Sulphur limit along the route", [
-        ("From nm", "r"), ("To nm", "r"), ("Length nm", "r"), ("Limit % m/m", "r"),
-        ("Under", "w"), ("From UTC", "l"), ("To UTC", "l")])
-    for st in check.stretches:
-        s.add_row(f"{st.from_nm:,.2f}", f"{st.to_nm:,.2f}", f"{st.to_nm - st.from_nm:,.2f}",
-                  f"{st.limit_pct:.2f}", ", ".join(st.areas) or "global cap",
-                  format_utc(st.from_utc), format_utc(st.to_utc))
-    con.print(s)
-    a = table("Time inside each area", [
-        ("Area", "w"), ("Limit % m/m", "r"), ("Inside nm", "r"), ("Inside h", "r")])
-    for p in check.passages:
-        a.add_row(p.area.name, f"{p.area.sulphur_limit_pct:.2f}", f"{p.inside_nm:,.2f}",
-                  "—" if p.inside_h is None else f"{p.inside_h:,.2f}")
-    con.print(a)
-    con.print("[dim]Advisory only. Official area boundaries and limits are those in MARPOL "
-              "Annex VI and national law.[/dim]")
+        head += f"; no times given, areas judged as in force on {doc['rules_on']}"
+    return [*text_lines(head, cols), "", *table_lines(route_tables(doc), cols),
+            *text_lines("Advisory only. Official area boundaries and limits are those in "
+                        "MARPOL Annex VI and national law.", cols)]
+
+
+def print_route_check(doc: dict) -> None:
+    """The route check on standard output, laid out for its width."""
+    from planner.cli.console import echo_lines, width
+
+    echo_lines(route_lines(doc, width()))

@@ -14,6 +14,7 @@ Building blocks, each returning reportlab flowables:
 - :func:`data_table`: a table with a repeated head row, widths in mm;
 - :func:`signature_block`: signature, name and date lines for each role;
 - :func:`caution_box`: a ruled, tinted box with a heading and lines;
+- :func:`figure`: a chart or map (PNG) the frame's width, with its caption;
 - :func:`build_pdf`: lays out the story and writes the file all-or-nothing.
 """
 
@@ -100,12 +101,29 @@ class Markup(str):
     """Cell text that already holds Paragraph markup (``<strike>``, ``<b>``)."""
 
 
+def figure(png: bytes, caption: str, width_mm: float = FRAME_WIDTH_MM) -> list:
+    """A picture (PNG bytes) the frame's width, its aspect kept, with a caption beneath;
+    kept together on one page."""
+    import io
+
+    from reportlab.lib.units import mm
+    from reportlab.lib.utils import ImageReader
+    from reportlab.platypus import Image, KeepTogether
+
+    w_px, h_px = ImageReader(io.BytesIO(png)).getSize()
+    w = width_mm * mm
+    return [KeepTogether([Image(io.BytesIO(png), width=w, height=w * h_px / w_px),
+                          para(caption, "small")])]
+
+
 def data_table(header: Sequence[str], rows: Sequence[Sequence[object]],
-               widths_mm: Sequence[float], align: str | None = None, zebra: bool = True):
+               widths_mm: Sequence[float], align: str | None = None, zebra: bool = True,
+               compact: bool = False):
     """A table: bold head row repeated on each page, thin rules, optional zebra shading.
 
     ``align`` is one letter per column (``l`` or ``r``); cells are text,
-    :class:`Markup` or flowables.
+    :class:`Markup` or flowables. ``compact`` halves the space above and below each
+    row's text (a sheet that must fit one page).
     """
     from reportlab.lib import colors
     from reportlab.lib.units import mm
@@ -123,8 +141,8 @@ def data_table(header: Sequence[str], rows: Sequence[Sequence[object]],
         ("LINEBELOW", (0, 0), (-1, 0), 0.6, colors.HexColor(INK)),
         ("LINEBELOW", (0, -1), (-1, -1), 0.8, colors.HexColor(INK)),
         ("LINEBELOW", (0, 1), (-1, -2), 0.25, colors.HexColor(RULE)),
-        ("TOPPADDING", (0, 0), (-1, -1), 2.2),
-        ("BOTTOMPADDING", (0, 0), (-1, -1), 2.6),
+        ("TOPPADDING", (0, 0), (-1, -1), 1.0 if compact else 2.2),
+        ("BOTTOMPADDING", (0, 0), (-1, -1), 1.4 if compact else 2.6),
         ("LEFTPADDING", (0, 0), (-1, -1), 3),
         ("RIGHTPADDING", (0, 0), (-1, -1), 3),
     ]
@@ -219,25 +237,43 @@ def caution_box(title: str, lines: Sequence[str], markup: bool = False):
     return t
 
 
+PAPERS = ("a4", "letter")
+"""Paper sizes a document can be printed on: ISO A4 (210 × 297 mm) and US Letter
+(8.5 × 11 in, 215.9 × 279.4 mm)."""
+
+
+def page_size(paper: str) -> tuple[float, float]:
+    """(width, height) in points of ``"a4"`` or ``"letter"``."""
+    from reportlab.lib.pagesizes import A4, LETTER
+
+    if paper not in PAPERS:
+        raise ValueError(f"paper {paper!r} is not one of {', '.join(PAPERS)}")
+    return A4 if paper == "a4" else LETTER
+
+
 def build_pdf(target: str | Path, story: list, *, title: str, header_right: str,
-              footer_middle: str, printed_at: datetime, author: str = "changeover") -> None:
-    """Lay out ``story`` on A4 with the header and footer and write ``target`` atomically.
+              footer_middle: str, printed_at: datetime, author: str = "changeover",
+              paper: str = "a4", margins_mm: dict[str, float] | None = None) -> None:
+    """Lay out ``story`` on A4 (or US Letter) with the header and footer and write ``target``
+    atomically.
 
     The footer reads ``printed 2027-06-05 10:00Z`` on the left, ``footer_middle`` in the
     centre and ``page N of M`` on the right.
     """
-    from reportlab.lib.pagesizes import A4
     from reportlab.lib.units import mm
     from reportlab.platypus import SimpleDocTemplate
 
+    size = page_size(paper)
     furniture = _Furniture(title, header_right, footer_middle,
-                           f"printed {format_utc(printed_at)} (UTC)")
+                           f"printed {format_utc(printed_at)} (UTC)", size)
+
+    m = {**MARGINS_MM, **(margins_mm or {})}
 
     def write(path: str) -> None:
         doc = SimpleDocTemplate(
-            path, pagesize=A4, title=title, author=author, creator="changeover",
-            leftMargin=MARGINS_MM["left"] * mm, rightMargin=MARGINS_MM["right"] * mm,
-            topMargin=MARGINS_MM["top"] * mm, bottomMargin=MARGINS_MM["bottom"] * mm)
+            path, pagesize=size, title=title, author=author, creator="changeover",
+            leftMargin=m["left"] * mm, rightMargin=m["right"] * mm,
+            topMargin=m["top"] * mm, bottomMargin=m["bottom"] * mm)
         doc.build(list(story), canvasmaker=furniture.canvasmaker())
 
     write_atomic(target, write, suffix=".pdf")
@@ -247,7 +283,8 @@ class _Furniture:
     """Header and footer drawn on every page once the page count is known."""
 
     def __init__(self, title: str, header_right: str, footer_middle: str,
-                 footer_left: str) -> None:
+                 footer_left: str, size: tuple[float, float]) -> None:
+        self.size = size
         self.title, self.header_right = title, header_right
         self.footer_middle, self.footer_left = footer_middle, footer_left
 
@@ -277,10 +314,9 @@ class _Furniture:
 
     def draw(self, canvas, page: int, pages: int) -> None:
         from reportlab.lib import colors
-        from reportlab.lib.pagesizes import A4
         from reportlab.lib.units import mm
 
-        w, h = A4
+        w, h = self.size
         left, right = MARGINS_MM["left"] * mm, w - MARGINS_MM["right"] * mm
         canvas.saveState()
         canvas.setStrokeColor(colors.HexColor(RULE))

@@ -7,7 +7,8 @@ arrival, the ship's time and the planning margins; then the changeovers,
 grouped by boundary: each boundary (area, entry or exit, time in UTC and
 ship's time, position) once, with every circuit's changeover beneath it (fuel
 from and to, start in UTC and ship's time and position, compliant or complete
-time and position, margin, duration). Then the fuel burnt and the SO2 formed
+time and position, margin, duration); the route map and the sulphur chart
+when given (their events numbered as the changeovers). Then the fuel burnt and the SO2 formed
 on each stretch, the fuel needed against what is on board, SO2 inside each
 area against the regular fuel, the notes, the warnings (highlighted), the
 standard cautions and lines for both to sign.
@@ -25,10 +26,11 @@ Every key added to the contract is read with a default, so a smaller document
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from datetime import UTC, datetime
 from pathlib import Path
 
-from planner.documents.pdf_common import build_pdf, title_block
+from planner.documents.pdf_common import build_pdf, figure, title_block
 from planner.documents.plan_pdf_cells import keep, plain
 from planner.documents.plan_pdf_sections import (
     cautions,
@@ -52,11 +54,13 @@ SUBTITLE = ("MARPOL Annex VI regulation 14: when and where each fuel changeover 
             "UTC unless marked ship's time; positions are WGS84 in degrees and minutes.")
 
 
-def write_plan_pdf(target: str | Path, doc: dict, *, printed_at: datetime | None = None) -> None:
+def write_plan_pdf(target: str | Path, doc: dict, *, printed_at: datetime | None = None,
+                   figures: Sequence[tuple[bytes, str]] = ()) -> None:
     """Write the plan of ``doc`` (the ``changeover plan --json`` document) to ``target``.
 
     All-or-nothing: the file appears complete or not at all. ``printed_at`` (aware,
-    default now, UTC) is printed in the footer.
+    default now, UTC) is printed in the footer. ``figures`` are (PNG, caption) pairs
+    (the map and the sulphur chart) printed after the changeover tables.
     """
     printed_at = printed_at or datetime.now(UTC).replace(microsecond=0)
     v = doc.get("voyage", {})
@@ -65,6 +69,8 @@ def write_plan_pdf(target: str | Path, doc: dict, *, printed_at: datetime | None
     story = title_block(TITLE, SUBTITLE, title_facts(doc))
     story += changeover_table(doc)
     story += confidence_table(doc)
+    for png, caption in figures:
+        story += figure(png, plain(caption))
     story += keep(stretch_table(doc))
     story += keep(totals_table(doc))
     story += keep(so2_table(doc))

@@ -1,0 +1,206 @@
+"""What a watch sheet states, computed from the plan: steps with clock times and readings.
+
+One :class:`WatchSheet` per changeover (its number in the plan): the boundary,
+and for every circuit the steps with their clock times (the temperature change
+started before the switch when the engine's viscosity window needs it, the
+valve switch, every inlet at the limit, the target reached or back on regular
+fuel), then the expected readings at regular clock times from the first switch
+to the last completion: the worst inlet's sulphur [% m/m], the inlets'
+viscosity range [cSt] and temperature [°C] from the flushing model and the
+inlet temperature path (:mod:`planner.ship.thermal`). Times are aware UTC
+datetimes with the ship's zone at that moment. Pure computation (no reportlab).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from datetime import datetime, timedelta, timezone
+
+import numpy as np
+
+from geo.ellipsoid import NM_M
+from planner.voyage.plan import Plan
+
+INTERVALS_MIN = (5, 10, 15, 20, 30, 60, 120)
+"""Candidate reading intervals, minutes; the smallest giving at most :data:`MAX_READINGS`."""
+MAX_READINGS = 11
+
+
+@dataclass(frozen=True)
+class Moment:
+    """A clock time in UTC with the ship's zone then, and the ship's position [°]."""
+
+    utc: datetime
+    ship_tz: timezone
+    lat: float
+    lon: float
+
+    def __post_init__(self) -> None:
+        if self.utc.tzinfo is None:
+            raise ValueError("a watch-sheet moment must be timezone-aware")
+
+
+@dataclass(frozen=True)
+class Step:
+    """One thing to do or to see, at a moment (None: not reached in the simulation)."""
+
+    when: Moment | None
+    circuit: str
+    what: str
+    record: bool = False
+
+
+@dataclass(frozen=True)
+class Reading:
+    """Expected values at a clock time: per circuit ``(sulphur_pct, viscosity_lo_cst,
+    viscosity_hi_cst, temperature_c, window)`` (window: ``"low"`` or ``"high"`` when the
+    viscosity leaves the engine's window, else ``""``), or None before its switch."""
+
+    when: Moment
+    values: dict[str, tuple[float, float | None, float | None, float | None, str] | None]
+
+
+@dataclass(frozen=True)
+class WatchSheet:
+    """A changeover's sheet: its number, area, direction, boundary, steps and readings."""
+
+    number: int
+    area: str
+    direction: str
+    boundary: Moment
+    boundary_nm: float
+    limit_pct: float
+    target_pct: float | None
+    circuits: tuple[str, ...]
+    changes: tuple[str, ...]
+    steps: tuple[Step, ...]
+    readings: tuple[Reading, ...]
+    interval_min: int
+    tanks: tuple[tuple[str, str], ...]
+
+
+def _moment(plan: Plan, epoch_s: float | None) -> Moment | None:
+    if epoch_s is None:
+        return None
+    utc = plan.timeline.utc(epoch_s)
+    lat, lon, _ = plan.timeline.position(epoch_s)
+    return Moment(utc, plan.voyage.ship_tz_at(utc), float(lat), float(lon))
+
+
+def interval_min(span_h: float) -> int:
+    """The reading interval [min] giving at most :data:`MAX_READINGS` over ``span_h`` [h]."""
+    for step in INTERVALS_MIN:
+        if span_h * 60.0 / step + 1 <= MAX_READINGS:
+            return step
+    return INTERVALS_MIN[-1]
+
+
+def _steps(plan: Plan, part, limit_pct: float, down: bool) -> list[Step]:
+    st = part.study
+    c = part.circuit
+    out = []
+    leads = [x for x in st.lead_h.values() if x]
+    heat = ""
+    if st.paths:
+        first = min(p.set_point_c[0] for p in st.paths.values())
+        last = max(p.set_point_c[-1] for p in st.paths.values())
+        rate = next(iter(st.paths.values())).window.max_rate_c_per_min
+        if leads:
+            lead = max(leads)
+            out.append(Step(_moment(plan, part.start_epoch_s - lead * 3600.0), c,
+                            f"start moving the inlet temperature from {first:.0f} °C towards "
+                            f"{last:.0f} °C, at most {rate:g} °C/min ({lead * 60:.0f} min "
+                            "before the switch, for the viscosity window)"))
+        elif abs(last - first) >= 1.0:
+            heat = f"; heaters follow the blend, {first:.0f} to {last:.0f} °C, ≤ {rate:g} °C/min"
+    out.append(Step(_moment(plan, part.start_epoch_s), c,
+                    f"switch the valve: {part.from_tank} ({part.from_fuel}) to {part.to_tank} "
+                    f"({part.to_fuel}){heat}", record=True))
+    at_limit = _moment(plan, part.at_limit_epoch_s)
+    if down:
+        out.append(Step(at_limit, c, f"every inlet ≤ the limit {limit_pct:.2f} %"))
+        out.append(Step(_moment(plan, part.done_epoch_s), c,
+                        "compliant: every inlet ≤ the target; record time, position, tanks",
+                        record=True))
+    else:
+        out.append(Step(at_limit, c, f"inlets pass above {limit_pct:.2f} % (outside the "
+                        "area: allowed)"))
+        out.append(Step(_moment(plan, part.done_epoch_s), c,
+                        "complete: back on regular fuel; record time and position",
+                        record=True))
+    return out
+
+
+def _reading(parts, epoch_s: float) -> dict:
+    out = {}
+    for part in parts:
+        t_h = (epoch_s - part.start_epoch_s) / 3600.0
+        st = part.study
+        if -1.0 / 3600.0 < t_h < 0.0:  # the first reading, rounded to the second
+            t_h = 0.0
+        if t_h < 0:
+            out[part.circuit] = None
+            continue
+        inlets = st.result.circuit_inlets(part.circuit)
+        time_h = st.result.time_h
+        s = [float(np.interp(t_h, time_h, c.sulphur_pct)) for c in inlets]
+        worst = max(s) if part.direction == "to_compliant" else min(s)
+        if st.paths:
+            v = [float(np.interp(t_h, p.time_h, p.viscosity_cst)) for p in st.paths.values()]
+            temp = [float(np.interp(t_h, p.time_h, p.temperature_c)) for p in st.paths.values()]
+            w = next(iter(st.paths.values())).window
+            flag = "low" if min(v) < w.min_cst - 1e-9 else "high" if max(v) > w.max_cst + 1e-9 \
+                else ""
+            out[part.circuit] = (worst, min(v), max(v), max(temp), flag)
+        else:
+            out[part.circuit] = (worst, None, None, None, "")
+    return out
+
+
+def _readings(plan: Plan, parts) -> tuple[list[Reading], int]:
+    t0 = min(p.start_epoch_s for p in parts)
+    ends = [p.done_epoch_s for p in parts if p.done_epoch_s is not None]
+    t1 = max(ends) if ends else t0 + 3600.0
+    step = interval_min((t1 - t0) / 3600.0)
+    first = math.ceil(t0 / (step * 60.0)) * step * 60.0
+    times = [t0] + [first + k * step * 60.0 for k in range(MAX_READINGS)
+                    if first + k * step * 60.0 <= t1 + step * 60.0]
+    times = sorted({round(t) for t in times})
+    return [Reading(_moment(plan, t), _reading(parts, t)) for t in times], step
+
+
+def watch_sheets(plan: Plan) -> list[WatchSheet]:
+    """One sheet per changeover of the plan, numbered as in its ``--json`` document."""
+    out = []
+    tanks = tuple((name, max(t.content_m3.items(), key=lambda kv: kv[1])[0])
+                  for name, t in plan.system.tanks.items())
+    for n, ch in enumerate(plan.changes, start=1):
+        down = ch.direction == "to_compliant"
+        steps: list[Step] = []
+        for part in ch.circuits:
+            steps += _steps(plan, part, ch.limit_pct, down)
+        boundary = _moment(plan, ch.boundary_epoch_s)
+        assert boundary is not None
+        if ch.before_departure:
+            what = f"departure inside {ch.area}: every inlet compliant before departure"
+        else:
+            what = f"boundary: {'enter' if down else 'exit'} {ch.area} (" + (
+                "every inlet compliant by now" if down else "the switch back may begin") + ")"
+        steps.append(Step(boundary, "", what, record=True))
+        steps.sort(key=lambda s: (s.when is None, s.when.utc if s.when else 0))
+        readings, step = _readings(plan, ch.circuits)
+        out.append(WatchSheet(
+            n, ch.area, ch.direction, boundary, ch.boundary_m / NM_M, ch.limit_pct,
+            ch.target_pct if down else None, tuple(p.circuit for p in ch.circuits),
+            tuple(f"{p.from_fuel} → {p.to_fuel}" for p in ch.circuits), tuple(steps),
+            tuple(readings), step, tanks))
+    return out
+
+
+def offset(m: Moment) -> str:
+    """The ship's UTC offset at the moment: ``+12:00``."""
+    off = m.utc.astimezone(m.ship_tz).utcoffset() or timedelta(0)
+    sign = "-" if off < timedelta(0) else "+"
+    mins = abs(int(off.total_seconds())) // 60
+    return f"{sign}{mins // 60:02d}:{mins % 60:02d}"
