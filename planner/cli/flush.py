@@ -152,8 +152,9 @@ def _studies(ship: Path, system: FuelSystem, names: list[str], from_: str | None
     """The consumption, the flush study of each circuit and, with ``--table``, its duration
     against main engine load (InputError when the system cannot run the changeover)."""
     from geo.errors import InputError
-    from planner.flushing import FlushError, schedule_at
+    from planner.flushing import FlushError, expected_for, schedule_at
     from planner.flushing.study import duration_table, study
+    from planner.voyage.changeovers import switch_back_level_pct
 
     try:
         sched = schedule_at(system, load_pct=load)
@@ -162,12 +163,14 @@ def _studies(ship: Path, system: FuelSystem, names: list[str], from_: str | None
             a, b = _tanks(system, n, from_, to)
             if a == b:
                 continue
-            studies.append(study(system, n, a, b, sched, limit, target))
+            back = switch_back_level_pct(system, a, b)  # a switch back runs until complete
+            studies.append(study(system, n, a, b, sched, limit, target if back is None else back))
             if table and _has_main_engine(system, n):
                 tables[n] = duration_table(system, n, a, b, limit, target)
     except FlushError as e:
-        raise InputError(str(ship), "fuel system", str(e), "a system that can run the "
-                         "changeover (tanks not running dry, pumps above consumption)") from None
+        raise InputError(str(ship), "fuel system", str(e), expected_for(
+            e, "a system that can run the changeover (tanks not running dry, pumps above "
+            "consumption)")) from None
     return sched, studies, tables
 
 

@@ -129,15 +129,16 @@ def _gather(ship: Path, system: FuelSystem, voyage: Voyage | None, limit: float,
             margin_h: float) -> ProcedureFacts:
     """The procedure's facts (InputError when the system cannot run the changeover)."""
     from geo.errors import InputError
-    from planner.flushing import FlushError
+    from planner.flushing import FlushError, expected_for
     from planner.procedure.facts import gather
 
     try:
         return gather(system, limit_pct=limit, target_pct=target, margin_h=margin_h,
                       voyage=voyage.name if voyage else "")
     except FlushError as e:
-        raise InputError(str(ship), "fuel system", str(e), "a system that can run the "
-                         "changeover (tanks not running dry, pumps above consumption)") from None
+        raise InputError(str(ship), "fuel system", str(e), expected_for(
+            e, "a system that can run the changeover (tanks not running dry, pumps above "
+            "consumption)")) from None
 
 
 def _sources(ship: Path, voyage: Voyage | None) -> list[tuple[str, str]]:

@@ -62,8 +62,12 @@ def plan_waypoints(doc: dict, events: Sequence[PlanEvent]) -> list[Waypoint]:
                                 f"changeover {n} ({r['area']}): circuit {c} "
                                 + ("compliant (record time, position, tanks)" if down
                                    else "back on regular fuel"), f"changeover {key}"))
+    seen: dict[str, int] = {}
     for e in events:
         name = f"CO{e.number} boundary" if e.number is not None else f"{e.kind} {e.area}"
+        seen[name] = seen.get(name, 0) + 1
+        if seen[name] > 1:  # the same area left twice: names stay unique on the chart
+            name = f"{name} ({seen[name]})"
         out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
                             f"{e.kind} {e.area} at {e.distance_nm:,.1f} nm: {e.note}",
                             "boundary"))

@@ -11,7 +11,8 @@ exponential):
   (:mod:`~planner.flushing.schedule`): consumption against time;
 - :class:`FlushResult`, :class:`InletCurve`, :class:`TankCurve`
   (:mod:`~planner.flushing.result`): curves, crossing times, masses;
-- :func:`flush`, :func:`summarize`, :class:`CircuitSummary`, :class:`NeverReached`
+- :func:`flush`, :func:`summarize`, :class:`CircuitSummary`, :class:`NeverReached`,
+  :func:`expected_for`
   (:mod:`~planner.flushing.summary`): the headline figures per circuit;
 - :class:`Until` (:mod:`~planner.flushing.until`): when a flush is over.
 """
@@ -20,7 +21,13 @@ from planner.flushing.network import Switch, make_switch
 from planner.flushing.result import FlushResult, InletCurve, TankCurve
 from planner.flushing.schedule import ConsumptionSchedule, schedule_at
 from planner.flushing.simulate import FlushError, simulate
-from planner.flushing.summary import CircuitSummary, NeverReached, flush, summarize
+from planner.flushing.summary import (
+    CircuitSummary,
+    NeverReached,
+    expected_for,
+    flush,
+    summarize,
+)
 from planner.flushing.until import Until
 
 __all__ = [
@@ -30,6 +37,7 @@ __all__ = [
     "FlushResult",
     "InletCurve",
     "NeverReached",
+    "expected_for",
     "Switch",
     "TankCurve",
     "Until",

@@ -148,6 +148,16 @@ class NeverReached(FlushError):
     """The new fuel itself is over the limit: no flush can bring the inlets to it."""
 
 
+def expected_for(exc: FlushError, tanks_and_pumps: str) -> str:
+    """What a refusal's "expected" part says for a flush that cannot run: a fuel within the
+    limit when the new fuel is itself over it (:class:`NeverReached`), else
+    ``tanks_and_pumps`` (the caller's words for tanks that hold enough and pumps that cover
+    the consumption)."""
+    if isinstance(exc, NeverReached):
+        return "a compliant fuel whose own sulphur is within the limit"
+    return tanks_and_pumps
+
+
 def _content_sulphur_pct(system: FuelSystem, tank: str) -> tuple[float, str]:
     """Sulphur of a tank's content by mass, % m/m, and what it is (a fuel's name or a blend)."""
     content = system.tanks[tank].content_m3

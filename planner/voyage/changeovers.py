@@ -264,6 +264,28 @@ def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_t
                          exit_epoch_s, done, over, exit_epoch_s, final)
 
 
+def switch_back_level_pct(system: FuelSystem, from_tank: str, to_tank: str) -> float | None:
+    """The level every inlet must reach for a switch back to count as complete, or None
+    when ``to_tank``'s main fuel is not the higher-sulphur one (not a switch back).
+
+    Parameters
+    ----------
+    system : FuelSystem
+    from_tank, to_tank : str
+        The compliant fuel's tank and the regular fuel's.
+
+    Returns
+    -------
+    float or None [% m/m]
+        Within :data:`SWITCH_BACK_COMPLETE` of the fuels' difference from the regular fuel.
+    """
+    s_old = _main_fuel_sulphur(system, from_tank)
+    s_new = _main_fuel_sulphur(system, to_tank)
+    if s_new <= s_old:
+        return None
+    return s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
+
+
 def _main_fuel_sulphur(system: FuelSystem, tank: str) -> float:
     content = system.tanks[tank].content_m3
     fuel = max(content.items(), key=lambda kv: kv[1])[0]

@@ -44,7 +44,7 @@ from geo.errors import InputError
 from geo.limits import global_cap_changes_utc, global_cap_pct
 from geo.schedule import to_epoch
 from planner.common.timefmt import format_utc
-from planner.flushing import FlushError
+from planner.flushing import FlushError, expected_for
 from planner.fuels import Fuel
 from planner.ship.system import FuelSystem
 from planner.voyage.changeovers import TargetUnreachable, plan_to_compliant, plan_to_regular
@@ -360,9 +360,9 @@ def _simulated(voyage: Voyage, fn: Callable[..., T], *args: object) -> T:
     try:
         return fn(*args)
     except FlushError as exc:
-        raise InputError(voyage.file, "changeover simulation", str(exc),
-                         "tanks that hold enough fuel, and pumps that cover the consumption, "
-                         "for every changeover") from None
+        raise InputError(voyage.file, "changeover simulation", str(exc), expected_for(
+                         exc, "tanks that hold enough fuel, and pumps that cover the "
+                         "consumption, for every changeover")) from None
     except TargetUnreachable as exc:
         raise InputError(voyage.file, "margins.sulphur_target_fraction", str(exc),
                          "a sulphur target above the compliant fuel's own sulphur") from None
