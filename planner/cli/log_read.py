@@ -145,5 +145,5 @@ def print_cmd(
         report = j.verify()
     book = make_book(state, voyage, area, d0, d1)
     write_record_pdf(pdf, book, report, journal_name=path.name)
-    typer.echo(f"wrote {pdf}: {len(book.changeovers)} changeovers, {len(book.others)} other "
+    typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.others)} other "
                f"entries; journal last hash {report.last_hash}")

@@ -59,7 +59,14 @@ from planner.journal.entries import (
     Record,
     utc_now,
 )
-from planner.journal.inputs import POS_EXPECTED, parse_at, parse_position, parse_tank, parse_tz
+from planner.journal.inputs import (
+    POS_EXPECTED,
+    parse_at,
+    parse_position,
+    parse_tank,
+    parse_tz,
+    written_time,
+)
 from planner.journal.plan_link import planned_for
 from planner.journal.state import JournalState
 
@@ -105,7 +112,7 @@ def _when(t: Typed, state: JournalState, planned: Planned | None):
     elif t.as_planned and planned is not None:
         if planned.time_utc is None:
             raise InputError("--at", "", None, "the time: the plan has none for this step")
-        moment = planned.time_utc
+        moment = written_time(planned.time_utc)
         taken.append("time")
     else:
         moment = utc_now()

@@ -86,33 +86,71 @@ def against_plan(kind: str, r: Record) -> list[str]:
 VERB = {STARTED: "started", COMPLETED: "completed", BACK_COMMENCED: "commenced",
         BACK_COMPLETED: "completed"}
 
+STEP_NAME = {STARTED: "Changeover started", COMPLETED: "Completed",
+             BACK_COMMENCED: "Commenced", BACK_COMPLETED: "Changeover back completed"}
+"""The printed name of each changeover step, before its relation to the boundary."""
 
-def boundary_text(kind: str, r: Record) -> str:
-    """``planned boundary entry 2027-05-31 11:46Z at ...: completed 1 h 42 min before it``."""
+
+def boundary_minutes(r: Record) -> int | None:
+    """Whole minutes from the step to the planned boundary crossing (positive: the step came
+    first), or None without a planned boundary."""
     p = r.planned
     if p is None or p.boundary_utc is None:
+        return None
+    return round((p.boundary_utc - r.time_utc).total_seconds() / 60.0)
+
+
+def relation_text(kind: str, r: Record) -> str:
+    """``completed 12 min after entry``, ``commenced at exit``, or ``""`` without a planned
+    boundary: what happened, in words, for the step of ``kind``."""
+    m = boundary_minutes(r)
+    if m is None or r.planned is None:
         return ""
-    d = (p.boundary_utc - r.time_utc).total_seconds() / 3600.0
+    what = "entry" if r.planned.direction == "to_compliant" else "exit"
+    verb = VERB.get(kind, "written")
+    if m == 0:
+        return f"{verb} at {what}"
+    return f"{verb} {minutes_text(m / 60.0)} {'before' if m > 0 else 'after'} {what}"
+
+
+def step_heading(kind: str, r: Record | None) -> str:
+    """The heading of a changeover step as it happened: ``Completed 12 min after entry``,
+    ``Commenced 16 min after exit``; ``Completed`` when no planned boundary is linked."""
+    base = STEP_NAME.get(kind, LABELS.get(kind, kind))
+    if r is None or kind not in (COMPLETED, BACK_COMMENCED):
+        return base
+    rel = relation_text(kind, r)
+    return rel[0].upper() + rel[1:] if rel else base
+
+
+def boundary_text(kind: str, r: Record) -> str:
+    """``planned boundary entry 2027-05-31 11:46Z at ...: completed 1 h 42 min before it``
+    (``... at it`` within half a minute)."""
+    p = r.planned
+    m = boundary_minutes(r)
+    if p is None or m is None:
+        return ""
     what = "entry" if p.direction == "to_compliant" else "exit"
     margin = f" (the plan's margin {p.margin_h:.2f} h)" if p.margin_h is not None else ""
+    rel = "at it" if m == 0 else f"{minutes_text(m / 60.0)} {'before' if m > 0 else 'after'} it"
     return (f"planned boundary {what} {format_utc(p.boundary_utc)}"
             f"{' at ' + position_text(p.boundary) if p.boundary else ''}: "
-            f"{VERB.get(kind, 'written')} {minutes_text(d)} {'before' if d >= 0 else 'after'} "
-            f"it{margin}")
+            f"{VERB.get(kind, 'written')} {rel}{margin}")
 
 
 def warnings(kind: str, r: Record) -> list[str]:
     """What a reader must notice: a completion after the planned entry, a changeover back
-    commenced before the planned exit."""
+    commenced before the planned exit (to the whole minute, as the record shows them)."""
     p = r.planned
-    if p is None or p.boundary_utc is None:
+    m = boundary_minutes(r)
+    if p is None or m is None:
         return []
-    if kind == COMPLETED and r.time_utc > p.boundary_utc:
-        return [f"completed after the planned boundary entry ({format_utc(p.boundary_utc)}): "
-                "check where the ship crossed into the area"]
-    if kind == BACK_COMMENCED and r.time_utc < p.boundary_utc:
-        return [f"commenced before the planned boundary exit ({format_utc(p.boundary_utc)}): "
-                "check where the ship left the area"]
+    if kind == COMPLETED and m < 0:
+        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): check "
+                "where the ship crossed into the area"]
+    if kind == BACK_COMMENCED and m > 0:
+        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): check "
+                "where the ship left the area"]
     return []
 
 
@@ -130,6 +168,8 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         c = e.correction
         label = (f"{'strike-out' if c.void else 'correction'} of entry {c.corrects} "
                  f"({LABELS[c.of_kind]}): {c.reason}")
+    if r is not None and e.kind in (COMPLETED, BACK_COMMENCED) and relation_text(e.kind, r):
+        label = f"{label} {relation_text(e.kind, r).split(' ', 1)[1]}"
     lines = [f"entry {s.seq} written: {label}"]
     if r is not None:
         parts = [when_text(r.time_utc, r)]

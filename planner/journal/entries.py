@@ -61,15 +61,16 @@ LABELS = {
     SETUP: "journal set-up",
     FUEL: "fuel on board",
     STARTED: "changeover to compliant fuel started",
-    COMPLETED: "changeover to compliant fuel completed (before entry)",
-    BACK_COMMENCED: "changeover to regular fuel commenced (after exit)",
+    COMPLETED: "changeover to compliant fuel completed",
+    BACK_COMMENCED: "changeover to regular fuel commenced",
     BACK_COMPLETED: "changeover to regular fuel completed",
     TANKS: "tank soundings",
     SAMPLE: "fuel sample",
     NOTE: "note",
     CORRECTION: "correction",
 }
-"""What each kind means, in words."""
+"""What each kind means, in words (the relation of a step to the boundary, before or after
+it, is said from the facts where the entry is shown: ``describe.step_heading``)."""
 
 DETAILS_OF = {SETUP: SetupDetails, FUEL: FuelDetails, STARTED: ChangeoverDetails,
               COMPLETED: ChangeoverDetails, BACK_COMMENCED: ChangeoverDetails,

@@ -76,6 +76,19 @@ def parse_position(text: str, option: str = "--pos") -> Position:
     return Position(lat, lon)
 
 
+def written_position(lat_deg: float, lon_deg: float) -> Position:
+    """A computed position as the crew writes it: to 0.1 minute of arc (about 185 m), stored
+    to 6 decimal places of a degree (``62.49999999999409`` becomes ``62.5``)."""
+    def tenth(v: float) -> float:
+        return round(round(v * 600.0) / 600.0, 6)
+    return Position(tenth(lat_deg), tenth(lon_deg))
+
+
+def written_time(moment: datetime) -> datetime:
+    """A computed time as the crew writes it: to the nearest minute."""
+    return (moment + timedelta(seconds=30)).replace(second=0, microsecond=0)
+
+
 def _number_or_text(text: str) -> float | str:
     try:
         return float(text)

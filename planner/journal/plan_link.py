@@ -36,6 +36,7 @@ from planner.journal.entries import (
     Planned,
     Position,
 )
+from planner.journal.inputs import written_position
 
 
 def load_changeovers(path: str | Path) -> list[dict]:
@@ -157,4 +158,4 @@ def _position(item: dict, prefix: str, file: str, place: str,
     lon = float(lon)
     if abs(lon) > 180.0:  # a plan may unwrap longitudes past ±180
         lon = (lon + 180.0) % 360.0 - 180.0
-    return Position(float(lat), lon)
+    return written_position(float(lat), lon)

@@ -79,7 +79,7 @@ def test_entries_as_written(flow):
     assert "entry 1 written: journal set-up" in flow["init"]
     assert "ship's time 2027-05-31 17:35 (+12:00)" in flow["start"]
     c = flow["complete"]
-    assert "entry 5 written: changeover to compliant fuel completed (before entry)" in c
+    assert "entry 5 written: changeover to compliant fuel completed 1 h 42 min before entry" in c
     assert "39°11.6'S 178°00.4'E" in c and "Meridian Reach ECA" in c and "follows entry 4" in c
     assert "MGO service 24.600 m³ @ 38.0 °C" in c and "fuel to: MGO (DMA), 0.07 % m/m S" in c
     assert "planned (plan_sample.json, changeover 1): 2027-05-31 10:20Z; 15 min earlier" in c
