@@ -37,26 +37,24 @@ def show_cmd(
 
     kinds = parse_kinds(kind or [])
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
-    with Journal.open(journal_path(journal)) as j:
+    with Journal.open_read(journal_path(journal)) as j:
         state = j.state()
     rows = list_rows(state, voyage, area, d0, d1, kinds)
     if json_out:
         typer.echo(dumps({"ship": {"name": state.ship_name, "imo": state.imo_number},
                           "entries": rows_json(state, rows)}))
         return
-    from planner.cli.console import console, table
+    from planner.cli.log_table import Column, output_width, render, use_ansi
 
-    t = table(f"{state.ship_name} (IMO {state.imo_number}): {len(rows)} of "
-              f"{state.last_seq} entries", [
-                  ("No.", "r"), ("Kind", "l"), ("UTC", "l"), ("Ship's time", "l"),
-                  ("Position", "l"), ("Area", "w"), ("Details", "w"), ("By", "w"),
-                  ("Status", "w")])
-    for col in t.columns:
-        col.no_wrap = col.header in ("No.", "Kind", "UTC", "Ship's time", "Position")
-    for r in rows:
-        cells = [str(r.seq), r.kind, r.utc, r.ship_time, r.position, r.area, r.details, r.who]
-        t.add_row(*[f"[strike]{c}[/strike]" if r.replaced else c for c in cells], r.status)
-    console().print(t)
+    columns = [Column("No.", "r"), Column("Kind"), Column("UTC"), Column("Ship's time"),
+               Column("Position"), Column("Area and details", wrap=True),
+               Column("By, status", wrap=True)]
+    cells = [[str(r.seq), r.kind, r.utc, r.ship_time, r.position,
+              "; ".join(x for x in (r.area, r.details) if x),
+              "; ".join(x for x in (r.who, r.status) if x)] for r in rows]
+    typer.echo(render(f"{state.ship_name} (IMO {state.imo_number}): {len(rows)} of "
+                      f"{state.last_seq} entries", columns, cells, output_width(),
+                      [r.replaced for r in rows], use_ansi()))
 
 
 def verify_cmd(
@@ -75,7 +73,7 @@ def verify_cmd(
     if hash_ is not None and not is_hash(hash_.strip().lower()):
         raise InputError("--hash", "", hash_, "a SHA-256 hash: 64 hexadecimal digits")
     path = journal_path(journal)
-    with Journal.open(path) as j:
+    with Journal.open_read(path) as j:
         report = j.verify(hash_.strip().lower() if hash_ else None)
     if json_out:
         typer.echo(dumps(verify_json(path.name, report)))
@@ -106,7 +104,7 @@ def export_cmd(
     if kind not in ("csv", "json"):
         raise InputError("--format", "", fmt or str(out), "csv or json")
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
-    with Journal.open(journal_path(journal)) as j:
+    with Journal.open_read(journal_path(journal)) as j:
         state = j.state()
         report = j.verify()
     seqs = [r.seq for r in list_rows(state, voyage, area, d0, d1)]
@@ -140,7 +138,7 @@ def print_cmd(
 
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
     path = journal_path(journal)
-    with Journal.open(path) as j:
+    with Journal.open_read(path) as j:
         state = j.state()
         report = j.verify()
     book = make_book(state, voyage, area, d0, d1)

@@ -6,6 +6,7 @@ later correction replaced is marked so the table can strike it through.
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Iterable
 from dataclasses import dataclass
 from datetime import date
@@ -36,6 +37,10 @@ COMMAND_KINDS = {"start": STARTED, "complete": COMPLETED, "back": BACK_COMMENCED
                  "correction": CORRECTION, "correct": CORRECTION, "fuel": FUEL, "setup": SETUP,
                  "init": SETUP}
 """Kind names as the commands spell them, to the stored kinds."""
+
+SHOWN_CHARS = 120
+"""Longest note, remarks or reason shown in the listing (shortened at a word; ``show
+--json`` and the printed record hold it whole)."""
 
 SHORT = {v: k for k, v in COMMAND_KINDS.items() if k not in ("correct", "init")}
 
@@ -79,7 +84,8 @@ def _details(s: Stored) -> str:
     head = ""
     if e.kind == CORRECTION and e.correction is not None:
         c = e.correction
-        head = f"{'strikes out' if c.void else 'corrects'} {c.corrects}: {c.reason}"
+        reason = textwrap.shorten(c.reason, SHOWN_CHARS, placeholder=" …")
+        head = f"{'strikes out' if c.void else 'corrects'} {c.corrects}: {reason}"
         if r is None:
             return head
         head += "; "
@@ -100,7 +106,7 @@ def _details(s: Stored) -> str:
         f = d.fuel
         parts.append(f"{f.name} {f.grade} {f.sulphur_pct:.2f} % S, {f.density15_kg_m3:.1f} "
                      f"kg/m³, BDN {f.bdn_ref}")
-    parts += [x if len(x) <= 60 else x[:57] + "..." for x in sample_and_text(d)]
+    parts += [textwrap.shorten(x, SHOWN_CHARS, placeholder=" …") for x in sample_and_text(d)]
     if getattr(d, "follows", None):
         parts.append(f"follows {d.follows}")
     if r.planned is not None:
@@ -163,9 +169,13 @@ def verify_lines(name: str, report: VerifyReport) -> list[str]:
         lines = [f"journal {name}: {n} entries, FAILED verification "
                  f"({len(report.problems)} problem{'s' if len(report.problems) > 1 else ''}):"]
         lines += [f"  {p}" for p in report.problems]
-    if report.expect_hash is not None and report.expect_seq is not None:
+    if report.confirms_print:
         lines.append(f"the printed copy's hash is entry {report.expect_seq}'s: entries 1 to "
                      f"{report.expect_seq} are as they were when printed")
+    elif report.expect_seq is not None:
+        lines.append(f"the printed copy's hash is entry {report.expect_seq}'s, but the "
+                     f"problems above mean entries 1 to {report.expect_seq} cannot be "
+                     "confirmed as printed")
     return lines
 
 
@@ -174,4 +184,5 @@ def verify_json(name: str, report: VerifyReport) -> dict:
     return {"journal": name, "ok": report.ok, "entries": report.entries,
             "last_seq": report.last_seq, "last_hash": report.last_hash,
             "problems": [{"seq": p.seq, "what": p.what} for p in report.problems],
-            "hash_checked": report.expect_hash, "hash_at_entry": report.expect_seq}
+            "hash_checked": report.expect_hash, "hash_at_entry": report.expect_seq,
+            "print_confirmed": report.confirms_print}

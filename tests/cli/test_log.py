@@ -10,6 +10,7 @@ import hashlib
 import io
 import json
 import os
+import re
 import shutil
 import sqlite3
 import subprocess
@@ -222,4 +223,190 @@ def test_verify_fails_naming_the_entry_after_tampering(flow, tmp_path):
     assert "FAILED verification" in r.stdout
     assert "entry 6: its content does not match its hash" in r.stdout
     doc = json.loads(run(j, "verify", "--json").stdout)
-    assert doc["ok"] is False and {p["seq"] for p in doc["problems"]} == {6}
+    assert doc["ok"] is False and {p["seq"] for p in doc["problems"]} == {6, None}
+    assert {"what": "the journal's trigger entries_never_updated is missing (dropped)",
+            "seq": None} in doc["problems"]
+
+
+# -- issue 11 items 8-11 and the listing at every width --------------------------------------
+
+def one_line_exit_2(r: subprocess.CompletedProcess, needle: str) -> None:
+    assert r.returncode == 2, (r.stdout, r.stderr)
+    lines = r.stderr.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("changeover: error: "), r.stderr
+    assert needle in lines[0], lines[0]
+
+
+@pytest.mark.parametrize(("at", "needle"), [
+    ("2027-06-01T10:00+23:00", "a real UTC offset: -12:00 to +14:00"),
+    ("2027-06-01T10:00-13:00", "a real UTC offset: -12:00 to +14:00"),
+    ("0001-01-01T00:00+14:00", "a year from 1990 to 2100"),
+    ("9999-12-31T23:59-12:00", "a year from 1990 to 2100"),
+    ("2027-06-01T10:00+05:13", "in steps of 15 minutes"),
+    ("yesterday", "an ISO 8601 time with its UTC offset"),
+])
+def test_at_takes_only_real_offsets_and_years(flow, tmp_path, at, needle):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    before = j.read_bytes()
+    one_line_exit_2(run(j, "note", "x", "--at", at), needle)
+    assert j.read_bytes() == before
+
+
+def test_tz_takes_only_real_offsets(flow, tmp_path):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    one_line_exit_2(run(j, "note", "x", "--tz", "-13:00"), "--tz: '-13:00'")
+    assert "(+05:45)" in ok(j, "note", "x", "--at", "2027-06-01T10:00+05:45")
+
+
+def sqlite_damage(path: Path, how: str) -> None:
+    if how == "page":  # overwrite a page inside the file with noise
+        data = bytearray(path.read_bytes())
+        data[4096:8192] = bytes(range(256)) * 16
+        path.write_bytes(bytes(data))
+    elif how == "table":
+        conn = sqlite3.connect(path)
+        conn.executescript("DROP TRIGGER entries_never_deleted; DROP TABLE entries;")
+        conn.close()
+    elif how == "header":
+        data = bytearray(path.read_bytes())
+        data[0:16] = b"not a database!!"
+        path.write_bytes(bytes(data))
+
+
+@pytest.mark.parametrize("how", ["page", "table", "header"])
+@pytest.mark.parametrize("cmd", [["show"], ["verify"], ["note", "x"], ["export"]])
+def test_a_damaged_journal_is_one_line(flow, tmp_path, how, cmd):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    sqlite_damage(j, how)
+    r = run(j, *cmd)
+    if how == "page" and cmd == ["verify"] and r.returncode == 1:
+        return  # the damage fell in entry text: verify names the entries instead
+    one_line_exit_2(r, str(j))
+    assert "Traceback" not in r.stderr
+
+
+def run_unprivileged(journal: Path, *args: str) -> subprocess.CompletedProcess:
+    """``run`` as an ordinary user (root ignores file permissions): setpriv to nobody."""
+    env = {k: v for k, v in os.environ.items() if not k.startswith("CHANGEOVER_")}
+    env.update(CHANGEOVER_RANK="C/E", CHANGEOVER_NAME="R. H", CHANGEOVER_JOURNAL=str(journal))
+    pre = []
+    if os.geteuid() == 0:
+        pre = ["setpriv", "--reuid", "65534", "--regid", "65534", "--clear-groups"]
+    return subprocess.run([*pre, sys.executable, "-m", "planner", "log", *args], cwd=ROOT,
+                          env=env, capture_output=True, text=True, timeout=60)
+
+
+@pytest.mark.skipif(os.geteuid() == 0 and shutil.which("setpriv") is None,
+                    reason="root ignores file permissions and setpriv is missing")
+@pytest.mark.parametrize("what", ["file", "folder"])
+def test_read_only_journal_or_folder(flow, what):
+    import tempfile
+
+    top = Path(tempfile.mkdtemp(prefix="changeover-ro-"))  # reachable by nobody
+    top.chmod(0o755)
+    folder = top / "ro"
+    folder.mkdir()
+    j = folder / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    j.chmod(0o444 if what == "file" else 0o644)
+    folder.chmod(0o555 if what == "folder" else 0o777)
+    try:
+        for args, needle in ((["verify"], "10 entries, chain intact"), (["show"], "MV Aurora"),
+                             (["export"], '"last_seq": 10')):
+            r = run_unprivileged(j, *args)
+            assert r.returncode == 0 and needle in r.stdout, r.stderr
+        r = run_unprivileged(j, "note", "x")
+        one_line_exit_2(r, "a journal file you may write, in a folder you may write")
+        assert sorted(p.name for p in folder.iterdir()) == ["ship.db"]
+    finally:
+        folder.chmod(0o755)
+        shutil.rmtree(top)
+
+
+def test_an_unreadable_journal_is_one_line(flow, tmp_path):
+    import tempfile
+
+    top = Path(tempfile.mkdtemp(prefix="changeover-nr-"))
+    try:
+        j = top / "ship.db"
+        shutil.copy(flow["dir"] / "snapshot.db", j)
+        j.chmod(0o600)
+        for args in (["show"], ["note", "x"]):
+            r = run_unprivileged(j, *args)
+            if os.geteuid() != 0 and not shutil.which("setpriv"):
+                break
+            one_line_exit_2(r, str(j))
+    finally:
+        shutil.rmtree(top)
+
+
+def test_read_only_commands_never_write_the_journal(flow, tmp_path):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    before = j.read_bytes()
+    for args in (["show"], ["verify"], ["export"], ["print", "--pdf", str(tmp_path / "r.pdf")]):
+        ok(j, *args)
+    assert j.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["r.pdf", "ship.db"]
+
+
+def test_a_journal_made_by_schema_version_2_is_read_and_migrated(tmp_path):
+    old = ROOT / "tests" / "data" / "journal" / "schema2_journal.sqlite"
+    j = tmp_path / "old.db"
+    shutil.copy(old, j)
+    assert "6 entries, chain intact" in ok(j, "verify")       # read-only: not migrated
+    assert sqlite3.connect(j).execute("PRAGMA user_version").fetchone()[0] == 2
+    assert "written by schema version 2" in ok(j, "show")
+    ok(j, "note", "written by schema version 3")               # writing migrates it
+    conn = sqlite3.connect(j)
+    assert conn.execute("PRAGMA user_version").fetchone()[0] == 3
+    with pytest.raises(sqlite3.DatabaseError, match="journal head"):
+        conn.execute("UPDATE head SET seq = 1")
+    conn.close()
+    v = ok(j, "verify")
+    assert "7 entries, chain intact" in v
+
+
+def test_text_is_shown_as_typed(flow, tmp_path):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    ok(j, "note", "valve [/] and [bold]V-12[/bold] \x1b[31mred", "--at", "2027-06-01T13:00Z")
+    out = ok(j, "show", "--kind", "note")
+    assert "valve [/] and [bold]V-12[/bold] \\x1b[31mred" in out
+    assert "\x1b" not in out
+
+
+def _listing_lines(j: Path, width: int | None) -> list[str]:
+    env = {} if width is None else {"COLUMNS": str(width)}
+    r = subprocess.run([sys.executable, "-m", "planner", "log", "show", "--journal", str(j)],
+                       cwd=ROOT, env={**os.environ, **env}, capture_output=True, text=True,
+                       timeout=60)
+    assert r.returncode == 0, r.stderr
+    return r.stdout.splitlines()
+
+
+@pytest.mark.parametrize("width", [80, 120, None])  # None: piped, 160 columns
+def test_show_never_cuts_a_number_time_or_position(flow, width):
+    j = flow["journal"]
+    lines = _listing_lines(j, width)
+    text = "\n".join(lines)
+    assert all(len(x) <= (width or 160) for x in lines), max(lines, key=len)
+    assert all(x == x.rstrip() for x in lines)  # no padding at the ends of lines
+    doc = json.loads(ok(j, "show", "--json"))
+    for e in doc["entries"]:
+        rec = e["entry"]["record"] or {}
+        assert re.search(rf"(?m)^\s*{e['seq']}\s", text), e["seq"]
+        if rec.get("time_utc"):
+            utc = rec["time_utc"][:16].replace("T", " ") + "Z"
+            assert utc in text, utc
+        if rec.get("position"):
+            p = rec["position"]
+            lat = f"{int(abs(p['lat_deg'])):02d}°{abs(p['lat_deg']) % 1 * 60:04.1f}'"
+            assert lat in text, lat
+        for t in (rec.get("details") or {}).get("tanks") or []:
+            if isinstance(t, dict):
+                total = sum(x["volume15_m3"] for x in rec["details"]["tanks"])
+                assert f"{total:.3f}" in text

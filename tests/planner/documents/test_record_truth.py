@@ -139,3 +139,22 @@ def test_plan_positions_and_times_are_stored_as_written(journal):
     assert back.position.lat_deg == -39.823333
     assert back.time_utc == datetime(2027, 5, 30, 17, 18, tzinfo=UTC)
     assert back.planned.time_utc == datetime(2027, 5, 30, 17, 18, 14, tzinfo=UTC)
+
+
+@needs_poppler
+def test_notes_and_reasons_of_any_length_print_across_pages(tmp_path):
+    from planner.journal.compose import note_entry
+
+    path = tmp_path / "long.db"
+    words = " ".join(f"w{i:05d}" for i in range(16000))        # about 100 kB
+    with new_journal(path) as j:
+        n = j.append(note_entry(crew(at="2027-05-31T12:00Z", tz="+12:00"), words))
+        j.append(correction_entry(n.seq, crew(), "x" * 4000 + " end of reason",
+                                  text="short now"))
+        j.append(changeover_entry(STARTED, crew(
+            at="2027-05-31T05:35Z", pos="39 19.9 S 176 24.8 E", area="Corran Sea ECA",
+            fuels=("MGO",), remarks="r" * 5000 + " end of remarks")))
+    flat, _ = render(path, tmp_path / "long.pdf")
+    assert "w00000" in flat and "w15999" in flat          # the whole note, first to last word
+    assert "end of reason" in flat and "end of remarks" in flat
+    assert int(re.search(r"page 1 of (\d+)", flat).group(1)) > 5
