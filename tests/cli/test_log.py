@@ -410,3 +410,31 @@ def test_show_never_cuts_a_number_time_or_position(flow, width):
             if isinstance(t, dict):
                 total = sum(x["volume15_m3"] for x in rec["details"]["tanks"])
                 assert f"{total:.3f}" in text
+
+
+@pytest.mark.parametrize("text", ["=HYPERLINK(\"http://x\",\"y\")", "+1+2", "-2+3",
+                                  "@SUM(A1)"])
+def test_export_csv_neutralises_formulas(flow, tmp_path, text):
+    # [OWASP-CSV]: a cell starting with = + - @ tab or CR is prefixed with ' (read as text)
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    ok(j, "note", "--at", "2027-06-01T13:00Z", "--rank", text, "--name", "A. B", "--", text)
+    out = tmp_path / "j.csv"
+    ok(j, "export", "--out", str(out))
+    rows = list(csv.DictReader(io.StringIO(out.read_text(encoding="utf-8"))))
+    assert rows[-1]["text"] == "'" + text and rows[-1]["rank"] == "'" + text
+    for row in rows:
+        for v in row.values():
+            assert not v or v[0] not in "=+@\t\r", v
+            assert v[:1] != "-" or re.fullmatch(r"-\d+(\.\d+)?", v), v
+    start = next(r for r in rows if r["seq"] == "4")
+    assert start["lat_deg"] == "-39.331667"  # negative numbers stay numbers
+
+
+@pytest.mark.parametrize(("cell", "safe"), [
+    ("\tcmd", "'\tcmd"), ("\rcmd", "'\rcmd"), ("-39.5", "-39.5"), ("-1-1", "'-1-1"),
+    ("@x", "'@x"), ("ok", "ok"), ("", ""), ("42", "42")])
+def test_safe_cell(cell, safe):
+    from planner.journal.export import safe_cell
+
+    assert safe_cell(cell) == safe  # [OWASP-CSV]
