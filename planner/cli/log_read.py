@@ -94,13 +94,14 @@ def export_cmd(
 ) -> None:
     """Export entries as CSV or JSON (a whole-journal JSON can be re-checked without us)."""
     from geo.errors import InputError
-    from planner.common.outputs import dumps, write_atomic
+    from planner.common.outputs import check_outputs, dumps, write_text
     from planner.journal import Journal
     from planner.journal.book import describe_selection
     from planner.journal.export import export_csv, export_json
     from planner.journal.listing import list_rows, parse_day_opt
 
     kind = (fmt or (out.suffix.lstrip(".") if out else "json")).lower()
+    check_outputs({"--out": out})
     if kind not in ("csv", "json"):
         raise InputError("--format", "", fmt or str(out), "csv or json")
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
@@ -117,7 +118,7 @@ def export_cmd(
     if out is None:
         typer.echo(text, nl=False)
         return
-    write_atomic(out, lambda p: Path(p).write_text(text, encoding="utf-8"))
+    write_text(out, text)
     typer.echo(f"wrote {out} ({len(stored)} entries)")
 
 
@@ -131,6 +132,9 @@ def print_cmd(
 
     if pdf is None:
         raise InputError("--pdf", "", None, "the PDF file to write, e.g. --pdf record.pdf")
+    from planner.common.outputs import check_outputs
+
+    check_outputs({"--pdf": pdf})
     from planner.documents.record_pdf import write_record_pdf
     from planner.journal import Journal
     from planner.journal.book import make_book

@@ -438,3 +438,50 @@ def test_safe_cell(cell, safe):
     from planner.journal.export import safe_cell
 
     assert safe_cell(cell) == safe  # [OWASP-CSV]
+
+
+@pytest.mark.parametrize("cmd", [["export", "--out"], ["print", "--pdf"]])
+def test_unwritable_outputs_are_one_line_before_any_work(flow, tmp_path, cmd):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    (tmp_path / "plain").write_text("x")
+    for target, why in ((tmp_path, "it is a folder"),
+                        (tmp_path / "plain" / "out.x", "is a file, not a folder")):
+        one_line_exit_2(run(j, *cmd, str(target)), f"{cmd[1]}: '{target}': expected a file "
+                                                   "path you may write")
+        assert why in run(j, *cmd, str(target)).stderr
+        # checked first: refused for the output even when the journal is missing too
+        r = run(tmp_path / "none.db", *cmd, str(target))
+        one_line_exit_2(r, cmd[1])
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["plain", "ship.db"]
+
+
+@pytest.mark.skipif(os.geteuid() == 0 and shutil.which("setpriv") is None,
+                    reason="root ignores file permissions and setpriv is missing")
+def test_output_into_a_read_only_folder_is_one_line(flow):
+    import tempfile
+
+    top = Path(tempfile.mkdtemp(prefix="changeover-out-"))
+    try:
+        top.chmod(0o755)
+        j = top / "ship.db"
+        shutil.copy(flow["dir"] / "snapshot.db", j)
+        j.chmod(0o644)
+        ro = top / "ro"
+        ro.mkdir()
+        ro.chmod(0o555)
+        r = run_unprivileged(j, "export", "--out", str(ro / "j.csv"))
+        one_line_exit_2(r, "Permission denied")
+        assert list(ro.iterdir()) == []
+    finally:
+        (top / "ro").chmod(0o755)
+        shutil.rmtree(top)
+
+
+def test_exported_files_get_the_users_umask(flow, tmp_path):
+    out = tmp_path / "j.csv"
+    r = subprocess.run(["sh", "-c", f"umask 002 && {sys.executable} -m planner log export "
+                        f"--journal {flow['journal']} --out {out}"], cwd=ROOT,
+                       capture_output=True, text=True, timeout=60)
+    assert r.returncode == 0, r.stderr
+    assert oct(out.stat().st_mode & 0o777) == oct(0o664)  # 0o666 & ~0o002, not 0o600
