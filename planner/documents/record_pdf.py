@@ -32,6 +32,7 @@ from planner.documents.pdf_common import (
 )
 from planner.journal.book import Book, Changeover, Line, Version
 from planner.journal.describe import (
+    bdn_items,
     boundary_text,
     fuel_text,
     position_text,
@@ -307,6 +308,8 @@ def _changeover(i: int | None, ch: Changeover) -> list:
     for seq, what, text in _free_texts(ch.steps):
         parts.append(para(f"Entry {seq}, {what}: {_short(text, seq)}", "small"))
     warn = [w for line in ch.steps if not line.struck for w in warnings(line.kind, line.record)]
+    warn += [f"entry {line.standing.stored.seq}, confirmed when written: {w}"
+             for line in ch.steps if not line.struck for w in line.record.confirmed]
     if warn:
         parts.append(caution_box("Check this changeover", warn))
     if not any(line.kind in REG14_KINDS for line in ch.steps if not line.struck):
@@ -367,6 +370,7 @@ def _other_details(v: Version) -> list[str]:
         out.append(f"{t.tank}: {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
                    f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
     out += [_short(x, v.stored.seq) for x in sample_and_text(d)]
+    out += [f"confirmed when written: {w}" for w in r.confirmed]
     e = v.stored.entry
     out.append(f"by {e.who.rank} {e.who.name}")
     return out
@@ -403,6 +407,11 @@ def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
             [[f.name, f.grade or "—", f"{f.sulphur_pct:.2f}", f"{f.density15_kg_m3:.1f}",
               f.bdn_ref] for f in book.fuels], [34, 30, 26, 32, FRAME_WIDTH_MM - 122],
             align="llrrl"))
+        for f in book.fuels:
+            items = bdn_items(f)
+            if items:
+                story.append(para(f"{f.name}, delivery note {f.bdn_ref}: " + "; ".join(items)
+                                  + ".", "small"))
     if not book.changeovers:
         story.append(para("No changeover is recorded in this selection.", "h2"))
     for i, ch in numbered(book):

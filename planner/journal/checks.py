@@ -2,7 +2,8 @@
 
 Each refusal is one :class:`geo.errors.InputError` naming the option the
 value came from, so the command line prints one line and nothing is written:
-an unknown tank, a fuel not registered, a correction of an entry that does
+an unknown tank, a sounding above the tank's capacity (when the ship file
+gave it), a fuel not registered, a correction of an entry that does
 not exist (or of the wrong kind), a completion timed before its start (or a
 start corrected to after its completion), a first entry that is not the
 ship's set-up.
@@ -36,6 +37,7 @@ def check_entry(state: JournalState, entry: Entry) -> None:
         root = check_correction(state, entry.correction.corrects, entry.correction.of_kind)
     if entry.record is not None:
         check_tanks(state, entry.record)
+        check_circuit(state, entry.record)
         check_order(state, entry.subject_kind, entry.record, root)
 
 
@@ -68,6 +70,17 @@ def check_tanks(state: JournalState, r: Record) -> None:
             raise InputError("--tank", "", t.tank,
                              f"one of the journal's tanks: {', '.join(state.tanks)} "
                              "(add more with changeover log setup --tank)")
+        cap = state.capacity_m3.get(t.tank)
+        if cap is not None and t.volume_m3 > cap:
+            raise InputError("--tank", t.tank, f"{t.volume_m3:g} m³",
+                             f"at most the tank's capacity, {cap:g} m³ (from the ship file)")
+
+
+def check_circuit(state: JournalState, r: Record) -> None:
+    """A circuit named must be one of the ship file's (when the journal was set up from it)."""
+    if state.circuits and r.circuit is not None and r.circuit not in state.circuits:
+        raise InputError("--circuit", "", r.circuit,
+                         f"one of the ship's circuits: {', '.join(state.circuits)}")
 
 
 def check_order(state: JournalState, kind: str, r: Record, root: int | None) -> None:

@@ -10,7 +10,7 @@ from datetime import datetime
 
 from geo.position import format_position
 from planner.common.timefmt import format_ship, format_utc
-from planner.journal.details import FuelUse, TankReading
+from planner.journal.details import FuelSpec, FuelUse, TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
     BACK_COMPLETED,
@@ -35,6 +35,25 @@ def fuel_text(u: FuelUse) -> str:
     f = u.fuel
     grade = f" ({f.grade})" if f.grade else ""
     return f"{f.name}{grade}, {f.sulphur_pct:.2f} % m/m S, BDN {f.bdn_ref}"
+
+
+def bdn_items(f: FuelSpec) -> list[str]:
+    """The optional bunker delivery note items given for a fuel, in words with units."""
+    out = []
+    if f.port or f.bunkered_on:
+        out.append("bunkered" + (f" at {f.port}" if f.port else "")
+                   + (f" on {f.bunkered_on}" if f.bunkered_on else ""))
+    if f.supplier:
+        out.append(f"supplier {f.supplier}")
+    if f.product:
+        out.append(f"product {f.product}")
+    if f.quantity_t is not None:
+        out.append(f"quantity {f.quantity_t:.3f} t")
+    if f.declaration is not None:
+        out.append("supplier's declaration " + ("signed" if f.declaration else "NOT given"))
+    if f.sample_seal:
+        out.append(f"MARPOL sample seal {f.sample_seal}")
+    return out
 
 
 def tank_text(t: TankReading) -> str:
@@ -185,9 +204,17 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         for u in r.fuels:
             lines.append(f"  fuel {u.role}: {fuel_text(u)}")
         tanks = getattr(r.details, "tanks", ())
+        caps = {c.tank: c.capacity_m3 for c in getattr(r.details, "capacities", ())}
+        if getattr(r.details, "ship_name", None):
+            lines.append(f"  ship {r.details.ship_name}, IMO {r.details.imo_number or '—'}")
+        if getattr(r.details, "source", ""):
+            lines.append(f"  read from the ship file {r.details.source}")
         for t in tanks:
+            cap = f" (capacity {caps[t]:g} m³)" if t in caps else ""
             lines.append(f"  tank {tank_text(t)}" if isinstance(t, TankReading) else
-                         f"  tank known: {t}")
+                         f"  tank known: {t}{cap}")
+        if getattr(r.details, "circuits", ()):
+            lines.append(f"  circuits: {', '.join(r.details.circuits)}")
         if tanks and isinstance(tanks[0], TankReading):
             lines.append(f"  total {sum(t.volume15_m3 for t in tanks):.3f} m³ at 15 °C, "
                          f"{sum(t.mass_t for t in tanks):.3f} t")
@@ -195,8 +222,10 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         if getattr(d, "fuel", None) is not None:
             lines.append(f"  fuel: {fuel_text(FuelUse('subject', d.fuel))}, "
                          f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
+            lines += [f"  {x}" for x in bdn_items(d.fuel)]
         lines += ["  " + x for x in sample_and_text(d)]
         lines += ["  " + x for x in against_plan(e.subject_kind, r)]
         lines += ["  warning: " + x for x in warnings(e.subject_kind, r)]
+        lines += ["  warning confirmed (--confirm): " + x for x in r.confirmed]
     lines.append(f"  by {e.who.rank} {e.who.name}; hash {s.hash}")
     return lines

@@ -14,7 +14,7 @@ from datetime import date
 from geo.errors import InputError
 from planner.common.timefmt import format_ship, format_utc
 from planner.journal.codec import encode
-from planner.journal.describe import position_text, sample_and_text
+from planner.journal.describe import bdn_items, position_text, sample_and_text
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -90,7 +90,7 @@ def _details(s: Stored) -> str:
             return head
         head += "; "
     d = r.details
-    parts = []
+    parts = [f"circuit {r.circuit}"] if r.circuit else []
     fuels = [f"{u.role} {u.fuel.name} {u.fuel.sulphur_pct:.2f} % S" for u in r.fuels]
     parts += fuels
     tanks = getattr(d, "tanks", ())
@@ -106,11 +106,13 @@ def _details(s: Stored) -> str:
         f = d.fuel
         parts.append(f"{f.name} {f.grade} {f.sulphur_pct:.2f} % S, {f.density15_kg_m3:.1f} "
                      f"kg/m³, BDN {f.bdn_ref}")
+        parts += bdn_items(f)
     parts += [textwrap.shorten(x, SHOWN_CHARS, placeholder=" …") for x in sample_and_text(d)]
     if getattr(d, "follows", None):
         parts.append(f"follows {d.follows}")
     if r.planned is not None:
         parts.append(f"plan {r.planned.source} #{r.planned.changeover}")
+    parts += [f"confirmed warning: {w}" for w in r.confirmed]
     return head + "; ".join(parts)
 
 

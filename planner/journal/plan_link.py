@@ -100,8 +100,11 @@ def planned_for(kind: str, path: str | Path, number: int | None,
                          f"a {DIRECTION[kind]} changeover of the plan (number {number} is "
                          f"{direction}: use it with log {steps})")
     starts = kind in (STARTED, BACK_COMMENCED)
-    time_key = "start_utc" if starts else (
-        "compliant_utc" if direction == "to_compliant" else "complete_utc")
+    done_key = "compliant_utc" if direction == "to_compliant" else "complete_utc"
+    time_key = "start_utc" if starts else done_key
+    t0 = _time(item, "start_utc", file, place, required=False)
+    t1 = _time(item, done_key, file, place, required=False)
+    flush_h = (t1 - t0).total_seconds() / 3600.0 if t0 and t1 and t1 >= t0 else None
     return Planned(
         source=Path(path).name,
         changeover=number,
@@ -113,7 +116,24 @@ def planned_for(kind: str, path: str | Path, number: int | None,
         boundary_utc=_time(item, "boundary_utc", file, place, required=False),
         boundary=_position(item, "boundary", file, place, required=False),
         margin_h=_number(item, "margin_h", file, place),
+        flush_h=flush_h,
     )
+
+
+def plan_circuits(path: str | Path, number: int) -> list[str]:
+    """The circuits of changeover ``number`` of the plan, in the plan's order."""
+    items = load_changeovers(path)
+    rows = [it for it in items if isinstance(it, dict) and it.get("number") == number]
+    if not rows:
+        _pick(items, number, None, str(path))  # refuses a number the plan does not have
+        rows = [items[number - 1]] if isinstance(items[number - 1], dict) else []
+    return [str(it["circuit"]) for it in rows if it.get("circuit")]
+
+
+def plan_areas(path: str | Path) -> set[str]:
+    """The area names the plan's changeovers name."""
+    return {it["area"].strip() for it in load_changeovers(path)
+            if isinstance(it, dict) and isinstance(it.get("area"), str)}
 
 
 def _text(item: dict, key: str, file: str, place: str, required: bool = True) -> str | None:

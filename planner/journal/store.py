@@ -127,8 +127,11 @@ class Journal:
     # -- opening ---------------------------------------------------------------------------
 
     @classmethod
-    def create(cls, path: str | Path, first: Make, *, option: str = "--journal") -> Journal:
-        """A new journal at ``path`` whose entry 1 is ``first`` (the ship's set-up)."""
+    def create(cls, path: str | Path, first: Make, *, option: str = "--journal",
+               then: Sequence[Make] = ()) -> Journal:
+        """A new journal at ``path`` whose entry 1 is ``first`` (the ship's set-up), followed
+        by the entries ``then`` (the fuels, say): all of them are in the file when it
+        appears, or there is no file."""
         target = Path(path)
         if target.exists():
             raise InputError(option, "", str(path), "a new file: a journal is never overwritten")
@@ -142,7 +145,7 @@ class Journal:
                 with sqlite_errors(path):
                     conn.execute("PRAGMA journal_mode = WAL")
                     migrate(conn, new=True)
-                cls(conn, tmp).append(first)
+                cls(conn, tmp).append_many([first, *then])
             finally:
                 conn.close()
             try:

@@ -26,7 +26,15 @@ PLAN = ROOT / "tests" / "data" / "journal" / "plan_sample.json"
 VOYAGE = "V27-05 Aldmere-Skarvik"
 
 
-def run(journal: Path | None, *args: str, env_journal: bool = True) -> subprocess.CompletedProcess:
+CONFIRMED = {"start", "complete", "back", "back-complete", "tanks", "sample", "note", "fuel"}
+"""Commands given --confirm by :func:`run`: the sample voyage is dated 2027, which a clock
+before then reads as more than an hour ahead (tested on its own below)."""
+
+
+def run(journal: Path | None, *args: str, env_journal: bool = True,
+        confirm: bool = True) -> subprocess.CompletedProcess:
+    if confirm and args and args[0] in CONFIRMED and "--" not in args:
+        args = (*args, "--confirm")
     env = {k: v for k, v in os.environ.items() if not k.startswith("CHANGEOVER_")}
     env.update(CHANGEOVER_RANK="Chief Engineer", CHANGEOVER_NAME="R. Halvorsen")
     if journal is not None and env_journal:
@@ -418,7 +426,8 @@ def test_export_csv_neutralises_formulas(flow, tmp_path, text):
     # [OWASP-CSV]: a cell starting with = + - @ tab or CR is prefixed with ' (read as text)
     j = tmp_path / "ship.db"
     shutil.copy(flow["dir"] / "snapshot.db", j)
-    ok(j, "note", "--at", "2027-06-01T13:00Z", "--rank", text, "--name", "A. B", "--", text)
+    ok(j, "note", "--at", "2027-06-01T13:00Z", "--rank", text, "--name", "A. B", "--confirm",
+       "--", text)
     out = tmp_path / "j.csv"
     ok(j, "export", "--out", str(out))
     rows = list(csv.DictReader(io.StringIO(out.read_text(encoding="utf-8"))))

@@ -31,7 +31,7 @@ needs_poppler = pytest.mark.requires_poppler
 
 
 def crew(**kw) -> Typed:
-    base = dict(rank="2nd Engineer", name="T. Okafor")
+    base = dict(rank="2nd Engineer", name="T. Okafor", confirm=True)
     base.update(kw)
     return Typed(**base)
 

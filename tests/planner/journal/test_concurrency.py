@@ -24,7 +24,8 @@ from planner.journal import Journal
 from planner.journal.compose import Typed, note_entry
 path, tag, total, batch = sys.argv[1], sys.argv[2], int(sys.argv[3]), int(sys.argv[4])
 pause = float(sys.argv[5])
-t = Typed(rank="3rd Engineer", name=f"writer {tag}", at="2027-06-01T00:00Z", tz="+12:00")
+t = Typed(rank="3rd Engineer", name=f"writer {tag}", at="2027-06-01T00:00Z", tz="+12:00",
+          confirm=True)
 done = 0
 with Journal.open(path) as j:
     print("ready", flush=True)

@@ -24,7 +24,7 @@ DROPPED = [f"the journal's trigger {t} is missing (dropped)" for t in TRIGGERS]
 
 def crew(**kw) -> Typed:
     base = dict(rank="2nd Engineer", name="T. Okafor", pos="39°19.9'S 176°24.8'E",
-                area="Meridian Reach ECA", voyage="V1")
+                area="Meridian Reach ECA", voyage="V1", confirm=True)
     base.update(kw)
     return Typed(**base)
 
