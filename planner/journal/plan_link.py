@@ -38,17 +38,30 @@ from planner.journal.entries import (
 )
 from planner.journal.inputs import written_position
 
+MAX_PLAN_BYTES = 64 * 2**20
+"""Largest plan JSON read, bytes (a plan of a long voyage is well under a megabyte)."""
+
 
 def load_changeovers(path: str | Path) -> list[dict]:
     """The ``changeovers`` list of a plan JSON file (each item checked when used)."""
     file = str(path)
+    p = Path(path)
     try:
-        doc = json.loads(Path(path).read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise InputError(file, "", None, "an existing plan JSON file "
-                                         "(from changeover plan VOYAGE --json)") from None
-    except (ValueError, UnicodeDecodeError) as exc:
-        raise InputError(file, "", str(exc), "valid JSON") from None
+        if not p.is_file():
+            raise InputError(file, "", None, "an existing plan JSON file "
+                                             "(from changeover plan VOYAGE --json)")
+        with p.open("rb") as f:
+            data = f.read(MAX_PLAN_BYTES + 1)
+    except OSError as exc:
+        raise InputError(file, "", exc.strerror or str(exc), "a plan JSON file you may "
+                                                              "read") from None
+    if len(data) > MAX_PLAN_BYTES:
+        raise InputError(file, "file size", f"over {MAX_PLAN_BYTES} bytes",
+                         f"a plan JSON file of at most {MAX_PLAN_BYTES} bytes")
+    try:
+        doc = json.loads(data.decode("utf-8"))
+    except (ValueError, UnicodeDecodeError, RecursionError) as exc:
+        raise InputError(file, "", str(exc)[:200], "valid JSON (UTF-8)") from None
     items = doc.get("changeovers") if isinstance(doc, dict) else None
     if not isinstance(items, list):
         raise InputError(file, "changeovers", None, "a plan with a list of changeovers")
@@ -153,7 +166,11 @@ def _time(item: dict, key: str, file: str, place: str, required: bool) -> dateti
         return None
     if not isinstance(v, str):
         raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time")
-    return parse_moment(v, file=file, place=f"{place}.{key}")
+    try:
+        return parse_moment(v, file=file, place=f"{place}.{key}")
+    except OverflowError:
+        raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time of a year a "
+                                                    "ship's record can hold") from None
 
 
 def _number(item: dict, key: str, file: str, place: str) -> float | None:

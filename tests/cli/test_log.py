@@ -494,3 +494,28 @@ def test_exported_files_get_the_users_umask(flow, tmp_path):
                        capture_output=True, text=True, timeout=60)
     assert r.returncode == 0, r.stderr
     assert oct(out.stat().st_mode & 0o777) == oct(0o664)  # 0o666 & ~0o002, not 0o600
+
+
+@pytest.mark.parametrize(("content", "needle"), [
+    (None, "expected an existing plan JSON file"),                      # a folder
+    ("/dev/zero", "expected an existing plan JSON file"),               # a device: never read
+    (b"\xff\xfe{}", "expected valid JSON (UTF-8)"),
+    (b'{"changeovers": [{"number": 1, "area": "A", "direction": "to_compliant", '
+     b'"start_utc": "0001-01-01T00:00+14:00", "start_lat": 1, "start_lon": 1}]}',
+     "changeovers[0].start_utc: '0001-01-01T00:00+14:00': expected an ISO 8601 UTC time of a"),
+    (b"[" * 100000, "expected valid JSON"),
+])
+def test_hostile_plan_files_are_one_line(flow, tmp_path, content, needle):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    if content is None:
+        plan = tmp_path / "folder"
+        plan.mkdir()
+    elif isinstance(content, str):
+        plan = Path(content)
+    else:
+        plan = tmp_path / "plan.json"
+        plan.write_bytes(content)
+    r = run(j, "start", "--from-plan", str(plan), "--changeover", "1", "--as-planned",
+            "--fuel", "MGO")
+    one_line_exit_2(r, needle)
