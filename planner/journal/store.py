@@ -74,27 +74,46 @@ def _existing_file(p: Path, path: object, option: str) -> None:
         raise InputError(str(path), "", "permission denied", "a journal file you may read")
 
 
-def _connect_read(path: Path) -> sqlite3.Connection:
-    """The journal file opened read-only, creating nothing beside it.
+def _stamp(path: Path) -> tuple[int, int]:
+    st = path.stat()
+    return st.st_mtime_ns, st.st_size
+
+
+def _copy_into(path: Path, mem: sqlite3.Connection) -> None:
+    """Copy the journal file into ``mem`` read-only, creating nothing beside it.
 
     With no write-ahead log beside the file (no writer has it open, the last one closed
-    cleanly) the file is all there is and is read as immutable. With a log (a writer
-    at work, or one killed), SQLite's read-only mode reads the file and the log together.
+    cleanly) the file is all there is and is read as immutable; the copy is kept only if
+    no writer appeared and the file did not change meanwhile. With a log (a writer at
+    work, or one killed), SQLite's read-only mode reads the file and the log together.
     """
-    if Path(f"{path}-wal").exists():
-        conn = _connect(path, "ro")
-    else:
-        conn = sqlite3.connect(path.resolve().as_uri() + "?mode=ro&immutable=1", uri=True,
-                               isolation_level=None)
-    conn.execute("SELECT COUNT(*) FROM sqlite_master").fetchone()
-    return conn
+    wal = Path(f"{path}-wal")
+    for _ in range(3):
+        if wal.exists():
+            break
+        before = _stamp(path)
+        src = sqlite3.connect(path.resolve().as_uri() + "?mode=ro&immutable=1", uri=True,
+                              isolation_level=None)
+        try:
+            src.backup(mem)
+        finally:
+            src.close()
+        if not wal.exists() and _stamp(path) == before:
+            return
+    src = _connect(path, "ro")
+    try:
+        src.backup(mem)
+    finally:
+        src.close()
 
 
 def sqlite_expected(exc: sqlite3.Error) -> str:
     """What a journal must be, given the SQLite error met (for the one-line message)."""
     text = str(exc)
     low = text.lower()
-    if "readonly" in low or "read-only" in low or "unable to open" in low:
+    if "unable to open" in low:
+        why = "a journal file (and folder) you may read and write"
+    elif "readonly" in low or "read-only" in low:
         why = "a journal file you may write, in a folder you may write"
     elif "locked" in low or "busy" in low:
         why = "a journal no other program holds locked (waited 30 s)"
@@ -174,11 +193,7 @@ class Journal:
         mem = sqlite3.connect(":memory:", isolation_level=None)
         try:
             with sqlite_errors(path):
-                src = _connect_read(p)
-                try:
-                    src.backup(mem)
-                finally:
-                    src.close()
+                _copy_into(p, mem)
                 version = check_journal(mem)
                 if version < SCHEMA_VERSION:
                     migrate(mem)
