@@ -37,6 +37,13 @@ def _existing_ancestor(path: Path) -> Path:
     return p
 
 
+def _refuse(option: str, shown: str, why: str) -> InputError:
+    """``--pdf: 'x': expected ... (why)``, or without an option ``x: why: expected ...``."""
+    if option:
+        return InputError(option, "", shown, f"{WRITABLE_EXPECTED} ({why})")
+    return InputError(shown, "", why, WRITABLE_EXPECTED)
+
+
 def check_writable(target: str | Path, option: str = "") -> Path:
     """``target`` as a :class:`~pathlib.Path` if a file can be written there, else one
     :class:`InputError` naming the option (when given) and the path. Nothing is left
@@ -44,29 +51,26 @@ def check_writable(target: str | Path, option: str = "") -> Path:
     path = Path(target)
     shown = str(target)
     if not shown or shown.endswith(os.sep):
-        raise InputError(option, "", shown, f"{WRITABLE_EXPECTED} (a file name, not a folder)")
+        raise _refuse(option, shown, "a file name, not a folder")
     try:
         if path.is_dir():
-            raise InputError(option, "", shown, f"{WRITABLE_EXPECTED} (it is a folder)")
+            raise _refuse(option, shown, "it is a folder")
         if _is_device(path):
             if not os.access(path, os.W_OK):
-                raise InputError(option, "", shown, f"{WRITABLE_EXPECTED} (not writable)")
+                raise _refuse(option, shown, "not writable")
             return path
         if path.exists() and not path.is_file():
-            raise InputError(option, "", shown, f"{WRITABLE_EXPECTED} (it is not a regular "
-                                                "file)")
+            raise _refuse(option, shown, "it is not a regular file")
         folder = _existing_ancestor(path)
         if not folder.is_dir():
-            raise InputError(option, "", shown, f"{WRITABLE_EXPECTED} ({folder} is a file, "
-                                                "not a folder)")
+            raise _refuse(option, shown, f"{folder} is a file, not a folder")
         fd, probe = tempfile.mkstemp(prefix=".changeover-probe-", dir=folder)
         os.close(fd)
         os.unlink(probe)
     except InputError:
         raise
     except OSError as exc:
-        raise InputError(option, "", shown, f"{WRITABLE_EXPECTED} ({exc.strerror or exc})"
-                         ) from None
+        raise _refuse(option, shown, str(exc.strerror or exc)) from None
     return path
 
 
