@@ -105,7 +105,9 @@ def export_cmd(
     if kind not in ("csv", "json"):
         raise InputError("--format", "", fmt or str(out), "csv or json")
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
-    with Journal.open_read(journal_path(journal)) as j:
+    path = journal_path(journal)
+    not_the_journal(out, path, "--out")
+    with Journal.open_read(path) as j:
         state = j.state()
         report = j.verify()
     seqs = [r.seq for r in list_rows(state, voyage, area, d0, d1)]
@@ -142,6 +144,7 @@ def print_cmd(
 
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
     path = journal_path(journal)
+    not_the_journal(pdf, path, "--pdf")
     with Journal.open_read(path) as j:
         state = j.state()
         report = j.verify()
@@ -149,3 +152,18 @@ def print_cmd(
     write_record_pdf(pdf, book, report, journal_name=path.name)
     typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.others)} other "
                f"entries; journal last hash {report.last_hash}")
+
+
+def not_the_journal(out: Path | None, journal: Path, option: str) -> None:
+    """Refuse an output file that is the journal itself (or its SQLite log files)."""
+    if out is None:
+        return
+    import os
+
+    from geo.errors import InputError
+
+    target = os.path.realpath(out)
+    for p in (journal, Path(f"{journal}-wal"), Path(f"{journal}-shm")):
+        if target == os.path.realpath(p):
+            raise InputError(option, "", str(out), "a file other than the journal (writing "
+                                                   "there would replace the record)")

@@ -519,3 +519,14 @@ def test_hostile_plan_files_are_one_line(flow, tmp_path, content, needle):
     r = run(j, "start", "--from-plan", str(plan), "--changeover", "1", "--as-planned",
             "--fuel", "MGO")
     one_line_exit_2(r, needle)
+
+
+@pytest.mark.parametrize("cmd", [["export", "--out"], ["print", "--pdf"]])
+def test_an_output_onto_the_journal_is_refused(flow, tmp_path, cmd):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    before = j.read_bytes()
+    for target in (j, tmp_path / "." / "ship.db"):
+        one_line_exit_2(run(j, *cmd, str(target), "--format", "json") if cmd[0] == "export"
+                        else run(j, *cmd, str(target)), "expected a file other than the journal")
+    assert j.read_bytes() == before
