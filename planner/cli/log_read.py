@@ -149,7 +149,14 @@ def print_cmd(
         state = j.state()
         report = j.verify()
     book = make_book(state, voyage, area, d0, d1)
-    write_record_pdf(pdf, book, report, journal_name=path.name)
+    from reportlab.platypus.doctemplate import LayoutError
+
+    try:
+        write_record_pdf(pdf, book, report, journal_name=path.name)
+    except LayoutError:
+        raise InputError(str(path), "", "an entry too long for a page", "entries this "
+                         "program wrote (names at most 120 characters); show --json "
+                         "lists them") from None
     typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.others)} other "
                f"entries; journal last hash {report.last_hash}")
 

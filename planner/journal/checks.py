@@ -13,6 +13,7 @@ from __future__ import annotations
 
 from geo.errors import InputError
 from planner.common.timefmt import format_utc
+from planner.journal.codec import encode
 from planner.journal.entries import (
     CORRECTABLE,
     CORRECTION,
@@ -35,10 +36,37 @@ def check_entry(state: JournalState, entry: Entry) -> None:
     root = None
     if entry.kind == CORRECTION and entry.correction is not None:
         root = check_correction(state, entry.correction.corrects, entry.correction.of_kind)
+    check_lengths(entry)
     if entry.record is not None:
         check_tanks(state, entry.record)
         check_circuit(state, entry.record)
         check_order(state, entry.subject_kind, entry.record, root)
+
+
+NAME_CHARS = 120
+"""Longest name, number or reference an entry holds (a rank, a tank, an area, a seal...);
+only the free text (:data:`FREE_TEXT`) may be longer."""
+
+FREE_TEXT = {"text": "the note", "remarks": "--remarks", "reason": "--reason",
+             "supplier": "--supplier", "confirmed": "--confirm"}
+"""Fields of free text, of any length (printed in full across pages)."""
+
+
+def check_lengths(entry: Entry) -> None:
+    """Every text of the entry but its free text is at most :data:`NAME_CHARS` long."""
+    def walk(value: object, key: str) -> None:
+        if isinstance(value, dict):
+            for k, v in value.items():
+                if k not in FREE_TEXT:
+                    walk(v, k)
+        elif isinstance(value, list):
+            for v in value:
+                walk(v, key)
+        elif isinstance(value, str) and len(value) > NAME_CHARS:
+            raise InputError(key, "", value[:40] + "…", f"at most {NAME_CHARS} characters "
+                                                        "(only notes, remarks and reasons "
+                                                        "may be longer)")
+    walk(encode(entry), "entry")
 
 
 def check_correction(state: JournalState, corrects: int, of_kind: str | None = None) -> int:

@@ -530,3 +530,14 @@ def test_an_output_onto_the_journal_is_refused(flow, tmp_path, cmd):
         one_line_exit_2(run(j, *cmd, str(target), "--format", "json") if cmd[0] == "export"
                         else run(j, *cmd, str(target)), "expected a file other than the journal")
     assert j.read_bytes() == before
+
+
+@pytest.mark.parametrize("opt", ["--rank", "--name", "--area", "--voyage", "--circuit"])
+def test_names_longer_than_120_characters_are_refused(flow, tmp_path, opt):
+    j = tmp_path / "ship.db"
+    shutil.copy(flow["dir"] / "snapshot.db", j)
+    r = run(j, "start", "--at", "2027-06-01T17:10Z", "--pos", "1 1", "--area", "A", "--fuel",
+            "MGO", opt, "x" * 121)
+    one_line_exit_2(r, "expected at most 120 characters (only notes, remarks and reasons")
+    assert "started" in ok(j, "start", "--at", "2027-06-01T17:10Z", "--pos", "1 1", "--area",
+                           "A", "--fuel", "MGO", opt, "x" * 120)
