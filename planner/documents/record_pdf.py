@@ -18,7 +18,7 @@ from __future__ import annotations
 from datetime import UTC, datetime
 from pathlib import Path
 
-from planner.common.timefmt import format_offset, format_utc
+from planner.common.timefmt import format_utc
 from planner.documents.pdf_common import (
     FRAME_WIDTH_MM,
     Markup,
@@ -30,20 +30,25 @@ from planner.documents.pdf_common import (
     signature_block,
     title_block,
 )
+from planner.documents.record_pdf_cells import (
+    cell,
+    long_texts,
+    others_section,
+    ship_time,
+    short_text,
+)
 from planner.journal.book import Book, Changeover, Line, Version
 from planner.journal.describe import (
     bdn_items,
     boundary_text,
     fuel_text,
     position_text,
-    sample_and_text,
     step_heading,
     warnings,
 )
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     COMPLETED,
-    LABELS,
     REG14_KINDS,
     Record,
 )
@@ -55,52 +60,7 @@ SUBTITLE = ("MARPOL Annex VI regulation 14.6: the changeover to compliant fuel c
             "after exit, with the volume of compliant fuel in each tank. Printed from the ship's "
             "journal, where entries are never changed: a correction is printed beside the "
             "struck-through original.")
-GREY = "#6b6b6b"
-CELL_CHARS = 240
-"""Longest free text (a reason, a note, remarks) put in a table cell; longer text is cut
-there with a pointer and printed in full, across pages if need be, under the table."""
-
-
-def _short(text: str, seq: int) -> str:
-    """``text`` for a table cell: whole when short, else its start and where the rest is."""
-    if len(text) <= CELL_CHARS:
-        return text
-    return f"{text[:CELL_CHARS].rstrip()}… (entry {seq} in full below)"
-
-
-def _long_texts(pairs: list[tuple[int, str, str]]) -> list:
-    """Paragraphs holding in full each (entry, what, text) too long for its cell."""
-    out = []
-    for seq, what, text in pairs:
-        if len(text) > CELL_CHARS:
-            out.append(para(f"Entry {seq}, {what} in full:", "small"))
-            out += [para(chunk, "small") for chunk in _chunks(text)]
-    return out
-
-
-def _chunks(text: str, size: int = 2000) -> list[str]:
-    """Text in pieces of about ``size`` characters (paragraphs that can break across pages)."""
-    out = []
-    for block in text.splitlines() or [""]:
-        out += [block[i:i + size] for i in range(0, max(len(block), 1), size)]
-    return out
-
-
-def _cell(lines: list[str], struck: bool = False, bold: bool = False) -> Markup:
-    text = "<br/>".join(esc(x) for x in lines)
-    if bold:
-        text = f"<b>{text}</b>"
-    if struck:
-        text = f'<font color="{GREY}"><strike>{text}</strike></font>'
-    return Markup(text)
-
-
-def _ship_time(r: Record) -> list[str]:
-    local = r.time_utc.astimezone(r.ship_tz)
-    return [local.strftime("%Y-%m-%d %H:%M"), f"UTC{format_offset(r.ship_tz)}"]
-
-
-def _planned_cell(r: Record) -> list[str]:
+def _plannedcell(r: Record) -> list[str]:
     p = r.planned
     if p is None:
         return ["not linked to a plan"]
@@ -122,20 +82,20 @@ def _version_row(v: Version, kind: str, first: bool) -> list[Markup]:
     if first:
         label = [step_heading(kind, r)]
     elif r is None:
-        label = [f"Struck out: {_short(v.reason or '', s.seq)}"]
+        label = [f"Struck out: {short_text(v.reason or '', s.seq)}"]
     else:
         label = [f"Correction of {v.stored.entry.correction.corrects}: "
-                 f"{_short(v.reason or '', s.seq)}", step_heading(kind, r)]
+                 f"{short_text(v.reason or '', s.seq)}", step_heading(kind, r)]
     if r is None:
-        return [_cell([str(s.seq)], struck), _cell(label, struck)] + [_cell(["—"], struck)] * 5
+        return [cell([str(s.seq)], struck), cell(label, struck)] + [cell(["—"], struck)] * 5
     return [
-        _cell([str(s.seq)], struck, bold=v.standing),
-        _cell(label, struck, bold=first and v.standing),
-        _cell([r.time_utc.strftime("%Y-%m-%d")], struck),
-        _cell([r.time_utc.strftime("%H:%M") + "Z"], struck),
-        _cell(_ship_time(r), struck),
-        _cell(position_text(r.position).split(" ", 1), struck),
-        _cell(_planned_cell(r), struck),
+        cell([str(s.seq)], struck, bold=v.standing),
+        cell(label, struck, bold=first and v.standing),
+        cell([r.time_utc.strftime("%Y-%m-%d")], struck),
+        cell([r.time_utc.strftime("%H:%M") + "Z"], struck),
+        cell(ship_time(r), struck),
+        cell(position_text(r.position).split(" ", 1), struck),
+        cell(_plannedcell(r), struck),
     ]
 
 
@@ -154,16 +114,16 @@ def _tank_rows(v: Version, struck: bool) -> list[list[Markup]]:
     rows = []
     for t in tanks:
         s = sulphur.get(t.fuel)
-        rows.append([_cell([str(v.stored.seq)], struck), _cell([t.tank], struck),
-                     _cell([t.fuel], struck), _cell(["—" if s is None else f"{s:.2f}"], struck),
-                     _cell([f"{t.volume_m3:.3f}"], struck),
-                     _cell([f"{t.temperature_c:.1f}"], struck), _cell([f"{t.vcf:.4f}"], struck),
-                     _cell([f"{t.volume15_m3:.3f}"], struck), _cell([f"{t.mass_t:.3f}"], struck)])
+        rows.append([cell([str(v.stored.seq)], struck), cell([t.tank], struck),
+                     cell([t.fuel], struck), cell(["—" if s is None else f"{s:.2f}"], struck),
+                     cell([f"{t.volume_m3:.3f}"], struck),
+                     cell([f"{t.temperature_c:.1f}"], struck), cell([f"{t.vcf:.4f}"], struck),
+                     cell([f"{t.volume15_m3:.3f}"], struck), cell([f"{t.mass_t:.3f}"], struck)])
     if tanks:
-        rows.append([_cell([""], struck), _cell(["Total"], struck, bold=True), "", "",
-                     _cell([f"{sum(t.volume_m3 for t in tanks):.3f}"], struck), "", "",
-                     _cell([f"{sum(t.volume15_m3 for t in tanks):.3f}"], struck, bold=True),
-                     _cell([f"{sum(t.mass_t for t in tanks):.3f}"], struck, bold=True)])
+        rows.append([cell([""], struck), cell(["Total"], struck, bold=True), "", "",
+                     cell([f"{sum(t.volume_m3 for t in tanks):.3f}"], struck), "", "",
+                     cell([f"{sum(t.volume15_m3 for t in tanks):.3f}"], struck, bold=True),
+                     cell([f"{sum(t.mass_t for t in tanks):.3f}"], struck, bold=True)])
     return rows
 
 
@@ -238,7 +198,7 @@ def numbered(book: Book) -> list[tuple[int | None, Changeover]]:
 
 def _struck_text(ch: Changeover) -> list[str]:
     return [f"entry {x.seq} struck out by entry {x.standing.stored.seq}: "
-            f"{_short(x.standing.reason or '', x.standing.stored.seq)}" for x in ch.steps]
+            f"{short_text(x.standing.reason or '', x.standing.stored.seq)}" for x in ch.steps]
 
 
 def _summary(book: Book) -> list:
@@ -250,8 +210,8 @@ def _summary(book: Book) -> list:
         if ch.circuit:
             what += f" ({ch.circuit})"
         if i is None:
-            rows.append([_cell(["—"], True), _cell([what], True),
-                         _cell(["struck out"] + _struck_text(ch)), "", "", ""])
+            rows.append([cell(["—"], True), cell([what], True),
+                         cell(["struck out"] + _struck_text(ch)), "", "", ""])
             continue
         if key is None or key.kind not in REG14_KINDS:
             rows.append([str(i), what, "not recorded", "—", "—", "—"])
@@ -262,12 +222,12 @@ def _summary(book: Book) -> list:
         ref = f"entry {key.seq}" + (f", corrected by {key.standing.stored.seq}"
                                     if len(key.versions) > 1 else "")
         rows.append([str(i), what, [f"{step} {format_utc(r.time_utc)}", ref],
-                     _ship_time(r), position_text(r.position).split(" ", 1),
+                     ship_time(r), position_text(r.position).split(" ", 1),
                      [f"{sum(t.volume15_m3 for t in tanks):.3f} m³",
                       f"{sum(t.mass_t for t in tanks):.3f} t, {len(tanks)} tank(s)"]])
     if not rows:
         return []
-    cells = [[c if isinstance(c, Markup) else _cell(c if isinstance(c, list) else [c])
+    cells = [[c if isinstance(c, Markup) else cell(c if isinstance(c, list) else [c])
               for c in row] for row in rows]
     return [para("Changeovers in this record", "h1"), data_table(
         ["No.", "Changeover", "Reg. 14.6 time (UTC)", "Ship's time", "Position",
@@ -289,7 +249,7 @@ def _changeover(i: int | None, ch: Changeover) -> list:
     parts.append(_steps_table(ch))
     if i is None:
         parts += [para(x[0].upper() + x[1:] + ".", "small") for x in _struck_text(ch)]
-        return parts + _long_texts(_free_texts(ch.steps))
+        return parts + long_texts(_free_texts(ch.steps))
     parts += [para(x, "small") for x in _fuel_lines(ch)]
     key = _key_step(ch)
     note = boundary_text(key.kind, key.record) if key is not None else ""
@@ -306,7 +266,7 @@ def _changeover(i: int | None, ch: Changeover) -> list:
                        f"{format_utc(e.written_utc)}")
     parts.append(para("Entered: " + "; ".join(who) + ".", "small"))
     for seq, what, text in _free_texts(ch.steps):
-        parts.append(para(f"Entry {seq}, {what}: {_short(text, seq)}", "small"))
+        parts.append(para(f"Entry {seq}, {what}: {short_text(text, seq)}", "small"))
     warn = [w for line in ch.steps if not line.struck for w in warnings(line.kind, line.record)]
     warn += [f"entry {line.standing.stored.seq}, confirmed when written: {w}"
              for line in ch.steps if not line.struck for w in line.record.confirmed]
@@ -317,7 +277,7 @@ def _changeover(i: int | None, ch: Changeover) -> list:
             "No completion before entry (or commencement after exit) is recorded for this "
             "changeover in the selection: regulation 14.6 asks for that record."]))
     sign = signature_block(["Chief engineer", "Master"])
-    return [KeepTogether(parts + sign)] + _long_texts(_free_texts(ch.steps))
+    return [KeepTogether(parts + sign)] + long_texts(_free_texts(ch.steps))
 
 
 def _free_texts(lines: tuple[Line, ...]) -> list[tuple[int, str, str]]:
@@ -330,49 +290,6 @@ def _free_texts(lines: tuple[Line, ...]) -> list[tuple[int, str, str]]:
             remarks = getattr(v.record.details, "remarks", "") if v.record else ""
             if remarks:
                 out.append((v.stored.seq, "remarks", remarks))
-    return out
-
-
-def _others(lines: tuple[Line, ...]) -> list:
-    if not lines:
-        return []
-    rows = []
-    for line in lines:
-        for i, v in enumerate(line.versions):
-            struck = not v.standing
-            r = v.record
-            reason = _short(v.reason or "", v.stored.seq)
-            label = LABELS[line.kind] if i == 0 else (
-                f"struck out: {reason}" if r is None else f"correction of "
-                f"{v.stored.entry.correction.corrects}: {reason}")
-            if r is None:
-                rows.append([_cell([str(v.stored.seq)], struck), _cell([label], struck)]
-                            + [_cell(["—"], struck)] * 4)
-                continue
-            rows.append([_cell([str(v.stored.seq)], struck), _cell([label], struck),
-                         _cell([format_utc(r.time_utc)], struck), _cell(_ship_time(r), struck),
-                         _cell(position_text(r.position).split(" ", 1), struck),
-                         _cell(_other_details(v), struck)])
-    full = [(v.stored.seq, what, text) for line in lines for v in line.versions
-            for what, text in (("reason", v.reason or ""),
-                               ("text", "\n".join(sample_and_text(v.record.details))
-                                if v.record else ""))]
-    return [para("Tank soundings, samples and notes", "h1"),
-            data_table(["Entry", "What", "UTC", "Ship's time", "Position", "Details"], rows,
-                       [12, 28, 25, 25, 27, FRAME_WIDTH_MM - 117])] + _long_texts(full)
-
-
-def _other_details(v: Version) -> list[str]:
-    r = v.record
-    d = r.details
-    out = [fuel_text(u) for u in r.fuels]
-    for t in getattr(d, "tanks", ()):
-        out.append(f"{t.tank}: {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
-                   f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
-    out += [_short(x, v.stored.seq) for x in sample_and_text(d)]
-    out += [f"confirmed when written: {w}" for w in r.confirmed]
-    e = v.stored.entry
-    out.append(f"by {e.who.rank} {e.who.name}")
     return out
 
 
@@ -416,7 +333,7 @@ def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
         story.append(para("No changeover is recorded in this selection.", "h2"))
     for i, ch in numbered(book):
         story += _changeover(i, ch)
-    story += _others(book.others)
+    story += others_section(book.others)
     story += [para("How to check this copy", "h2"), para(
         f"Run <font face='Courier'>changeover log verify --journal {esc(journal_name)} --hash "
         f"{book.last_hash}</font>: the journal must still hold this hash (entry "
