@@ -31,6 +31,13 @@ PosOpt = Annotated[str | None, typer.Option("--pos", help="Position, latitude th
 AreaOpt = Annotated[str | None, typer.Option(help="Control area, e.g. \"Corran Sea ECA\".")]
 VoyageOpt = Annotated[str | None, typer.Option(help="Voyage (default: the last entry's).")]
 CircuitOpt = Annotated[str | None, typer.Option(help="Fuel circuit, e.g. \"main engine\".")]
+CircuitsOpt = Annotated[list[str] | None, typer.Option(
+    "--circuit", help="Fuel circuit, e.g. \"main engine\"; repeat it (or give all) to record "
+                      "the same step for several circuits at once, one entry each.")]
+ConfirmOpt = Annotated[bool, typer.Option(
+    "--confirm", help="Record the entry even with a warning (a completion sooner than the "
+                      "modelled flush, an area not in the plan, a time more than an hour "
+                      "ahead); the warning is kept in the entry.")]
 FuelOpt = Annotated[list[str] | None, typer.Option(
     "--fuel", help="Fuel by its journal name (see log fuel); for a changeover the fuel changed "
                    "to. Repeatable.")]

@@ -37,26 +37,24 @@ def show_cmd(
 
     kinds = parse_kinds(kind or [])
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
-    with Journal.open(journal_path(journal)) as j:
+    with Journal.open_read(journal_path(journal)) as j:
         state = j.state()
     rows = list_rows(state, voyage, area, d0, d1, kinds)
     if json_out:
         typer.echo(dumps({"ship": {"name": state.ship_name, "imo": state.imo_number},
                           "entries": rows_json(state, rows)}))
         return
-    from planner.cli.console import console, table
+    from planner.cli.log_table import Column, output_width, render, use_ansi
 
-    t = table(f"{state.ship_name} (IMO {state.imo_number}): {len(rows)} of "
-              f"{state.last_seq} entries", [
-                  ("No.", "r"), ("Kind", "l"), ("UTC", "l"), ("Ship's time", "l"),
-                  ("Position", "l"), ("Area", "w"), ("Details", "w"), ("By", "w"),
-                  ("Status", "w")])
-    for col in t.columns:
-        col.no_wrap = col.header in ("No.", "Kind", "UTC", "Ship's time", "Position")
-    for r in rows:
-        cells = [str(r.seq), r.kind, r.utc, r.ship_time, r.position, r.area, r.details, r.who]
-        t.add_row(*[f"[strike]{c}[/strike]" if r.replaced else c for c in cells], r.status)
-    console().print(t)
+    columns = [Column("No.", "r"), Column("Kind"), Column("UTC"), Column("Ship's time"),
+               Column("Position"), Column("Area and details", wrap=True),
+               Column("By, status", wrap=True)]
+    cells = [[str(r.seq), r.kind, r.utc, r.ship_time, r.position,
+              "; ".join(x for x in (r.area, r.details) if x),
+              "; ".join(x for x in (r.who, r.status) if x)] for r in rows]
+    typer.echo(render(f"{state.ship_name} (IMO {state.imo_number}): {len(rows)} of "
+                      f"{state.last_seq} entries", columns, cells, output_width(),
+                      [r.replaced for r in rows], use_ansi()))
 
 
 def verify_cmd(
@@ -75,7 +73,7 @@ def verify_cmd(
     if hash_ is not None and not is_hash(hash_.strip().lower()):
         raise InputError("--hash", "", hash_, "a SHA-256 hash: 64 hexadecimal digits")
     path = journal_path(journal)
-    with Journal.open(path) as j:
+    with Journal.open_read(path) as j:
         report = j.verify(hash_.strip().lower() if hash_ else None)
     if json_out:
         typer.echo(dumps(verify_json(path.name, report)))
@@ -96,17 +94,20 @@ def export_cmd(
 ) -> None:
     """Export entries as CSV or JSON (a whole-journal JSON can be re-checked without us)."""
     from geo.errors import InputError
-    from planner.common.outputs import dumps, write_atomic
+    from planner.common.outputs import check_outputs, dumps, write_text
     from planner.journal import Journal
     from planner.journal.book import describe_selection
     from planner.journal.export import export_csv, export_json
     from planner.journal.listing import list_rows, parse_day_opt
 
     kind = (fmt or (out.suffix.lstrip(".") if out else "json")).lower()
+    check_outputs({"--out": out})
     if kind not in ("csv", "json"):
         raise InputError("--format", "", fmt or str(out), "csv or json")
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
-    with Journal.open(journal_path(journal)) as j:
+    path = journal_path(journal)
+    not_the_journal(out, path, "--out")
+    with Journal.open_read(path) as j:
         state = j.state()
         report = j.verify()
     seqs = [r.seq for r in list_rows(state, voyage, area, d0, d1)]
@@ -119,7 +120,7 @@ def export_cmd(
     if out is None:
         typer.echo(text, nl=False)
         return
-    write_atomic(out, lambda p: Path(p).write_text(text, encoding="utf-8"))
+    write_text(out, text)
     typer.echo(f"wrote {out} ({len(stored)} entries)")
 
 
@@ -133,6 +134,9 @@ def print_cmd(
 
     if pdf is None:
         raise InputError("--pdf", "", None, "the PDF file to write, e.g. --pdf record.pdf")
+    from planner.common.outputs import check_outputs
+
+    check_outputs({"--pdf": pdf})
     from planner.documents.record_pdf import write_record_pdf
     from planner.journal import Journal
     from planner.journal.book import make_book
@@ -140,10 +144,33 @@ def print_cmd(
 
     d0, d1 = parse_day_opt(since, "--since"), parse_day_opt(until, "--until")
     path = journal_path(journal)
-    with Journal.open(path) as j:
+    not_the_journal(pdf, path, "--pdf")
+    with Journal.open_read(path) as j:
         state = j.state()
         report = j.verify()
     book = make_book(state, voyage, area, d0, d1)
-    write_record_pdf(pdf, book, report, journal_name=path.name)
-    typer.echo(f"wrote {pdf}: {len(book.changeovers)} changeovers, {len(book.others)} other "
+    from reportlab.platypus.doctemplate import LayoutError
+
+    try:
+        write_record_pdf(pdf, book, report, journal_name=path.name)
+    except LayoutError:
+        raise InputError(str(path), "", "an entry too long for a page", "entries this "
+                         "program wrote (names at most 120 characters); show --json "
+                         "lists them") from None
+    typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.others)} other "
                f"entries; journal last hash {report.last_hash}")
+
+
+def not_the_journal(out: Path | None, journal: Path, option: str) -> None:
+    """Refuse an output file that is the journal itself (or its SQLite log files)."""
+    if out is None:
+        return
+    import os
+
+    from geo.errors import InputError
+
+    target = os.path.realpath(out)
+    for p in (journal, Path(f"{journal}-wal"), Path(f"{journal}-shm")):
+        if target == os.path.realpath(p):
+            raise InputError(option, "", str(out), "a file other than the journal (writing "
+                                                   "there would replace the record)")

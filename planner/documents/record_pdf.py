@@ -18,7 +18,7 @@ from __future__ import annotations
 from datetime import UTC, datetime
 from pathlib import Path
 
-from planner.common.timefmt import format_offset, format_utc
+from planner.common.timefmt import format_utc
 from planner.documents.pdf_common import (
     FRAME_WIDTH_MM,
     Markup,
@@ -30,22 +30,26 @@ from planner.documents.pdf_common import (
     signature_block,
     title_block,
 )
+from planner.documents.record_pdf_cells import (
+    cell,
+    long_texts,
+    others_section,
+    ship_time,
+    short_text,
+)
 from planner.journal.book import Book, Changeover, Line, Version
 from planner.journal.describe import (
+    bdn_items,
     boundary_text,
     fuel_text,
     position_text,
-    sample_and_text,
+    step_heading,
     warnings,
 )
 from planner.journal.details import TankReading
 from planner.journal.entries import (
-    BACK_COMMENCED,
-    BACK_COMPLETED,
     COMPLETED,
-    LABELS,
     REG14_KINDS,
-    STARTED,
     Record,
 )
 from planner.journal.verify import VerifyReport
@@ -56,26 +60,7 @@ SUBTITLE = ("MARPOL Annex VI regulation 14.6: the changeover to compliant fuel c
             "after exit, with the volume of compliant fuel in each tank. Printed from the ship's "
             "journal, where entries are never changed: a correction is printed beside the "
             "struck-through original.")
-STEP = {STARTED: "Changeover started", COMPLETED: "Completed before entry",
-        BACK_COMMENCED: "Commenced after exit", BACK_COMPLETED: "Changeover back completed"}
-GREY = "#6b6b6b"
-
-
-def _cell(lines: list[str], struck: bool = False, bold: bool = False) -> Markup:
-    text = "<br/>".join(esc(x) for x in lines)
-    if bold:
-        text = f"<b>{text}</b>"
-    if struck:
-        text = f'<font color="{GREY}"><strike>{text}</strike></font>'
-    return Markup(text)
-
-
-def _ship_time(r: Record) -> list[str]:
-    local = r.time_utc.astimezone(r.ship_tz)
-    return [local.strftime("%Y-%m-%d %H:%M"), f"UTC{format_offset(r.ship_tz)}"]
-
-
-def _planned_cell(r: Record) -> list[str]:
+def _plannedcell(r: Record) -> list[str]:
     p = r.planned
     if p is None:
         return ["not linked to a plan"]
@@ -95,21 +80,22 @@ def _version_row(v: Version, kind: str, first: bool) -> list[Markup]:
     s, r = v.stored, v.record
     struck = not v.standing
     if first:
-        label = [STEP.get(kind, LABELS[kind])]
+        label = [step_heading(kind, r)]
     elif r is None:
-        label = [f"Struck out: {v.reason}"]
+        label = [f"Struck out: {short_text(v.reason or '', s.seq)}"]
     else:
-        label = [f"Correction of {v.stored.entry.correction.corrects}: {v.reason}"]
+        label = [f"Correction of {v.stored.entry.correction.corrects}: "
+                 f"{short_text(v.reason or '', s.seq)}", step_heading(kind, r)]
     if r is None:
-        return [_cell([str(s.seq)], struck), _cell(label, struck)] + [_cell(["—"], struck)] * 5
+        return [cell([str(s.seq)], struck), cell(label, struck)] + [cell(["—"], struck)] * 5
     return [
-        _cell([str(s.seq)], struck, bold=v.standing),
-        _cell(label, struck, bold=first and v.standing),
-        _cell([r.time_utc.strftime("%Y-%m-%d")], struck),
-        _cell([r.time_utc.strftime("%H:%M") + "Z"], struck),
-        _cell(_ship_time(r), struck),
-        _cell(position_text(r.position).split(" ", 1), struck),
-        _cell(_planned_cell(r), struck),
+        cell([str(s.seq)], struck, bold=v.standing),
+        cell(label, struck, bold=first and v.standing),
+        cell([r.time_utc.strftime("%Y-%m-%d")], struck),
+        cell([r.time_utc.strftime("%H:%M") + "Z"], struck),
+        cell(ship_time(r), struck),
+        cell(position_text(r.position).split(" ", 1), struck),
+        cell(_plannedcell(r), struck),
     ]
 
 
@@ -128,35 +114,44 @@ def _tank_rows(v: Version, struck: bool) -> list[list[Markup]]:
     rows = []
     for t in tanks:
         s = sulphur.get(t.fuel)
-        rows.append([_cell([str(v.stored.seq)], struck), _cell([t.tank], struck),
-                     _cell([t.fuel], struck), _cell(["—" if s is None else f"{s:.2f}"], struck),
-                     _cell([f"{t.volume_m3:.3f}"], struck),
-                     _cell([f"{t.temperature_c:.1f}"], struck), _cell([f"{t.vcf:.4f}"], struck),
-                     _cell([f"{t.volume15_m3:.3f}"], struck), _cell([f"{t.mass_t:.3f}"], struck)])
+        rows.append([cell([str(v.stored.seq)], struck), cell([t.tank], struck),
+                     cell([t.fuel], struck), cell(["—" if s is None else f"{s:.2f}"], struck),
+                     cell([f"{t.volume_m3:.3f}"], struck),
+                     cell([f"{t.temperature_c:.1f}"], struck), cell([f"{t.vcf:.4f}"], struck),
+                     cell([f"{t.volume15_m3:.3f}"], struck), cell([f"{t.mass_t:.3f}"], struck)])
     if tanks:
-        rows.append([_cell([""], struck), _cell(["Total"], struck, bold=True), "", "",
-                     _cell([f"{sum(t.volume_m3 for t in tanks):.3f}"], struck), "", "",
-                     _cell([f"{sum(t.volume15_m3 for t in tanks):.3f}"], struck, bold=True),
-                     _cell([f"{sum(t.mass_t for t in tanks):.3f}"], struck, bold=True)])
+        rows.append([cell([""], struck), cell(["Total"], struck, bold=True), "", "",
+                     cell([f"{sum(t.volume_m3 for t in tanks):.3f}"], struck), "", "",
+                     cell([f"{sum(t.volume15_m3 for t in tanks):.3f}"], struck, bold=True),
+                     cell([f"{sum(t.mass_t for t in tanks):.3f}"], struck, bold=True)])
     return rows
 
 
 def _tanks_section(line: Line) -> list:
+    """The soundings of every version: each superseded list struck through, then the list
+    that stands (the correction's, even when it kept the original's soundings)."""
     rows: list[list[Markup]] = []
-    last_tanks = None
-    for v in line.versions:
-        if v.record is None:
-            continue
+    versions = [v for v in line.versions if v.record is not None]
+    standing = versions[-1] if versions and not line.struck else None
+    shown = []
+    for v in versions:
         tanks = getattr(v.record.details, "tanks", ())
-        if tanks == last_tanks:
+        if v is standing or tanks in shown or (
+                standing is not None and tanks == standing.record.details.tanks):
             continue
-        last_tanks = tanks
-        rows += _tank_rows(v, struck=not v.standing)
+        shown.append(tanks)
+        rows += _tank_rows(v, struck=True)
+    if standing is not None:
+        rows += _tank_rows(standing, struck=False)
     if not rows:
         return []
     what = "completed" if line.kind == COMPLETED else "commenced"
-    return [para(f"Compliant fuel in each tank when the changeover was {what} (entry "
-                 f"{line.seq}); observed volume corrected to 15 °C with the Table 54B volume "
+    which = f"entry {line.seq}"
+    if len(line.versions) > 1:
+        which += (f", struck out by entry {line.standing.stored.seq}" if line.struck else
+                  f", as corrected by entry {line.standing.stored.seq}")
+    return [para(f"Compliant fuel in each tank when the changeover was {what} ({which}); "
+                 "observed volume corrected to 15 °C with the Table 54B volume "
                  "correction factor (VCF); mass = volume at 15 °C × density at 15 °C.", "small"),
             data_table(["Entry", "Tank", "Fuel", "S % m/m", "Observed m³", "Temp °C", "VCF",
                         "m³ at 15 °C", "Mass t"], rows, [12, 38, 20, 15, 20, 15, 16, 22, 20],
@@ -188,14 +183,36 @@ def _key_step(ch: Changeover) -> Line | None:
     return live[0] if live else None
 
 
+def numbered(book: Book) -> list[tuple[int | None, Changeover]]:
+    """The changeovers with their printed numbers; one whose every step is struck out has
+    none (it is printed struck, never counted as a changeover or as a missing record)."""
+    out, n = [], 0
+    for ch in book.changeovers:
+        if ch.struck:
+            out.append((None, ch))
+        else:
+            n += 1
+            out.append((n, ch))
+    return out
+
+
+def _struck_text(ch: Changeover) -> list[str]:
+    return [f"entry {x.seq} struck out by entry {x.standing.stored.seq}: "
+            f"{short_text(x.standing.reason or '', x.standing.stored.seq)}" for x in ch.steps]
+
+
 def _summary(book: Book) -> list:
     rows = []
-    for i, ch in enumerate(book.changeovers, 1):
+    for i, ch in numbered(book):
         key = _key_step(ch)
         what = (f"to compliant fuel before entering {ch.area}" if ch.direction == "to_compliant"
                 else f"back to regular fuel after leaving {ch.area}")
         if ch.circuit:
             what += f" ({ch.circuit})"
+        if i is None:
+            rows.append([cell(["—"], True), cell([what], True),
+                         cell(["struck out"] + _struck_text(ch)), "", "", ""])
+            continue
         if key is None or key.kind not in REG14_KINDS:
             rows.append([str(i), what, "not recorded", "—", "—", "—"])
             continue
@@ -205,29 +222,34 @@ def _summary(book: Book) -> list:
         ref = f"entry {key.seq}" + (f", corrected by {key.standing.stored.seq}"
                                     if len(key.versions) > 1 else "")
         rows.append([str(i), what, [f"{step} {format_utc(r.time_utc)}", ref],
-                     _ship_time(r), position_text(r.position).split(" ", 1),
+                     ship_time(r), position_text(r.position).split(" ", 1),
                      [f"{sum(t.volume15_m3 for t in tanks):.3f} m³",
                       f"{sum(t.mass_t for t in tanks):.3f} t, {len(tanks)} tank(s)"]])
     if not rows:
         return []
-    cells = [[_cell(c if isinstance(c, list) else [c]) for c in row] for row in rows]
+    cells = [[c if isinstance(c, Markup) else cell(c if isinstance(c, list) else [c])
+              for c in row] for row in rows]
     return [para("Changeovers in this record", "h1"), data_table(
         ["No.", "Changeover", "Reg. 14.6 time (UTC)", "Ship's time", "Position",
          "Compliant fuel at 15 °C"], cells, [10, 56, 32, 25, 27, 28], align="lllllr")]
 
 
-def _changeover(i: int, ch: Changeover) -> list:
+def _changeover(i: int | None, ch: Changeover) -> list:
     from reportlab.platypus import KeepTogether
 
-    head = (f"Changeover {i}: to compliant fuel before entering {ch.area}"
+    name = f"Changeover {i}" if i is not None else "Struck out, not a changeover"
+    head = (f"{name}: to compliant fuel before entering {ch.area}"
             if ch.direction == "to_compliant" else
-            f"Changeover {i}: back to regular fuel after leaving {ch.area}")
+            f"{name}: back to regular fuel after leaving {ch.area}")
     facts = [x for x in (f"circuit {ch.circuit}" if ch.circuit else "",
                          f"voyage {ch.voyage}" if ch.voyage else "") if x]
     parts = [para(head, "h1")]
     if facts:
         parts.append(para(" · ".join(facts), "small"))
     parts.append(_steps_table(ch))
+    if i is None:
+        parts += [para(x[0].upper() + x[1:] + ".", "small") for x in _struck_text(ch)]
+        return parts + long_texts(_free_texts(ch.steps))
     parts += [para(x, "small") for x in _fuel_lines(ch)]
     key = _key_step(ch)
     note = boundary_text(key.kind, key.record) if key is not None else ""
@@ -243,51 +265,31 @@ def _changeover(i: int, ch: Changeover) -> list:
             who.append(f"entry {v.stored.seq} by {e.who.rank} {e.who.name}, written "
                        f"{format_utc(e.written_utc)}")
     parts.append(para("Entered: " + "; ".join(who) + ".", "small"))
+    for seq, what, text in _free_texts(ch.steps):
+        parts.append(para(f"Entry {seq}, {what}: {short_text(text, seq)}", "small"))
     warn = [w for line in ch.steps if not line.struck for w in warnings(line.kind, line.record)]
+    warn += [f"entry {line.standing.stored.seq}, confirmed when written: {w}"
+             for line in ch.steps if not line.struck for w in line.record.confirmed]
     if warn:
         parts.append(caution_box("Check this changeover", warn))
-    if not any(line.kind in REG14_KINDS for line in ch.steps):
+    if not any(line.kind in REG14_KINDS for line in ch.steps if not line.struck):
         parts.append(caution_box("Not complete", [
             "No completion before entry (or commencement after exit) is recorded for this "
             "changeover in the selection: regulation 14.6 asks for that record."]))
     sign = signature_block(["Chief engineer", "Master"])
-    return [KeepTogether(parts + sign)]
+    return [KeepTogether(parts + sign)] + long_texts(_free_texts(ch.steps))
 
 
-def _others(lines: tuple[Line, ...]) -> list:
-    if not lines:
-        return []
-    rows = []
+def _free_texts(lines: tuple[Line, ...]) -> list[tuple[int, str, str]]:
+    """(entry, what, text) of every version's remarks and correction reason."""
+    out = []
     for line in lines:
-        for i, v in enumerate(line.versions):
-            struck = not v.standing
-            r = v.record
-            label = LABELS[line.kind] if i == 0 else (
-                f"struck out: {v.reason}" if r is None else f"correction of "
-                f"{v.stored.entry.correction.corrects}: {v.reason}")
-            if r is None:
-                rows.append([_cell([str(v.stored.seq)], struck), _cell([label], struck)]
-                            + [_cell(["—"], struck)] * 4)
-                continue
-            rows.append([_cell([str(v.stored.seq)], struck), _cell([label], struck),
-                         _cell([format_utc(r.time_utc)], struck), _cell(_ship_time(r), struck),
-                         _cell(position_text(r.position).split(" ", 1), struck),
-                         _cell(_other_details(v), struck)])
-    return [para("Tank soundings, samples and notes", "h1"),
-            data_table(["Entry", "What", "UTC", "Ship's time", "Position", "Details"], rows,
-                       [12, 28, 25, 25, 27, FRAME_WIDTH_MM - 117])]
-
-
-def _other_details(v: Version) -> list[str]:
-    r = v.record
-    d = r.details
-    out = [fuel_text(u) for u in r.fuels]
-    for t in getattr(d, "tanks", ()):
-        out.append(f"{t.tank}: {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
-                   f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
-    out += sample_and_text(d)
-    e = v.stored.entry
-    out.append(f"by {e.who.rank} {e.who.name}")
+        for v in line.versions:
+            if v.reason:
+                out.append((v.stored.seq, "reason", v.reason))
+            remarks = getattr(v.record.details, "remarks", "") if v.record else ""
+            if remarks:
+                out.append((v.stored.seq, "remarks", remarks))
     return out
 
 
@@ -300,7 +302,7 @@ def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
     facts = [
         ("Ship", book.ship_name),
         ("IMO number", book.imo_number),
-        ("This copy covers", f"{book.selection}: {len(book.changeovers)} changeover(s), "
+        ("This copy covers", f"{book.selection}: {len(book.standing)} changeover(s), "
                              f"{len(book.others)} other entries"),
         ("Journal", f"{journal_name}: {book.entries} entries, the last is entry "
                     f"{book.last_seq}"),
@@ -322,11 +324,16 @@ def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
             [[f.name, f.grade or "—", f"{f.sulphur_pct:.2f}", f"{f.density15_kg_m3:.1f}",
               f.bdn_ref] for f in book.fuels], [34, 30, 26, 32, FRAME_WIDTH_MM - 122],
             align="llrrl"))
+        for f in book.fuels:
+            items = bdn_items(f)
+            if items:
+                story.append(para(f"{f.name}, delivery note {f.bdn_ref}: " + "; ".join(items)
+                                  + ".", "small"))
     if not book.changeovers:
         story.append(para("No changeover is recorded in this selection.", "h2"))
-    for i, ch in enumerate(book.changeovers, 1):
+    for i, ch in numbered(book):
         story += _changeover(i, ch)
-    story += _others(book.others)
+    story += others_section(book.others)
     story += [para("How to check this copy", "h2"), para(
         f"Run <font face='Courier'>changeover log verify --journal {esc(journal_name)} --hash "
         f"{book.last_hash}</font>: the journal must still hold this hash (entry "

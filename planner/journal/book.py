@@ -72,6 +72,11 @@ class Changeover:
     steps: tuple[Line, ...]
 
     @property
+    def struck(self) -> bool:
+        """Every step struck out by a correction: no changeover stands here."""
+        return all(line.struck for line in self.steps)
+
+    @property
     def planned(self) -> Planned | None:
         for line in self.steps:
             if line.record.planned is not None:
@@ -92,6 +97,11 @@ class Book:
     entries: int
     last_seq: int
     last_hash: str
+
+    @property
+    def standing(self) -> tuple[Changeover, ...]:
+        """The changeovers not wholly struck out (those the record counts and numbers)."""
+        return tuple(ch for ch in self.changeovers if not ch.struck)
 
 
 def line_of(state: JournalState, seq: int) -> Line:

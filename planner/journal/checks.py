@@ -2,7 +2,8 @@
 
 Each refusal is one :class:`geo.errors.InputError` naming the option the
 value came from, so the command line prints one line and nothing is written:
-an unknown tank, a fuel not registered, a correction of an entry that does
+an unknown tank, a sounding above the tank's capacity (when the ship file
+gave it), a fuel not registered, a correction of an entry that does
 not exist (or of the wrong kind), a completion timed before its start (or a
 start corrected to after its completion), a first entry that is not the
 ship's set-up.
@@ -12,6 +13,7 @@ from __future__ import annotations
 
 from geo.errors import InputError
 from planner.common.timefmt import format_utc
+from planner.journal.codec import encode
 from planner.journal.entries import (
     CORRECTABLE,
     CORRECTION,
@@ -34,9 +36,37 @@ def check_entry(state: JournalState, entry: Entry) -> None:
     root = None
     if entry.kind == CORRECTION and entry.correction is not None:
         root = check_correction(state, entry.correction.corrects, entry.correction.of_kind)
+    check_lengths(entry)
     if entry.record is not None:
         check_tanks(state, entry.record)
+        check_circuit(state, entry.record)
         check_order(state, entry.subject_kind, entry.record, root)
+
+
+NAME_CHARS = 120
+"""Longest name, number or reference an entry holds (a rank, a tank, an area, a seal...);
+only the free text (:data:`FREE_TEXT`) may be longer."""
+
+FREE_TEXT = {"text": "the note", "remarks": "--remarks", "reason": "--reason",
+             "supplier": "--supplier", "confirmed": "--confirm"}
+"""Fields of free text, of any length (printed in full across pages)."""
+
+
+def check_lengths(entry: Entry) -> None:
+    """Every text of the entry but its free text is at most :data:`NAME_CHARS` long."""
+    def walk(value: object, key: str) -> None:
+        if isinstance(value, dict):
+            for k, v in value.items():
+                if k not in FREE_TEXT:
+                    walk(v, k)
+        elif isinstance(value, list):
+            for v in value:
+                walk(v, key)
+        elif isinstance(value, str) and len(value) > NAME_CHARS:
+            raise InputError(key, "", value[:40] + "…", f"at most {NAME_CHARS} characters "
+                                                        "(only notes, remarks and reasons "
+                                                        "may be longer)")
+    walk(encode(entry), "entry")
 
 
 def check_correction(state: JournalState, corrects: int, of_kind: str | None = None) -> int:
@@ -68,6 +98,17 @@ def check_tanks(state: JournalState, r: Record) -> None:
             raise InputError("--tank", "", t.tank,
                              f"one of the journal's tanks: {', '.join(state.tanks)} "
                              "(add more with changeover log setup --tank)")
+        cap = state.capacity_m3.get(t.tank)
+        if cap is not None and t.volume_m3 > cap:
+            raise InputError("--tank", t.tank, f"{t.volume_m3:g} m³",
+                             f"at most the tank's capacity, {cap:g} m³ (from the ship file)")
+
+
+def check_circuit(state: JournalState, r: Record) -> None:
+    """A circuit named must be one of the ship file's (when the journal was set up from it)."""
+    if state.circuits and r.circuit is not None and r.circuit not in state.circuits:
+        raise InputError("--circuit", "", r.circuit,
+                         f"one of the ship's circuits: {', '.join(state.circuits)}")
 
 
 def check_order(state: JournalState, kind: str, r: Record, root: int | None) -> None:

@@ -2,7 +2,9 @@
 
 :func:`encode` turns an :class:`~planner.journal.entries.Entry` (or any of
 its parts) into dicts, lists, strings and numbers: datetimes as ISO 8601 UTC
-with ``Z``, tuples as lists, each details object tagged with its ``type``.
+with ``Z``, tuples as lists, each details object tagged with its ``type``; a
+field added after journals were first written is left out while at its
+default, so older entries encode exactly as they were stored.
 :func:`decode_entry` is the inverse and refuses anything else: unknown or
 missing keys, wrong types, and every value the dataclasses' own checks
 refuse. ``decode_entry(encode(e)) == e`` for every valid entry.
@@ -13,7 +15,7 @@ from __future__ import annotations
 import functools
 import types
 import typing
-from dataclasses import MISSING, fields, is_dataclass
+from dataclasses import MISSING, Field, fields, is_dataclass
 from datetime import UTC, datetime
 
 from planner.journal.details import DETAIL_TYPES
@@ -27,7 +29,8 @@ class DecodeError(ValueError):
 def encode(obj: object) -> object:
     """Plain JSON values for an entry or any part of one."""
     if is_dataclass(obj) and not isinstance(obj, type):
-        out: dict[str, object] = {f.name: encode(getattr(obj, f.name)) for f in fields(obj)}
+        out: dict[str, object] = {f.name: encode(getattr(obj, f.name)) for f in fields(obj)
+                                  if not _left_out(f, getattr(obj, f.name))}
         tag = getattr(type(obj), "TYPE", None)
         if tag is not None:
             out["type"] = tag
@@ -37,6 +40,11 @@ def encode(obj: object) -> object:
     if isinstance(obj, tuple | list):
         return [encode(x) for x in obj]
     return obj
+
+
+def _left_out(f: Field, value: object) -> bool:
+    """A field added later (``metadata`` ``omit_default``) at its default is not stored."""
+    return bool(f.metadata.get("omit_default")) and value == f.default
 
 
 def iso(moment: datetime) -> str:

@@ -28,17 +28,15 @@ from dataclasses import dataclass
 
 from geo.errors import InputError
 from planner.journal.checks import check_correction
+from planner.journal.confirm import confirmed, entry_warnings
 from planner.journal.details import (
     ChangeoverDetails,
-    FuelDetails,
     FuelSpec,
     FuelUse,
     NoteDetails,
     SampleDetails,
-    SetupDetails,
     TankDetails,
     TankReading,
-    valid_imo,
 )
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -46,11 +44,9 @@ from planner.journal.entries import (
     COMPLETED,
     CORRECTION,
     FOLLOWS,
-    FUEL,
     NOTE,
     REG14_KINDS,
     SAMPLE,
-    SETUP,
     TANKS,
     Correction,
     Entry,
@@ -59,8 +55,15 @@ from planner.journal.entries import (
     Record,
     utc_now,
 )
-from planner.journal.inputs import POS_EXPECTED, parse_at, parse_position, parse_tank, parse_tz
-from planner.journal.plan_link import planned_for
+from planner.journal.inputs import (
+    POS_EXPECTED,
+    parse_at,
+    parse_position,
+    parse_tank,
+    parse_tz,
+    written_time,
+)
+from planner.journal.plan_link import plan_areas, planned_for
 from planner.journal.state import JournalState
 
 Builder = Callable[[JournalState], Entry]
@@ -86,6 +89,7 @@ class Typed:
     plan: str | None = None
     changeover: int | None = None
     as_planned: bool = False
+    confirm: bool = False
 
 
 def _who(t: Typed) -> Person:
@@ -105,7 +109,7 @@ def _when(t: Typed, state: JournalState, planned: Planned | None):
     elif t.as_planned and planned is not None:
         if planned.time_utc is None:
             raise InputError("--at", "", None, "the time: the plan has none for this step")
-        moment = planned.time_utc
+        moment = written_time(planned.time_utc)
         taken.append("time")
     else:
         moment = utc_now()
@@ -175,6 +179,14 @@ def _planned(kind: str, t: Typed) -> Planned | None:
     return planned_for(kind, t.plan, t.changeover, t.circuit)
 
 
+def _confirmed(kind: str, record: Record, state: JournalState, t: Typed) -> Record:
+    """The record with its warnings at entry kept, or refused without ``--confirm``."""
+    areas = plan_areas(t.plan) if t.plan else ()
+    found = entry_warnings(kind, record, state, utc_now(), areas)
+    keep = confirmed(found, t.confirm)
+    return dataclasses.replace(record, confirmed=keep) if keep else record
+
+
 def _entry(kind: str, who: Person, record: Record | None, correction: Correction | None = None):
     try:
         return Entry(kind, who, utc_now(), record, correction)
@@ -225,7 +237,7 @@ def changeover_entry(kind: str, t: Typed) -> Builder:
         details = ChangeoverDetails(tanks, (t.remarks or "").strip(), follows)
         record = Record(moment, offset, position, area, voyage, circuit, to + frm, details,
                         planned, tuple(taken))
-        return _entry(kind, who, record)
+        return _entry(kind, who, _confirmed(kind, record, state, t))
     return make
 
 
@@ -238,7 +250,7 @@ def _simple(kind: str, t: Typed, details_of: Callable[[JournalState, tuple], obj
         details = details_of(state, fuels)
         record = Record(moment, offset, position, t.area, t.voyage or state.last_voyage,
                         t.circuit, fuels, details)
-        return _entry(kind, who, record)
+        return _entry(kind, who, _confirmed(kind, record, state, t))
     return make
 
 
@@ -269,53 +281,6 @@ def note_entry(t: Typed, text: str) -> Builder:
             raise InputError("note", "text", None, "the note's text")
         return NoteDetails(text.strip())
     return _simple(NOTE, t, details)
-
-
-def check_imo(imo: str, option: str = "--imo") -> str:
-    """The 7 digits of an IMO number typed as ``1234567`` or ``IMO 1234567``, check digit valid."""
-    digits = imo.strip().upper().removeprefix("IMO").strip()
-    if not valid_imo(digits):
-        raise InputError(option, "", imo, "a 7-digit IMO number whose last digit is its check "
-                                          "digit (the first six times 7,6,5,4,3,2, summed, mod 10)")
-    return digits
-
-
-def setup_entry(t: Typed, ship: str | None, imo: str | None, tanks: tuple[str, ...]) -> Builder:
-    """The ship's set-up: name and IMO number (entry 1), or later tank names to add."""
-    imo_digits = check_imo(imo) if imo else None
-    names = tuple(n.strip() for n in tanks)
-    for n in names:
-        if not n or names.count(n) > 1:
-            raise InputError("--tank", "", n, "tank names, each once")
-
-    def make(state: JournalState) -> Entry:
-        if state.last_seq == 0 and (not ship or not ship.strip() or not imo_digits):
-            raise InputError("--ship" if not ship else "--imo", "", None,
-                             "the ship's name and IMO number")
-        if state.last_seq and not (ship or imo_digits or names):
-            raise InputError("setup", "", None, "something to set: --tank, --ship or --imo")
-        moment, offset, _ = _when(dataclasses.replace(t, at=None), state, None)
-        record = Record(moment, offset, None, None, None, None, (),
-                        SetupDetails(ship.strip() if ship else None, imo_digits, names))
-        return _entry(SETUP, _who(t), record)
-    return make
-
-
-def fuel_entry(t: Typed, name: str, grade: str, sulphur_pct: float | None,
-               density15_kg_m3: float | None, bdn_ref: str | None) -> Builder:
-    """A fuel on board with its delivery-note data, for later entries to name."""
-    if sulphur_pct is None or not 0.0 <= sulphur_pct <= 5.0:
-        raise InputError("--sulphur", "", sulphur_pct, "% m/m from the delivery note, 0 to 5")
-    if density15_kg_m3 is None or not 653.0 <= density15_kg_m3 <= 1075.0:
-        raise InputError("--density", "", density15_kg_m3,
-                         "kg/m³ at 15 °C from the delivery note, 653 to 1075 (Table 54B)")
-    for opt, v in (("fuel", name), ("--bdn", bdn_ref)):
-        if not v or not v.strip():
-            raise InputError(opt, "", None, "the fuel's name and its delivery-note reference")
-    spec = FuelSpec(name.strip(), (grade or "").strip(), sulphur_pct, density15_kg_m3,
-                    bdn_ref.strip())
-    return _simple(FUEL, dataclasses.replace(t, fuels=()),
-                   lambda state, fuels: FuelDetails(spec, (t.remarks or "").strip()))
 
 
 def correction_entry(number: int, t: Typed, reason: str | None, void: bool = False,

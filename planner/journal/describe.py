@@ -10,7 +10,7 @@ from datetime import datetime
 
 from geo.position import format_position
 from planner.common.timefmt import format_ship, format_utc
-from planner.journal.details import FuelUse, TankReading
+from planner.journal.details import FuelSpec, FuelUse, TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
     BACK_COMPLETED,
@@ -35,6 +35,25 @@ def fuel_text(u: FuelUse) -> str:
     f = u.fuel
     grade = f" ({f.grade})" if f.grade else ""
     return f"{f.name}{grade}, {f.sulphur_pct:.2f} % m/m S, BDN {f.bdn_ref}"
+
+
+def bdn_items(f: FuelSpec) -> list[str]:
+    """The optional bunker delivery note items given for a fuel, in words with units."""
+    out = []
+    if f.port or f.bunkered_on:
+        out.append("bunkered" + (f" at {f.port}" if f.port else "")
+                   + (f" on {f.bunkered_on}" if f.bunkered_on else ""))
+    if f.supplier:
+        out.append(f"supplier {f.supplier}")
+    if f.product:
+        out.append(f"product {f.product}")
+    if f.quantity_t is not None:
+        out.append(f"quantity {f.quantity_t:.3f} t")
+    if f.declaration is not None:
+        out.append("supplier's declaration " + ("signed" if f.declaration else "NOT given"))
+    if f.sample_seal:
+        out.append(f"MARPOL sample seal {f.sample_seal}")
+    return out
 
 
 def tank_text(t: TankReading) -> str:
@@ -86,33 +105,71 @@ def against_plan(kind: str, r: Record) -> list[str]:
 VERB = {STARTED: "started", COMPLETED: "completed", BACK_COMMENCED: "commenced",
         BACK_COMPLETED: "completed"}
 
+STEP_NAME = {STARTED: "Changeover started", COMPLETED: "Completed",
+             BACK_COMMENCED: "Commenced", BACK_COMPLETED: "Changeover back completed"}
+"""The printed name of each changeover step, before its relation to the boundary."""
 
-def boundary_text(kind: str, r: Record) -> str:
-    """``planned boundary entry 2027-05-31 11:46Z at ...: completed 1 h 42 min before it``."""
+
+def boundary_minutes(r: Record) -> int | None:
+    """Whole minutes from the step to the planned boundary crossing (positive: the step came
+    first), or None without a planned boundary."""
     p = r.planned
     if p is None or p.boundary_utc is None:
+        return None
+    return round((p.boundary_utc - r.time_utc).total_seconds() / 60.0)
+
+
+def relation_text(kind: str, r: Record) -> str:
+    """``completed 12 min after entry``, ``commenced at exit``, or ``""`` without a planned
+    boundary: what happened, in words, for the step of ``kind``."""
+    m = boundary_minutes(r)
+    if m is None or r.planned is None:
         return ""
-    d = (p.boundary_utc - r.time_utc).total_seconds() / 3600.0
+    what = "entry" if r.planned.direction == "to_compliant" else "exit"
+    verb = VERB.get(kind, "written")
+    if m == 0:
+        return f"{verb} at {what}"
+    return f"{verb} {minutes_text(m / 60.0)} {'before' if m > 0 else 'after'} {what}"
+
+
+def step_heading(kind: str, r: Record | None) -> str:
+    """The heading of a changeover step as it happened: ``Completed 12 min after entry``,
+    ``Commenced 16 min after exit``; ``Completed`` when no planned boundary is linked."""
+    base = STEP_NAME.get(kind, LABELS.get(kind, kind))
+    if r is None or kind not in (COMPLETED, BACK_COMMENCED):
+        return base
+    rel = relation_text(kind, r)
+    return rel[0].upper() + rel[1:] if rel else base
+
+
+def boundary_text(kind: str, r: Record) -> str:
+    """``planned boundary entry 2027-05-31 11:46Z at ...: completed 1 h 42 min before it``
+    (``... at it`` within half a minute)."""
+    p = r.planned
+    m = boundary_minutes(r)
+    if p is None or m is None:
+        return ""
     what = "entry" if p.direction == "to_compliant" else "exit"
     margin = f" (the plan's margin {p.margin_h:.2f} h)" if p.margin_h is not None else ""
+    rel = "at it" if m == 0 else f"{minutes_text(m / 60.0)} {'before' if m > 0 else 'after'} it"
     return (f"planned boundary {what} {format_utc(p.boundary_utc)}"
             f"{' at ' + position_text(p.boundary) if p.boundary else ''}: "
-            f"{VERB.get(kind, 'written')} {minutes_text(d)} {'before' if d >= 0 else 'after'} "
-            f"it{margin}")
+            f"{VERB.get(kind, 'written')} {rel}{margin}")
 
 
 def warnings(kind: str, r: Record) -> list[str]:
     """What a reader must notice: a completion after the planned entry, a changeover back
-    commenced before the planned exit."""
+    commenced before the planned exit (to the whole minute, as the record shows them)."""
     p = r.planned
-    if p is None or p.boundary_utc is None:
+    m = boundary_minutes(r)
+    if p is None or m is None:
         return []
-    if kind == COMPLETED and r.time_utc > p.boundary_utc:
-        return [f"completed after the planned boundary entry ({format_utc(p.boundary_utc)}): "
-                "check where the ship crossed into the area"]
-    if kind == BACK_COMMENCED and r.time_utc < p.boundary_utc:
-        return [f"commenced before the planned boundary exit ({format_utc(p.boundary_utc)}): "
-                "check where the ship left the area"]
+    if kind == COMPLETED and m < 0:
+        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): check "
+                "where the ship crossed into the area"]
+    if kind == BACK_COMMENCED and m > 0:
+        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): check "
+                "where the ship left the area"]
     return []
 
 
@@ -130,6 +187,8 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         c = e.correction
         label = (f"{'strike-out' if c.void else 'correction'} of entry {c.corrects} "
                  f"({LABELS[c.of_kind]}): {c.reason}")
+    if r is not None and e.kind in (COMPLETED, BACK_COMMENCED) and relation_text(e.kind, r):
+        label = f"{label} {relation_text(e.kind, r).split(' ', 1)[1]}"
     lines = [f"entry {s.seq} written: {label}"]
     if r is not None:
         parts = [when_text(r.time_utc, r)]
@@ -145,9 +204,17 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         for u in r.fuels:
             lines.append(f"  fuel {u.role}: {fuel_text(u)}")
         tanks = getattr(r.details, "tanks", ())
+        caps = {c.tank: c.capacity_m3 for c in getattr(r.details, "capacities", ())}
+        if getattr(r.details, "ship_name", None):
+            lines.append(f"  ship {r.details.ship_name}, IMO {r.details.imo_number or '—'}")
+        if getattr(r.details, "source", ""):
+            lines.append(f"  read from the ship file {r.details.source}")
         for t in tanks:
+            cap = f" (capacity {caps[t]:g} m³)" if t in caps else ""
             lines.append(f"  tank {tank_text(t)}" if isinstance(t, TankReading) else
-                         f"  tank known: {t}")
+                         f"  tank known: {t}{cap}")
+        if getattr(r.details, "circuits", ()):
+            lines.append(f"  circuits: {', '.join(r.details.circuits)}")
         if tanks and isinstance(tanks[0], TankReading):
             lines.append(f"  total {sum(t.volume15_m3 for t in tanks):.3f} m³ at 15 °C, "
                          f"{sum(t.mass_t for t in tanks):.3f} t")
@@ -155,8 +222,10 @@ def summary(s: Stored, state: JournalState) -> list[str]:
         if getattr(d, "fuel", None) is not None:
             lines.append(f"  fuel: {fuel_text(FuelUse('subject', d.fuel))}, "
                          f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
+            lines += [f"  {x}" for x in bdn_items(d.fuel)]
         lines += ["  " + x for x in sample_and_text(d)]
         lines += ["  " + x for x in against_plan(e.subject_kind, r)]
         lines += ["  warning: " + x for x in warnings(e.subject_kind, r)]
+        lines += ["  warning confirmed (--confirm): " + x for x in r.confirmed]
     lines.append(f"  by {e.who.rank} {e.who.name}; hash {s.hash}")
     return lines

@@ -9,7 +9,8 @@ the field and the value; the command line turns it into one
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
+from datetime import date
 from typing import ClassVar
 
 from planner.common.imo import imo_check_digit, valid_imo  # noqa: F401  (re-exported)
@@ -28,6 +29,29 @@ TANK_TEMPERATURE_RANGE_C = (-10.0, 150.0)
 
 MAX_SULPHUR_PCT = 5.0
 """Largest sulphur content accepted, % m/m (the highest global cap was 4.50)."""
+
+MAX_BUNKER_T = 1e6
+"""Largest quantity bunkered accepted, tonnes (a typo guard)."""
+
+ADDED = {"omit_default": True}
+"""Metadata of a field added after journals were first written: the codec leaves it out of
+the stored JSON while it holds its default, so every entry written before the field existed
+reads back, and hashes, exactly as written."""
+
+
+def _opt_number(cls: str, name: str, value: object, low: float, high: float) -> float | None:
+    return None if value is None else _number(cls, name, value, low, high)
+
+
+def _iso_day(cls: str, name: str, value: object) -> None:
+    if value == "":
+        return
+    try:
+        ok = isinstance(value, str) and date.fromisoformat(value).isoformat() == value
+    except ValueError:
+        ok = False
+    if not ok:
+        raise ValueError(f"{cls}.{name} must be a date YYYY-MM-DD, got {value!r}")
 
 
 def _text(cls: str, name: str, value: object, *, empty_ok: bool = False) -> None:
@@ -53,11 +77,28 @@ class FuelSpec:
     sulphur_pct: float        # % m/m, from the delivery note
     density15_kg_m3: float    # kg/m³ at 15 °C, from the delivery note
     bdn_ref: str              # delivery-note number or reference
+    # the other items of a bunker delivery note (MARPOL Annex VI regulation 18 and its
+    # Appendix V [MARPOL-VI], from memory), each optional ("" or None: not given)
+    port: str = field(default="", metadata=ADDED)              # port of bunkering
+    bunkered_on: str = field(default="", metadata=ADDED)       # date, YYYY-MM-DD
+    supplier: str = field(default="", metadata=ADDED)          # name, address, telephone
+    product: str = field(default="", metadata=ADDED)           # product name(s)
+    quantity_t: float | None = field(default=None, metadata=ADDED)   # metric tons
+    declaration: bool | None = field(default=None, metadata=ADDED)   # supplier's declaration
+    sample_seal: str = field(default="", metadata=ADDED)       # seal of the MARPOL sample
 
     def __post_init__(self) -> None:
         _text("FuelSpec", "name", self.name)
         _text("FuelSpec", "grade", self.grade, empty_ok=True)
         _text("FuelSpec", "bdn_ref", self.bdn_ref)
+        for f in ("port", "supplier", "product", "sample_seal"):
+            _text("FuelSpec", f, getattr(self, f), empty_ok=True)
+        _iso_day("FuelSpec", "bunkered_on", self.bunkered_on)
+        object.__setattr__(self, "quantity_t", _opt_number("FuelSpec", "quantity_t",
+                                                           self.quantity_t, 0.0, MAX_BUNKER_T))
+        if self.declaration is not None and not isinstance(self.declaration, bool):
+            raise ValueError(f"FuelSpec.declaration must be true, false or None, "
+                             f"got {self.declaration!r}")
         object.__setattr__(self, "sulphur_pct",
                            _number("FuelSpec", "sulphur_pct", self.sulphur_pct, 0.0,
                                    MAX_SULPHUR_PCT))
@@ -213,6 +254,23 @@ class NoteDetails:
 
 
 @dataclass(frozen=True)
+class TankCapacity:
+    """A tank's capacity as the ship file gives it, m³ (soundings above it are refused)."""
+
+    tank: str
+    capacity_m3: float
+
+    def __post_init__(self) -> None:
+        _text("TankCapacity", "tank", self.tank)
+        object.__setattr__(self, "capacity_m3", _number("TankCapacity", "capacity_m3",
+                                                        self.capacity_m3, 0.0,
+                                                        MAX_TANK_VOLUME_M3))
+        if self.capacity_m3 <= 0.0:
+            raise ValueError(f"TankCapacity.capacity_m3 must be above 0, got "
+                             f"{self.capacity_m3!r}")
+
+
+@dataclass(frozen=True)
 class SetupDetails:
     """The ship the journal belongs to, and tank names it knows.
 
@@ -225,6 +283,9 @@ class SetupDetails:
     ship_name: str | None
     imo_number: str | None
     tanks: tuple[str, ...] = ()
+    capacities: tuple[TankCapacity, ...] = field(default=(), metadata=ADDED)
+    circuits: tuple[str, ...] = field(default=(), metadata=ADDED)
+    source: str = field(default="", metadata=ADDED)   # the ship file it was read from
 
     def __post_init__(self) -> None:
         if self.ship_name is not None:
@@ -237,6 +298,14 @@ class SetupDetails:
             raise ValueError("SetupDetails.tanks must be a tuple of names")
         for t in self.tanks:
             _text("SetupDetails", "tanks", t)
+        if not isinstance(self.capacities, tuple) or not all(
+                isinstance(c, TankCapacity) and c.tank in self.tanks for c in self.capacities):
+            raise ValueError("SetupDetails.capacities must be TankCapacity of its tanks")
+        if not isinstance(self.circuits, tuple):
+            raise ValueError("SetupDetails.circuits must be a tuple of names")
+        for c in self.circuits:
+            _text("SetupDetails", "circuits", c)
+        _text("SetupDetails", "source", self.source, empty_ok=True)
 
 
 @dataclass(frozen=True)

@@ -18,10 +18,11 @@ east of UTC (−14 h to +14 h).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from datetime import UTC, datetime, timedelta, timezone
 
 from planner.journal.details import (
+    ADDED,
     ChangeoverDetails,
     Details,
     FuelDetails,
@@ -61,15 +62,16 @@ LABELS = {
     SETUP: "journal set-up",
     FUEL: "fuel on board",
     STARTED: "changeover to compliant fuel started",
-    COMPLETED: "changeover to compliant fuel completed (before entry)",
-    BACK_COMMENCED: "changeover to regular fuel commenced (after exit)",
+    COMPLETED: "changeover to compliant fuel completed",
+    BACK_COMMENCED: "changeover to regular fuel commenced",
     BACK_COMPLETED: "changeover to regular fuel completed",
     TANKS: "tank soundings",
     SAMPLE: "fuel sample",
     NOTE: "note",
     CORRECTION: "correction",
 }
-"""What each kind means, in words."""
+"""What each kind means, in words (the relation of a step to the boundary, before or after
+it, is said from the facts where the entry is shown: ``describe.step_heading``)."""
 
 DETAILS_OF = {SETUP: SetupDetails, FUEL: FuelDetails, STARTED: ChangeoverDetails,
               COMPLETED: ChangeoverDetails, BACK_COMMENCED: ChangeoverDetails,
@@ -131,7 +133,8 @@ class Planned:
     ``time_utc``/``position``: the planned time and place of this step (the
     planned start, or the time the fuel at the consumers is planned to be
     compliant); ``boundary_*``: the planned boundary crossing; ``margin_h``:
-    the plan's margin, hours.
+    the plan's margin, hours; ``flush_h``: the modelled time from the planned
+    start to compliant fuel (or back on regular fuel), hours.
     """
 
     source: str
@@ -144,6 +147,7 @@ class Planned:
     boundary_utc: datetime | None
     boundary: Position | None
     margin_h: float | None
+    flush_h: float | None = field(default=None, metadata=ADDED)
 
     def __post_init__(self) -> None:
         if not isinstance(self.source, str) or not self.source:
@@ -167,6 +171,9 @@ class Planned:
             raise ValueError(f"Planned.margin_h must be a number, got {self.margin_h!r}")
         if self.margin_h is not None:
             object.__setattr__(self, "margin_h", float(self.margin_h))
+        if self.flush_h is not None and (isinstance(self.flush_h, bool) or not isinstance(
+                self.flush_h, int | float) or not 0.0 <= self.flush_h <= 1000.0):
+            raise ValueError(f"Planned.flush_h must be 0 to 1000 h, got {self.flush_h!r}")
 
 
 AS_PLANNED_FIELDS = ("time", "position")
@@ -177,7 +184,9 @@ class Record:
     """What happened: the part of an entry a correction replaces.
 
     ``as_planned`` lists the fields the crew confirmed from the plan rather
-    than typed (``"time"``, ``"position"``).
+    than typed (``"time"``, ``"position"``); ``confirmed`` the warnings raised
+    when the entry was made that the writer confirmed with ``--confirm`` (kept
+    in the entry and printed with it).
     """
 
     time_utc: datetime
@@ -190,9 +199,13 @@ class Record:
     details: Details
     planned: Planned | None = None
     as_planned: tuple[str, ...] = ()
+    confirmed: tuple[str, ...] = field(default=(), metadata=ADDED)
 
     def __post_init__(self) -> None:
         _aware_utc("Record", "time_utc", self.time_utc)
+        if not isinstance(self.confirmed, tuple) or not all(
+                isinstance(w, str) and w.strip() for w in self.confirmed):
+            raise ValueError("Record.confirmed must be a tuple of warning texts")
         m = self.ship_offset_min
         if isinstance(m, bool) or not isinstance(m, int) or abs(m) > MAX_OFFSET_MIN:
             raise ValueError(f"Record.ship_offset_min must be whole minutes within ±14 h, "

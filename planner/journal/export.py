@@ -11,13 +11,17 @@ CSV (:func:`export_csv`): one row per entry, columns :data:`CSV_COLUMNS`;
 times ISO 8601 UTC, positions in decimal degrees and in degrees and minutes,
 volumes m³, temperatures °C, masses t, sulphur % m/m. Tank soundings are
 one column (``name: observed m³ @ °C = m³ at 15 °C, t``) with the totals
-beside it.
+beside it. A cell a spreadsheet would run as a formula (text starting with
+``=``, ``+``, ``-``, ``@``, a tab or a carriage return) is written with a
+single quote in front, so it is read as text [OWASP-CSV]; plain numbers
+(``-39.823333``) are left as they are.
 """
 
 from __future__ import annotations
 
 import csv
 import io
+import re
 from collections.abc import Iterable
 
 from planner.common.timefmt import format_ship
@@ -118,11 +122,25 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
     return row
 
 
+FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+"""First characters that make a spreadsheet read a cell as a formula [OWASP-CSV]."""
+
+_PLAIN_NUMBER = re.compile(r"^-?\d+(?:\.\d+)?$")
+
+
+def safe_cell(text: str) -> str:
+    """``text`` as a CSV cell no spreadsheet runs: ``'`` put before a formula-looking start
+    [OWASP-CSV]; a plain number (``-39.823333``) kept as it is."""
+    if text.startswith(FORMULA_START) and not _PLAIN_NUMBER.match(text):
+        return "'" + text
+    return text
+
+
 def export_csv(stored: Iterable[Stored], state: JournalState) -> str:
-    """CSV text of the entries (header line first)."""
+    """CSV text of the entries (header line first), every cell through :func:`safe_cell`."""
     buf = io.StringIO()
     w = csv.DictWriter(buf, fieldnames=CSV_COLUMNS, lineterminator="\n")
     w.writeheader()
     for s in stored:
-        w.writerow(csv_row(s, state))
+        w.writerow({k: safe_cell(v) for k, v in csv_row(s, state).items()})
     return buf.getvalue()

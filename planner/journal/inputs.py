@@ -76,6 +76,19 @@ def parse_position(text: str, option: str = "--pos") -> Position:
     return Position(lat, lon)
 
 
+def written_position(lat_deg: float, lon_deg: float) -> Position:
+    """A computed position as the crew writes it: to 0.1 minute of arc (about 185 m), stored
+    to 6 decimal places of a degree (``62.49999999999409`` becomes ``62.5``)."""
+    def tenth(v: float) -> float:
+        return round(round(v * 600.0) / 600.0, 6)
+    return Position(tenth(lat_deg), tenth(lon_deg))
+
+
+def written_time(moment: datetime) -> datetime:
+    """A computed time as the crew writes it: to the nearest minute."""
+    return (moment + timedelta(seconds=30)).replace(second=0, microsecond=0)
+
+
 def _number_or_text(text: str) -> float | str:
     try:
         return float(text)
@@ -83,18 +96,55 @@ def _number_or_text(text: str) -> float | str:
         return text
 
 
+OFFSET_RANGE_MIN = (-12 * 60, 14 * 60)
+"""The UTC offsets in use on Earth, minutes east of UTC: -12:00 to +14:00 (common practice:
+the time zones of the nautical and civil clocks)."""
+
+RECORD_YEARS = (1990, 2100)
+"""Years a ship's changeover record can hold: from before MARPOL Annex VI was adopted (1997)
+to the end of any ship now afloat's life."""
+
+AT_EXPECTED = ("an ISO 8601 time with its UTC offset, e.g. 2027-06-02T14:05Z or "
+               "2027-06-02T16:05+02:00")
+
+
+def _check_offset(minutes: int, text: str, option: str) -> int:
+    low, high = OFFSET_RANGE_MIN
+    if not low <= minutes <= high or minutes % 15:
+        raise InputError(option, "", text, "a real UTC offset: -12:00 to +14:00, in steps "
+                                           "of 15 minutes")
+    return minutes
+
+
 def parse_at(text: str, option: str = "--at") -> tuple[datetime, int | None]:
-    """The UTC time typed and the offset written on it in minutes (None when it was UTC)."""
-    moment = parse_moment(text, file=option)
-    written = datetime.fromisoformat(text.strip().replace("z", "Z")).utcoffset()
-    minutes = int(written.total_seconds() // 60) if written else None
-    return moment, minutes or None
+    """The UTC time typed and the offset written on it in minutes (None when it was UTC).
+
+    The offset must be a real one (:data:`OFFSET_RANGE_MIN`) and the year within
+    :data:`RECORD_YEARS`; anything else is one :class:`InputError`.
+    """
+    t = text.strip()
+    try:
+        local = datetime.fromisoformat(t.replace("z", "Z"))
+    except ValueError:
+        raise InputError(option, "", text, AT_EXPECTED) from None
+    if local.tzinfo is None:
+        raise InputError(option, "", text, "a time with its UTC offset (add Z or +hh:mm)")
+    off = local.utcoffset() or timedelta(0)
+    if off % timedelta(minutes=1):
+        raise InputError(option, "", text, "a UTC offset in whole minutes")
+    minutes = _check_offset(int(off.total_seconds() // 60), text, option)
+    if not RECORD_YEARS[0] <= local.year <= RECORD_YEARS[1]:
+        raise InputError(option, "", text, f"a year from {RECORD_YEARS[0]} to "
+                                           f"{RECORD_YEARS[1]}")
+    return parse_moment(t, file=option), minutes or None
 
 
 def parse_tz(text: str, option: str = "--tz") -> int:
-    """A UTC offset (``+02:00``, ``-0530``, ``Z``) in whole minutes east of UTC."""
+    """A UTC offset (``+02:00``, ``-0530``, ``Z``) in whole minutes east of UTC, within
+    -12:00 to +14:00."""
     tz: timezone = parse_offset(text, file=option)
-    return int((tz.utcoffset(None) or timedelta(0)).total_seconds() // 60)
+    minutes = int((tz.utcoffset(None) or timedelta(0)).total_seconds() // 60)
+    return _check_offset(minutes, text, option)
 
 
 @dataclass(frozen=True)

@@ -6,6 +6,7 @@ later correction replaced is marked so the table can strike it through.
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Iterable
 from dataclasses import dataclass
 from datetime import date
@@ -13,7 +14,7 @@ from datetime import date
 from geo.errors import InputError
 from planner.common.timefmt import format_ship, format_utc
 from planner.journal.codec import encode
-from planner.journal.describe import position_text, sample_and_text
+from planner.journal.describe import bdn_items, position_text, sample_and_text
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -36,6 +37,10 @@ COMMAND_KINDS = {"start": STARTED, "complete": COMPLETED, "back": BACK_COMMENCED
                  "correction": CORRECTION, "correct": CORRECTION, "fuel": FUEL, "setup": SETUP,
                  "init": SETUP}
 """Kind names as the commands spell them, to the stored kinds."""
+
+SHOWN_CHARS = 120
+"""Longest note, remarks or reason shown in the listing (shortened at a word; ``show
+--json`` and the printed record hold it whole)."""
 
 SHORT = {v: k for k, v in COMMAND_KINDS.items() if k not in ("correct", "init")}
 
@@ -79,12 +84,13 @@ def _details(s: Stored) -> str:
     head = ""
     if e.kind == CORRECTION and e.correction is not None:
         c = e.correction
-        head = f"{'strikes out' if c.void else 'corrects'} {c.corrects}: {c.reason}"
+        reason = textwrap.shorten(c.reason, SHOWN_CHARS, placeholder=" …")
+        head = f"{'strikes out' if c.void else 'corrects'} {c.corrects}: {reason}"
         if r is None:
             return head
         head += "; "
     d = r.details
-    parts = []
+    parts = [f"circuit {r.circuit}"] if r.circuit else []
     fuels = [f"{u.role} {u.fuel.name} {u.fuel.sulphur_pct:.2f} % S" for u in r.fuels]
     parts += fuels
     tanks = getattr(d, "tanks", ())
@@ -100,11 +106,13 @@ def _details(s: Stored) -> str:
         f = d.fuel
         parts.append(f"{f.name} {f.grade} {f.sulphur_pct:.2f} % S, {f.density15_kg_m3:.1f} "
                      f"kg/m³, BDN {f.bdn_ref}")
-    parts += [x if len(x) <= 60 else x[:57] + "..." for x in sample_and_text(d)]
+        parts += bdn_items(f)
+    parts += [textwrap.shorten(x, SHOWN_CHARS, placeholder=" …") for x in sample_and_text(d)]
     if getattr(d, "follows", None):
         parts.append(f"follows {d.follows}")
     if r.planned is not None:
         parts.append(f"plan {r.planned.source} #{r.planned.changeover}")
+    parts += [f"confirmed warning: {w}" for w in r.confirmed]
     return head + "; ".join(parts)
 
 
@@ -163,9 +171,13 @@ def verify_lines(name: str, report: VerifyReport) -> list[str]:
         lines = [f"journal {name}: {n} entries, FAILED verification "
                  f"({len(report.problems)} problem{'s' if len(report.problems) > 1 else ''}):"]
         lines += [f"  {p}" for p in report.problems]
-    if report.expect_hash is not None and report.expect_seq is not None:
+    if report.confirms_print:
         lines.append(f"the printed copy's hash is entry {report.expect_seq}'s: entries 1 to "
                      f"{report.expect_seq} are as they were when printed")
+    elif report.expect_seq is not None:
+        lines.append(f"the printed copy's hash is entry {report.expect_seq}'s, but the "
+                     f"problems above mean entries 1 to {report.expect_seq} cannot be "
+                     "confirmed as printed")
     return lines
 
 
@@ -174,4 +186,5 @@ def verify_json(name: str, report: VerifyReport) -> dict:
     return {"journal": name, "ok": report.ok, "entries": report.entries,
             "last_seq": report.last_seq, "last_hash": report.last_hash,
             "problems": [{"seq": p.seq, "what": p.what} for p in report.problems],
-            "hash_checked": report.expect_hash, "hash_at_entry": report.expect_seq}
+            "hash_checked": report.expect_hash, "hash_at_entry": report.expect_seq,
+            "print_confirmed": report.confirms_print}

@@ -36,18 +36,32 @@ from planner.journal.entries import (
     Planned,
     Position,
 )
+from planner.journal.inputs import written_position
+
+MAX_PLAN_BYTES = 64 * 2**20
+"""Largest plan JSON read, bytes (a plan of a long voyage is well under a megabyte)."""
 
 
 def load_changeovers(path: str | Path) -> list[dict]:
     """The ``changeovers`` list of a plan JSON file (each item checked when used)."""
     file = str(path)
+    p = Path(path)
     try:
-        doc = json.loads(Path(path).read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise InputError(file, "", None, "an existing plan JSON file "
-                                         "(from changeover plan VOYAGE --json)") from None
-    except (ValueError, UnicodeDecodeError) as exc:
-        raise InputError(file, "", str(exc), "valid JSON") from None
+        if not p.is_file():
+            raise InputError(file, "", None, "an existing plan JSON file "
+                                             "(from changeover plan VOYAGE --json)")
+        with p.open("rb") as f:
+            data = f.read(MAX_PLAN_BYTES + 1)
+    except OSError as exc:
+        raise InputError(file, "", exc.strerror or str(exc), "a plan JSON file you may "
+                                                              "read") from None
+    if len(data) > MAX_PLAN_BYTES:
+        raise InputError(file, "file size", f"over {MAX_PLAN_BYTES} bytes",
+                         f"a plan JSON file of at most {MAX_PLAN_BYTES} bytes")
+    try:
+        doc = json.loads(data.decode("utf-8"))
+    except (ValueError, UnicodeDecodeError, RecursionError) as exc:
+        raise InputError(file, "", str(exc)[:200], "valid JSON (UTF-8)") from None
     items = doc.get("changeovers") if isinstance(doc, dict) else None
     if not isinstance(items, list):
         raise InputError(file, "changeovers", None, "a plan with a list of changeovers")
@@ -99,8 +113,11 @@ def planned_for(kind: str, path: str | Path, number: int | None,
                          f"a {DIRECTION[kind]} changeover of the plan (number {number} is "
                          f"{direction}: use it with log {steps})")
     starts = kind in (STARTED, BACK_COMMENCED)
-    time_key = "start_utc" if starts else (
-        "compliant_utc" if direction == "to_compliant" else "complete_utc")
+    done_key = "compliant_utc" if direction == "to_compliant" else "complete_utc"
+    time_key = "start_utc" if starts else done_key
+    t0 = _time(item, "start_utc", file, place, required=False)
+    t1 = _time(item, done_key, file, place, required=False)
+    flush_h = (t1 - t0).total_seconds() / 3600.0 if t0 and t1 and t1 >= t0 else None
     return Planned(
         source=Path(path).name,
         changeover=number,
@@ -112,7 +129,24 @@ def planned_for(kind: str, path: str | Path, number: int | None,
         boundary_utc=_time(item, "boundary_utc", file, place, required=False),
         boundary=_position(item, "boundary", file, place, required=False),
         margin_h=_number(item, "margin_h", file, place),
+        flush_h=flush_h,
     )
+
+
+def plan_circuits(path: str | Path, number: int) -> list[str]:
+    """The circuits of changeover ``number`` of the plan, in the plan's order."""
+    items = load_changeovers(path)
+    rows = [it for it in items if isinstance(it, dict) and it.get("number") == number]
+    if not rows:
+        _pick(items, number, None, str(path))  # refuses a number the plan does not have
+        rows = [items[number - 1]] if isinstance(items[number - 1], dict) else []
+    return [str(it["circuit"]) for it in rows if it.get("circuit")]
+
+
+def plan_areas(path: str | Path) -> set[str]:
+    """The area names the plan's changeovers name."""
+    return {it["area"].strip() for it in load_changeovers(path)
+            if isinstance(it, dict) and isinstance(it.get("area"), str)}
 
 
 def _text(item: dict, key: str, file: str, place: str, required: bool = True) -> str | None:
@@ -132,7 +166,11 @@ def _time(item: dict, key: str, file: str, place: str, required: bool) -> dateti
         return None
     if not isinstance(v, str):
         raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time")
-    return parse_moment(v, file=file, place=f"{place}.{key}")
+    try:
+        return parse_moment(v, file=file, place=f"{place}.{key}")
+    except OverflowError:
+        raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time of a year a "
+                                                    "ship's record can hold") from None
 
 
 def _number(item: dict, key: str, file: str, place: str) -> float | None:
@@ -157,4 +195,4 @@ def _position(item: dict, prefix: str, file: str, place: str,
     lon = float(lon)
     if abs(lon) > 180.0:  # a plan may unwrap longitudes past ±180
         lon = (lon + 180.0) % 360.0 - 180.0
-    return Position(float(lat), lon)
+    return written_position(float(lat), lon)

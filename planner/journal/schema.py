@@ -12,6 +12,15 @@ removed last entry is noticed.
 
 Version 2: indexes for listing by time, voyage and area.
 
+Version 3: the ``head`` row protected like the entries: it can only be
+written by the trigger that follows each new entry (an UPDATE or INSERT that
+does not name the last entry and its hash is refused, a DELETE is refused);
+the trigger that keeps it updates the row rather than replacing it.
+
+:func:`schema_problems` names every table, index or trigger of the schema
+that is missing or not as this program wrote it (a trigger dropped to edit
+the entries, say); ``verify`` reports them.
+
 Entries are never rewritten by a migration: the hashed text of an entry
 stays exactly as it was written.
 """
@@ -25,7 +34,7 @@ from planner.journal.canonical import GENESIS_HASH
 APPLICATION_ID = 0x43484F56
 """``PRAGMA application_id`` of a changeover journal (ASCII "CHOV")."""
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 """The schema version this program writes."""
 
 _V1 = f"""
@@ -71,7 +80,36 @@ CREATE INDEX entries_by_time ON entries (time_utc);
 CREATE INDEX entries_by_voyage ON entries (voyage, area);
 """
 
-MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2}
+_V3 = """
+DROP TRIGGER IF EXISTS entries_head;
+CREATE TRIGGER entries_head AFTER INSERT ON entries
+BEGIN
+    UPDATE head SET seq = NEW.seq, hash = NEW.hash WHERE id = 1;
+    INSERT INTO head (id, seq, hash) SELECT 1, NEW.seq, NEW.hash
+        WHERE NOT EXISTS (SELECT 1 FROM head WHERE id = 1);
+END;
+CREATE TRIGGER head_follows_entries BEFORE UPDATE ON head
+WHEN NEW.id IS NOT 1
+  OR NEW.seq IS NOT (SELECT MAX(seq) FROM entries)
+  OR NEW.hash IS NOT (SELECT hash FROM entries ORDER BY seq DESC LIMIT 1)
+BEGIN
+    SELECT RAISE(ABORT, 'the journal head is kept by the journal: it names the last entry');
+END;
+CREATE TRIGGER head_added_once BEFORE INSERT ON head
+WHEN (SELECT COUNT(*) FROM head) > 0
+  OR NEW.id IS NOT 1
+  OR NEW.seq IS NOT (SELECT MAX(seq) FROM entries)
+  OR NEW.hash IS NOT (SELECT hash FROM entries ORDER BY seq DESC LIMIT 1)
+BEGIN
+    SELECT RAISE(ABORT, 'the journal head is kept by the journal: it names the last entry');
+END;
+CREATE TRIGGER head_never_deleted BEFORE DELETE ON head
+BEGIN
+    SELECT RAISE(ABORT, 'the journal head is never deleted');
+END;
+"""
+
+MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2, 3: _V3}
 """SQL that takes the schema from version ``n - 1`` to ``n``."""
 
 
@@ -125,6 +163,47 @@ def migrate(conn: sqlite3.Connection, target: int = SCHEMA_VERSION, *, new: bool
         conn.execute("ROLLBACK")
         raise
     return version
+
+
+def expected_schema(version: int = SCHEMA_VERSION) -> dict[tuple[str, str], str]:
+    """``{(type, name): sql}`` of every table, index and trigger the migrations up to
+    ``version`` leave, as SQLite keeps their text (normalised by :func:`_norm`)."""
+    import re
+
+    out: dict[tuple[str, str], str] = {}
+    create = re.compile(r"^CREATE\s+(TABLE|INDEX|TRIGGER)\s+(\w+)", re.IGNORECASE)
+    drop = re.compile(r"^DROP\s+(TABLE|INDEX|TRIGGER)\s+(?:IF\s+EXISTS\s+)?(\w+)",
+                      re.IGNORECASE)
+    for v in range(1, version + 1):
+        for statement in _statements(MIGRATIONS[v]):
+            if m := create.match(statement):
+                out[(m[1].lower(), m[2])] = _norm(statement)
+            elif m := drop.match(statement):
+                out.pop((m[1].lower(), m[2]), None)
+    return out
+
+
+def _norm(sql: str) -> str:
+    """SQL text without comments, runs of white space or a final semicolon."""
+    import re
+
+    text = re.sub(r"--[^\n]*", "", sql)
+    return re.sub(r"\s+", " ", text).strip().rstrip(";").strip()
+
+
+def schema_problems(conn: sqlite3.Connection) -> list[str]:
+    """What is missing from the schema, or not as written: ``trigger entries_never_updated
+    is missing (dropped)``; empty when the schema is whole."""
+    have = {(t, n): _norm(sql or "") for t, n, sql in conn.execute(
+        "SELECT type, name, sql FROM sqlite_master WHERE type IN ('table', 'index', 'trigger') "
+        "AND name NOT LIKE 'sqlite_%'")}
+    out = []
+    for (kind, name), sql in expected_schema(schema_version(conn)).items():
+        if (kind, name) not in have:
+            out.append(f"{kind} {name} is missing (dropped)")
+        elif have[(kind, name)] != sql:
+            out.append(f"{kind} {name} is not as this program wrote it (replaced)")
+    return out
 
 
 def _statements(script: str) -> list[str]:

@@ -41,6 +41,8 @@ class JournalState:
         self.ship_name: str | None = None
         self.imo_number: str | None = None
         self.tanks: list[str] = []
+        self.capacity_m3: dict[str, float] = {}
+        self.circuits: list[str] = []
         self.fuels: dict[str, FuelSpec] = {}
         self.stored: dict[int, Stored] = {}
         self.corrections: dict[int, list[int]] = {}
@@ -71,6 +73,8 @@ class JournalState:
             self.ship_name = d.ship_name or self.ship_name
             self.imo_number = d.imo_number or self.imo_number
             self.tanks += [t for t in d.tanks if t not in self.tanks]
+            self.capacity_m3.update({c.tank: c.capacity_m3 for c in d.capacities})
+            self.circuits += [c for c in d.circuits if c not in self.circuits]
             self.last_offset_min = r.ship_offset_min
         elif e.kind == FUEL and r is not None:
             self.fuels[r.details.fuel.name] = r.details.fuel

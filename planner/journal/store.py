@@ -12,14 +12,21 @@
   and the transaction is rolled back, so nothing is written.
 - A new journal is built under a temporary name and linked into place only
   when complete; an existing file is never overwritten.
+- :meth:`Journal.open_read` (``show``, ``verify``, ``print``, ``export``)
+  opens the file read-only and works on a copy in memory, so a journal on a
+  read-only medium or in a read-only folder can be read, and reading never
+  writes to it.
+- Every SQLite error (a damaged page, a missing table, a read-only file or
+  folder, a full disk) is one :class:`geo.errors.InputError` naming the file.
 """
 
 from __future__ import annotations
 
+import contextlib
 import json
 import os
 import sqlite3
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from pathlib import Path
 
 from geo.errors import InputError
@@ -27,7 +34,13 @@ from planner.journal.canonical import canonical_json, entry_hash
 from planner.journal.checks import check_entry
 from planner.journal.codec import DecodeError, decode_entry, encode
 from planner.journal.entries import Entry
-from planner.journal.schema import SCHEMA_VERSION, SchemaError, check_journal, migrate
+from planner.journal.schema import (
+    SCHEMA_VERSION,
+    SchemaError,
+    check_journal,
+    migrate,
+    schema_problems,
+)
 from planner.journal.state import JournalState, Stored
 from planner.journal.verify import Row, VerifyReport, listing_columns, verify_rows
 
@@ -47,19 +60,97 @@ def _connect(path: Path, mode: str) -> sqlite3.Connection:
     return conn
 
 
+def _existing_file(p: Path, path: object, option: str) -> None:
+    """Refuse, in one line, a path that is not a journal file we may look at."""
+    try:
+        ok = p.is_file()
+    except OSError as exc:
+        raise InputError(str(path), "", exc.strerror or "unreadable",
+                         "a journal file you may read") from None
+    if not ok:
+        raise InputError(option, "", str(path),
+                         "an existing journal file (start one with changeover log init)")
+    if not os.access(p, os.R_OK):
+        raise InputError(str(path), "", "permission denied", "a journal file you may read")
+
+
+def _stamp(path: Path) -> tuple[int, int]:
+    st = path.stat()
+    return st.st_mtime_ns, st.st_size
+
+
+def _copy_into(path: Path, mem: sqlite3.Connection) -> None:
+    """Copy the journal file into ``mem`` read-only, creating nothing beside it.
+
+    With no write-ahead log beside the file (no writer has it open, the last one closed
+    cleanly) the file is all there is and is read as immutable; the copy is kept only if
+    no writer appeared and the file did not change meanwhile. With a log (a writer at
+    work, or one killed), SQLite's read-only mode reads the file and the log together.
+    """
+    wal = Path(f"{path}-wal")
+    for _ in range(3):
+        if wal.exists():
+            break
+        before = _stamp(path)
+        src = sqlite3.connect(path.resolve().as_uri() + "?mode=ro&immutable=1", uri=True,
+                              isolation_level=None)
+        try:
+            src.backup(mem)
+        finally:
+            src.close()
+        if not wal.exists() and _stamp(path) == before:
+            return
+    src = _connect(path, "ro")
+    try:
+        src.backup(mem)
+    finally:
+        src.close()
+
+
+def sqlite_expected(exc: sqlite3.Error) -> str:
+    """What a journal must be, given the SQLite error met (for the one-line message)."""
+    text = str(exc)
+    low = text.lower()
+    if "unable to open" in low:
+        why = "a journal file (and folder) you may read and write"
+    elif "readonly" in low or "read-only" in low:
+        why = "a journal file you may write, in a folder you may write"
+    elif "locked" in low or "busy" in low:
+        why = "a journal no other program holds locked (waited 30 s)"
+    elif "full" in low:
+        why = "room on the disk to write the entry"
+    else:
+        why = "an undamaged changeover journal (restore a copy; changeover log verify)"
+    return f"{why}; SQLite said: {text}"
+
+
+@contextlib.contextmanager
+def sqlite_errors(path: object) -> Iterator[None]:
+    """Turn any SQLite error inside the block into one :class:`InputError` naming ``path``."""
+    try:
+        yield
+    except sqlite3.Error as exc:
+        raise InputError(str(path), "", None if not str(exc) else "SQLite error",
+                         sqlite_expected(exc)) from None
+
+
 class Journal:
     """An open journal. Use :meth:`create` or :meth:`open`; close it (or use ``with``)."""
 
-    def __init__(self, conn: sqlite3.Connection, path: Path) -> None:
+    def __init__(self, conn: sqlite3.Connection, path: Path, *, read_only: bool = False) -> None:
         self.conn = conn
         self.path = path
+        self.read_only = read_only
         self._state: JournalState | None = None
 
     # -- opening ---------------------------------------------------------------------------
 
     @classmethod
-    def create(cls, path: str | Path, first: Make, *, option: str = "--journal") -> Journal:
-        """A new journal at ``path`` whose entry 1 is ``first`` (the ship's set-up)."""
+    def create(cls, path: str | Path, first: Make, *, option: str = "--journal",
+               then: Sequence[Make] = ()) -> Journal:
+        """A new journal at ``path`` whose entry 1 is ``first`` (the ship's set-up), followed
+        by the entries ``then`` (the fuels, say): all of them are in the file when it
+        appears, or there is no file."""
         target = Path(path)
         if target.exists():
             raise InputError(option, "", str(path), "a new file: a journal is never overwritten")
@@ -67,14 +158,17 @@ class Journal:
             raise InputError(option, "", str(path), "a path in an existing folder")
         tmp = target.with_name(f".{target.name}.{os.getpid()}.new")
         try:
-            conn = _connect(tmp, "rwc")
+            with sqlite_errors(path):
+                conn = _connect(tmp, "rwc")
             try:
-                conn.execute("PRAGMA journal_mode = WAL")
-                migrate(conn, new=True)
-                cls(conn, tmp).append(first)
+                with sqlite_errors(path):
+                    conn.execute("PRAGMA journal_mode = WAL")
+                    migrate(conn, new=True)
+                cls(conn, tmp).append_many([first, *then])
             finally:
                 conn.close()
             try:
+                os.chmod(tmp, 0o666 & ~_umask())
                 os.link(tmp, target)
             except FileExistsError:
                 raise InputError(option, "", str(path),
@@ -91,12 +185,37 @@ class Journal:
         return cls.open(target, option=option)
 
     @classmethod
+    def open_read(cls, path: str | Path, *, option: str = "--journal") -> Journal:
+        """An existing journal, read-only, as a copy in memory taken in one consistent read
+        (the file is opened read-only; its schema is brought up to date in the copy only)."""
+        p = Path(path)
+        _existing_file(p, path, option)
+        mem = sqlite3.connect(":memory:", isolation_level=None)
+        try:
+            with sqlite_errors(path):
+                _copy_into(p, mem)
+                version = check_journal(mem)
+                if version < SCHEMA_VERSION:
+                    migrate(mem)
+        except SchemaError as exc:
+            mem.close()
+            raise InputError(option, "", str(path), f"a changeover journal this program can "
+                                                    f"use; it is {exc}") from None
+        except BaseException:
+            mem.close()
+            raise
+        return cls(mem, p, read_only=True)
+
+    @classmethod
     def open(cls, path: str | Path, *, option: str = "--journal") -> Journal:
         """An existing journal, its schema brought up to date (see :mod:`.schema`)."""
         p = Path(path)
-        if not p.is_file():
-            raise InputError(option, "", str(path),
-                             "an existing journal file (start one with changeover log init)")
+        _existing_file(p, path, option)
+        for what, where in (("file", p), ("folder", p.parent)):
+            if not os.access(where, os.W_OK):
+                raise InputError(str(path), "", f"read-only {what}", "a journal file you may "
+                                 "write, in a folder you may write (SQLite writes its log "
+                                 "beside the file)")
         conn = None
         try:
             conn = _connect(p, "rw")
@@ -109,10 +228,10 @@ class Journal:
             conn.close()
             raise InputError(option, "", str(path), f"a changeover journal this program can "
                                                     f"use; it is {exc}") from None
-        except sqlite3.DatabaseError as exc:
+        except sqlite3.Error as exc:
             if conn is not None:
                 conn.close()
-            raise InputError(option, "", str(path), f"a changeover journal ({exc})") from None
+            raise InputError(str(path), "", "SQLite error", sqlite_expected(exc)) from None
         return cls(conn, p)
 
     def close(self) -> None:
@@ -128,12 +247,16 @@ class Journal:
 
     def rows(self) -> list[Row]:
         """Every row, in entry-number order, as stored (untrusted)."""
-        cur = self.conn.execute(f"SELECT {_COLUMNS} FROM entries ORDER BY seq")
-        return [Row(*r) for r in cur.fetchall()]
+        with sqlite_errors(self.path):
+            cur = self.conn.execute(f"SELECT {_COLUMNS} FROM entries ORDER BY seq")
+            return [Row(*r) for r in cur.fetchall()]
 
     def head(self) -> tuple[int, str] | None:
-        """(number, hash) of the last entry as the head row recorded it."""
-        r = self.conn.execute("SELECT seq, hash FROM head WHERE id = 1").fetchone()
+        """(number, hash) of the last entry as the head row recorded it (None: no head)."""
+        try:
+            r = self.conn.execute("SELECT seq, hash FROM head WHERE id = 1").fetchone()
+        except sqlite3.OperationalError:
+            return None     # the head table itself is gone: the schema check names it
         return (int(r[0]), str(r[1])) if r else None
 
     def read(self) -> list[Stored]:
@@ -142,20 +265,23 @@ class Journal:
 
     def state(self) -> JournalState:
         """The journal as it stands now (one consistent read)."""
-        self.conn.execute("BEGIN")
-        try:
-            return self._refresh()
-        finally:
-            self.conn.execute("COMMIT")
+        with sqlite_errors(self.path):
+            self.conn.execute("BEGIN")
+            try:
+                return self._refresh()
+            finally:
+                self.conn.execute("COMMIT")
 
     def verify(self, expect_hash: str | None = None) -> VerifyReport:
-        """Check the whole chain (see :mod:`planner.journal.verify`)."""
-        self.conn.execute("BEGIN")
-        try:
-            rows, head = self.rows(), self.head()
-        finally:
-            self.conn.execute("COMMIT")
-        return verify_rows(rows, head, expect_hash)
+        """Check the whole chain and the schema's triggers (see :mod:`.verify`)."""
+        with sqlite_errors(self.path):
+            self.conn.execute("BEGIN")
+            try:
+                rows, head = self.rows(), self.head()
+                schema = schema_problems(self.conn)
+            finally:
+                self.conn.execute("COMMIT")
+        return verify_rows(rows, head, expect_hash, schema)
 
     # -- writing ---------------------------------------------------------------------------
 
@@ -165,6 +291,12 @@ class Journal:
 
     def append_many(self, makes: Sequence[Make]) -> list[Stored]:
         """Append entries in one transaction: all of them or, on any error, none."""
+        if self.read_only:
+            raise InputError(str(self.path), "", "read-only copy", "a journal opened to write")
+        with sqlite_errors(self.path):
+            return self._append_many(makes)
+
+    def _append_many(self, makes: Sequence[Make]) -> list[Stored]:
         conn = self.conn
         conn.execute("BEGIN IMMEDIATE")
         try:
@@ -181,7 +313,8 @@ class Journal:
             conn.execute("COMMIT")
         except BaseException:
             if conn.in_transaction:
-                conn.execute("ROLLBACK")
+                with contextlib.suppress(sqlite3.Error):
+                    conn.execute("ROLLBACK")
             self._state = None
             raise
         return out
@@ -217,3 +350,10 @@ class Journal:
             raise InputError(str(self.path), f"entry {row.seq}", "unreadable",
                              f"a valid entry ({exc}); run changeover log verify") from None
         return Stored(row.seq, row.hash, row.prev_hash, entry)
+
+
+def _umask() -> int:
+    """The process's umask (read without changing it for longer than the call)."""
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask

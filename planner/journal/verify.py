@@ -11,7 +11,10 @@ per entry number:
 - a listing column (kind, time, voyage, area, written-at) that differs from
   the hashed content;
 - a head row (kept by a trigger) that records more entries, or another last
-  hash, than the table holds (the last entries removed).
+  hash, than the table holds (the last entries removed), or none at all;
+- a table, index or trigger of the schema that is missing or replaced (the
+  triggers that refuse edits dropped, say), as
+  :func:`planner.journal.schema.schema_problems` finds them.
 
 A journal rewritten from the changed entry onwards with freshly computed
 hashes passes these checks; that is what the printed last hash is for:
@@ -70,6 +73,13 @@ class VerifyReport:
     def ok(self) -> bool:
         return not self.problems
 
+    @property
+    def confirms_print(self) -> bool:
+        """The printed copy's hash is in the chain and nothing wrong was found up to it (no
+        problem with the journal as a whole, none at or before that entry)."""
+        return self.expect_seq is not None and not any(
+            p.seq is None or p.seq <= self.expect_seq for p in self.problems)
+
 
 def listing_columns(body: dict) -> tuple[str, str | None, str | None, str | None, str]:
     """(kind, time_utc, voyage, area, written_utc) as the table stores them for listing."""
@@ -79,9 +89,10 @@ def listing_columns(body: dict) -> tuple[str, str | None, str | None, str | None
 
 
 def verify_rows(rows: Sequence[Row], head: tuple[int, str] | None,
-                expect_hash: str | None = None) -> VerifyReport:
-    """Check the rows (sorted by ``seq``) and the head row; see the module docstring."""
-    problems: list[Problem] = []
+                expect_hash: str | None = None, schema: Sequence[str] = ()) -> VerifyReport:
+    """Check the rows (sorted by ``seq``), the head row and the schema findings ``schema``;
+    see the module docstring."""
+    problems: list[Problem] = [Problem(None, f"the journal's {x}") for x in schema]
     expected, prev = 1, GENESIS_HASH
     expect_seq = None
     for row in rows:
@@ -113,6 +124,9 @@ def verify_rows(rows: Sequence[Row], head: tuple[int, str] | None,
         elif head_seq == last_seq and head_hash != last_hash:
             problems.append(Problem(last_seq, "its hash differs from the one the journal's "
                                               "head recorded when it was written"))
+        elif head_seq < last_seq:
+            problems.append(Problem(None, f"the journal's head records entry {head_seq} but "
+                                          f"the journal holds {last_seq}: the head was edited"))
     elif rows:
         problems.append(Problem(None, "the journal's head row is missing"))
     if expect_hash is not None and expect_seq is None:

@@ -38,7 +38,7 @@ needs_poppler = pytest.mark.requires_poppler
 
 
 def crew(**kw) -> Typed:
-    base = dict(rank="2nd Engineer", name="T. Okafor")
+    base = dict(rank="2nd Engineer", name="T. Okafor", confirm=True)
     base.update(kw)
     return Typed(**base)
 
@@ -96,7 +96,7 @@ def test_record_holds_every_required_field(journal, tmp_path):
         "2027-06-02 09:15Z (UTC)",
         # changeover 1: to compliant fuel, completed before entry (corrected)
         "Changeover 1: to compliant fuel before entering Meridian Reach ECA",
-        "Changeover started", "Completed before entry", "2027-05-31", "05:35Z", "10:05Z",
+        "Changeover started", "Completed 1 h 42 min before entry", "2027-05-31", "05:35Z", "10:05Z",
         "2027-05-31 17:35", "2027-05-31 22:05", "UTC+12:00", "39°19.9'S", "176°24.8'E",
         "39°11.6'S", "178°00.4'E",
         "Compliant fuel: MGO (DMA), 0.07 % m/m S, BDN ALD-0528-01",
@@ -111,12 +111,14 @@ def test_record_holds_every_required_field(journal, tmp_path):
         "1 h 42 min before it (the plan's margin 1.44 h)",
         # changeover 2: back to regular fuel, commenced after exit
         "Changeover 2: back to regular fuel after leaving Meridian Reach ECA",
-        "Commenced after exit", "06:30Z", "2027-06-01 18:30", "38°53.4'S", "175°56.3'W",
+        "Commenced 16 min after exit", "06:30Z", "2027-06-01 18:30", "38°53.4'S", "175°56.3'W",
         "time & position confirmed from plan", "Changed back to: VLSFO",
         "Compliant fuel left in the tanks: MGO", "18.100", "70.300",
         # changeover 3: completed after the planned boundary: flagged
         "Changeover 3: to compliant fuel before entering Skarvik Basin ECA",
-        "Check this changeover", "completed after the planned boundary entry",
+        # 23:50Z against the planned 23:33:19Z: 16.7 min, shown to the minute as 17
+        "Completed 17 min after entry", "Check this changeover",
+        "completed 17 min after entry (2027-06-01 23:33Z planned)",
         # other entries, the strike-out, signatures, page numbers
         "Tank soundings, samples and notes", "sample MR-0531-1, seal A 448812, drawn at ME inlet",
         "struck out: entered in the wrong journal", "47.100",

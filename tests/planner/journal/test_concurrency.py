@@ -24,7 +24,8 @@ from planner.journal import Journal
 from planner.journal.compose import Typed, note_entry
 path, tag, total, batch = sys.argv[1], sys.argv[2], int(sys.argv[3]), int(sys.argv[4])
 pause = float(sys.argv[5])
-t = Typed(rank="3rd Engineer", name=f"writer {tag}", at="2027-06-01T00:00Z", tz="+12:00")
+t = Typed(rank="3rd Engineer", name=f"writer {tag}", at="2027-06-01T00:00Z", tz="+12:00",
+          confirm=True)
 done = 0
 with Journal.open(path) as j:
     print("ready", flush=True)
@@ -114,3 +115,30 @@ def test_two_writers_at_once_lose_nothing(tmp_path):
         tags = [s.entry.who.name for s in j.state().stored.values()][3:]
     switches = sum(1 for x, y in zip(tags, tags[1:], strict=False) if x != y)
     assert switches > 10, f"writers did not overlap ({switches} switches, {elapsed:.1f} s)"
+
+
+def test_readers_during_writers_see_whole_journals(tmp_path):
+    # open_read copies the journal while two writers append: every copy is a whole journal
+    # (its chain verifies) and no copy is older than the one before it
+    path = tmp_path / "ship.db"
+    new_journal(path).close()
+    n = 150
+    procs = [writer(path, tag, n, 1, pause_s=0.001) for tag in ("a", "b")]
+    for p in procs:
+        assert p.stdout.readline().strip() == "ready"
+    for p in procs:
+        p.stdin.write("go\n")
+        p.stdin.flush()
+    last, reads = 0, 0
+    while any(p.poll() is None for p in procs) or reads < 3:
+        with Journal.open_read(path) as j:
+            report = j.verify()
+        assert report.ok, report.problems
+        assert report.last_seq >= last
+        last, reads = report.last_seq, reads + 1
+    for p in procs:
+        p.stdout.read()
+        assert p.wait(timeout=120) == 0
+    with Journal.open_read(path) as j:
+        assert j.verify().entries == 3 + 2 * n
+    assert reads >= 3

@@ -198,13 +198,18 @@ def test_tank_syntax():
 def test_planned_values_per_step():
     start = planned_for(STARTED, PLAN, 1)
     assert start.time_utc == datetime(2027, 5, 31, 5, 30, tzinfo=UTC)
-    assert start.position == Position(-39.3301, 176.4107)
+    # planned positions are kept as the crew writes them, to 0.1' (hand calculation):
+    # 39.3301° = 39°19.806' -> 39°19.8' = 39.33°; 176.4107° = 176°24.642' -> 24.6' = 176.41°
+    assert start.position == Position(-39.33, 176.41)
     assert start.area == "Meridian Reach ECA" and start.circuit == "main engine"
     done = planned_for(COMPLETED, PLAN, 1)
     assert done.time_utc == datetime(2027, 5, 31, 10, 20, tzinfo=UTC) and done.position is None
-    assert done.boundary == Position(-39.151662, 178.5) and done.margin_h == 1.44
+    # 39.151662° = 39°09.09972' -> 39°09.1' = 39.151667° (6 decimals)
+    assert done.boundary == Position(-39.151667, 178.5) and done.margin_h == 1.44
     back = planned_for(BACK_COMMENCED, PLAN, 2)
-    assert back.direction == "to_regular" and back.position.lon_deg == -175.9391
+    assert back.direction == "to_regular"
+    assert back.position.lon_deg == -175.938333  # 175°56.346' -> 56.3'
+    assert back.position.lat_deg == -38.89  # 38.8904° = 38°53.424' -> 53.4' = 38.89°
 
 
 def test_plan_refusals(tmp_path):

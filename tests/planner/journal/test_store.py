@@ -13,15 +13,14 @@ from planner.journal.compose import (
     Typed,
     changeover_entry,
     correction_entry,
-    fuel_entry,
     note_entry,
-    setup_entry,
     tanks_entry,
 )
+from planner.journal.compose_setup import fuel_entry, setup_entry
 from planner.journal.entries import COMPLETED, CORRECTION, STARTED
 from planner.journal.schema import APPLICATION_ID, SCHEMA_VERSION, migrate
 
-CE = Typed(rank="Chief Engineer", name="R. Halvorsen", tz="+12:00")
+CE = Typed(rank="Chief Engineer", name="R. Halvorsen", tz="+12:00", confirm=True)
 
 
 def new_journal(path: Path, tanks=("MGO service", "MGO storage 3S")) -> Journal:
@@ -33,7 +32,7 @@ def new_journal(path: Path, tanks=("MGO service", "MGO storage 3S")) -> Journal:
 
 def step(**kw) -> Typed:
     base = dict(rank="2nd Engineer", name="T. Okafor", pos="39°19.9'S 176°24.8'E",
-                area="Meridian Reach ECA", voyage="V1")
+                area="Meridian Reach ECA", voyage="V1", confirm=True)
     base.update(kw)
     return Typed(**base)
 
@@ -135,7 +134,8 @@ def test_changeover_pairing_defaults_and_order(tmp_path):
             j.append(changeover_entry(COMPLETED, step(at="2027-05-31T05:00Z",
                                                       tanks=("MGO service=20@38",))))
         done = j.append(changeover_entry(COMPLETED, Typed(
-            rank="C/E", name="R. H.", at="2027-05-31T10:05Z", pos="39°11.6'S 178°00.4'E",
+            confirm=True, rank="C/E", name="R. H.", at="2027-05-31T10:05Z",
+            pos="39°11.6'S 178°00.4'E",
             tanks=("MGO service=24.6@38", "MGO storage 3S=92.7@22"))))
         r = done.entry.record
         assert r.details.follows == s.seq

@@ -12,15 +12,19 @@ from planner.journal import Journal
 from planner.journal.canonical import canonical_json, entry_hash
 from planner.journal.compose import Typed, changeover_entry, note_entry, tanks_entry
 from planner.journal.entries import COMPLETED, STARTED
+from planner.journal.listing import verify_lines
+from planner.journal.schema import expected_schema
 from tests.planner.journal.test_store import new_journal
 
-DROP = ("DROP TRIGGER entries_never_updated; DROP TRIGGER entries_never_deleted; "
-        "DROP TRIGGER entries_append_only;")
+TRIGGERS = ("entries_never_updated", "entries_never_deleted", "entries_append_only",
+            "head_follows_entries")
+DROP = " ".join(f"DROP TRIGGER {t};" for t in TRIGGERS)
+DROPPED = [f"the journal's trigger {t} is missing (dropped)" for t in TRIGGERS]
 
 
 def crew(**kw) -> Typed:
     base = dict(rank="2nd Engineer", name="T. Okafor", pos="39°19.9'S 176°24.8'E",
-                area="Meridian Reach ECA", voyage="V1")
+                area="Meridian Reach ECA", voyage="V1", confirm=True)
     base.update(kw)
     return Typed(**base)
 
@@ -50,11 +54,26 @@ def attack(path: Path, *sql: tuple) -> None:
     conn.close()
 
 
-def problems(path: Path, expect_hash: str | None = None) -> list[str]:
-    with Journal.open(path) as j:
+def restore_triggers(path: Path) -> None:
+    """Put the dropped triggers back as they were, as a careful forger would."""
+    conn = sqlite3.connect(path)
+    for (kind, name), sql in expected_schema().items():
+        if kind == "trigger" and name in TRIGGERS:
+            conn.execute(sql)
+    conn.commit()
+    conn.close()
+
+
+def problems(path: Path, expect_hash: str | None = None, dropped: bool = True) -> list[str]:
+    """The entries' problems, after checking that verify named the dropped triggers."""
+    with Journal.open_read(path) as j:
         report = j.verify(expect_hash)
     assert not report.ok
-    return [str(p) for p in report.problems]
+    found = [str(p) for p in report.problems]
+    if dropped:
+        assert found[:len(DROPPED)] == DROPPED, found
+        return found[len(DROPPED):]
+    return found
 
 
 def body(path: Path, seq: int) -> dict:
@@ -154,8 +173,43 @@ def test_whole_chain_rewrite_is_caught_by_the_printed_hash(journal):
         prev = h
     updates.append(("UPDATE head SET hash = ?", (prev,)))
     attack(journal, *updates)
+    restore_triggers(journal)
     with Journal.open(journal) as j:
         assert j.verify().ok  # a consistent forgery passes the chain on its own...
-    found = problems(journal, printed)  # ...but not against the copy printed before it
+    found = problems(journal, printed, dropped=False)  # ...but not against the printed copy
     assert found == [f"hash {printed} (from a printed copy) is not in this journal: entries up "
                      "to it were changed or removed"]
+
+
+def test_the_head_row_is_protected_like_the_entries(journal):
+    conn = sqlite3.connect(journal)
+    for statement in ("UPDATE head SET seq = 8", "UPDATE head SET hash = 'x'",
+                      "DELETE FROM head", "INSERT INTO head VALUES (2, 9, 'x')"):
+        with pytest.raises(sqlite3.DatabaseError, match="journal head"):
+            conn.execute(statement)
+    conn.close()
+    with Journal.open(journal) as j:
+        j.append(note_entry(crew(at="2027-05-31T16:00Z"), "the head follows"))
+        assert j.head()[0] == 10 and j.verify().ok
+
+
+def test_a_head_edited_with_its_trigger_dropped_is_named(journal):
+    attack(journal, ("UPDATE head SET seq = 8, hash = (SELECT hash FROM entries WHERE seq = 8)",))
+    found = problems(journal)
+    assert found == ["the journal's head records entry 8 but the journal holds 9: the head was "
+                     "edited"]
+
+
+def test_verify_hash_never_reassures_after_a_bad_entry(journal, tmp_path):
+    with Journal.open(journal) as j:
+        printed = j.verify().last_hash
+    attack(journal, ("UPDATE entries SET body = json_set(body, '$.record.details.text', "
+                     "'edited') WHERE seq = 7",))
+    restore_triggers(journal)
+    with Journal.open_read(journal) as j:
+        report = j.verify(printed)
+    assert report.expect_seq == 9 and not report.confirms_print
+    lines = verify_lines("ship.db", report)
+    assert not any("are as they were" in x for x in lines)
+    assert lines[-1] == ("the printed copy's hash is entry 9's, but the problems above mean "
+                         "entries 1 to 9 cannot be confirmed as printed")
