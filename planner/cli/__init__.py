@@ -40,7 +40,7 @@ from collections.abc import Callable
 import typer
 
 from geo.errors import InputError
-from planner.cli import flush, log, plan, procedure, route
+from planner.cli import calibrate, flush, log, plan, procedure, route
 
 COMPUTING: dict[str, Callable[..., None]] = {
     "flush": flush.flush_cmd,
@@ -48,6 +48,7 @@ COMPUTING: dict[str, Callable[..., None]] = {
     "procedure": procedure.procedure_cmd,
     "route": route.route_cmd,
     "areas": route.areas_cmd,
+    "calibrate": calibrate.calibrate_cmd,
 }
 """The commands that compute, in the order the help lists them; each checks PROJ first."""
 
