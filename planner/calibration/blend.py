@@ -40,7 +40,8 @@ def content_mass_fractions(content_m3: Mapping[str, float], fuels: Sequence[Fuel
     return np.asarray(mass_fractions_from_volumes(v, rho), dtype=float)
 
 
-def content_vbn(mass_fr: np.ndarray, fuels: Sequence[Fuel], temperature_c: np.ndarray) -> np.ndarray:
+def content_vbn(mass_fr: np.ndarray, fuels: Sequence[Fuel],
+                temperature_c: np.ndarray) -> np.ndarray:
     """Refutas blending number [-] of a content at each temperature [°C] ([MAPLES-2000],
     each fuel's viscosity by [ASTM-D341])."""
     t = np.asarray(temperature_c, dtype=float)

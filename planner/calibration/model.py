@@ -61,7 +61,8 @@ class Changeover:
     schedule: ConsumptionSchedule
 
 
-def parameters(system: FuelSystem, circuit: str, names: Sequence[str] | None) -> tuple[Parameter, ...]:
+def parameters(system: FuelSystem, circuit: str,
+               names: Sequence[str] | None) -> tuple[Parameter, ...]:
     """The parameters to fit, by name (None: ``pipes`` and each stirred volume).
 
     Parameters
