@@ -17,7 +17,7 @@ Public API:
 
 from planner.calibration.blend import BlendError, share_of_b
 from planner.calibration.fit import Calibration, CalibrationError, Fitted, calibrate
-from planner.calibration.model import Changeover, Parameter, parameters
+from planner.calibration.model import Changeover, Parameter, parameters, prior_sd
 from planner.calibration.shipfile import calibrated_text
 from planner.calibration.target import TimeToTarget, time_to_target
 from planner.calibration.trend import Trend, TrendColumns, read_trend
@@ -35,6 +35,7 @@ __all__ = [
     "calibrate",
     "calibrated_text",
     "parameters",
+    "prior_sd",
     "read_trend",
     "share_of_b",
     "time_to_target",

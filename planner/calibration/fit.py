@@ -28,13 +28,19 @@ Method:
    down-weighted are left out of ``s²`` and ``J`` too); ``J`` by central
    differences of ±0.02 in each log-factor; 95 % intervals ``û ± t₀.₉₇₅,ₙ₋ₚ·√Cⱼⱼ``
    (Student's t), as factors ``exp(û ± ...)``. The intervals are those of the
-   linearised model (exact for a model linear in u, approximate otherwise).
+   linearised model (exact for a model linear in u, approximate otherwise);
+6. a parameter left at the ship file's value is not known exactly either: its
+   spread (``prior_sd``, from the ship file's ``[uncertainty]`` table) enters
+   as a *consider* parameter, first-order: the fitted ``û`` moves by
+   ``A·δ`` when a kept one is off by ``δ``, ``A = (JᵀJ)⁻¹·Jᵀ·J_k``, so
+   ``C ← C + A·diag(σ_k²)·Aᵀ`` [D]. Without it a kept volume that is off would
+   bias the fitted ones outside their intervals.
 """
 
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -236,7 +242,9 @@ def _select(model: _Model, params: list[Parameter], sigma: float, explicit: bool
 
 
 def calibrate(system: FuelSystem, changes: Sequence[Changeover], trends: Sequence[Trend],
-              params: Sequence[Parameter], explicit: bool = False) -> Calibration:
+              params: Sequence[Parameter], explicit: bool = False,
+              prior_sd: Mapping[str, float] | None = None,
+              fixed: Sequence[Parameter] = ()) -> Calibration:
     """Fit ``params`` to the trends of the changeovers ``changes`` (one per trend).
 
     Parameters
@@ -252,6 +260,13 @@ def calibrate(system: FuelSystem, changes: Sequence[Changeover], trends: Sequenc
     explicit : bool, default False
         The caller named the parameters: refuse rather than leave out one the
         trends cannot determine.
+    prior_sd : mapping of str to float, optional [-]
+        Standard deviation of ln(factor) of each parameter by name, as the ship
+        file states it (:func:`planner.calibration.model.prior_sd`); a kept
+        parameter's widens the fitted intervals (step 6 of the module notes).
+    fixed : sequence of Parameter, optional
+        Parameters not fitted, held at the ship file's value, whose ``prior_sd``
+        widens the intervals too (those the trends cannot determine are added).
 
     Returns
     -------
@@ -293,6 +308,9 @@ def calibrate(system: FuelSystem, changes: Sequence[Changeover], trends: Sequenc
     s2 = float(r[inlier] @ r[inlier]) / (n_in - p)
     jac = model.jacobian(u, central=True)[inlier]
     cov, cond = _covariance(jac, s2)
+    held = [q for q, _ in kept] + [q for q in fixed if q not in chosen]
+    if held and prior_sd and math.isfinite(cond):
+        cov = cov + _consider(system, changes, trends, chosen, held, u, jac, inlier, prior_sd)
     sd = np.sqrt(np.diag(cov))
     bad = [k for k in range(p) if not sd[k] <= MAX_SD_LOG]
     if bad:
@@ -306,6 +324,23 @@ def calibrate(system: FuelSystem, changes: Sequence[Changeover], trends: Sequenc
                    for par, x, s in zip(chosen, u, sd, strict=True))
     return Calibration(fitted, tuple(kept), _series(model, trends, shares, u, inlier),
                        math.sqrt(s2), sigma, cov, n_in, int((~inlier).sum()), model.runs)
+
+
+def _consider(system: FuelSystem, changes: Sequence[Changeover], trends: Sequence[Trend],
+              chosen: list[Parameter], kept: list[Parameter], u: np.ndarray, jac: np.ndarray,
+              inlier: np.ndarray, prior_sd: Mapping[str, float]) -> np.ndarray:
+    """``A·diag(σ_k²)·Aᵀ``: the fitted log-factors' covariance [-] from the kept ones' spread."""
+    full = _Model(system, changes, trends, chosen + kept)
+    x = np.concatenate([u, np.zeros(len(kept))])
+    cols = []
+    for j in range(len(chosen), len(chosen) + len(kept)):
+        e = np.zeros(len(x))
+        e[j] = DIFF_LOG
+        cols.append((full.at_readings(x + e) - full.at_readings(x - e)) / (2.0 * DIFF_LOG))
+    jk = np.column_stack(cols)[inlier]
+    a = np.linalg.solve(jac.T @ jac, jac.T @ jk)
+    sk = np.array([prior_sd.get(q.name, 0.0) for q in kept])
+    return (a * sk * sk) @ a.T
 
 
 def _series(model: _Model, trends: Sequence[Trend], shares: Sequence[np.ndarray],

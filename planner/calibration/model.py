@@ -27,6 +27,7 @@ import numpy as np
 
 from planner.flushing import ConsumptionSchedule, make_switch, simulate
 from planner.ship.system import FuelSystem, Pipe, Stirred
+from planner.uncertainty.inputs import Z95, UncertaintySpec
 from planner.uncertainty.model import perturbed, scaled_schedule
 
 PIPES = "pipes"
@@ -111,6 +112,30 @@ def parameters(system: FuelSystem, circuit: str,
     if PIPES in used and used & set(pipes):
         raise ValueError(f"a pipe is named beside {PIPES!r} (which already scales every pipe)")
     return tuple(out)
+
+
+def prior_sd(system: FuelSystem, spec: UncertaintySpec,
+             params: Sequence[Parameter]) -> dict[str, float]:
+    """Standard deviation of each parameter's ln(factor) [-] as the ship file states it.
+
+    A volume's ± (95 %) [%] over 1.96 (:mod:`planner.uncertainty.inputs`); for a
+    stirred volume the mixing adds the variance of ``ln(1 − d)`` and
+    ``ln(1 − b)``, about ``s²/12`` each for ``d``, ``b`` uniform from 0 to ``s``
+    [D]; ``pipes``: the spread of the sum of independent pipes; consumption:
+    its ± over 1.96.
+    """
+    out = {}
+    for p in params:
+        if p.name == CONSUMPTION:
+            out[p.name] = spec.consumption_pct / 100.0 / Z95
+            continue
+        v = np.array([system.volumes[n].volume_m3 for n in p.nodes])
+        sd = np.array([spec.volume_pct(n) / 100.0 / Z95 for n in p.nodes])
+        var = float(np.sum((v * sd) ** 2) / np.sum(v) ** 2)
+        if len(p.nodes) == 1 and isinstance(system.volumes[p.nodes[0]], Stirred):
+            var += (spec.mixing_stagnant ** 2 + spec.mixing_bypass ** 2) / 12.0
+        out[p.name] = float(np.sqrt(var))
+    return out
 
 
 def apply(system: FuelSystem, schedule: ConsumptionSchedule, params: Sequence[Parameter],

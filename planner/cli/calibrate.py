@@ -74,6 +74,7 @@ def calibrate_cmd(
         calibrate,
         calibrated_text,
         parameters,
+        prior_sd,
         time_to_target,
     )
     from planner.common.outputs import dumps, write_atomic
@@ -93,12 +94,16 @@ def calibrate_cmd(
         params = parameters(system, change.circuit, fit)
     except ValueError as e:
         raise InputError("--fit", "", ", ".join(fit or []), str(e)) from None
+    spec = load_uncertainty(ship, system)
+    used = {n for q in params for n in q.nodes} | {q.name for q in params}
+    fixed = tuple(q for q in parameters(system, change.circuit, None)
+                  if not (set(q.nodes) & used or q.name in used))
     try:
-        cal = calibrate(system, [change] * len(read), read, params, explicit=fit is not None)
+        cal = calibrate(system, [change] * len(read), read, params, explicit=fit is not None,
+                        prior_sd=prior_sd(system, spec, params + fixed), fixed=fixed)
         ttt = time_to_target(system, cal, change, limit, target)
         text = None
         if write is not None:
-            spec = load_uncertainty(ship, system)
             text = calibrated_text(ship.read_text(encoding="utf-8-sig"), str(write), system,
                                    spec, cal, [t.name for t in trends], datetime.now(UTC))
     except (CalibrationError, BlendError) as e:
