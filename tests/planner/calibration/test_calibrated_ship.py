@@ -20,7 +20,7 @@ from planner.flushing import schedule_at
 from planner.ship.ship_file import load_ship
 from planner.uncertainty import analyse, load_uncertainty
 from tests.helpers.paths import ROOT
-from tests.planner.calibration.test_fit import SHIP_FILE, SPEC, _fit, _trend
+from tests.planner.calibration.test_fit import SPEC, _fit, _trend
 
 SAMPLE = ROOT / "areas_sample" / "ship.toml"
 
