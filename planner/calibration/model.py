@@ -138,6 +138,44 @@ def prior_sd(system: FuelSystem, spec: UncertaintySpec,
     return out
 
 
+SEGMENT_H = 1.0 / 6.0  # the logged load is averaged over 10-minute segments [h]
+
+
+def logged_schedule(system: FuelSystem, circuit: str, time_h: np.ndarray,
+                    load_pct: np.ndarray) -> ConsumptionSchedule:
+    """The circuit's consumption following a logged main-engine load.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    circuit : str
+    time_h : ndarray [h]
+        Reading times after the switch.
+    load_pct : ndarray [% MCR]
+        The load at each reading (NaN: not logged).
+
+    Returns
+    -------
+    ConsumptionSchedule
+        Segments of :data:`SEGMENT_H` with the mean logged load of each (a
+        segment without readings keeps the one before; the first, the first
+        logged); main engines at that load, other consumers at their rates
+        [t/h at 42.7 MJ/kg]. ValueError when no load is logged.
+    """
+    ok = np.isfinite(load_pct)
+    if not ok.any():
+        raise ValueError("the load column holds no value")
+    n = max(1, int(np.ceil((float(time_h[-1]) + 1e-9) / SEGMENT_H)))
+    loads, last = [], float(load_pct[ok][0])
+    for k in range(n):
+        inside = ok & (time_h >= k * SEGMENT_H) & (time_h < (k + 1) * SEGMENT_H)
+        last = float(np.mean(load_pct[inside])) if inside.any() else last
+        loads.append(last)
+    names = system.circuits[circuit].consumers
+    rates = [{c: system.consumers[c].iso_demand_t_h(load_pct=x) for c in names} for x in loads]
+    return ConsumptionSchedule.steps([k * SEGMENT_H for k in range(n)], rates)
+
+
 def apply(system: FuelSystem, schedule: ConsumptionSchedule, params: Sequence[Parameter],
           u: np.ndarray) -> tuple[FuelSystem, ConsumptionSchedule]:
     """The system and schedule with each parameter's factor ``exp(u)`` [-] applied."""

@@ -7,7 +7,9 @@ What the monitoring system exports, one reading a line, with a header line::
     2027-05-30T04:01:00+12:00,128.2,13.0
 
 - the column names are mapped by the caller (``--time-col``, ``--temp-col``,
-  ``--visc-col``); other columns are ignored; the separator is a comma, a
+  ``--visc-col``); an optional column of the main engine's load, % MCR
+  (``--load-col``), makes the consumption follow the log; other columns are
+  ignored; the separator is a comma, a
   semicolon or a tab (read from the header line);
 - times are ISO 8601; a time without its UTC offset is read in the zone
   given (``tz``) and refused when none is given: a trend in ship's time
@@ -39,6 +41,7 @@ MIN_VISCOSITY_CST = 0.2
 MAX_VISCOSITY_CST = 10_000.0
 TEMPERATURE_RANGE_C = (-20.0, 250.0)
 MIN_READINGS = 5
+MAX_LOAD_PCT = 110.0
 
 
 @dataclass(frozen=True)
@@ -48,6 +51,7 @@ class TrendColumns:
     time: str = "time"
     temperature: str = "temperature_c"
     viscosity: str = "viscosity_cst"
+    load: str | None = None
 
 
 @dataclass(frozen=True, eq=False)
@@ -55,7 +59,8 @@ class Trend:
     """Readings of one changeover after its valve switch, in time order.
 
     ``time_h`` [h] after ``switch_utc``; ``temperature_c`` [°C] and
-    ``viscosity_cst`` [cSt] at the inlet. ``skipped`` counts the blank and
+    ``viscosity_cst`` [cSt] at the inlet; ``load_pct`` [% MCR] the main engine's
+    load at each reading when the file has it (NaN where blank). ``skipped`` counts the blank and
     out-of-range readings left out; ``before_switch`` the readings logged
     before the switch (left out of the fit).
     """
@@ -67,6 +72,7 @@ class Trend:
     viscosity_cst: np.ndarray
     skipped: int = 0
     before_switch: int = 0
+    load_pct: np.ndarray | None = None
 
     def __post_init__(self) -> None:
         if self.switch_utc.tzinfo is None:
@@ -152,14 +158,17 @@ def read_trend(path: str | Path, switch_utc: datetime, columns: TrendColumns = T
     file = str(path)
     header, rows = _rows(Path(path))
     index = {}
-    for what, name in (("time", columns.time), ("temperature", columns.temperature),
-                       ("viscosity", columns.viscosity)):
+    wanted = [("time", columns.time), ("temperature", columns.temperature),
+              ("viscosity", columns.viscosity)]
+    if columns.load is not None:
+        wanted.append(("load", columns.load))
+    for what, name in wanted:
         if name not in header:
             raise InputError(file, "line 1 (header)", name, f"a {what} column; the columns are "
                              f"{', '.join(header) or 'none'} (map names with the options)")
         index[what] = header.index(name)
     switch_utc = switch_utc.astimezone(UTC)
-    t, temp, visc = [], [], []
+    t, temp, visc, load = [], [], [], []
     skipped = before = 0
     lo_t, hi_t = TEMPERATURE_RANGE_C
     for k, row in enumerate(rows, start=2):
@@ -178,6 +187,8 @@ def read_trend(path: str | Path, switch_utc: datetime, columns: TrendColumns = T
         if dt_h < 0.0:
             before += 1
             continue
+        if "load" in cells:
+            load.append(_load(cells["load"], file, f"line {k}, column {columns.load}"))
         t.append(dt_h)
         temp.append(x_t)
         visc.append(x_v)
@@ -188,4 +199,14 @@ def read_trend(path: str | Path, switch_utc: datetime, columns: TrendColumns = T
                          "viscosity after the valve switch (check --switch-at and --tz)")
     order = np.argsort(np.array(t), kind="stable")
     return Trend(file, switch_utc, np.array(t)[order], np.array(temp)[order],
-                 np.array(visc)[order], skipped, before)
+                 np.array(visc)[order], skipped, before,
+                 np.array(load)[order] if columns.load is not None else None)
+
+
+def _load(text: str, file: str, place: str) -> float:
+    x = _number(text, file, place)
+    if x is None:
+        return math.nan
+    if not 0.0 <= x <= MAX_LOAD_PCT:
+        raise InputError(file, place, text, f"a main engine load from 0 to {MAX_LOAD_PCT:g} % MCR")
+    return x

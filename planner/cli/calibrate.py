@@ -21,7 +21,7 @@ from planner.cli.options import JsonOpt, LimitOpt, TargetOpt, check_limit, check
 from planner.common.defaults import DEFAULT_LIMIT_PCT
 
 if TYPE_CHECKING:
-    from planner.calibration import Calibration, Changeover, TimeToTarget
+    from planner.calibration import Calibration, Changeover, TimeToTarget, Trend
     from planner.ship.system import FuelSystem
 
 ADVISORY = ("Advisory only: a calibrated model is an estimate from the logged trends; any "
@@ -49,15 +49,19 @@ def calibrate_cmd(
                                           "°C.")] = "temperature_c",
     visc_col: Annotated[str, typer.Option(help="Name of the inlet viscosity column, "
                                           "cSt.")] = "viscosity_cst",
+    load_col: Annotated[str | None, typer.Option(
+        help="Name of a column of the main engine's load, % MCR (optional): the consumption "
+        "then follows the log.")] = None,
     tz: Annotated[str | None, typer.Option(help="UTC offset of times written without one "
                                            "(else they are refused), e.g. +12:00.")] = None,
     fit: Annotated[list[str] | None, typer.Option(
         help="Parameter to fit: 'pipes', 'consumption' or a volume of the circuit; "
         "repeatable (default: pipes and each stirred volume, those the trend cannot "
         "determine left at the ship file's value).")] = None,
-    load: Annotated[float | None, typer.Option(help="Main engine load during the trends, "
-                                               "% MCR, above 0 and at most 110 (default its "
-                                               "reference load).")] = None,
+    load: Annotated[float | None, typer.Option(help="Main engine load, % MCR, above 0 and at "
+                                               "most 110, during trends without --load-col and "
+                                               "for the time to target (default its reference "
+                                               "load).")] = None,
     limit: LimitOpt = DEFAULT_LIMIT_PCT,
     target_pct: TargetOpt = None,
     json_out: JsonOpt = False,
@@ -89,7 +93,8 @@ def calibrate_cmd(
         raise InputError("--write", "", str(write), "a new file, not the ship file itself")
     system = load_ship(ship)
     change = _changeover(system, circuit, from_, to, inlet, load)
-    read = _trends(trends, switch_at, tz, time_col, temp_col, visc_col)
+    read = _trends(trends, switch_at, tz, time_col, temp_col, visc_col, load_col)
+    changes = [_logged(system, change, tr) for tr in read]
     try:
         params = parameters(system, change.circuit, fit)
     except ValueError as e:
@@ -99,7 +104,7 @@ def calibrate_cmd(
     fixed = tuple(q for q in parameters(system, change.circuit, None)
                   if not (set(q.nodes) & used or q.name in used))
     try:
-        cal = calibrate(system, [change] * len(read), read, params, explicit=fit is not None,
+        cal = calibrate(system, changes, read, params, explicit=fit is not None,
                         prior_sd=prior_sd(system, spec, params + fixed), fixed=fixed)
         ttt = time_to_target(system, cal, change, limit, target)
         text = None
@@ -154,8 +159,23 @@ def _changeover(system: FuelSystem, circuit: str | None, from_: str | None, to: 
     return Changeover(name, a, b, where, schedule_at(system, load_pct=load, circuits=[name]))
 
 
+def _logged(system: FuelSystem, change: Changeover, trend: Trend) -> Changeover:
+    """The changeover with the consumption following the trend's logged load, if it has one."""
+    from geo.errors import InputError
+    from planner.calibration import Changeover
+    from planner.calibration.model import logged_schedule
+
+    if trend.load_pct is None:
+        return change
+    try:
+        sched = logged_schedule(system, change.circuit, trend.time_h, trend.load_pct)
+    except ValueError as e:
+        raise InputError(trend.file, "load column", "", str(e)) from None
+    return Changeover(change.circuit, change.from_tank, change.to_tank, change.inlet, sched)
+
+
 def _trends(paths: list[Path], switch_at: list[str], tz: str | None, time_col: str,
-            temp_col: str, visc_col: str) -> list:
+            temp_col: str, visc_col: str, load_col: str | None) -> list:
     """The trends read, each against its own switch time."""
     from geo.errors import InputError
     from planner.calibration import TrendColumns, read_trend
@@ -165,7 +185,7 @@ def _trends(paths: list[Path], switch_at: list[str], tz: str | None, time_col: s
         raise InputError("--switch-at", "", f"{len(switch_at)} given for {len(paths)} trend(s)",
                          "one --switch-at per trend file, in the same order")
     zone = parse_offset(tz) if tz is not None else None
-    cols = TrendColumns(time_col, temp_col, visc_col)
+    cols = TrendColumns(time_col, temp_col, visc_col, load_col)
     out = []
     for path, text in zip(paths, switch_at, strict=True):
         moment = _switch_moment(text, zone)

@@ -132,3 +132,25 @@ def test_naive_times_are_read_in_the_zone_given(tmp_path):
     for q in doc["parameters"]:
         assert q["low_95"] <= q["ship_value"] <= q["high_95"], q
     assert doc["trends"][0]["switch_utc"] == "2027-05-30T04:00:00+00:00"
+
+
+def test_a_load_column_is_followed_and_checked(tmp_path):
+    import numpy as np
+
+    from planner.calibration.model import logged_schedule
+
+    ship = load_ship(ROOT / SHIP)
+    t = np.arange(0.0, 2.5, 1 / 60)
+    load = np.where(t < 0.5, 85.0, 50.0)
+    tt, a, b = inlet_trend(ship, end_h=2.5, start_h=0.0, gap_h=None,
+                           schedule=logged_schedule(ship, "main", t, load))
+    p = write_trend_csv(tmp_path / "load.csv", tt, a, b, load_pct=np.where(tt < 0.5, 85.0, 50.0))
+    r = run(SHIP, str(p), "--switch-at", SWITCH, "--load-col", "load_pct", "--json")
+    assert r.returncode == 0, r.stderr
+    for q in json.loads(r.stdout)["parameters"]:  # made from the ship file itself
+        assert q["low_95"] <= q["ship_value"] <= q["high_95"], q
+    bad = tmp_path / "bad.csv"
+    bad.write_text(p.read_text().replace(",50.0\n", ",150.0\n", 1), encoding="utf-8")
+    r = run(SHIP, str(bad), "--switch-at", SWITCH, "--load-col", "load_pct")
+    assert r.returncode == 2 and "a main engine load from 0 to 110 % MCR" in r.stderr
+    assert len(r.stderr.strip().splitlines()) == 1

@@ -17,7 +17,7 @@ from pathlib import Path
 
 import numpy as np
 
-from planner.flushing import make_switch, schedule_at, simulate
+from planner.flushing import ConsumptionSchedule, make_switch, schedule_at, simulate
 from planner.fuels.refutas import blend_viscosity_cst
 from planner.ship.system import FuelSystem
 
@@ -28,11 +28,13 @@ def inlet_trend(system: FuelSystem, *, circuit: str = "main", from_tank: str = "
                 to_tank: str = "mgo_service", inlet: str = "main_engine", end_h: float = 3.0,
                 step_min: float = 1.0, noise: float = 0.01, gap_h: tuple[float, float] | None
                 = (0.8, 1.0), spike_at_h: float | None = 0.5, spike_factor: float = 6.0,
-                seed: int = 1, start_h: float = -0.25) -> tuple[np.ndarray, np.ndarray,
-                                                                np.ndarray]:
-    """(time h after the switch, temperature °C, viscosity cSt) of a synthetic trend."""
-    r = simulate(system, make_switch(system, circuit, from_tank, to_tank), schedule_at(system),
-                 max(end_h, 0.1) + 0.1)
+                seed: int = 1, start_h: float = -0.25,
+                schedule: ConsumptionSchedule | None = None) -> tuple[np.ndarray, np.ndarray,
+                                                                      np.ndarray]:
+    """(time h after the switch, temperature °C, viscosity cSt) of a synthetic trend
+    (``schedule``: the consumption, default every consumer at its reference rate)."""
+    r = simulate(system, make_switch(system, circuit, from_tank, to_tank),
+                 schedule or schedule_at(system), max(end_h, 0.1) + 0.1)
     c = r.inlets[inlet]
     t = np.arange(start_h, end_h + 1e-9, step_min / 60.0)
     mf = np.array([np.interp(np.maximum(t, 0.0), c.time_h, row) for row in c.mass_fractions])
@@ -48,18 +50,19 @@ def inlet_trend(system: FuelSystem, *, circuit: str = "main", from_tank: str = "
 def write_trend_csv(path: Path, t_h: np.ndarray, temp_c: np.ndarray, nu_cst: np.ndarray, *,
                     switch_utc: datetime = SWITCH_UTC, offset_h: float = 12.0,
                     header: str = "time,temperature_c,viscosity_cst", naive: bool = False,
-                    comment: str | None = None) -> Path:
+                    comment: str | None = None, load_pct: np.ndarray | None = None) -> Path:
     """Write a trend as the monitoring system would export it (ship's time with its offset,
     or without one when ``naive``)."""
     from datetime import timezone
 
     zone = timezone(timedelta(hours=offset_h))
     lines = [f"# {comment}"] if comment else []
-    lines.append(header)
-    for t, a, b in zip(t_h, temp_c, nu_cst, strict=True):
+    lines.append(header + (",load_pct" if load_pct is not None else ""))
+    loads = load_pct if load_pct is not None else [None] * len(t_h)
+    for t, a, b, x in zip(t_h, temp_c, nu_cst, loads, strict=True):
         moment = (switch_utc + timedelta(hours=float(t))).astimezone(zone)
         stamp = moment.replace(tzinfo=None).isoformat(timespec="seconds") if naive else \
             moment.isoformat(timespec="seconds")
-        lines.append(f"{stamp},{a:.1f},{b:.3f}")
+        lines.append(f"{stamp},{a:.1f},{b:.3f}" + ("" if x is None else f",{x:.1f}"))
     path.write_text("\n".join(lines) + "\n", encoding="utf-8")
     return path

@@ -133,3 +133,30 @@ def test_parameter_names_are_checked():
         parameters(SHIP_FILE, "main", ["pumps"])
     with pytest.raises(ValueError, match="beside 'pipes'"):
         parameters(SHIP_FILE, "main", ["pipes", "supply_line"])
+
+
+def test_a_logged_load_is_followed():
+    # the engine slows from 85 % to 40 % MCR 30 min after the switch: the flush slows with
+    # the consumption. With the load logged the truth is found; assuming the reference load
+    # throughout, the fit must stretch the volumes instead (truth outside its intervals)
+    from planner.calibration.model import logged_schedule
+
+    t = np.arange(0.0, 3.0, 1 / 60)
+    load = np.where(t < 0.5, 85.0, 40.0)
+    sched = logged_schedule(TRUE, "main", t, load)
+    assert sched.times_h[:4] == pytest.approx([0.0, 1 / 6, 2 / 6, 3 / 6])
+    tt, temp, nu = inlet_trend(TRUE, end_h=3.0, schedule=sched, start_h=0.0)
+    tr = Trend("load.csv", SWITCH_UTC, tt, temp, nu)
+    with_load = Changeover("main", "vlsfo_service", "mgo_service", "main_engine",
+                           logged_schedule(SHIP_FILE, "main", t, load))
+    good = _fit([tr], changes=[with_load])
+    mix = next(f for f in good.fitted if f.parameter.name == "mixing_tank")
+    pipes = next(f for f in good.fitted if f.parameter.name == "pipes")
+    assert mix.low < 0.5 < mix.high
+    assert pipes.low < sum(TRUE.volumes[n].volume_m3 for n in pipes.parameter.nodes) < pipes.high
+    try:  # the wrong consumption: refused (a parameter undetermined) or the truth outside
+        bad = _fit([tr])
+    except CalibrationError:
+        return
+    mix = next(f for f in bad.fitted if f.parameter.name == "mixing_tank")
+    assert not mix.low < 0.5 < mix.high
