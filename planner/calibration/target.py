@@ -14,7 +14,7 @@ import numpy as np
 
 from planner.calibration.fit import DIFF_LOG, Calibration
 from planner.calibration.model import Changeover, apply
-from planner.flushing import flush
+from planner.flushing import CircuitSummary, flush
 from planner.ship.system import FuelSystem
 
 Z95 = 1.959963984540054
@@ -23,8 +23,11 @@ Z95 = 1.959963984540054
 @dataclass(frozen=True)
 class TimeToTarget:
     """Time to target after the switch [h]: ship file, fitted, and the fitted 95 % range
-    (None where the target is not reached within the simulated horizon)."""
+    (None where the target is not reached within the simulated horizon). ``direction``
+    ``"to_compliant"`` (every inlet at or below the target from then on) or
+    ``"to_regular"`` (at or above it)."""
 
+    direction: str
     limit_pct: float
     target_pct: float
     ship_h: float | None
@@ -33,24 +36,25 @@ class TimeToTarget:
     fitted_high_h: float | None
 
 
-def _time_h(system: FuelSystem, change: Changeover, limit_pct: float,
-            target_pct: float) -> float | None:
+def _summary(system: FuelSystem, change: Changeover, limit_pct: float,
+             target_pct: float) -> CircuitSummary:
     _, s = flush(system, change.circuit, change.from_tank, change.to_tank, change.schedule,
                  limit_pct=limit_pct, target_pct=target_pct)
-    return s.time_to_target_h
+    return s
 
 
 def time_to_target(system: FuelSystem, cal: Calibration, change: Changeover, limit_pct: float,
                    target_pct: float) -> TimeToTarget:
     """The time to ``target_pct`` [% m/m] of ``change`` (its schedule [t/h]) with the ship
     file's values and with the fitted ones, with the fitted time's 95 % interval [h]."""
-    ship = _time_h(system, change, limit_pct, target_pct)
+    first = _summary(system, change, limit_pct, target_pct)
+    ship = first.time_to_target_h
     u = cal.u
 
     def at(x: np.ndarray) -> float | None:
         sys_, sched = apply(system, change.schedule, cal.parameters, x)
         c = Changeover(change.circuit, change.from_tank, change.to_tank, change.inlet, sched)
-        return _time_h(sys_, c, limit_pct, target_pct)
+        return _summary(sys_, c, limit_pct, target_pct).time_to_target_h
 
     fitted = at(u)
     low = high = None
@@ -65,4 +69,4 @@ def time_to_target(system: FuelSystem, cal: Calibration, change: Changeover, lim
         if np.all(np.isfinite(g_arr)):
             sd = math.sqrt(max(float(g_arr @ cal.covariance @ g_arr), 0.0))
             low, high = max(fitted - Z95 * sd, 0.0), fitted + Z95 * sd
-    return TimeToTarget(limit_pct, target_pct, ship, fitted, low, high)
+    return TimeToTarget(first.direction, limit_pct, target_pct, ship, fitted, low, high)

@@ -211,6 +211,8 @@ def _switch_moment(text: str, zone: object) -> datetime:
 def calibration_json(system: FuelSystem, change: Changeover, cal: Calibration,
                      ttt: TimeToTarget) -> dict:
     """The document the table is printed from (and ``--json`` prints)."""
+    from planner.common.timefmt import iso_utc
+
     return {
         "ship": system.ship.name,
         "circuit": change.circuit, "from_tank": change.from_tank, "to_tank": change.to_tank,
@@ -221,14 +223,15 @@ def calibration_json(system: FuelSystem, change: Changeover, cal: Calibration,
                         "factor": f.factor, "sd_log": f.sd_log} for f in cal.fitted],
         "not_fitted": [{"name": p.name, "label": p.label, "reason": why}
                        for p, why in cal.kept],
-        "time_to_target": {"limit_pct": ttt.limit_pct, "target_pct": ttt.target_pct,
+        "time_to_target": {"direction": ttt.direction, "limit_pct": ttt.limit_pct,
+                           "target_pct": ttt.target_pct,
                            "ship_file_h": ttt.ship_h, "fitted_h": ttt.fitted_h,
                            "fitted_low_95_h": ttt.fitted_low_h,
                            "fitted_high_95_h": ttt.fitted_high_h},
         "fit": {"readings": cal.readings, "spikes_left_out": cal.spikes,
                 "residual_sd": cal.residual_sd, "noise_sd": cal.noise_sd,
                 "simulations": cal.evaluations},
-        "trends": [{"file": s.trend.file, "switch_utc": s.trend.switch_utc.isoformat(),
+        "trends": [{"file": s.trend.file, "switch_utc": iso_utc(s.trend.switch_utc),
                     "readings": len(s.trend.time_h), "gaps_or_dropouts": s.trend.skipped,
                     "before_switch": s.trend.before_switch, "end_h": s.trend.end_h}
                    for s in cal.series],
@@ -255,7 +258,9 @@ def _print(doc: dict) -> None:
     for p in doc["not_fitted"]:
         typer.echo(f"  not fitted, ship file's value kept: {p['label']}: {p['reason']}")
     t = doc["time_to_target"]
-    typer.echo(f"time to {t['target_pct']:g} % m/m (limit {t['limit_pct']:g} %): ship file "
+    level = "at or below" if t["direction"] == "to_compliant" else "at or above"
+    typer.echo(f"time until every inlet stays {level} {t['target_pct']:g} % m/m (limit "
+               f"{t['limit_pct']:g} %): ship file "
                f"{_h(t['ship_file_h'])}, fitted {_h(t['fitted_h'])}" +
                ("" if t["fitted_low_95_h"] is None else
                 f" (95 %: {t['fitted_low_95_h']:.2f} to {t['fitted_high_95_h']:.2f} h)"))
