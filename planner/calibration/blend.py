@@ -34,7 +34,20 @@ class BlendError(ValueError):
 
 
 def content_mass_fractions(content_m3: Mapping[str, float], fuels: Sequence[Fuel]) -> np.ndarray:
-    """Mass fractions [-] of a tank content (fuel name → m³ at 15 °C), in ``fuels`` order."""
+    """Mass fractions of a tank content, in ``fuels`` order.
+
+    Parameters
+    ----------
+    content_m3 : mapping of str to float [m³ at 15 °C]
+        Volume of each fuel by name.
+    fuels : sequence of Fuel
+        The order of the result (densities at 15 °C).
+
+    Returns
+    -------
+    ndarray [-]
+        Mass fractions (mixing by mass, [LEVENSPIEL-1999] [D]).
+    """
     v = np.array([content_m3.get(f.name, 0.0) for f in fuels])
     rho = np.array([f.density_kg_m3 for f in fuels])
     return np.asarray(mass_fractions_from_volumes(v, rho), dtype=float)
@@ -42,8 +55,22 @@ def content_mass_fractions(content_m3: Mapping[str, float], fuels: Sequence[Fuel
 
 def content_vbn(mass_fr: np.ndarray, fuels: Sequence[Fuel],
                 temperature_c: np.ndarray) -> np.ndarray:
-    """Refutas blending number [-] of a content at each temperature [°C] ([MAPLES-2000],
-    each fuel's viscosity by [ASTM-D341])."""
+    """Refutas blending number of a content at each temperature.
+
+    Parameters
+    ----------
+    mass_fr : ndarray [-]
+        The content's mass fractions, in ``fuels`` order.
+    fuels : sequence of Fuel
+    temperature_c : ndarray [°C]
+        Temperatures.
+
+    Returns
+    -------
+    ndarray [-]
+        ``Σ wᵢ·VBN(νᵢ(T))``: [MAPLES-2000] [P], each fuel's viscosity at T by
+        [ASTM-D341] [P].
+    """
     t = np.asarray(temperature_c, dtype=float)
     out = np.zeros(t.shape)
     for w, f in zip(mass_fr, fuels, strict=True):

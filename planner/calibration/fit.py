@@ -146,8 +146,23 @@ def _noise(shares: Sequence[np.ndarray]) -> float:
 
 def measured_shares(system: FuelSystem, changes: Sequence[Changeover],
                     trends: Sequence[Trend]) -> list[np.ndarray]:
-    """Each trend's readings as the to-tank content's mass share [-] (BlendError when the
-    two contents cannot be told apart by viscosity)."""
+    """Each trend's readings as the to-tank content's mass share.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The tanks' contents and the fuels' delivery-note viscosities.
+    changes : sequence of Changeover
+        The tanks of each trend's changeover.
+    trends : sequence of Trend
+        Temperatures [°C] and viscosities [cSt].
+
+    Returns
+    -------
+    list of ndarray [-]
+        One per trend (:func:`planner.calibration.blend.share_of_b`); BlendError
+        when the two contents cannot be told apart by viscosity.
+    """
     fuels = list(system.fuels.values())
     out = []
     for c, tr in zip(changes, trends, strict=True):

@@ -116,8 +116,22 @@ def parameters(system: FuelSystem, circuit: str,
 
 def prior_sd(system: FuelSystem, spec: UncertaintySpec,
              params: Sequence[Parameter]) -> dict[str, float]:
-    """Standard deviation of each parameter's ln(factor) [-] as the ship file states it.
+    """Standard deviation of each parameter's ln(factor) as the ship file states it.
 
+    Parameters
+    ----------
+    system : FuelSystem
+    spec : UncertaintySpec
+        The ship file's ``[uncertainty]`` table: ± (95 %) [%], mixing parts [-].
+    params : sequence of Parameter
+
+    Returns
+    -------
+    dict of str to float [-]
+        By parameter name.
+
+    Notes
+    -----
     A volume's ± (95 %) [%] over 1.96 (:mod:`planner.uncertainty.inputs`); for a
     stirred volume the mixing adds the variance of ``ln(1 − d)`` and
     ``ln(1 − b)``, about ``s²/12`` each for ``d``, ``b`` uniform from 0 to ``s``
@@ -178,7 +192,23 @@ def logged_schedule(system: FuelSystem, circuit: str, time_h: np.ndarray,
 
 def apply(system: FuelSystem, schedule: ConsumptionSchedule, params: Sequence[Parameter],
           u: np.ndarray) -> tuple[FuelSystem, ConsumptionSchedule]:
-    """The system and schedule with each parameter's factor ``exp(u)`` [-] applied."""
+    """The system and schedule with each parameter's factor applied.
+
+    Parameters
+    ----------
+    system : FuelSystem
+    schedule : ConsumptionSchedule
+        Rates [t/h].
+    params : sequence of Parameter
+    u : ndarray [-]
+        ln(factor) of each parameter.
+
+    Returns
+    -------
+    system, schedule : FuelSystem, ConsumptionSchedule
+        Volumes times ``exp(u)`` (:func:`planner.uncertainty.model.perturbed`),
+        rates times the consumption factor.
+    """
     factors: dict[str, float] = {}
     consumption = 1.0
     for p, x in zip(params, np.asarray(u, dtype=float), strict=True):
@@ -192,8 +222,23 @@ def apply(system: FuelSystem, schedule: ConsumptionSchedule, params: Sequence[Pa
 
 def inlet_share(system: FuelSystem, change: Changeover,
                 horizon_h: float) -> tuple[np.ndarray, np.ndarray]:
-    """Simulated mass share [-] of the to-tank's content at the inlet against time [h].
+    """Simulated mass share of the to-tank's content at the inlet against time.
 
+    Parameters
+    ----------
+    system : FuelSystem
+    change : Changeover
+        Circuit, tanks, the inlet read and the rates [t/h].
+    horizon_h : float [h]
+        Simulated time after the switch.
+
+    Returns
+    -------
+    time_h, share : ndarray [h], ndarray [-]
+        On the simulator's fine record (:func:`planner.flushing.simulate`).
+
+    Notes
+    -----
     The inlet's volume fractions are projected on the line from the from-tank's
     content to the to-tank's (the circuit holds only those two), and the volume
     share turned into a mass share with the contents' densities.

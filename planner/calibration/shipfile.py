@@ -57,7 +57,21 @@ def _comment_out(lines: list[str], start: int, end: int, key: re.Pattern, note: 
 
 
 def fitted_volumes(system: FuelSystem, cal: Calibration) -> dict[str, tuple[float, float]]:
-    """Each fitted volume's new value [m³] and the ± (95 %) [%] written for it."""
+    """Each fitted volume's new value and the ± written for it.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship file's system.
+    cal : Calibration
+        Fitted factors [-] and standard errors of ln(factor) [-].
+
+    Returns
+    -------
+    dict of str to (float, float)
+        By volume: the fitted volume [m³] and its ± (95 %) [%] (at least 0.1,
+        at most 50; a ``pipes`` factor's scaled by ``ΣV / √(ΣV²)``).
+    """
     out: dict[str, tuple[float, float]] = {}
     for f in cal.fitted:
         nodes = f.parameter.nodes
@@ -73,8 +87,31 @@ def fitted_volumes(system: FuelSystem, cal: Calibration) -> dict[str, tuple[floa
 
 def calibrated_text(text: str, file: str, system: FuelSystem, spec: UncertaintySpec,
                     cal: Calibration, trend_files: Sequence[str], when: datetime) -> str:
-    """The calibrated ship file's text (CalibrationError when a fitted volume is not written
-    as its own ``[volumes.NAME]`` table, or the result does not load back)."""
+    """The calibrated ship file's text.
+
+    Parameters
+    ----------
+    text : str
+        The ship file's own text.
+    file : str
+        The name to give in messages (the file to be written).
+    system : FuelSystem
+        The system ``text`` describes.
+    spec : UncertaintySpec
+        Its ``[uncertainty]`` table (± values [%]).
+    cal : Calibration
+    trend_files : sequence of str
+        Named in the first comment.
+    when : datetime
+        The date in the comments (UTC).
+
+    Returns
+    -------
+    str
+        The new text, parsed back with the ship loader and the uncertainty
+        reader. CalibrationError when a fitted volume is not written as its own
+        ``[volumes.NAME]`` table, or the result would not load.
+    """
     lines = text.splitlines()
     new = fitted_volumes(system, cal)
     for name, (volume, _) in new.items():

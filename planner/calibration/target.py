@@ -45,8 +45,27 @@ def _summary(system: FuelSystem, change: Changeover, limit_pct: float,
 
 def time_to_target(system: FuelSystem, cal: Calibration, change: Changeover, limit_pct: float,
                    target_pct: float) -> TimeToTarget:
-    """The time to ``target_pct`` [% m/m] of ``change`` (its schedule [t/h]) with the ship
-    file's values and with the fitted ones, with the fitted time's 95 % interval [h]."""
+    """The time to the target with the ship file's values and with the fitted ones.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship file's system.
+    cal : Calibration
+        Fitted log-factors [-] and their covariance [-].
+    change : Changeover
+        The changeover and the rates [t/h] to judge it at.
+    limit_pct : float [% m/m]
+        Sulphur limit.
+    target_pct : float [% m/m]
+        Planning target.
+
+    Returns
+    -------
+    TimeToTarget
+        Times [h] after the switch (:func:`planner.flushing.flush`), the fitted
+        one with its 95 % interval by the delta method [BATES-WATTS-1988].
+    """
     first = _summary(system, change, limit_pct, target_pct)
     ship = first.time_to_target_h
     u = cal.u
