@@ -109,8 +109,12 @@ def calibrate_cmd(
         ttt = time_to_target(system, cal, change, limit, target)
         text = None
         if write is not None:
+            import hashlib
+
+            named = [f"{t.name} (SHA-256 {hashlib.sha256(t.read_bytes()).hexdigest()})"
+                     for t in trends]
             text = calibrated_text(ship.read_text(encoding="utf-8-sig"), str(write), system,
-                                   spec, cal, [t.name for t in trends], datetime.now(UTC))
+                                   spec, cal, named, datetime.now(UTC))
     except (CalibrationError, BlendError) as e:
         raise InputError(", ".join(str(t) for t in trends), "calibration", str(e),
                          "trends that determine the fitted parameters") from None

@@ -53,7 +53,11 @@ def test_table_chart_and_written_ship(outputs):
     new = load_ship(d / "new.toml")
     ship = load_ship(ROOT / SHIP)
     assert new.volumes["mixing_tank"].volume_m3 != ship.volumes["mixing_tank"].volume_m3
-    assert "kb_main_2027-05-30.csv" in (d / "new.toml").read_text().splitlines()[0]
+    import hashlib
+
+    first = (d / "new.toml").read_text().splitlines()[0]
+    digest = hashlib.sha256((ROOT / TREND).read_bytes()).hexdigest()
+    assert f"kb_main_2027-05-30.csv (SHA-256 {digest})" in first
 
 
 def test_json_finds_the_sample_trend_volumes(outputs):
