@@ -40,13 +40,14 @@ from collections.abc import Callable
 import typer
 
 from geo.errors import InputError
-from planner.cli import areas, flush, log, plan, procedure, route
+from planner.cli import areas, calibrate, flush, log, plan, procedure, route
 
 COMPUTING: dict[str, Callable[..., None]] = {
     "flush": flush.flush_cmd,
     "plan": plan.plan_cmd,
     "procedure": procedure.procedure_cmd,
     "route": route.route_cmd,
+    "calibrate": calibrate.calibrate_cmd,
 }
 """The commands that compute, in the order the help lists them; each checks PROJ first."""
 

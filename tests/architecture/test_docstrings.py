@@ -28,7 +28,7 @@ MODEL_MODULES = (
     "geo.ellipsoid", "geo.rhumb", "geo.curves", "geo.roots", "geo.path", "geo.schedule",
     "geo.plane", "geo.crossings", "geo.compliance", "geo.limits", "geo.area_measure",
 )
-MODEL_PACKAGES = ("planner.fuels", "planner.ship", "planner.flushing")
+MODEL_PACKAGES = ("planner.fuels", "planner.ship", "planner.flushing", "planner.calibration")
 
 # a key has a hyphen or a digit (ASTM-D341, WGS84), which keeps subscripts such as [SAMPLE] out
 KEY = re.compile(r"(?<=[\s(])\[([A-Z][A-Z0-9]*(?:-[A-Z0-9]+)+|[A-Z]+[0-9]+)\]")

@@ -1,5 +1,5 @@
 """Imports run one way: geo below planner, and inside planner
-common <- fuels <- ship <- flushing <- uncertainty <- voyage <- procedure
+common <- fuels <- ship <- flushing <- uncertainty <- voyage, calibration <- procedure
 <- journal, charts <- documents <- cli. No module imports a higher layer, no
 import cycle exists (lazy imports inside functions count; imports under
 ``if TYPE_CHECKING:`` do not), and the computing layers never import the
@@ -23,6 +23,7 @@ LAYERS: dict[str, int] = {
     "planner.flushing": 4,
     "planner.uncertainty": 5,
     "planner.voyage": 6,
+    "planner.calibration": 6,  # beside voyage: neither imports the other
     "planner.procedure": 7,
     "planner.journal": 8,
     "planner.charts": 8,

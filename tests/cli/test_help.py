@@ -43,6 +43,9 @@ COMMAND_ARGS = {
     "plan": ["plan", "areas_sample/voyage.toml"],
     "procedure": ["procedure", "areas_sample/ship.toml", "--json"],
     "route": ["route", "areas_sample/aldmere_to_skarvik.csv", "--areas", "areas_sample"],
+    "calibrate": ["calibrate", "areas_sample/ship.toml",
+                  "areas_sample/trends/kb_main_2027-05-30.csv",
+                  "--switch-at", "2027-05-30T16:00+12:00"],
 }
 AREAS_ARGS = {
     "areas": ["areas", "areas_sample"],  # the old form: check

@@ -55,8 +55,9 @@ BAD = {"--confidence": ("1.5", ("0.5", "0.9999")), "--samples": ("10", ("100",))
 # declared once: flag -> commands that must all have it, declared identically
 SHARED = {
     "--json": ("flush", "plan", "procedure", "route", "areas check", "areas import",
-               "areas diff", "log show", "log verify"),
-    "--limit": ("flush", "procedure"), "--target-pct": ("flush", "procedure"),
+               "areas diff", "log show", "log verify", "calibrate"),
+    "--limit": ("flush", "procedure", "calibrate"),
+    "--target-pct": ("flush", "procedure", "calibrate"),
     "--confidence": ("flush", "plan"), "--samples": ("flush", "plan"),
     "--seed": ("flush", "plan"), "--depart": ("route",), "--tz": ("route",),
 }
@@ -168,10 +169,11 @@ def test_a_shared_option_is_declared_once(flag: str):
             (p,) = [p for p in commands[name].params if flag in p.opts]
             opts, _, _, help_ = next(iter(declared.values()))
             assert (tuple(p.opts), p.default, p.help) == (opts, None, help_), name
-    # and no other command has its own --limit, --confidence, ... (log has its own --tz)
+    # and no other command has its own --limit, --confidence, ... (log has its own --tz, and
+    # calibrate its own: the zone of a trend file's times written without an offset)
     for name, cmd in commands.items():
         if name not in SHARED[flag] and (flag, name) not in OPTIONAL and not (
-                flag == "--tz" and name.startswith("log ")):
+                flag == "--tz" and (name.startswith("log ") or name == "calibrate")):
             assert not any(flag in p.opts for p in cmd.params), (flag, name)
 
 
