@@ -26,12 +26,20 @@ ROUTE = ["route", "areas_sample/aldmere_to_skarvik.csv", "--areas", "areas_sampl
 runner = CliRunner()
 
 
-def on_terminal(*args: str) -> tuple[str, str, int]:
+NO_DELAY = ("import sys; from planner.cli.progress import SimulationsBar; "
+            "SimulationsBar.DELAY_S = 0.0; from planner.cli import main; "
+            "sys.argv[0] = 'changeover'; main()")
+"""The command line with the Monte Carlo bar's quiet time set to 0, so that whether the bar
+is drawn does not depend on how fast this machine runs the simulations."""
+
+
+def on_terminal(*args: str, no_delay: bool = False) -> tuple[str, str, int]:
     """Run with standard error on a pseudo-terminal: (standard output, what the terminal
     got, exit status)."""
     master, slave = pty.openpty()
     env = {**os.environ, "TERM": "xterm-256color"}
-    proc = subprocess.Popen([sys.executable, "-m", "planner", *args], cwd=ROOT, env=env,
+    start = ["-c", NO_DELAY] if no_delay else ["-m", "planner"]
+    proc = subprocess.Popen([sys.executable, *start, *args], cwd=ROOT, env=env,
                             stdout=subprocess.PIPE, stderr=slave)
     os.close(slave)
     got: list[bytes] = []
@@ -74,7 +82,8 @@ def test_json_on_a_terminal_shows_nothing():
 
 def test_flush_monte_carlo_bar_on_the_terminal():
     out, terminal, status = on_terminal("flush", "areas_sample/ship.toml", "--circuit", "main",
-                                        "--confidence", "0.9", "--samples", "100")
+                                        "--confidence", "0.9", "--samples", "100",
+                                        no_delay=True)
     assert status == 0, terminal
     assert "Monte Carlo main: simulations" in terminal
     assert "Circuits" in out and "\x1b" not in out
