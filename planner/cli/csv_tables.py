@@ -104,8 +104,7 @@ def plan_csv(doc: dict) -> list[CsvTable]:
         "Done position (° ')", "Boundary (UTC, ISO 8601)",
         "Boundary (ship's time, ISO 8601)", "Boundary latitude (°)", "Boundary longitude (°)",
         "Boundary position (° ')", "Boundary from departure (nm)", "Margin (h)", "Takes (h)",
-        "Limit (% m/m)", "Target (% m/m)", "Event (boundary_event)",
-        "Clock deadline (yes: the boundary is a moment, not a place)"), tuple(rows))]
+        "Limit (% m/m)", "Target (% m/m)", "Event", "Clock deadline"), tuple(rows))]
     if isinstance(doc.get("uncertainty"), dict):
         out.append(CsvTable("confidence", (
             "Changeover (number)", "Circuit", "Planned start (UTC, ISO 8601)",
