@@ -50,12 +50,20 @@ def dm(lat: float | None, lon: float | None) -> str:
 
 
 def check_csv_folder(folder: Path | None) -> None:
-    """``--csv``: None, or a folder (existing or to be made), never a file: checked before
-    anything is computed or written."""
-    if folder is not None and folder.exists() and not folder.is_dir():
-        from geo.errors import InputError
+    """``--csv``: None, or a folder (existing or to be made) where files can be written,
+    never a file: checked before anything is computed or written."""
+    if folder is None:
+        return
+    from geo.errors import InputError
+    from planner.common.outputs import check_writable
 
+    if folder.exists() and not folder.is_dir():
         raise InputError("--csv", "", str(folder), "a folder for the CSV files (one per table)")
+    try:
+        check_writable(folder / "table.csv")
+    except InputError as e:
+        raise InputError("--csv", "", str(folder), "a folder where the CSV files can be "
+                         f"written ({e.value})") from None
 
 
 def write_csv_dir(folder: Path, tables: list[CsvTable]) -> list[Path]:

@@ -52,8 +52,10 @@ def plan_cmd(
     seed: SeedOpt = None,
 ) -> None:
     """When and where each changeover starts, what it needs, and what to watch."""
-    from planner.common.outputs import dumps
+    from planner.common.outputs import check_outputs, dumps
 
+    check_outputs({"--geojson": geojson, "--chart": chart, "--map": map_png, "--pdf": pdf,
+                   "--sheets": sheets, "--gpx": gpx})
     check_csv_folder(csv)
     _check_paper(paper)
     check_confidence(confidence)

@@ -43,10 +43,11 @@ def route_cmd(
     """Where and when the route enters and leaves each area, and the limit on every stretch."""
     from planner.cli.options import ship_zone
     from planner.cli.progress import progress_kwargs, status
-    from planner.common.outputs import dumps, write_json
+    from planner.common.outputs import check_outputs, dumps, write_json
     from planner.voyage import run
     from planner.voyage.route_report import route_geojson, route_json
 
+    check_outputs({"--geojson": geojson, "--map": map_png})
     check_csv_folder(csv)
     zone = ship_zone(tz, depart)
     with status("checking the route", json_out) as say:
