@@ -134,7 +134,8 @@ def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | No
     extra_notes, notes = notes, []
     if labels is None:
         labels = [(str(n), f"{n}  {tc.crossing.event:<5} {tc.crossing.area}  at "
-                   f"{tc.crossing.distance_m / NM_M:,.1f} nm")
+                   f"{tc.crossing.distance_m / NM_M:,.1f} nm"
+                   + ("" if tc.in_force else " (not in force then)"))
                   for n, tc in enumerate(check.crossings, start=1)]
     shown = set()
     for n, (tc, (label, note)) in enumerate(zip(check.crossings, labels, strict=True), 1):
