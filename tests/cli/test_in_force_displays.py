@@ -223,3 +223,18 @@ def test_route_prints_the_force_events_table(width, tmp_path):
         (fe,) = list(csv.DictReader(f))
     assert fe["Time (UTC, ISO 8601)"] == ev["time_utc"] and fe["Leg (number)"] == str(ev["leg"])
     assert moment(fe["Time (UTC, ISO 8601)"]).astimezone(UTC).hour == 0
+
+
+@pytest.mark.requires_poppler
+def test_route_map_marks_the_in_force_moment(tmp_path):
+    doc = json.loads(piped([*ROUTE, "--json"]))
+    (ev,) = doc["force_events"]
+    pdf = tmp_path / "route_map.pdf"
+    run(*ROUTE, "--map", str(pdf))
+    t = pdf_flat(pdf)
+    when = utc_full(ev["time_utc"])
+    assert (f"comes into force {ev['area']} {when}, ship at {position(ev['lat'], ev['lon'])}, "
+            f"{ev['distance_nm']:,.1f} nm") in t
+    assert f"comes into force {when}" in t  # the star's label
+    (entry,) = [c for c in doc["crossings"] if c["event"] == "enter"]
+    assert f"enter {entry['area']} at {entry['distance_nm']:,.1f} nm (not in force then)" in t
