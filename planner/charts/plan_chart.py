@@ -2,7 +2,9 @@
 
 Every crossing is marked and labelled as on the plan's map and in its tables
 (:mod:`planner.charts.plan_events`: the changeover's number where one is made,
-unnumbered where none is). Moments are epoch seconds (``*_epoch_s``: seconds
+unnumbered where none is); a moment on the clock (an area coming into force or
+ceasing while the ship is inside it, a departure) is a dashed line labelled
+with its kind and time. Moments are epoch seconds (``*_epoch_s``: seconds
 since 1970-01-01 UTC) until they are drawn, against UTC. PNG, or PDF for a
 ``.pdf`` name.
 """
@@ -14,7 +16,7 @@ from pathlib import Path
 
 import numpy as np
 
-from planner.charts.plan_events import PlanEvent
+from planner.charts.plan_events import KINDS, PlanEvent
 from planner.voyage.plan import Plan
 
 LINE_STYLES = ("-", "--", "-.", ":")
@@ -81,15 +83,18 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
         lv += [st.limit_pct, st.limit_pct]
     ax.plot(dt(lt), lv, color="black", lw=1.0, label="limit in force")
     if events is None:
-        events = [PlanEvent(n, "enter" if ch.direction == "to_compliant" else "exit", ch.area,
+        events = [PlanEvent(n, KINDS[ch.boundary_event], ch.area,
                             plan.timeline.utc(ch.boundary_epoch_s).isoformat(), 0.0, 0.0, 0.0,
                             "") for n, ch in enumerate(plan.changes, start=1)]
     for e in events:
         if e.time_utc is None:
             continue
         when = datetime.fromisoformat(e.time_utc.replace("Z", "+00:00")).replace(tzinfo=None)
-        ax.axvline(when, color="grey", lw=0.7, ls=":")
-        ax.annotate(f"{e.label or '-'} {e.kind} {e.area}", (when, 0.02), rotation=90,
+        clock = not e.is_crossing
+        ax.axvline(when, color="darkgreen" if clock else "grey", lw=1.0 if clock else 0.7,
+                   ls="--" if clock else ":")
+        at = f" {e.when}" if clock else ""
+        ax.annotate(f"{e.label or '-'} {e.kind} {e.area}{at}", (when, 0.02), rotation=90,
                     fontsize=7, va="bottom", xytext=(2, 0), textcoords="offset points",
                     weight="bold" if e.label else "normal")
     ax.set_ylabel("sulphur, % m/m")

@@ -15,13 +15,16 @@ from planner.voyage.checks import caution_zone_shapes
 from planner.voyage.plan import Plan
 
 CROSSING_KINDS = ("enter", "exit")
+IN_FORCE_KINDS = ("comes into force", "ceases to apply")
 
 
 def events_of(plan: Plan, doc: dict) -> list[PlanEvent]:
-    """The plan's events (every crossing, numbered where a changeover is made)."""
+    """The plan's events (every crossing and every force event of the document, numbered
+    where a changeover is made)."""
     from planner.voyage.route_report import route_json
 
-    return plan_events(route_json(plan.check)["crossings"], doc["changeovers"])
+    return plan_events(route_json(plan.check)["crossings"], doc["changeovers"],
+                       doc.get("force_events", []))
 
 
 def crossing_labels(events: list[PlanEvent]) -> list[tuple[str, str]]:
@@ -32,6 +35,17 @@ def crossing_labels(events: list[PlanEvent]) -> list[tuple[str, str]]:
             out.append((e.label, f"{e.label or '-':>2}  {e.kind:<5} {e.area} at "
                         f"{e.distance_nm:,.1f} nm: {e.note}"))
     return out
+
+
+def event_notes(events: list[PlanEvent]) -> list[str]:
+    """The map legend's line of each event that is no crossing (an area coming into force
+    while the ship is inside it, a departure, a change of the global cap), with its time
+    and the ship's position then."""
+    from geo.position import format_position
+
+    return [f"{e.label or '-':>2}  {e.kind} {e.area} {e.when}, ship at "
+            f"{format_position(e.lat, e.lon)}, {e.distance_nm:,.1f} nm: {e.note}"
+            for e in events if e.kind not in CROSSING_KINDS]
 
 
 def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
@@ -67,9 +81,16 @@ def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
                         xytext=(-7, 6 if k % 2 else -12), fontsize=8, color="saddlebrown",
                         ha="center")
             first = False
+        shown: set[str] = set()
         for e in events:
             lon = e.lon + 360.0 * round((lon_mid - e.lon) / 360.0)
-            ax.plot(lon, e.lat, "D", color="purple", ms=6, label=e.kind)
-            ax.annotate(e.label, (lon, e.lat), textcoords="offset points", xytext=(0, 9),
+            clock = e.kind in IN_FORCE_KINDS
+            ax.plot(lon, e.lat, "*" if clock else "D", color="darkgreen" if clock else "purple",
+                    ms=12 if clock else 6, mec="black", mew=0.5,
+                    label=None if e.kind in shown else
+                    (f"area {e.kind} (ship's position then)" if clock else e.kind))
+            shown.add(e.kind)
+            text = f"{e.label} {e.kind} {e.when}".strip() if clock else e.label
+            ax.annotate(text, (lon, e.lat), textcoords="offset points", xytext=(0, 9),
                         fontsize=8, ha="center", weight="bold")
     return draw

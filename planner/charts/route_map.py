@@ -52,15 +52,40 @@ def figure_png(fig, dpi: int = 200) -> bytes:
 
 
 def draw_route_map(check: RouteCheck, out: str | Path, extra=None,
-                   labels: list[tuple[str, str]] | None = None) -> None:
+                   labels: list[tuple[str, str]] | None = None,
+                   notes: list[str] | None = None) -> None:
     """Write the map (PNG, or PDF for a ``.pdf`` name); see :func:`map_figure`."""
-    save_figure(map_figure(check, extra, labels), out)
+    save_figure(map_figure(check, extra, labels, notes), out)
 
 
-def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | None = None):
+def _force_events(check: RouteCheck, ax, lon_mid: float) -> list[str]:
+    """Each area coming into force (or ceasing) while the ship is inside it: a star at the
+    ship's position then, labelled with its time; the legend lines."""
+    from geo.position import format_position
+    from planner.common.timefmt import iso_utc
+
+    out = []
+    for k, f in enumerate(check.force_events):
+        kind = "comes into force" if f.event == "comes_into_force" else "ceases to apply"
+        when = iso_utc(f.time_utc)
+        when = f"{when[:10]} {when[11:16]}Z"
+        lon = f.lon + 360.0 * np.round((lon_mid - f.lon) / 360.0)
+        ax.plot(lon, f.lat, "*", color="darkgreen", ms=12, mec="black", mew=0.5,
+                label="area in force from then (ship's position)" if k == 0 else None)
+        ax.annotate(f"{kind} {when}", (lon, f.lat), textcoords="offset points",
+                    xytext=(0, 9), fontsize=8, ha="center", weight="bold")
+        out.append(f" *  {kind} {f.area} {when}, ship at {format_position(f.lat, f.lon)}, "
+                   f"{f.distance_nm:,.1f} nm")
+    return out
+
+
+def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | None = None,
+               notes: list[str] | None = None):
     """The map as a matplotlib figure. ``extra(ax)`` may draw more (changeover points) on
     top; ``labels`` gives each crossing's (label, legend line) in order (default: 1, 2,
-    ... with event, area and distance)."""
+    ... with event, area and distance); ``notes`` are more legend lines (the plan's events
+    that are no crossing). Without ``extra``, each area coming into force or ceasing while
+    the ship is inside it is drawn with its time (the route check's force events)."""
     import matplotlib
 
     matplotlib.use("Agg")
@@ -106,10 +131,11 @@ def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | No
         wl = w.lon + 360.0 * np.round((lon.mean() - w.lon) / 360.0)
         ax.plot(wl, w.lat, "ks", ms=4)
         ax.annotate(w.name, (wl, w.lat), textcoords="offset points", xytext=(4, -10), fontsize=8)
-    notes = []
+    extra_notes, notes = notes, []
     if labels is None:
         labels = [(str(n), f"{n}  {tc.crossing.event:<5} {tc.crossing.area}  at "
-                   f"{tc.crossing.distance_m / NM_M:,.1f} nm")
+                   f"{tc.crossing.distance_m / NM_M:,.1f} nm"
+                   + ("" if tc.in_force else " (not in force then)"))
                   for n, tc in enumerate(check.crossings, start=1)]
     shown = set()
     for n, (tc, (label, note)) in enumerate(zip(check.crossings, labels, strict=True), 1):
@@ -123,6 +149,9 @@ def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | No
             ax.annotate(label, (cl, c.lat), textcoords="offset points", fontsize=8,
                         xytext=(0, 9 if n % 2 else -16), ha="center", weight="bold")
         notes.append(note)
+    notes += list(extra_notes or [])
+    if extra is None:
+        notes += _force_events(check, ax, float(lon.mean()))
     if notes:
         fig.text(0.01, 0.01, "\n".join(notes), fontsize=7, family="monospace", va="bottom")
     if extra is not None:

@@ -81,10 +81,11 @@ def calibrate_cmd(
         prior_sd,
         time_to_target,
     )
-    from planner.common.outputs import dumps, write_atomic
+    from planner.common.outputs import check_outputs, dumps, write_atomic
     from planner.ship.ship_file import load_ship
     from planner.uncertainty import load_uncertainty
 
+    check_outputs({"--chart": chart, "--write": write})
     check_limit(limit)
     target = check_target(target_pct, limit)
     if load is not None and not 0.0 < load <= 110.0:

@@ -50,12 +50,20 @@ def dm(lat: float | None, lon: float | None) -> str:
 
 
 def check_csv_folder(folder: Path | None) -> None:
-    """``--csv``: None, or a folder (existing or to be made), never a file: checked before
-    anything is computed or written."""
-    if folder is not None and folder.exists() and not folder.is_dir():
-        from geo.errors import InputError
+    """``--csv``: None, or a folder (existing or to be made) where files can be written,
+    never a file: checked before anything is computed or written."""
+    if folder is None:
+        return
+    from geo.errors import InputError
+    from planner.common.outputs import check_writable
 
+    if folder.exists() and not folder.is_dir():
         raise InputError("--csv", "", str(folder), "a folder for the CSV files (one per table)")
+    try:
+        check_writable(folder / "table.csv")
+    except InputError as e:
+        raise InputError("--csv", "", str(folder), "a folder where the CSV files can be "
+                         f"written ({e.value})") from None
 
 
 def write_csv_dir(folder: Path, tables: list[CsvTable]) -> list[Path]:
@@ -78,7 +86,10 @@ def _done(r: dict) -> tuple:
 
 
 def plan_csv(doc: dict) -> list[CsvTable]:
-    """The plan's tables: changeovers, starts at the confidence, stretches, fuel, SO₂."""
+    """The plan's tables: changeovers, starts at the confidence, stretches, fuel, SO₂, and
+    the areas coming into force or ceasing while the ship is inside them."""
+    from planner.charts.plan_events import boundary_event
+
     rows = []
     for r in doc["changeovers"]:
         when, ship, lat, lon = _done(r)
@@ -91,7 +102,8 @@ def plan_csv(doc: dict) -> list[CsvTable]:
                      dm(r["boundary_lat"], r["boundary_lon"]), fx(r.get("boundary_nm"), 2),
                      fx(r["margin_h"], 3) if r["direction"] == "to_compliant" else "",
                      fx(r.get("duration_h"), 3), fx(r.get("limit_pct"), 3),
-                     fx(r.get("target_pct"), 4)))
+                     fx(r.get("target_pct"), 4), boundary_event(r),
+                     "yes" if r.get("clock_deadline") else "no"))
     out = [CsvTable("changeovers", (
         "Changeover (number)", "Area", "Circuit", "Direction", "From fuel", "To fuel",
         "Start (UTC, ISO 8601)", "Start (ship's time, ISO 8601)", "Start latitude (°)",
@@ -100,7 +112,7 @@ def plan_csv(doc: dict) -> list[CsvTable]:
         "Done position (° ')", "Boundary (UTC, ISO 8601)",
         "Boundary (ship's time, ISO 8601)", "Boundary latitude (°)", "Boundary longitude (°)",
         "Boundary position (° ')", "Boundary from departure (nm)", "Margin (h)", "Takes (h)",
-        "Limit (% m/m)", "Target (% m/m)"), tuple(rows))]
+        "Limit (% m/m)", "Target (% m/m)", "Event", "Clock deadline"), tuple(rows))]
     if isinstance(doc.get("uncertainty"), dict):
         out.append(CsvTable("confidence", (
             "Changeover (number)", "Circuit", "Planned start (UTC, ISO 8601)",
@@ -125,11 +137,26 @@ def plan_csv(doc: dict) -> list[CsvTable]:
                                 f"SO₂ on {doc['regular_fuel']} (kg)"),
                         tuple((a, fx(x["so2_kg"], 1), fx(x["so2_on_regular_kg"], 1))
                               for a, x in doc["so2"]["areas"].items())))
-    return out
+    return out + force_events_csv(doc)
+
+
+def force_events_csv(doc: dict) -> list[CsvTable]:
+    """Each area coming into force (or ceasing) while the ship is inside it: the
+    document's ``force_events``, with the ship's position then (no file without one, as
+    the terminal prints no table)."""
+    if not doc.get("force_events"):
+        return []
+    return [CsvTable("force_events", (
+        "Area", "Event", "Time (UTC, ISO 8601)", "Latitude (°)", "Longitude (°)",
+        "Position (° ')", "Leg (number)", "Distance (nm)", "Then limit (% m/m)"), tuple(
+        (f["area"], f["event"], f["time_utc"], fx(f["lat"], 6), fx(f["lon"], 6),
+         dm(f["lat"], f["lon"]), f["leg"], fx(f["distance_nm"], 3),
+         fx(f["limit_after_pct"], 3)) for f in doc["force_events"]))]
 
 
 def route_csv(doc: dict) -> list[CsvTable]:
-    """The route check's tables: crossings, stretches, time inside each area."""
+    """The route check's tables: crossings, stretches, time inside each area, areas coming
+    into force or ceasing while inside."""
     from planner.cli.route_tables import ship_time
 
     off = doc.get("ship_utc_offset")
@@ -152,6 +179,7 @@ def route_csv(doc: dict) -> list[CsvTable]:
         CsvTable("areas", ("Area", "Limit (% m/m)", "Inside (nm)", "Inside (h)"), tuple(
             (a["name"], fx(a["limit_pct"], 3), fx(a["inside_nm"], 3), fx(a["inside_h"], 3))
             for a in doc["areas"])),
+        *force_events_csv(doc),
     ]
 
 

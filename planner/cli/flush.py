@@ -87,9 +87,10 @@ def flush_cmd(
     csv: CsvOpt = None,
 ) -> None:
     """Flushing time of each circuit after the changeover valve is switched."""
-    from planner.common.outputs import dumps
+    from planner.common.outputs import check_outputs, dumps
     from planner.voyage.onboard import load_ship_or_voyage
 
+    check_outputs({"--chart": chart, "--sensitivity-chart": sensitivity_chart})
     check_csv_folder(csv)
     check_limit(limit)
     check_confidence(confidence)

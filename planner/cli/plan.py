@@ -52,8 +52,10 @@ def plan_cmd(
     seed: SeedOpt = None,
 ) -> None:
     """When and where each changeover starts, what it needs, and what to watch."""
-    from planner.common.outputs import dumps
+    from planner.common.outputs import check_outputs, dumps
 
+    check_outputs({"--geojson": geojson, "--chart": chart, "--map": map_png, "--pdf": pdf,
+                   "--sheets": sheets, "--gpx": gpx})
     check_csv_folder(csv)
     _check_paper(paper)
     check_confidence(confidence)
@@ -144,11 +146,12 @@ def _write_watch(plan: Plan, doc: dict, sheets: Path | None, paper: str,
 
 def _map(plan: Plan, doc: dict):
     """The route map figure with the plan's marks and changeover numbers."""
-    from planner.charts.plan_marks import crossing_labels, events_of, plan_marks
+    from planner.charts.plan_marks import crossing_labels, event_notes, events_of, plan_marks
     from planner.charts.route_map import map_figure
 
-    return map_figure(plan.check, plan_marks(plan, doc),
-                      crossing_labels(events_of(plan, doc)))
+    events = events_of(plan, doc)
+    return map_figure(plan.check, plan_marks(plan, doc), crossing_labels(events),
+                      event_notes(events))
 
 
 def _chart(plan: Plan, doc: dict):

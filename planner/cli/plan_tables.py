@@ -7,9 +7,10 @@ when they fall on the head's date (UTC, and ship's time with the head's
 offset), else written in full with their date. Every value is an atom of
 :mod:`planner.cli.text_table`, so no layout cuts it.
 
-A new kind of changeover-table event (say an area coming into force while the
-ship is inside it) needs only its phrase in :func:`_what` and its row in the
-document; the grouping, the head and the layouts take it as they are.
+What each group is (a crossing, an area coming into force or ceasing while the
+ship is inside it, a departure, a change of the global cap) comes from the
+row's ``boundary_event``, in the words of :mod:`planner.charts.plan_events`
+that the PDF and the watch sheets use too; a new kind needs its phrase there.
 """
 
 from __future__ import annotations
@@ -90,31 +91,32 @@ def groups(rows: list[dict]) -> list[list[dict]]:
     return out
 
 
-def _what(r: dict) -> str:
-    """What the changeover is, in words."""
-    if r.get("direction") == "to_compliant":
-        what = "enter: change to compliant fuel before the boundary"
-        if r.get("limit_pct") is not None:
-            what += f" (limit {r['limit_pct']:.2f} % m/m"
-            what += f", target {r['target_pct']:.3f} % m/m)" if r.get("target_pct") else ")"
-    else:
-        what = "exit: change back to regular fuel at or after the boundary, never before"
-    if r.get("before_departure"):
-        what += "; the voyage departs inside the area: be on compliant fuel before departure"
-    return what
+def _what(r: dict, day: str = "") -> str:
+    """What the changeover is, in words (after the area's name), from its
+    ``boundary_event`` (:func:`planner.charts.plan_events.what_text`); the boundary's
+    moment as ``HH:MMZ`` when on ``day``."""
+    from planner.charts.plan_events import what_text
+
+    return what_text(r, utc_cell(r.get("boundary_utc"), day))
 
 
 def _head(g: list[dict]) -> tuple[str, ...]:
+    from planner.charts.plan_events import moment_words
+
     r = g[0]
     b = parse(r.get("boundary_utc"))
     ship = parse(r.get("boundary_ship_time"))
-    first = keep_whole(f"Changeover {r.get('number')}: {r.get('area', DASH)}, {_what(r)}")
-    where = f"Boundary {utc_full(r.get('boundary_utc'))}"
+    day = f"{b.astimezone(UTC):%Y-%m-%d}" if b else ""
+    first = keep_whole(f"Changeover {r.get('number')}: {r.get('area', DASH)}{_what(r, day)}")
+    label, at = moment_words(r)
+    where = f"{label} {utc_full(r.get('boundary_utc'))}"
     if ship is not None:
         where += f", ship's time {ship_full(r.get('boundary_ship_time'))}"
-    where += f", at {position(r.get('boundary_lat'), r.get('boundary_lon'))}"
+    where += f", {at} {position(r.get('boundary_lat'), r.get('boundary_lon'))}"
     if r.get("boundary_nm") is not None:
         where += f", {atom(format(r['boundary_nm'], ',.1f') + ' nm')} from departure"
+    if r.get("clock_deadline") and label != "Departure":
+        where += " (a moment on the clock: no arrival-time spread applies)"
     dates = []
     if b is not None:
         dates.append(f"UTC on {b.astimezone(UTC):%Y-%m-%d}")

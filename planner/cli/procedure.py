@@ -61,6 +61,9 @@ def procedure_cmd(
     if pdf is None and csv is None and not json_out:
         raise InputError("--pdf", "", None, "the PDF file to write, e.g. --pdf procedure.pdf "
                          "(or --csv FOLDER, or --json)")
+    from planner.common.outputs import check_outputs
+
+    check_outputs({"--pdf": pdf})
     check_csv_folder(csv)
     check_limit(limit)
     if not revision.strip() or len(revision) > 20:

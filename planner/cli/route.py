@@ -43,16 +43,18 @@ def route_cmd(
     """Where and when the route enters and leaves each area, and the limit on every stretch."""
     from planner.cli.options import ship_zone
     from planner.cli.progress import progress_kwargs, status
-    from planner.common.outputs import dumps, write_json
+    from planner.common.outputs import check_outputs, dumps, write_json
     from planner.voyage import run
     from planner.voyage.route_report import route_geojson, route_json
 
+    check_outputs({"--geojson": geojson, "--map": map_png})
     check_csv_folder(csv)
     zone = ship_zone(tz, depart)
     with status("checking the route", json_out) as say:
         check = run.run_route_check(route_file, areas, depart, speed, on,
                                     **progress_kwargs(run.run_route_check, say))
         doc = route_json(check, zone)
+        doc["warnings"] = route_warnings(check)
         if map_png is not None:
             from planner.charts.route_map import draw_route_map
 
@@ -74,9 +76,19 @@ def route_cmd(
         typer.echo(f"wrote {p}")
 
 
+def route_warnings(check) -> list[str]:
+    """The route's warnings: waypoints that look like latitude and longitude exchanged
+    (:func:`geo.swapped.swapped_waypoints`, as in the plan's warnings)."""
+    from geo.swapped import swapped_waypoints
+
+    route = check.path.route
+    return [w.text(route.source) for w in swapped_waypoints(route)]
+
+
 def route_lines(doc: dict, cols: int) -> list[str]:
     """The route check as text ``cols`` characters wide: the head line, then the tables of
-    crossings, stretches and time inside each area (:mod:`planner.cli.route_tables`)."""
+    crossings, force events, stretches and time inside each area
+    (:mod:`planner.cli.route_tables`), then the warnings."""
     from planner.cli.console import table_lines, text_lines
     from planner.cli.plan_tables import utc_full
     from planner.cli.route_tables import route_tables
@@ -87,7 +99,9 @@ def route_lines(doc: dict, cols: int) -> list[str]:
         head += f", departs {utc_full(r['depart_utc'])}, arrives {utc_full(r['arrive_utc'])}"
     else:
         head += f"; no times given, areas judged as in force on {doc['rules_on']}"
-    return [*text_lines(head, cols), "", *table_lines(route_tables(doc), cols),
+    warnings = [line for w in doc.get("warnings", []) for line in text_lines(w, cols,
+                                                                               "Warning: ")]
+    return [*text_lines(head, cols), "", *table_lines(route_tables(doc), cols), *warnings,
             *text_lines("Advisory only. Official area boundaries and limits are those in "
                         "MARPOL Annex VI and national law.", cols)]
 

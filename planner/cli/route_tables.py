@@ -1,8 +1,9 @@
 """The route check's terminal tables, made from the ``changeover route --json`` document.
 
 Crossings (area, enter or exit, position, leg, distance, UTC and ship's time,
-in force, limit after), the limit on every stretch, and the time inside each
-area. Every value is an atom of :mod:`planner.cli.text_table`, so no layout
+in force, limit after), the areas coming into force or ceasing while the ship
+is inside them (``force_events``), the limit on every stretch, and the time
+inside each area. Every value is an atom of :mod:`planner.cli.text_table`, so no layout
 cuts it; free text (area names) may wrap.
 """
 
@@ -56,6 +57,27 @@ def inside_table(doc: dict) -> TextTable:
         ("Area", "w"), ("Limit % m/m", "r"), ("Inside nm", "r"), ("Inside h", "r")], rows)
 
 
+def force_events_table(doc: dict) -> TextTable | None:
+    """Each area coming into force (or ceasing to apply) while the ship is inside it: its
+    moment in UTC and ship's time and the ship's position then (none: no table)."""
+    rows = doc.get("force_events") or []
+    if not rows:
+        return None
+    off = doc.get("ship_utc_offset")
+    kinds = {"comes_into_force": "comes into force", "ceases": "ceases to apply"}
+    return table("Coming into force / ceasing while inside", [
+        ("Area", "w"), ("Event", "w"), ("UTC", "l"),
+        (f"Ship's time {off}" if off else "Ship's time", "l"), ("Ship's position then", "l"),
+        ("Leg", "r"), ("Distance nm", "r"), ("Then limit % m/m", "r")],
+        [[f["area"], kinds.get(f["event"], f["event"]), utc_full(f["time_utc"]),
+          ship_time(f["time_utc"], off), position(f["lat"], f["lon"]), str(f["leg"]),
+          f"{f['distance_nm']:,.2f}", f"{f['limit_after_pct']:.2f}"] for f in rows],
+        "A moment on the clock, not a boundary crossing: every consumer must be on compliant "
+        "fuel by then wherever the ship is (the plan makes the changeover for it).")
+
+
 def route_tables(doc: dict) -> list[TextTable]:
     """Every table the route check prints, in order."""
-    return [crossings_table(doc), stretches_table(doc), inside_table(doc)]
+    force = force_events_table(doc)
+    return [crossings_table(doc), *([force] if force else []), stretches_table(doc),
+            inside_table(doc)]

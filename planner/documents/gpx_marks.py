@@ -1,9 +1,12 @@
 """``changeover plan --gpx``: the plan's marks as GPX 1.1 waypoints for the bridge.
 
 Every changeover's start point (per circuit), its compliant point (going in)
-or complete point (going back), and each boundary crossing (numbered as the
-plan's changeovers, unnumbered where none is made) as a ``wpt`` with its name,
-UTC time, a comment and a type, so they load as marks beside the route. The
+or complete point (going back), each boundary crossing (numbered as the
+plan's changeovers, unnumbered where none is made) and each area coming into
+force or ceasing while the ship is inside it (``CO3 comes into force``, type
+``comes into force``, at the ship's position at that moment, with its time) as
+a ``wpt`` with its name, UTC time, a comment and a type, so they load as marks
+beside the route. The
 route itself stays in its own file (the voyage's route file, any format): these
 are points only, in the same WGS84 degrees. Written with the element names and
 order of the GPX 1.1 schema ([GPX-11]); the file is written atomically.
@@ -64,14 +67,27 @@ def plan_waypoints(doc: dict, events: Sequence[PlanEvent]) -> list[Waypoint]:
                                    else "back on regular fuel"), f"changeover {key}"))
     seen: dict[str, int] = {}
     for e in events:
-        name = f"CO{e.number} boundary" if e.number is not None else f"{e.kind} {e.area}"
+        name = _event_name(e)
         seen[name] = seen.get(name, 0) + 1
         if seen[name] > 1:  # the same area left twice: names stay unique on the chart
             name = f"{name} ({seen[name]})"
-        out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
-                            f"{e.kind} {e.area} at {e.distance_nm:,.1f} nm: {e.note}",
-                            "boundary"))
+        if e.is_crossing:
+            out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
+                                f"{e.kind} {e.area} at {e.distance_nm:,.1f} nm: {e.note}",
+                                "boundary"))
+        else:  # a moment on the clock: the ship's position then
+            out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
+                                f"{e.area} {e.kind} {e.when} (UTC), the ship then at "
+                                f"{e.distance_nm:,.1f} nm: {e.note}", e.kind))
     return sorted(out, key=lambda w: (w.time_utc or "", w.name))
+
+
+def _event_name(e: PlanEvent) -> str:
+    """``CO3 boundary``, ``CO3 comes into force``, ``exit Corran Sea ECA`` ..."""
+    what = "boundary" if e.is_crossing else e.kind
+    if e.number is not None:
+        return f"CO{e.number} {what}"
+    return f"{e.kind} {e.area}"
 
 
 def gpx_text(waypoints: Sequence[Waypoint], name: str, time_utc: str | None = None) -> str:

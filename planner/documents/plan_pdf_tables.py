@@ -36,27 +36,25 @@ CH_ALIGN = "llllllllrr"
 # ---------------------------------------------------------------- the changeover table
 
 def _group_head(g: list[dict]) -> Markup:
+    """The group's head: the area and what the changeover is (from ``boundary_event``:
+    a crossing, an area coming into force or ceasing while the ship is inside it, a
+    departure), then its moment in UTC and ship's time and the position."""
+    from planner.charts.plan_events import moment_words, what_text
+
     r = g[0]
     area = esc(plain(r.get("area", "—")))
-    limit = r.get("limit_pct")
-    down = r.get("direction") == "to_compliant"
-    if down:
-        what = "enter: change to compliant fuel before the boundary"
-        target = r.get("target_pct")
-        if limit is not None:
-            what += f" (limit {limit:.2f} %" + (f", target {target:.3f} %)" if target else ")")
-    else:
-        what = "exit: change back to regular fuel at or after the boundary, never before"
-    if r.get("before_departure"):
-        what += "; the voyage departs inside the area: be on compliant fuel before departure"
-    where = [f"Boundary {utc_text(r.get('boundary_utc'))}"]
+    what = what_text(r, utc_text(r.get("boundary_utc")))
+    label, at = moment_words(r)
+    where = [f"{label} {utc_text(r.get('boundary_utc'))}"]
     if r.get("boundary_ship_time"):
         where.append(f"ship's time {ship_text(r.get('boundary_ship_time'))}")
     pos = pos_text(r.get("boundary_lat"), r.get("boundary_lon"))
-    text = ", ".join(where) + f", at {pos}"
+    text = ", ".join(where) + f", {at} {pos}"
     if r.get("boundary_nm") is not None:
         text += f", {r['boundary_nm']:,.1f} nm from departure"
-    return markup(f"<b>{area}</b>: {esc(what)}<br/>{esc(text)}")
+    if r.get("clock_deadline") and label != "Departure":
+        text += " (a moment on the clock: no arrival-time spread applies)"
+    return markup(f"<b>{area}</b>{esc(plain(what))}<br/>{esc(plain(text))}")
 
 
 def _circuit_row(r: dict) -> list:

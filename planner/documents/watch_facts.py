@@ -78,6 +78,14 @@ class WatchSheet:
     readings: tuple[Reading, ...]
     interval_min: int
     tanks: tuple[tuple[str, str], ...]
+    event: str = ""
+    """What the boundary is (the plan's ``boundary_event``: ``enter``, ``exit``,
+    ``comes_into_force``, ``ceases``, ``departure``, ``cap_change``); empty: by direction."""
+
+    @property
+    def boundary_event(self) -> str:
+        """:attr:`event`, or ``enter`` / ``exit`` by direction."""
+        return self.event or ("enter" if self.direction == "to_compliant" else "exit")
 
 
 def _moment(plan: Plan, epoch_s: float | None) -> Moment | None:
@@ -182,20 +190,33 @@ def watch_sheets(plan: Plan) -> list[WatchSheet]:
             steps += _steps(plan, part, ch.limit_pct, down)
         boundary = _moment(plan, ch.boundary_epoch_s)
         assert boundary is not None
-        if ch.before_departure:
-            what = f"departure inside {ch.area}: every inlet compliant before departure"
-        else:
-            what = f"boundary: {'enter' if down else 'exit'} {ch.area} (" + (
-                "every inlet compliant by now" if down else "the switch back may begin") + ")"
-        steps.append(Step(boundary, "", what, record=True))
+        steps.append(Step(boundary, "", _boundary_step(ch.boundary_event, ch.area, down),
+                          record=True))
         steps.sort(key=lambda s: (s.when is None, s.when.utc if s.when else 0))
         readings, step = _readings(plan, ch.circuits)
         out.append(WatchSheet(
             n, ch.area, ch.direction, boundary, ch.boundary_m / NM_M, ch.limit_pct,
             ch.target_pct if down else None, tuple(p.circuit for p in ch.circuits),
             tuple(f"{p.from_fuel} → {p.to_fuel}" for p in ch.circuits), tuple(steps),
-            tuple(readings), step, tanks))
+            tuple(readings), step, tanks, ch.boundary_event))
     return out
+
+
+def _boundary_step(event: str, area: str, down: bool) -> str:
+    """The bridge's step at the boundary's moment, in the words of its event."""
+    if event == "departure":
+        return (f"departure inside {area}: every inlet compliant before departure" if down
+                else "departure: the switch back may begin")
+    if event in ("comes_into_force", "cap_change"):
+        name = f"{area} comes into force" if event == "comes_into_force" else \
+            "the global cap changes"
+        return (f"in force: {name} now, wherever the ship is (every inlet compliant by "
+                "now; note the position)")
+    if event == "ceases":
+        return (f"ceases: {area} ceases to apply now, wherever the ship is (the switch back "
+                "may begin; note the position)")
+    return f"boundary: {'enter' if down else 'exit'} {area} (" + (
+        "every inlet compliant by now" if down else "the switch back may begin") + ")"
 
 
 def offset(m: Moment) -> str:

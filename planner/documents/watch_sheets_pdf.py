@@ -51,26 +51,37 @@ def _ship(m: Moment | None, day: str, off: str) -> str:
     return text if offset(m) == off else f"{text} ({offset(m)})"
 
 
+def clock_moment(s: WatchSheet) -> Moment:
+    """The moment whose dates the sheet's undated times are on: the first planned step
+    (the valve switch or the temperature change before it), else the boundary."""
+    timed = [st.when for st in s.steps if st.when is not None]
+    return min(timed, key=lambda m: m.utc) if timed else s.boundary
+
+
 def _head(s: WatchSheet) -> list:
+    from planner.charts.plan_events import moment_words, what_text
+
     b = s.boundary
-    down = s.direction == "to_compliant"
-    what = ("enter: every inlet compliant before the boundary" if down else
-            "exit: change back to regular fuel at or after the boundary, never before")
+    at = f"{b.utc.astimezone(UTC):%Y-%m-%d %H:%M}Z"
+    row = {"boundary_event": s.boundary_event, "direction": s.direction}
+    what = what_text(row, at)
+    label, where = moment_words(row)
     limit = f"limit {s.limit_pct:.2f} % m/m" + (f", target {s.target_pct:.3f} % m/m"
                                                  if s.target_pct else "")
     ship = b.utc.astimezone(b.ship_tz)
+    c = clock_moment(s)
     facts = [
-        ("Boundary", f"{b.utc:%Y-%m-%d %H:%M}Z UTC, ship's time {ship:%Y-%m-%d %H:%M} "
-                     f"({offset(b)})"),
-        ("Position", f"{pos_text(b.lat, b.lon)}, {s.boundary_nm:,.1f} nm from departure"),
+        (label, f"{at} UTC, ship's time {ship:%Y-%m-%d %H:%M} ({offset(b)})"),
+        ("Position", f"{where} {pos_text(b.lat, b.lon)}, {s.boundary_nm:,.1f} nm from "
+                     "departure"),
         ("Circuits", "; ".join(f"{c}: {x}" for c, x in zip(s.circuits, s.changes,
                                                             strict=True)) + f"; {limit}"),
-        ("Clock", f"times without a date are on {b.utc:%Y-%m-%d} (UTC) and "
-                  f"{ship:%Y-%m-%d} (ship's time, UTC{offset(b)})"),
+        ("Clock", f"times without a date are on {c.utc.astimezone(UTC):%Y-%m-%d} (UTC) and "
+                  f"{c.utc.astimezone(c.ship_tz):%Y-%m-%d} (ship's time, UTC{offset(c)})"),
     ]
     rows = [[para(k, "cell_b"), para(plain(v), "cell")] for k, v in facts]
-    return [para(plain(f"Changeover {s.number}: {s.area}, {what}"), "h1"),
-            data_table(["", ""], rows, [24, WIDTH_MM - 24], zebra=False, compact=True)]
+    return [para(plain(f"Changeover {s.number}: {s.area}{what}"), "h1"),
+            data_table(["", ""], rows, [28, WIDTH_MM - 28], zebra=False, compact=True)]
 
 
 def _steps(s: WatchSheet, day: str, ship_day: str, off: str) -> list:
@@ -118,9 +129,10 @@ def _readings(s: WatchSheet, day: str, ship_day: str, off: str) -> list:
 def _event(what: str) -> str:
     """A step's short name for the record: ``valve switched``, ``compliant`` ..."""
     head = what.split(":")[0]
-    if head.startswith("departure inside"):
+    if head.startswith("departure"):
         return "departed"
-    return {"switch the valve": "valve switched", "boundary": "boundary crossed"}.get(head, head)
+    return {"switch the valve": "valve switched", "boundary": "boundary crossed",
+            "in force": "in force (position)", "ceases": "ceased (position)"}.get(head, head)
 
 
 def _record(s: WatchSheet) -> list:
@@ -177,9 +189,9 @@ def _signatures() -> list:
 
 def sheet_story(s: WatchSheet) -> list:
     """One changeover's page."""
-    b = s.boundary
-    day, ship_day = f"{b.utc:%Y-%m-%d}", f"{b.utc.astimezone(b.ship_tz):%Y-%m-%d}"
-    off = offset(b)
+    c = clock_moment(s)
+    day, ship_day = f"{c.utc.astimezone(UTC):%Y-%m-%d}", f"{c.utc.astimezone(c.ship_tz):%Y-%m-%d}"
+    off = offset(c)
     return (_head(s) + _steps(s, day, ship_day, off) + _readings(s, day, ship_day, off)
             + _record(s) + _signatures()
             + [para("Advisory only: the engine and boiler makers' instructions and the ship's "

@@ -25,7 +25,7 @@ UNIT = re.compile(r"\((h|nm|t|kg|°|° '|kn|m³|m³/h|min|cSt|% m/m|% MCR|m³ at
                   r"UTC, ISO 8601|ship's time, ISO 8601|fraction|t, by fuel|\+12:00|"
                   r"h after the switch)\)$")
 WORDS = {"Area", "Circuit", "Direction", "From fuel", "To fuel", "Fuel", "Under", "Event",
-         "In force", "Main driver", "Volume", "Kind", "Fed from"}
+         "In force", "Clock deadline", "Main driver", "Volume", "Kind", "Fed from"}
 
 
 def run(*args: str) -> subprocess.CompletedProcess:

@@ -51,3 +51,62 @@ def test_a_chart_to_an_unwritable_target_is_one_line(tmp_path):
     assert r.returncode == 2, r.stderr
     assert len(r.stderr.strip().splitlines()) == 1 and "it is a folder" in r.stderr
     assert list(Path(tmp_path).iterdir()) == []
+
+
+# ---- every output option is checked before any input is read or anything computed
+# (issue 11 item 13). The input named is missing: were it read first, the error would be
+# about it. The targets are a folder and a path under a regular file, which no user (not
+# even root, who ignores permission bits) can write a file at.
+
+MISSING = "no_such_input.toml"
+COMMANDS = {
+    "plan": (["plan", MISSING], ["--pdf", "--chart", "--map", "--geojson", "--sheets",
+                                 "--gpx", "--csv"]),
+    "route": (["route", "no_such_route.csv", "--areas", "areas_sample"],
+              ["--geojson", "--map", "--csv"]),
+    "flush": (["flush", MISSING], ["--chart", "--sensitivity-chart", "--csv"]),
+    "procedure": (["procedure", MISSING], ["--pdf", "--csv"]),
+    "calibrate": (["calibrate", MISSING, "no_such_trend.csv", "--switch-at",
+                   "2027-05-30T06:00Z"], ["--chart", "--write"]),
+}
+CASES = [(cmd, opt) for cmd, (_, opts) in COMMANDS.items() for opt in opts]
+
+
+def refused_first(args: list[str], option: str, tmp_path: Path) -> str:
+    r = changeover(*args)
+    assert r.returncode == 2, r.stderr
+    lines = r.stderr.strip().splitlines()
+    assert len(lines) == 1 and "Traceback" not in r.stderr, r.stderr
+    assert f"{option}:" in lines[0] and "no_such" not in lines[0], lines[0]
+    assert r.stdout == ""
+    return lines[0]
+
+
+@pytest.mark.parametrize(("command", "option"), CASES)
+def test_an_unwritable_output_is_refused_before_the_input_is_read(tmp_path, command, option):
+    (tmp_path / "plain").write_text("x")
+    args, _ = COMMANDS[command]
+    under_file = tmp_path / "plain" / "out"
+    line = refused_first([*args, option, str(under_file)], option, tmp_path)
+    assert "is a file, not a folder" in line
+    if option != "--csv":  # a folder is the right target of --csv
+        line = refused_first([*args, option, str(tmp_path)], option, tmp_path)
+        assert "it is a folder" in line
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["plain"]
+    assert (tmp_path / "plain").read_text() == "x"
+
+
+@pytest.mark.skipif(hasattr(os, "geteuid") and os.geteuid() == 0,
+                    reason="root writes into a read-only folder")
+@pytest.mark.parametrize("option", ["--pdf", "--csv"])
+def test_a_read_only_folder_is_refused_before_the_plan(tmp_path, option):
+    ro = tmp_path / "ro"
+    ro.mkdir()
+    ro.chmod(0o500)
+    try:
+        target = ro / ("plan.pdf" if option == "--pdf" else "tables")
+        line = refused_first(["plan", MISSING, option, str(target)], option, tmp_path)
+        assert str(target) in line
+        assert list(ro.iterdir()) == []
+    finally:
+        ro.chmod(0o700)

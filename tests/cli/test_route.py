@@ -133,3 +133,32 @@ def test_areas_listing():
     assert all(a["area_km2"] > 1e5 for a in doc["areas"])
     table = run("areas", str(SAMPLE))
     assert table.returncode == 0 and "km²" in table.stdout
+
+
+def test_route_warns_of_swapped_latitude_and_longitude(tmp_path):
+    """A waypoint written lat 4.0, lon 54.5 between (54.0 N, 3.0 E) and (55.0 N, 5.0 E)
+    (fictional): exchanged, it is 54.5 N 4.0 E, beside its neighbours. The route check
+    prints the plan's warning (geo/swapped.py's rule) with the legs' lengths, checked here
+    with pyproj's geodesics ([KARNEY-2013])."""
+    from pyproj import Geod
+
+    route = tmp_path / "swapped.csv"
+    route.write_text("name,lat,lon\nA,54.0,3.0\nB,4.0,54.5\nC,55.0,5.0\n", encoding="utf-8")
+    geod = Geod(ellps="WGS84")
+
+    def nm(a, b):
+        return geod.inv(a[1], a[0], b[1], b[0])[2] / 1852.0  # [NM-1852]
+
+    legs = nm((54.0, 3.0), (4.0, 54.5)) + nm((4.0, 54.5), (55.0, 5.0))
+    swapped = nm((54.0, 3.0), (54.5, 4.0)) + nm((54.5, 4.0), (55.0, 5.0))
+    r = run("route", str(route), "--areas", str(SAMPLE))
+    assert r.returncode == 0, r.stderr
+    text = " ".join(r.stdout.split())
+    assert (f"Warning: {route}: waypoint 2 'B' at lat 4°, lon 54.5° looks like latitude and "
+            f"longitude exchanged: its legs are {legs:.0f} nm as written, {swapped:.0f} nm at "
+            "lat 54.5°, lon 4°") in text
+    doc = json.loads(run("route", str(route), "--areas", str(SAMPLE), "--json").stdout)
+    assert len(doc["warnings"]) == 1 and "waypoint 2 'B'" in doc["warnings"][0]
+    # a route that looks right has none
+    ok = json.loads(run("route", str(ROUTE), "--areas", str(SAMPLE), "--json").stdout)
+    assert ok["warnings"] == []

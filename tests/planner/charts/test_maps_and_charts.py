@@ -29,6 +29,7 @@ import pytest
 
 from planner.charts.geo_ticks import lat_label, lon_label, tick_step_min, ticks_deg
 from tests.helpers.paths import ROOT
+from tests.helpers.pdf import pdf_flat, pdf_words
 
 needs_poppler = pytest.mark.requires_poppler
 VOYAGE = "areas_sample/voyage.toml"
@@ -43,22 +44,7 @@ def run(*args: str) -> subprocess.CompletedProcess:
     return r
 
 
-def words(pdf: Path) -> list[tuple[str, float, float]]:
-    """(text, x centre, y centre) of every word pdftotext finds, in points."""
-    xml = subprocess.run(["pdftotext", "-bbox", str(pdf), "-"], capture_output=True,
-                         text=True, check=True, timeout=60).stdout
-    out = []
-    for m in re.finditer(r'xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">'
-                         r"([^<]*)</word>", xml):
-        x0, y0, x1, y1 = (float(m.group(k)) for k in range(1, 5))
-        out.append((m.group(5).replace("&#39;", "'"), (x0 + x1) / 2, (y0 + y1) / 2))
-    return out
-
-
-def text(pdf: Path) -> str:
-    raw = subprocess.run(["pdftotext", "-raw", str(pdf), "-"], capture_output=True, text=True,
-                         check=True, timeout=60).stdout
-    return " ".join(raw.split())
+words, text = pdf_words, pdf_flat
 
 
 LON = re.compile(r"^(\d+)°(?:(\d\d)')?([EW]?)$")
@@ -231,3 +217,54 @@ def test_an_area_coming_into_force_inside_is_its_own_numbered_event(tmp_path):
     run("plan", "tests/data/voyages/future_inside.toml", "--chart", str(pdf))
     assert "1 comes into force Future Five ECA" in text(pdf)
     assert "- enter Future Five ECA" in text(pdf)
+
+
+@needs_poppler
+def test_second_sample_numbers_agree_in_table_map_chart_and_gpx(tmp_path):
+    """areas_sample/skarvik_to_tarrow.toml: a departure inside an area (changeover 1, no
+    crossing), an exit, an entry before the Tarrow area's date (no changeover: not in force
+    then) and the area coming into force while inside (its own numbered event, at the
+    ``force_events`` row's moment). Each numbered event, written out here from the JSON
+    (crossings matched by area and distance, force events by area and time), carries the
+    same number in the terminal table, the map's legend, the chart and the GPX names."""
+    from xml.etree import ElementTree as ET
+
+    voyage = "areas_sample/skarvik_to_tarrow.toml"
+    files = {k: tmp_path / n for k, n in (("map", "map.pdf"), ("chart", "chart.pdf"),
+                                          ("gpx", "m.gpx"))}
+    run("plan", voyage, "--map", str(files["map"]), "--chart", str(files["chart"]),
+        "--gpx", str(files["gpx"]))
+    doc = json.loads(run("plan", voyage, "--json").stdout)
+    table = run("plan", voyage).stdout
+    crossings = json.loads(run("route", "areas_sample/skarvik_to_tarrow.csv", "--areas",
+                               "areas_sample/skarvik_basin.geojson", "--areas",
+                               "areas_sample/tarrow", "--depart", doc["voyage"]["depart_utc"],
+                               "--json").stdout)["crossings"]
+    firsts = {}
+    for r in doc["changeovers"]:
+        firsts.setdefault(r["number"], r)
+    kinds = {"enter": "enter", "exit": "exit", "comes_into_force": "comes into force",
+             "departure": "before departure"}
+    want = {}  # number -> (kind as drawn, area)
+    for n, r in firsts.items():
+        ev = r["boundary_event"]
+        if ev in ("enter", "exit"):
+            assert any(c["area"] == r["area"] and c["event"] == ev
+                       and abs(c["distance_nm"] - r["boundary_nm"]) <= 0.01 for c in crossings)
+        if ev == "comes_into_force":
+            assert any(f["area"] == r["area"] and f["time_utc"] == r["boundary_utc"]
+                       for f in doc["force_events"])
+        want[n] = (kinds[ev], r["area"])
+    assert sorted(k for k, _ in want.values()) == sorted(
+        ["before departure", "exit", "comes into force"])
+    m, c = text(files["map"]), text(files["chart"])
+    names = {w.find("{http://www.topografix.com/GPX/1/1}name").text
+             for w in ET.parse(files["gpx"]).getroot()}
+    for n, (kind, area) in want.items():
+        assert f"Changeover {n}: {area}" in table
+        assert f"{n} {kind} {area}" in m and f"{n} {kind} {area}" in c, (n, kind)
+        assert (f"CO{n} boundary" if kind in ("enter", "exit") else f"CO{n} {kind}") in names
+    # the one crossing without a changeover is unnumbered everywhere
+    (entry,) = [x for x in crossings if x["event"] == "enter"]
+    assert f"- enter {entry['area']} at {entry['distance_nm']:,.1f} nm" in m
+    assert f"- enter {entry['area']}" in c and f"enter {entry['area']}" in names
