@@ -6,8 +6,13 @@ procedure (:mod:`planner.documents.procedure_pdf`) and ``changeover procedure
 --json`` show, gathered in plain dataclasses so it is testable without
 reportlab.
 
-- the fuels, with the inlet temperatures the engine window asks of each
+- the fuels, with the inlet temperatures the ship-wide window asks of each
   (ASTM D341 line of the delivery-note viscosity, [ASTM-D341], :mod:`planner.fuels`);
+- each consumer's own inlet window and heating rule
+  (:meth:`planner.ship.system.FuelSystem.window_for`, defaults by kind in
+  :mod:`planner.ship.inlet_limits`), consumers with the same window and the
+  same kind of advice (engine or burner) grouped, with the temperatures that
+  window asks of each fuel;
 - the tanks, each circuit's changeover valve positions, its pipes and stirred
   volumes in flow order with the flow through each at the reference load
   (on the regular fuel) and the time that volume holds, V / q;
@@ -32,6 +37,7 @@ from planner.flushing import schedule_at
 from planner.flushing.study import TABLE_LOADS_PCT, default_tanks, duration_table, study
 from planner.ship.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
 from planner.ship.flows import circuit_flows
+from planner.ship.inlet_limits import KIND_WORDS
 from planner.ship.system import TANK_IN_USE, FuelSystem, ShipIdentity
 from planner.ship.thermal import InletWindow
 
@@ -54,6 +60,60 @@ class FuelFacts:
     thins_to_min_c: float        # above this temperature it is thinner than the minimum
     thickens_to_max_c: float     # below this temperature it is thicker than the maximum
     slope_assumed: bool          # one viscosity point only: the D341 slope is assumed
+
+
+@dataclass(frozen=True)
+class FuelTemperatures:
+    """The inlet temperatures one window asks of one fuel (°C, cSt)."""
+
+    name: str
+    set_point_c: float           # the inlet temperature for the target viscosity, within limits
+    viscosity_at_set_point_cst: float
+    thins_to_min_c: float        # above this temperature it is thinner than the minimum
+    thickens_to_max_c: float     # below this temperature it is thicker than the maximum
+    heated: bool                 # its set point is above the supply temperature
+
+
+@dataclass(frozen=True)
+class WindowFacts:
+    """Consumers sharing one inlet window and heating rule, and what it asks of each fuel.
+
+    ``kinds``: the consumers' kinds (``main_engine``, ``generator``, ``boiler``);
+    a group is all burners or all engines (the advice differs). ``swing_c``: the
+    regular fuel's set point less the compliant fuel's under this window, °C.
+    """
+
+    consumers: tuple[str, ...]
+    kinds: tuple[str, ...]
+    window: InletWindow
+    fuels: tuple[FuelTemperatures, ...]
+    swing_c: float
+
+    @property
+    def burner(self) -> bool:
+        """Every consumer of the group is a boiler burner."""
+        return all(k == "boiler" for k in self.kinds)
+
+    @property
+    def label(self) -> str:
+        """The kinds in words and the consumers: ``boiler burner aux_boiler``."""
+        parts = []
+        for kind in dict.fromkeys(self.kinds):
+            who = tuple(c for c, k in zip(self.consumers, self.kinds, strict=True) if k == kind)
+            parts.append(f"{KIND_WORDS.get(kind, kind)}{'s' if len(who) > 1 else ''} {_and(who)}")
+        return ", ".join(parts)
+
+    @property
+    def swing_min(self) -> float:
+        """Least time for the swing at this window's rate limit, min."""
+        return self.swing_c / self.window.max_rate_c_per_min
+
+    def fuel(self, name: str) -> FuelTemperatures:
+        return next(f for f in self.fuels if f.name == name)
+
+
+def _and(items: tuple[str, ...]) -> str:
+    return items[0] if len(items) < 2 else ", ".join(items[:-1]) + " and " + items[-1]
 
 
 @dataclass(frozen=True)
@@ -151,6 +211,11 @@ class CircuitFacts:
     returns_to: tuple[str, ...]       # volumes that take back fuel not burnt
     returns_to_tank: bool             # a return line follows the valve to the tank in use
     alongside: DurationRow | None = None  # alongside, main engine stopped (None: nothing burns)
+    windows: tuple[WindowFacts, ...] = ()  # its consumers' own inlet windows, grouped
+
+    def window_of(self, consumer: str) -> WindowFacts | None:
+        """The window group of one of its consumers (None: not one of them)."""
+        return next((w for w in self.windows if consumer in w.consumers), None)
 
     @property
     def pipe_m3(self) -> float:
@@ -189,6 +254,7 @@ class ProcedureFacts:
     swing_c: float                 # regular fuel's set point less the compliant fuel's, °C
     voyage: str = ""
     warnings: tuple[str, ...] = field(default=())
+    windows: tuple[WindowFacts, ...] = ()  # every consumer's own inlet window, grouped
 
     @property
     def swing_min(self) -> float:
@@ -199,17 +265,60 @@ class ProcedureFacts:
         return next(f for f in self.fuels if f.name == name)
 
 
+def _temperatures(f, w: InletWindow) -> tuple[float, float, float, float]:
+    """Set point, viscosity there, thinning and thickening temperatures of fuel ``f`` (°C,
+    cSt) under window ``w`` ([ASTM-D341] line of the delivery-note viscosity)."""
+    sp = min(max(float(f.temperature_for_viscosity(w.target_cst)), w.supply_temperature_c),
+             w.max_temperature_c)
+    return (sp, float(f.viscosity_at(sp)), float(f.temperature_for_viscosity(w.min_cst)),
+            float(f.temperature_for_viscosity(w.max_cst)))
+
+
 def _fuel_facts(system: FuelSystem, limit_pct: float) -> tuple[FuelFacts, ...]:
-    w = system.inlet
     out = []
     for f in system.fuels.values():
-        sp = min(max(float(f.temperature_for_viscosity(w.target_cst)), w.supply_temperature_c),
-                 w.max_temperature_c)
+        sp, nu, thin, thick = _temperatures(f, system.inlet)
         out.append(FuelFacts(
             f.name, f.grade, f.bdn_ref, f.sulphur_pct, f.density_kg_m3, f.viscosity_cst,
-            f.viscosity_ref_c, f.is_residual, f.sulphur_pct <= limit_pct + 1e-12, sp,
-            float(f.viscosity_at(sp)), float(f.temperature_for_viscosity(w.min_cst)),
-            float(f.temperature_for_viscosity(w.max_cst)), f.viscosity_slope_assumed))
+            f.viscosity_ref_c, f.is_residual, f.sulphur_pct <= limit_pct + 1e-12, sp, nu, thin,
+            thick, f.viscosity_slope_assumed))
+    return tuple(out)
+
+
+def window_groups(system: FuelSystem, consumers: tuple[str, ...] | list[str],
+                  limit_pct: float) -> tuple[WindowFacts, ...]:
+    """The consumers' own inlet windows, grouped: one group per window and advice kind.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship (:meth:`~planner.ship.system.FuelSystem.window_for` gives each window).
+    consumers : sequence of str
+        The consumers, in the order the groups and their members are listed.
+    limit_pct : float [% m/m]
+        Sulphur limit: a fuel at or below it is compliant (for the swing).
+
+    Returns
+    -------
+    tuple of WindowFacts
+        With each fuel's temperatures under the window ([ASTM-D341]).
+    """
+    groups: dict[tuple[InletWindow, bool], list[str]] = {}
+    for c in consumers:
+        burner = system.consumers[c].kind == "boiler"
+        groups.setdefault((system.window_for(c), burner), []).append(c)
+    out = []
+    for (w, _), members in groups.items():
+        temps = tuple(FuelTemperatures(f.name, *_temperatures(f, w),
+                                       _temperatures(f, w)[0] > w.supply_temperature_c + 0.5)
+                      for f in system.fuels.values())
+        regular = [t.set_point_c for t, f in zip(temps, system.fuels.values(), strict=True)
+                   if f.sulphur_pct > limit_pct + 1e-12]
+        compliant = [t.set_point_c for t, f in zip(temps, system.fuels.values(), strict=True)
+                     if f.sulphur_pct <= limit_pct + 1e-12]
+        swing = max(regular) - min(compliant) if regular and compliant else 0.0
+        out.append(WindowFacts(tuple(members), tuple(system.consumers[c].kind for c in members),
+                               w, temps, max(swing, 0.0)))
     return tuple(out)
 
 
@@ -325,7 +434,7 @@ def circuit_facts(system: FuelSystem, name: str, limit_pct: float, target_pct: f
     return CircuitFacts(name, circuit.tanks, consumers, _volumes(system, name, main(a)), a, b,
                         main(a), main(b), engine is not None,
                         engine.ref_load_pct if engine is not None else None, tuple(rows),
-                        back, to_tank, port)
+                        back, to_tank, port, window_groups(system, circuit.consumers, limit_pct))
 
 
 def _alongside(system: FuelSystem, name: str, a: str, b: str, limit: float, target: float,
@@ -362,9 +471,12 @@ def _warnings(facts: ProcedureFacts) -> tuple[str, ...]:
         for r in c.rows:
             if not r.viscosity.inside:
                 at = "" if r.load_pct is None else f" at {r.load_pct:g} % MCR"
+                g = c.window_of(r.viscosity.consumer)
+                w = facts.inlet if g is None else g.window
+                who = "" if g is None else f" of the {g.label}"
                 out.append(f"Circuit {c.name}{at}: modelled inlet viscosity "
                            f"{r.viscosity.min_cst:.1f}-{r.viscosity.max_cst:.1f} cSt leaves the "
-                           f"window {facts.inlet.min_cst:g}-{facts.inlet.max_cst:g} cSt.")
+                           f"window{who}, {w.min_cst:g}-{w.max_cst:g} cSt.")
     for f in facts.fuels:
         if f.slope_assumed:
             out.append(f"Fuel {f.name}: one viscosity point only; its temperatures rest on an "
@@ -388,8 +500,11 @@ def gather(system: FuelSystem, *, limit_pct: float = DEFAULT_LIMIT_PCT,
     regular = [f.set_point_c for f in fuels if not f.compliant]
     compliant = [f.set_point_c for f in fuels if f.compliant]
     swing = max(regular) - min(compliant) if regular and compliant else 0.0
+    everyone = [n for c in system.circuits.values() for n in c.consumers]
     facts = ProcedureFacts(system.ship, limit_pct, target, margin_h, system.inlet, fuels, tanks,
-                           circuits, max(swing, 0.0), voyage)
+                           circuits, max(swing, 0.0), voyage,
+                           windows=window_groups(system, list(dict.fromkeys(everyone)),
+                                                 limit_pct))
     return replace(facts, warnings=_warnings(facts))
 
 
@@ -397,8 +512,12 @@ def facts_json(facts: ProcedureFacts) -> dict:
     """``changeover procedure --json``: the facts as plain JSON values."""
     doc = asdict(facts)
     doc["swing_min"] = facts.swing_min
+    for g, gj in zip(facts.windows, doc["windows"], strict=True):
+        gj.update(burner=g.burner, label=g.label, swing_min=g.swing_min)
     for c, cj in zip(facts.circuits, doc["circuits"], strict=True):
         cj.update(pipe_m3=c.pipe_m3, stirred_m3=c.stirred_m3, total_m3=c.total_m3)
+        for g, gj in zip(c.windows, cj["windows"], strict=True):
+            gj.update(burner=g.burner, label=g.label, swing_min=g.swing_min)
         for v, vj in zip(c.volumes, cj["volumes"], strict=True):
             vj["holds_min"] = v.holds_min
     for t, tj in zip(facts.tanks, doc["tanks"], strict=True):
