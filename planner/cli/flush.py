@@ -201,7 +201,8 @@ def _draw(system: FuelSystem, studies: list[FlushStudy], mc: list[CircuitUncerta
     if chart is not None:
         from planner.charts.flush_chart import draw_flush_chart
 
-        draw_flush_chart(studies, chart, title=f"{system.ship.name}: changeover at the inlets")
+        draw_flush_chart(studies, chart, title=f"{system.ship.name}: changeover at the inlets",
+                         kinds={n: c.kind for n, c in system.consumers.items()})
     if sensitivity_chart is not None and mc:
         from planner.charts.sensitivity_chart import draw_sensitivity_chart
 
