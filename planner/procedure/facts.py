@@ -191,6 +191,7 @@ class DurationRow:
     start_before_nm: float | None     # that time at this speed
     burnt_t: dict[str, float]
     viscosity: ViscosityCheck
+    flash_caution: str = ""           # distillate within 10 °C of its flash point, and the fix
 
 
 @dataclass(frozen=True)
@@ -398,7 +399,18 @@ def _row(system, name, a, b, load, speed, limit, target, margin, table_row=None)
     before = None if t_target is None else t_target + margin
     nm = None if before is None or speed is None else before * speed
     return DurationRow(load, speed, t_limit, t_target, before, nm,
-                       {k: float(v) for k, v in burnt.items()}, _viscosity(st))
+                       {k: float(v) for k, v in burnt.items()}, _viscosity(st),
+                       _flash(system, name, st))
+
+
+def _flash(system: FuelSystem, name: str, st) -> str:
+    """The plan's flash-point caution for this changeover, with its fix (empty: none)."""
+    from planner.ship.flash_margin import inlet_flash_spans
+    from planner.voyage.fuel_checks import changeover_flash_text
+
+    spans = inlet_flash_spans(st.result, name, st.paths)
+    return (changeover_flash_text(system, name, st.summary.to_fuel, st, spans) if spans
+            else "")
 
 
 def table_loads(system: FuelSystem) -> tuple[float, ...]:

@@ -210,7 +210,8 @@ def _window_temperature(g: WindowFacts, f: ProcedureFacts) -> list[str]:
     return [f"{g.label[0].upper()}{g.label[1:]}: the inlet temperature must never change "
             f"faster than {w.max_rate_c_per_min:g} °C/min, going down or up. {swing}: at that "
             f"rate at least {dur(g.swing_min / 60.0)}. Let it follow the fuel actually "
-            "arriving; do not run it ahead of the fuel, and do not hold it back. "
+            "arriving, and do not hold it back; run it ahead of the fuel only as far as the "
+            "old fuel's maximum viscosity allows, where the flash-point caution below says so. "
             f"{lo.name} {not_heated}. {cool}; put the fuel cooler in service if it runs "
             "warmer."]
 
@@ -230,6 +231,8 @@ def temperature(f: ProcedureFacts) -> list[str]:
                      f"temperature faster than {rate:g} °C/min. Unless it has its own rate "
                      "limit, run it in temperature mode, or by hand, during the changeover.")
     items += [_circuit_visc(c, f) for c in changing(f)]
+    items += ["Flash point: " + c.reference_row.flash_caution for c in changing(f)
+              if c.reference_row.flash_caution]
     for g in f.windows:
         w = g.window
         if g.burner:

@@ -111,3 +111,20 @@ def test_procedure_pdf_prints_each_window(tmp_path):
     assert "1 cSt" in t and "30 cSt" in t and "10 °C/min" in t
     assert "switch the burner heater off or bypass it" in t
     assert "stop the engine" not in t.lower()
+
+
+def test_procedure_gives_the_flash_point_fix_of_each_consumer(facts, system):
+    # the same caution as the plan's (planner.voyage.fuel_checks.changeover_flash_text);
+    # hand calculation (rate × time): vlsfo lowered from its 13 cSt temperature to its
+    # 20 cSt one ([ASTM-D341]) at 2 °C/min starts (T13 − T20)/2 min before the switch
+    vlsfo = system.fuels["vlsfo"]
+    t13, t20 = (float(vlsfo.temperature_for_viscosity(v)) for v in (13.0, 20.0))
+    text = steps.temperature(facts)
+    main = next(x for x in text if x.startswith("Flash point: Circuit main"))
+    assert f"from {t13:.0f} °C to {t20:.0f} °C" in main
+    assert f"starting {(t13 - t20) / 2.0:.0f} min before the switch" in main
+    boiler = next(x for x in text if x.startswith("Flash point: Circuit boiler"))
+    assert "Stop the burner for the switch" in boiler and "more slowly" not in boiler
+    doc = facts_json(facts)
+    ref = next(c for c in doc["circuits"] if c["name"] == "main")["rows"]
+    assert any(r["flash_caution"] == main.removeprefix("Flash point: ") for r in ref)
