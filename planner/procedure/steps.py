@@ -21,7 +21,8 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from planner.procedure.facts import CircuitFacts, ProcedureFacts, WindowFacts
+from planner.procedure.facts import CircuitFacts, ProcedureFacts
+from planner.procedure.windows import WindowFacts
 
 
 def hm(hours: float | None) -> str:
