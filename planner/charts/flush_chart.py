@@ -2,19 +2,29 @@
 
 Inlets whose curves are the same (consumers fed by one line) are drawn once,
 labelled with all their names, so no line hides another; each distinct line
-has its own dash pattern, and the viscosity window's minimum and maximum are
-drawn in different styles, so the chart reads in black and white. PNG, or PDF
-for a ``.pdf`` name.
+has its own dash pattern. Each consumer has its own viscosity window
+(:meth:`planner.ship.system.FuelSystem.window_for`): every distinct minimum and
+maximum is drawn once, in its own style (minima dotted, maxima dash-dot, each
+value its own pattern), labelled with the consumer kinds it belongs to
+(two-stroke main engine, four-stroke engine, boiler burner), so the chart reads
+in black and white. PNG, or PDF for a ``.pdf`` name.
 """
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from pathlib import Path
 
 import numpy as np
 
 LINE_STYLES = ("-", "-.", (0, (3, 1, 1, 1, 1, 1)), (0, (1, 1)), (0, (5, 1)))
 """One per distinct inlet line; the limit is long dashes, the target short dots."""
+MIN_STYLES = (((0, (1, 1.5)), "dotted"), ((0, (1, 4)), "sparse dots"),
+              ((0, (2, 1, 2, 4)), "dot pairs"))
+"""Styles of the distinct viscosity minima, with their names in the legend."""
+MAX_STYLES = (((0, (7, 2, 1, 2)), "dash-dot"), ((0, (7, 2, 1, 2, 1, 2)), "dash-dot-dot"),
+              ((0, (14, 4)), "long dashes"))
+"""Styles of the distinct viscosity maxima, with their names in the legend."""
 SAME = 1e-9
 """Two inlet curves closer than this everywhere (% m/m or cSt) are one line."""
 
@@ -34,6 +44,11 @@ def distinct_curves(named: list[tuple[str, np.ndarray, np.ndarray]]
     return out
 
 
+def _cycle(styles: tuple, n: int) -> list:
+    """``n`` styles from ``styles``, repeating when there are more values than styles."""
+    return [styles[i % len(styles)] for i in range(n)]
+
+
 def _settled_h(st) -> float | None:
     """When the circuit's change is done [h]: the target going to compliant fuel; going
     back, when every inlet is within 5 % of its last value's distance from its first
@@ -49,15 +64,41 @@ def _settled_h(st) -> float | None:
     return out or None
 
 
-def draw_flush_chart(studies, out: str | Path, title: str = "") -> None:
+def window_limits(studies, kinds: Mapping[str, str] | None = None
+                  ) -> tuple[list[tuple[float, list[str]]], list[tuple[float, list[str]]]]:
+    """The distinct viscosity minima and maxima of the studies' inlet windows, cSt.
+
+    Each as ``(value, who)``, in the order first met; ``who`` are the consumer
+    kinds in words (:data:`planner.ship.inlet_limits.KIND_WORDS`) of the inlets
+    whose window has that value, or their names where ``kinds`` (consumer →
+    kind) does not name them.
+    """
+    from planner.ship.inlet_limits import KIND_WORDS
+
+    lows: dict[float, list[str]] = {}
+    highs: dict[float, list[str]] = {}
+    for st in studies:
+        for consumer, p in st.paths.items():
+            kind = (kinds or {}).get(consumer)
+            who = KIND_WORDS.get(kind, kind) if kind else consumer
+            for store, value in ((lows, p.window.min_cst), (highs, p.window.max_cst)):
+                names = store.setdefault(float(value), [])
+                if who not in names:
+                    names.append(who)
+    return list(lows.items()), list(highs.items())
+
+
+def draw_flush_chart(studies, out: str | Path, title: str = "",
+                     kinds: Mapping[str, str] | None = None) -> None:
     """Write the chart (PNG, or PDF for a ``.pdf`` name); see :func:`flush_figure`."""
     from planner.charts.route_map import save_figure
 
-    save_figure(flush_figure(studies, title), out)
+    save_figure(flush_figure(studies, title, kinds), out)
 
 
-def flush_figure(studies, title: str = ""):
-    """Two panels: inlet sulphur (% m/m) with limit and target; inlet viscosity (cSt)."""
+def flush_figure(studies, title: str = "", kinds: Mapping[str, str] | None = None):
+    """Two panels: inlet sulphur (% m/m) with limit and target; inlet viscosity (cSt) with
+    each distinct window limit (``kinds``: consumer → kind, for the legend)."""
     import matplotlib
 
     matplotlib.use("Agg")
@@ -94,11 +135,15 @@ def flush_figure(studies, title: str = ""):
     ax1.grid(True, lw=0.3)
     ax1.legend(fontsize=7, loc="upper right")
     if any(st.paths for st in studies):
-        window = next(p.window for st in studies for p in st.paths.values())
-        ax2.axhline(window.min_cst, color="black", lw=1.6, ls=(0, (1, 1.5)),
-                    label=f"minimum {window.min_cst:g} cSt (dotted)")
-        ax2.axhline(window.max_cst, color="dimgrey", lw=1.6, ls=(0, (7, 2, 1, 2)),
-                    label=f"maximum {window.max_cst:g} cSt (dash-dot)")
+        lows, highs = window_limits(studies, kinds)
+        for (value, who), (style, name) in zip(lows, _cycle(MIN_STYLES, len(lows)),
+                                               strict=True):
+            ax2.axhline(value, color="black", lw=1.6, ls=style,
+                        label=f"minimum {value:g} cSt, {', '.join(who)} ({name})")
+        for (value, who), (style, name) in zip(highs, _cycle(MAX_STYLES, len(highs)),
+                                               strict=True):
+            ax2.axhline(value, color="dimgrey", lw=1.6, ls=style,
+                        label=f"maximum {value:g} cSt, {', '.join(who)} ({name})")
         ax2.set_yscale("log")
     from matplotlib.ticker import FuncFormatter
 
@@ -112,7 +157,7 @@ def flush_figure(studies, title: str = ""):
     ax2.set_ylabel("viscosity at inlet, cSt (log)")
     ax2.set_xlabel("time after the changeover valve is switched, h")
     ax2.grid(True, lw=0.3, which="both")
-    ax2.legend(fontsize=7, loc="upper right")
+    ax2.legend(fontsize=7, loc="center right")  # clear of the window limits at top and bottom
     fig.suptitle(title or "Changeover at the consumer inlets")
     fig.text(0.01, 0.005, "Advisory only: the engine makers' instructions come first.",
              fontsize=7)

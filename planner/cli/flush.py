@@ -108,6 +108,9 @@ def flush_cmd(
                           json_out)
     margin_h = check_margin(None, voyage)
     doc = _document(studies, tables if table else None, load, mc, margin_h)
+    warnings = flush_warnings(system, studies)
+    doc["warnings"] = [text for _, text in warnings]
+    doc["warning_kinds"] = [kind for kind, _ in warnings]
     _draw(system, studies, mc, chart, sensitivity_chart)
     written = []
     if csv is not None:
@@ -119,13 +122,35 @@ def flush_cmd(
         return
     from planner.cli.flush_print import print_flush
 
-    print_flush(system, studies, tables, load, mc, margin_h)
+    print_flush(system, studies, tables, load, mc, margin_h, warnings)
     if chart is not None:
         typer.echo(f"wrote {chart}")
     if sensitivity_chart is not None and mc:
         typer.echo(f"wrote {sensitivity_chart}")
     for p in written:
         typer.echo(f"wrote {p}")
+
+
+def flush_warnings(system: FuelSystem, studies: list[FlushStudy]) -> list[tuple[str, str]]:
+    """``(kind, text)`` of the flush's warnings, as the plan words them.
+
+    ``unusual_input``: the ship file's values taken although outside their usual
+    range (:attr:`planner.ship.system.FuelSystem.input_warnings`); ``flash_point``:
+    a changeover that holds distillate within 10 °C of its flash point in a heated
+    volume (:func:`planner.ship.flash_margin.inlet_flash_spans`, the caution and
+    its fix :func:`planner.voyage.fuel_checks.changeover_flash_text`).
+    """
+    from planner.ship.flash_margin import inlet_flash_spans
+    from planner.voyage.fuel_checks import changeover_flash_text
+
+    out = [("unusual_input", text) for text in system.input_warnings]
+    for st in studies:
+        s = st.summary
+        spans = inlet_flash_spans(st.result, s.circuit, st.paths)
+        if spans:
+            out.append(("flash_point", changeover_flash_text(system, s.circuit, s.to_fuel, st,
+                                                             spans)))
+    return out
 
 
 def _check_load(load: float | None) -> None:
@@ -202,7 +227,8 @@ def _draw(system: FuelSystem, studies: list[FlushStudy], mc: list[CircuitUncerta
     if chart is not None:
         from planner.charts.flush_chart import draw_flush_chart
 
-        draw_flush_chart(studies, chart, title=f"{system.ship.name}: changeover at the inlets")
+        draw_flush_chart(studies, chart, title=f"{system.ship.name}: changeover at the inlets",
+                         kinds={n: c.kind for n, c in system.consumers.items()})
     if sensitivity_chart is not None and mc:
         from planner.charts.sensitivity_chart import draw_sensitivity_chart
 

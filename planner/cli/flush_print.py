@@ -8,6 +8,7 @@ on regular fuel (:func:`back_on_regular`, the plan's own rule).
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from typing import TYPE_CHECKING
 
 from planner.cli.text_table import TextTable, atom, table
@@ -94,9 +95,9 @@ def flush_tables(studies: list[FlushStudy], tables: dict[str, list]) -> list[Tex
 
 def flush_lines(system: FuelSystem, studies: list[FlushStudy], tables: dict[str, list],
                 load: float | None, mc: list[CircuitUncertainty] | None, margin_h: float,
-                cols: int) -> list[str]:
+                cols: int, warnings: Sequence[tuple[str, str]] = ()) -> list[str]:
     """The flush as text ``cols`` characters wide: the circuits table, the load tables, the
-    Monte Carlo tables and the advisory line."""
+    Monte Carlo tables, the warnings (``(kind, text)``) and the advisory line."""
     from planner.cli.console import table_lines, text_lines
 
     out = text_lines(f"{system.ship.name}: flushing after the changeover valve is switched "
@@ -105,6 +106,8 @@ def flush_lines(system: FuelSystem, studies: list[FlushStudy], tables: dict[str,
     out += ["", *table_lines(flush_tables(studies, tables), cols)]
     if mc:
         out += _uncertainty_lines(mc, margin_h, cols)
+    for _, text in warnings:
+        out += text_lines(text, cols, "Warning: ")
     return out + text_lines("Advisory only: the engine and boiler makers' instructions and the "
                             "ship's safety management system come first. Keep the engine room "
                             "manned during a changeover.", cols)
@@ -112,11 +115,12 @@ def flush_lines(system: FuelSystem, studies: list[FlushStudy], tables: dict[str,
 
 def print_flush(system: FuelSystem, studies: list[FlushStudy], tables: dict[str, list],
                 load: float | None, mc: list[CircuitUncertainty] | None = None,
-                margin_h: float = DEFAULT_MARGIN_H) -> None:
+                margin_h: float = DEFAULT_MARGIN_H,
+                warnings: Sequence[tuple[str, str]] = ()) -> None:
     """The flush on standard output, laid out for its width."""
     from planner.cli.console import echo_lines, width
 
-    echo_lines(flush_lines(system, studies, tables, load, mc, margin_h, width()))
+    echo_lines(flush_lines(system, studies, tables, load, mc, margin_h, width(), warnings))
 
 
 def _within(u: CircuitUncertainty, x: float | None) -> str:

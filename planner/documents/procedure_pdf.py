@@ -4,7 +4,7 @@
 Printed from :class:`planner.procedure.facts.ProcedureFacts`: a title block with the
 ship, the limit and the revision; the cautions; then, numbered, what the
 procedure is for and who does what, the fuel system's volumes, how long a
-changeover takes against engine load, the engine's limits, the checks before
+changeover takes against engine load, each consumer's inlet limits, the checks before
 starting, temperature and viscosity handling, moving the valves, monitoring,
 completion and the regulation 14.6 record, changing back after exit, and the
 approval and revision lines. reportlab is imported inside the functions (via
@@ -37,7 +37,7 @@ from planner.procedure.steps import celsius, changing, dur, hm, names
 
 TITLE = "Fuel changeover procedure"
 SECTIONS = ("Purpose and responsibilities", "The fuel system", "How long a changeover takes",
-            "The engine's limits", "Before starting", "Temperature and viscosity",
+            "Each consumer's inlet limits", "Before starting", "Temperature and viscosity",
             "Moving the valves", "Monitoring", "Completion and recording",
             "Changing back after leaving the area", "Approval and revisions")
 """Numbered section headings, in order (tests look for each)."""
@@ -199,7 +199,7 @@ def _durations(f: ProcedureFacts) -> list:
                      if c.has_main_engine else [", ".join(x.name for x in c.consumers)])
             cells += [hm(r.time_to_limit_h), hm(r.time_to_target_h), hm(r.start_before_h),
                       "—" if r.start_before_nm is None else f"{r.start_before_nm:.0f}"]
-            cells += [f"{r.burnt_t.get(b, 0.0):.2f}" for b in burnt] + [_visc(r, f)]
+            cells += [f"{r.burnt_t.get(b, 0.0):.2f}" for b in burnt] + [_visc(r, c)]
             rows.append([Markup(f"<b>{esc(x)}</b>") if bold else x for x in cells])
         align = ("lr" if c.has_main_engine else "l") + "rrrr" + "r" * len(burnt) + "l"
         what = (f"Circuit {c.name}: {c.from_fuel} to {c.to_fuel}, against main engine load"
@@ -215,55 +215,69 @@ def _durations(f: ProcedureFacts) -> list:
     return out
 
 
-def _visc(r: DurationRow, f: ProcedureFacts) -> str:
+def _visc(r: DurationRow, c: CircuitFacts) -> str:
     v = r.viscosity
     text = f"{v.min_cst:.1f}-{v.max_cst:.1f}"
     if v.inside:
         return text + ", inside"
+    g = c.window_of(v.consumer)
+    if g is not None and g.burner:
+        return text + ": outside, stop the burner for the switch"
     if v.lead_h is None:
         return text + ": outside, change over more slowly"
     return text + f": start cooling {v.lead_h * 60:.0f} min early"
+
+
+_LIMITS = (
+    ("Inlet viscosity on heated fuel", "target_cst", "cSt", "the heater set point for residual "
+     "fuel"),
+    ("Lowest inlet viscosity", "min_cst", "cSt", "never below; low-viscosity alarm at or above "
+     "this"),
+    ("Highest inlet viscosity", "max_cst", "cSt", "never above; high-viscosity alarm at or "
+     "below this"),
+    ("Fastest inlet temperature change", "max_rate_c_per_min", "°C/min", "up or down, at any "
+     "time (an engine's: thermal shock to the injection equipment; a burner's: its heater)"),
+    ("Distillate supply temperature", "supply_temperature_c", "°C", "unheated fuel arrives at "
+     "about this"),
+    ("Heaters' highest temperature", "max_temperature_c", "°C", "the heaters are not set above "
+     "this"),
+)
 
 
 def _limits(f: ProcedureFacts) -> list:
     from reportlab.lib.units import mm
     from reportlab.platypus import Spacer
 
-    w = f.inlet
-    rows = [
-        ["Inlet viscosity on heated fuel", f"{w.target_cst:g} cSt", "the heater set point for "
-         "residual fuel"],
-        ["Lowest inlet viscosity", f"{w.min_cst:g} cSt", "never below; low-viscosity alarm at "
-         "or above this"],
-        ["Highest inlet viscosity", f"{w.max_cst:g} cSt", "never above; high-viscosity alarm at "
-         "or below this"],
-        ["Fastest inlet temperature change", f"{w.max_rate_c_per_min:g} °C/min",
-         "up or down, at any time (thermal shock to the injection equipment)"],
-        ["Distillate supply temperature", celsius(w.supply_temperature_c), "unheated fuel arrives "
-         "at about this"],
-        ["Heaters' highest temperature", celsius(w.max_temperature_c), "the heaters are not set "
-         "above this"],
-    ]
+    groups = f.windows
+    col = (100.0 - 0.0) / max(len(groups), 1)
+    rows = [[name] + [f"{getattr(g.window, key):g} {unit}" for g in groups] + [meaning]
+            for name, key, unit, meaning in _LIMITS]
     fuels = []
-    for x in f.fuels:
-        heated = x.set_point_c > w.supply_temperature_c + 0.5
-        fuels.append([x.name, (f"{celsius(x.set_point_c)} ({x.viscosity_at_set_point_cst:.1f} cSt)"
-                               + ("" if heated else ", not heated")),
-                      celsius(x.thins_to_min_c) + (" (beyond the heaters)"
-                                              if x.thins_to_min_c > w.max_temperature_c else ""),
-                      celsius(x.thickens_to_max_c),
-                      "assumed slope" if x.slope_assumed else "two points"])
+    for g in groups:
+        w = g.window
+        for x in f.fuels:
+            t = g.fuel(x.name)
+            fuels.append([x.name, g.label,
+                          (f"{celsius(t.set_point_c)} ({t.viscosity_at_set_point_cst:.1f} cSt)"
+                           + ("" if t.heated else ", not heated")),
+                          f"{celsius(t.thins_to_min_c)} ({w.min_cst:g} cSt)"
+                          + (" (beyond the heaters)" if t.thins_to_min_c > w.max_temperature_c
+                             else ""),
+                          f"{celsius(t.thickens_to_max_c)} ({w.max_cst:g} cSt)",
+                          "assumed slope" if x.slope_assumed else "two points"])
     return [_head(4), para(
-        "From the ship file's [inlet] table (the planner's defaults for any value not given "
-        "there). The model holds every inlet to the same window, the boiler burner's included: "
-        "where a maker gives other figures for its own equipment, those apply.", "small"),
-        data_table(["Limit", "Value", "Meaning"], rows, [58, 26, 94]),
+        "Each consumer has its own inlet limits and heating rule: the default of its kind "
+        "(two-stroke main engine, four-stroke engine, boiler burner), then the ship file's "
+        "[inlet] table, then the consumer's own inlet keys. Where a maker gives other figures "
+        "for its own equipment, those apply.", "small"),
+        data_table(["Limit"] + [g.label for g in groups] + ["Meaning"], rows,
+                   [44] + [col] * len(groups) + [134 - col * len(groups)]),
         Spacer(1, 2 * mm),
-        para("What the limits mean for each fuel (ASTM D341 line through its delivery-note "
-             "viscosity):", "small"),
-        data_table(["Fuel", "Inlet temperature in service", f"Thinner than {w.min_cst:g} cSt "
-                    "above", f"Thicker than {w.max_cst:g} cSt below", "Viscosity line"],
-                   fuels, [26, 48, 42, 36, 26])]
+        para("What the limits mean for each fuel at each consumer (ASTM D341 line through its "
+             "delivery-note viscosity):", "small"),
+        data_table(["Fuel", "Consumers", "Inlet temperature in service", "Thinner than the "
+                    "minimum above", "Thicker than the maximum below", "Viscosity line"],
+                   fuels, [18, 42, 36, 32, 28, 22])]
 
 
 def _approval(revision: str, printed: datetime, sources: Sequence[tuple[str, str]]) -> list:

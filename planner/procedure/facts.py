@@ -6,8 +6,13 @@ procedure (:mod:`planner.documents.procedure_pdf`) and ``changeover procedure
 --json`` show, gathered in plain dataclasses so it is testable without
 reportlab.
 
-- the fuels, with the inlet temperatures the engine window asks of each
+- the fuels, with the inlet temperatures the ship-wide window asks of each
   (ASTM D341 line of the delivery-note viscosity, [ASTM-D341], :mod:`planner.fuels`);
+- each consumer's own inlet window and heating rule
+  (:meth:`planner.ship.system.FuelSystem.window_for`, defaults by kind in
+  :mod:`planner.ship.inlet_limits`), consumers with the same window and the
+  same kind of advice (engine or burner) grouped, with the temperatures that
+  window asks of each fuel;
 - the tanks, each circuit's changeover valve positions, its pipes and stirred
   volumes in flow order with the flow through each at the reference load
   (on the regular fuel) and the time that volume holds, V / q;
@@ -30,6 +35,7 @@ from dataclasses import asdict, dataclass, field, replace
 from planner.common.defaults import DEFAULT_LIMIT_PCT, DEFAULT_MARGIN_H, DEFAULT_TARGET_FRACTION
 from planner.flushing import schedule_at
 from planner.flushing.study import TABLE_LOADS_PCT, default_tanks, duration_table, study
+from planner.procedure.windows import WindowFacts, temperatures, window_groups
 from planner.ship.consumers import Boiler, Generator, MainEngine, fuel_rate_t_h, iso_demand_t_h
 from planner.ship.flows import circuit_flows
 from planner.ship.system import TANK_IN_USE, FuelSystem, ShipIdentity
@@ -131,6 +137,7 @@ class DurationRow:
     start_before_nm: float | None     # that time at this speed
     burnt_t: dict[str, float]
     viscosity: ViscosityCheck
+    flash_caution: str = ""           # distillate within 10 °C of its flash point, and the fix
 
 
 @dataclass(frozen=True)
@@ -151,6 +158,11 @@ class CircuitFacts:
     returns_to: tuple[str, ...]       # volumes that take back fuel not burnt
     returns_to_tank: bool             # a return line follows the valve to the tank in use
     alongside: DurationRow | None = None  # alongside, main engine stopped (None: nothing burns)
+    windows: tuple[WindowFacts, ...] = ()  # its consumers' own inlet windows, grouped
+
+    def window_of(self, consumer: str) -> WindowFacts | None:
+        """The window group of one of its consumers (None: not one of them)."""
+        return next((w for w in self.windows if consumer in w.consumers), None)
 
     @property
     def pipe_m3(self) -> float:
@@ -189,6 +201,7 @@ class ProcedureFacts:
     swing_c: float                 # regular fuel's set point less the compliant fuel's, °C
     voyage: str = ""
     warnings: tuple[str, ...] = field(default=())
+    windows: tuple[WindowFacts, ...] = ()  # every consumer's own inlet window, grouped
 
     @property
     def swing_min(self) -> float:
@@ -200,16 +213,13 @@ class ProcedureFacts:
 
 
 def _fuel_facts(system: FuelSystem, limit_pct: float) -> tuple[FuelFacts, ...]:
-    w = system.inlet
     out = []
     for f in system.fuels.values():
-        sp = min(max(float(f.temperature_for_viscosity(w.target_cst)), w.supply_temperature_c),
-                 w.max_temperature_c)
+        sp, nu, thin, thick = temperatures(f, system.inlet)
         out.append(FuelFacts(
             f.name, f.grade, f.bdn_ref, f.sulphur_pct, f.density_kg_m3, f.viscosity_cst,
-            f.viscosity_ref_c, f.is_residual, f.sulphur_pct <= limit_pct + 1e-12, sp,
-            float(f.viscosity_at(sp)), float(f.temperature_for_viscosity(w.min_cst)),
-            float(f.temperature_for_viscosity(w.max_cst)), f.viscosity_slope_assumed))
+            f.viscosity_ref_c, f.is_residual, f.sulphur_pct <= limit_pct + 1e-12, sp, nu, thin,
+            thick, f.viscosity_slope_assumed))
     return tuple(out)
 
 
@@ -289,7 +299,18 @@ def _row(system, name, a, b, load, speed, limit, target, margin, table_row=None)
     before = None if t_target is None else t_target + margin
     nm = None if before is None or speed is None else before * speed
     return DurationRow(load, speed, t_limit, t_target, before, nm,
-                       {k: float(v) for k, v in burnt.items()}, _viscosity(st))
+                       {k: float(v) for k, v in burnt.items()}, _viscosity(st),
+                       _flash(system, name, st))
+
+
+def _flash(system: FuelSystem, name: str, st) -> str:
+    """The plan's flash-point caution for this changeover, with its fix (empty: none)."""
+    from planner.ship.flash_margin import inlet_flash_spans
+    from planner.voyage.fuel_checks import changeover_flash_text
+
+    spans = inlet_flash_spans(st.result, name, st.paths)
+    return (changeover_flash_text(system, name, st.summary.to_fuel, st, spans) if spans
+            else "")
 
 
 def table_loads(system: FuelSystem) -> tuple[float, ...]:
@@ -325,7 +346,7 @@ def circuit_facts(system: FuelSystem, name: str, limit_pct: float, target_pct: f
     return CircuitFacts(name, circuit.tanks, consumers, _volumes(system, name, main(a)), a, b,
                         main(a), main(b), engine is not None,
                         engine.ref_load_pct if engine is not None else None, tuple(rows),
-                        back, to_tank, port)
+                        back, to_tank, port, window_groups(system, circuit.consumers, limit_pct))
 
 
 def _alongside(system: FuelSystem, name: str, a: str, b: str, limit: float, target: float,
@@ -362,9 +383,12 @@ def _warnings(facts: ProcedureFacts) -> tuple[str, ...]:
         for r in c.rows:
             if not r.viscosity.inside:
                 at = "" if r.load_pct is None else f" at {r.load_pct:g} % MCR"
+                g = c.window_of(r.viscosity.consumer)
+                w = facts.inlet if g is None else g.window
+                who = "" if g is None else f" of the {g.label}"
                 out.append(f"Circuit {c.name}{at}: modelled inlet viscosity "
                            f"{r.viscosity.min_cst:.1f}-{r.viscosity.max_cst:.1f} cSt leaves the "
-                           f"window {facts.inlet.min_cst:g}-{facts.inlet.max_cst:g} cSt.")
+                           f"window{who}, {w.min_cst:g}-{w.max_cst:g} cSt.")
     for f in facts.fuels:
         if f.slope_assumed:
             out.append(f"Fuel {f.name}: one viscosity point only; its temperatures rest on an "
@@ -388,8 +412,11 @@ def gather(system: FuelSystem, *, limit_pct: float = DEFAULT_LIMIT_PCT,
     regular = [f.set_point_c for f in fuels if not f.compliant]
     compliant = [f.set_point_c for f in fuels if f.compliant]
     swing = max(regular) - min(compliant) if regular and compliant else 0.0
+    everyone = [n for c in system.circuits.values() for n in c.consumers]
     facts = ProcedureFacts(system.ship, limit_pct, target, margin_h, system.inlet, fuels, tanks,
-                           circuits, max(swing, 0.0), voyage)
+                           circuits, max(swing, 0.0), voyage,
+                           windows=window_groups(system, list(dict.fromkeys(everyone)),
+                                                 limit_pct))
     return replace(facts, warnings=_warnings(facts))
 
 
@@ -397,8 +424,12 @@ def facts_json(facts: ProcedureFacts) -> dict:
     """``changeover procedure --json``: the facts as plain JSON values."""
     doc = asdict(facts)
     doc["swing_min"] = facts.swing_min
+    for g, gj in zip(facts.windows, doc["windows"], strict=True):
+        gj.update(burner=g.burner, label=g.label, swing_min=g.swing_min)
     for c, cj in zip(facts.circuits, doc["circuits"], strict=True):
         cj.update(pipe_m3=c.pipe_m3, stirred_m3=c.stirred_m3, total_m3=c.total_m3)
+        for g, gj in zip(c.windows, cj["windows"], strict=True):
+            gj.update(burner=g.burner, label=g.label, swing_min=g.swing_min)
         for v, vj in zip(c.volumes, cj["volumes"], strict=True):
             vj["holds_min"] = v.holds_min
     for t, tj in zip(facts.tanks, doc["tanks"], strict=True):

@@ -9,8 +9,12 @@ text are ``1 h 05 min``; in tables ``h:mm``.
 
 The advice rests on: the record of regulation 14.6 ([MARPOL-VI]); thermal shock
 as the hazard, hence the inlet's rate limit ([TC-SSB-04-2015]); completing the
-switch in open water, clear of restricted waters ([USCG-MSA-03-09]); and the
-engine's viscosity window ([ENGINE-GUIDANCE]). The figures are the ship file's.
+switch in open water, clear of restricted waters ([USCG-MSA-03-09]); and each
+consumer's own viscosity window and heating rule (:mod:`planner.ship.inlet_limits`:
+[ENGINE-GUIDANCE] for the engines, a burner's from memory). Advice fits the
+consumer: an engine's temperature follows the fuel within its rate limit (never
+"stop the engine"); a boiler burner's heater is switched off or bypassed for the
+distillate, or the burner is stopped for the switch. The figures are the ship file's.
 """
 
 from __future__ import annotations
@@ -18,6 +22,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from planner.procedure.facts import CircuitFacts, ProcedureFacts
+from planner.procedure.windows import WindowFacts
 
 
 def hm(hours: float | None) -> str:
@@ -79,7 +84,6 @@ def checks(f: ProcedureFacts) -> list[str]:
     frm = sorted({c.from_fuel for c in f.circuits if c.rows})
     comp = [t.name for t in f.tanks if t.compliant] or ["(no compliant tank in the ship file)"]
     svc = sorted({c.to_tank for c in f.circuits if c.rows})
-    hot = min((f.fuel(n).thins_to_min_c for n in to), default=f.inlet.max_temperature_c)
     burnt = sum(c.reference_row.burnt_t.get(c.to_fuel, 0.0) for c in f.circuits if c.rows)
     longest = changing(f)[0] if changing(f) else None
     items = [
@@ -93,12 +97,11 @@ def checks(f: ProcedureFacts) -> list[str]:
         "over. Note the soundings.",
         f"Service tank {names(svc)}: full enough for the changeover and the passage, settled, "
         "and drained of water.",
-        "Heaters and cooler: heater control and its temperature read-out working; fuel cooler "
-        f"(if fitted) ready with cooling water, to keep {names(to)} below {celsius(hot)} at the "
-        f"inlet, where it would thin below {f.inlet.min_cst:g} cSt.",
-        f"Alarms: inlet viscosity ({f.inlet.min_cst:g} and {f.inlet.max_cst:g} cSt), inlet "
-        "temperature, filter differential pressure, fuel leakage and boiler flame failure "
-        "alarms tested; viscosimeter reading true.",
+        *[_heater_check(g, to) for g in f.windows],
+        "Alarms: inlet viscosity (" + "; ".join(
+            f"{g.label} {g.window.min_cst:g} and {g.window.max_cst:g} cSt" for g in f.windows)
+        + "), inlet temperature, filter differential pressure, fuel leakage and boiler flame "
+        "failure alarms tested; viscosimeter reading true.",
         "Pumps and filters: supply and booster pumps and their standbys ready; a clean filter "
         "element in reserve.",
         "Manning: the chief engineer, or an engineer officer he names, at the controls; the "
@@ -127,6 +130,21 @@ def checks(f: ProcedureFacts) -> list[str]:
     return items
 
 
+def _heater_check(g: WindowFacts, to: list[str]) -> str:
+    """The check of the heaters (and cooler) of one window group before the changeover."""
+    w = g.window
+    hot = min((g.fuel(n).thins_to_min_c for n in to), default=w.max_temperature_c)
+    if g.burner:
+        return (f"Burner heater of the {g.label}: its control and temperature read-out working, "
+                "and the way to switch it off or bypass it for the distillate known; "
+                f"{names(to)} at the burner stays below {celsius(hot)}, where it would thin "
+                f"below the burner's {w.min_cst:g} cSt.")
+    return (f"Heaters and cooler for the {g.label}: heater control and its temperature "
+            f"read-out working; fuel cooler (if fitted) ready with cooling water, to keep "
+            f"{names(to)} below {celsius(hot)} at the inlet, where it would thin below "
+            f"{w.min_cst:g} cSt.")
+
+
 def _circuit_visc(c: CircuitFacts, f: ProcedureFacts) -> str:
     """What the modelled viscosity path of circuit ``c`` asks for."""
     bad = [r for r in c.rows if not r.viscosity.inside]
@@ -139,50 +157,96 @@ def _circuit_visc(c: CircuitFacts, f: ProcedureFacts) -> str:
                 ": no cooling ahead of the valve is needed.")
     r = min(bad, key=lambda x: x.viscosity.min_cst)
     v = r.viscosity
+    g = c.window_of(v.consumer) or c.windows[0]
+    w = g.window
     at = "" if r.load_pct is None else f" at {r.load_pct:g} % MCR"
     span = (f" from {hm(v.outside[0][0])} to {hm(v.outside[-1][1])} after the valve is moved"
             if v.outside else "")
     low = not v.outside or v.outside[0][2] == "below"
-    how = (f"falling to {v.min_cst:.1f} cSt, below the {f.inlet.min_cst:g} cSt minimum," if low
-           else f"rising to {v.max_cst:.1f} cSt, above the {f.inlet.max_cst:g} cSt maximum,")
-    head = (f"Circuit {c.name}{at}: the new fuel reaches {v.consumer or 'the inlet'} faster than "
-            f"the temperature may change, and the model has the viscosity {how}{span}. ")
+    how = (f"falling to {v.min_cst:.1f} cSt, below its {w.min_cst:g} cSt minimum," if low
+           else f"rising to {v.max_cst:.1f} cSt, above its {w.max_cst:g} cSt maximum,")
+    head = (f"Circuit {c.name}{at}: the new fuel reaches the {g.label} faster than the "
+            f"temperature may change, and the model has the viscosity {how}{span}. ")
+    old = g.fuel(c.from_fuel)
+    if g.burner:
+        return head + (f"Stop the burner for the switch: move the valve with the burner off, "
+                       f"let {c.to_fuel} fill the burner line, switch the burner heater off "
+                       f"(or bypass it) and relight on {c.to_fuel}. Or, if the steam demand "
+                       "does not allow it, follow the burner maker's changeover method and "
+                       "watch the flame and the viscosity throughout.")
     if v.lead_h is None:
         return head + ("Cooling earlier does not cure it: change this circuit over more slowly "
-                       "(in steps, as far as the valve allows) or by the burner or engine "
-                       "maker's own method, and watch the viscosity throughout.")
-    old = f.fuel(c.from_fuel)
+                       "(in steps, as far as the valve allows) or by the engine maker's own "
+                       "method, with the engine running, and watch the viscosity throughout.")
     return head + (f"Start lowering the heater set point {v.lead_h * 60:.0f} min before moving "
-                   f"the valve, but not below {celsius(old.thickens_to_max_c)}, where "
-                   f"{c.from_fuel} would be thicker than {f.inlet.max_cst:g} cSt.")
+                   f"the valve, no faster than {w.max_rate_c_per_min:g} °C/min, but not below "
+                   f"{celsius(old.thickens_to_max_c)}, where {c.from_fuel} would be thicker "
+                   f"than {w.max_cst:g} cSt.")
+
+
+def _window_temperature(g: WindowFacts, f: ProcedureFacts) -> list[str]:
+    """What the temperature of one window group does over the changeover."""
+    w = g.window
+    reg = [x for x in f.fuels if not x.compliant]
+    comp = [x for x in f.fuels if x.compliant]
+    if not (reg and comp):
+        return []
+    hi = max((g.fuel(x.name) for x in reg), key=lambda x: x.set_point_c)
+    lo = min((g.fuel(x.name) for x in comp), key=lambda x: x.set_point_c)
+    swing = (f"From {hi.name} at about {celsius(hi.set_point_c)} ({w.target_cst:g} cSt) to "
+             f"{lo.name} at about {celsius(lo.set_point_c)} the temperature falls about "
+             f"{g.swing_c:.0f} °C")
+    cool = (f"Keep {lo.name} below {celsius(lo.thins_to_min_c)}, where it would thin below "
+            f"{w.min_cst:g} cSt")
+    if g.burner:
+        return [f"{g.label[0].upper()}{g.label[1:]}: its heater follows the viscosity "
+                f"controller, at most {w.max_rate_c_per_min:g} °C/min here (no injection pump "
+                f"to protect, so no thermal-shock limit). {swing}. As {lo.name} arrives at the "
+                f"burner, switch the burner heater off or bypass it: {lo.name} is not heated. "
+                f"{cool}. Or stop the burner for the switch and relight on {lo.name} with the "
+                "heater off, if the steam demand allows."]
+    not_heated = ("is not heated: once the inlet is on it alone, shut the steam to the fuel "
+                  "heaters and the trace heating of the circuit" if not lo.heated else
+                  f"is heated to about {celsius(lo.set_point_c)}")
+    return [f"{g.label[0].upper()}{g.label[1:]}: the inlet temperature must never change "
+            f"faster than {w.max_rate_c_per_min:g} °C/min, going down or up. {swing}: at that "
+            f"rate at least {dur(g.swing_min / 60.0)}. Let it follow the fuel actually "
+            "arriving, and do not hold it back; run it ahead of the fuel only as far as the "
+            "old fuel's maximum viscosity allows, where the flash-point caution below says so. "
+            f"{lo.name} {not_heated}. {cool}; put the fuel cooler in service if it runs "
+            "warmer."]
 
 
 def temperature(f: ProcedureFacts) -> list[str]:
-    """Section 6: the rate limit, the viscosity window, and the model's path per circuit."""
-    w = f.inlet
-    reg = [x for x in f.fuels if not x.compliant]
-    comp = [x for x in f.fuels if x.compliant]
-    items = [f"The inlet temperature must never change faster than {w.max_rate_c_per_min:g} "
-             "°C/min, going down or up."]
-    if reg and comp:
-        hi, lo = max(reg, key=lambda x: x.set_point_c), min(comp, key=lambda x: x.set_point_c)
-        items.append(f"From {hi.name} at about {celsius(hi.set_point_c)} to {lo.name} at "
-                     f"about {celsius(lo.set_point_c)} the temperature falls about "
-                     f"{f.swing_c:.0f} °C: at that rate at least {dur(f.swing_min / 60.0)}. Let "
-                     "it follow the fuel actually arriving; do not run it ahead of the fuel, "
-                     "and do not hold it back.")
-        items.append(f"Fuel {lo.name} is not heated: once the inlet is on it alone, shut the "
-                     "steam to the fuel heaters and the trace heating of the circuit. Keep it "
-                     f"below {celsius(lo.thins_to_min_c)}, where it would thin below "
-                     f"{w.min_cst:g} cSt; put the fuel cooler in service if it runs warmer.")
-    items.append("A viscosity controller chasing a fast-changing blend can move the temperature "
-                 f"faster than {w.max_rate_c_per_min:g} °C/min. Unless it has its own rate "
-                 "limit, run it in temperature mode, or by hand, during the changeover.")
+    """Section 6: each consumer's rate limit, viscosity window and heating, and the model's
+    path per circuit."""
+    items = ["Each consumer has its own inlet limits (section 4): "
+             + "; ".join(f"{g.label} {g.window.min_cst:g}-{g.window.max_cst:g} cSt, at most "
+                         f"{g.window.max_rate_c_per_min:g} °C/min" for g in f.windows) + "."]
+    for g in f.windows:
+        items += _window_temperature(g, f)
+    engines = [g for g in f.windows if not g.burner]
+    if engines:
+        rate = min(g.window.max_rate_c_per_min for g in engines)
+        items.append("A viscosity controller chasing a fast-changing blend can move the "
+                     f"temperature faster than {rate:g} °C/min. Unless it has its own rate "
+                     "limit, run it in temperature mode, or by hand, during the changeover.")
     items += [_circuit_visc(c, f) for c in changing(f)]
-    items.append(f"If the inlet viscosity falls towards {w.min_cst:g} cSt, bring in the cooler "
-                 f"or slow the temperature change; if it rises towards {w.max_cst:g} cSt, heat, "
-                 "within the rate limit. If neither holds it, tell the chief engineer and the "
-                 "bridge before the engine is affected.")
+    items += ["Flash point: " + c.reference_row.flash_caution for c in changing(f)
+              if c.reference_row.flash_caution]
+    for g in f.windows:
+        w = g.window
+        if g.burner:
+            items.append(f"If the viscosity at the {g.label} leaves {w.min_cst:g}-"
+                         f"{w.max_cst:g} cSt or the flame becomes unsteady, stop the burner, "
+                         "tell the chief engineer, and relight only when the fuel at the "
+                         "burner is right for it.")
+        else:
+            items.append(f"If the inlet viscosity of the {g.label} falls towards "
+                         f"{w.min_cst:g} cSt, bring in the cooler or slow the temperature "
+                         f"change; if it rises towards {w.max_cst:g} cSt, heat, within the "
+                         "rate limit. If neither holds it, tell the chief engineer and the "
+                         "bridge before the engine is affected.")
     return items
 
 
@@ -232,8 +296,10 @@ def monitoring(f: ProcedureFacts) -> list[str]:
     if expect:
         items.append("Expect, at the reference load, " + "; ".join(expect) + ".")
     items += [
-        f"Watch for: the viscosity or temperature leaving the window, or the temperature moving "
-        f"faster than {f.inlet.max_rate_c_per_min:g} °C/min; filters blocking quickly (a sign of "
+        "Watch for: the viscosity or temperature leaving its window, or the temperature moving "
+        "faster than its rate limit ("
+        + "; ".join(f"{g.label} {g.window.max_rate_c_per_min:g} °C/min" for g in f.windows)
+        + "); filters blocking quickly (a sign of "
         "incompatible fuels: change over the filter and tell the chief engineer); leaks at "
         "flanges and pumps as the temperature falls; fuel pumps or injectors sticking; "
         "unsteady engine speed, a generator shedding load, or a boiler flame failure.",
@@ -268,6 +334,19 @@ def completion(f: ProcedureFacts) -> list[str]:
     return items
 
 
+def _back_heat(g: WindowFacts, fuel: str) -> str:
+    """How one window group's heater brings ``fuel`` back to its set point."""
+    w, old = g.window, g.fuel(fuel)
+    if g.burner:
+        return (f"for the {g.label} switch the burner heater on (or out of bypass) as {fuel} "
+                f"arrives, towards {celsius(old.set_point_c)} ({w.target_cst:g} cSt), keeping "
+                f"the burner below {w.max_cst:g} cSt; or stop the burner for the switch and "
+                f"relight once {fuel} at the burner is at its temperature")
+    return (f"for the {g.label} raise the heater set point towards {celsius(old.set_point_c)} "
+            f"({w.target_cst:g} cSt) no faster than {w.max_rate_c_per_min:g} °C/min, keeping "
+            f"the inlet below {w.max_cst:g} cSt as {fuel} arrives")
+
+
 def back(f: ProcedureFacts) -> list[str]:
     """Section 10: the changeover back to regular fuel after leaving the area."""
     order = changing(f)
@@ -284,13 +363,11 @@ def back(f: ProcedureFacts) -> list[str]:
     for c in order:
         groups.setdefault((c.to_tank, c.from_tank, c.from_fuel), []).append(c.name)
     for (now, then, fuel), who in groups.items():
-        old = f.fuel(fuel)
+        gs = [g for c in order if c.name in who for g in c.windows]
+        heat = "; ".join(dict.fromkeys(_back_heat(g, fuel) for g in gs))
         items.append(
             f"Circuit{'s' if len(who) > 1 else ''} {names(who)}: put the heaters and trace "
-            f"heating back in service, move the valve from {now} to {then}, and raise the "
-            f"heater set point towards {celsius(old.set_point_c)} ({f.inlet.target_cst:g} cSt) "
-            f"no faster than {f.inlet.max_rate_c_per_min:g} °C/min, keeping the inlet below "
-            f"{f.inlet.max_cst:g} cSt as {fuel} arrives.")
+            f"heating back in service, move the valve from {now} to {then}, and {heat}.")
     items.append("When every inlet is steady at its viscosity on the regular fuel, note the "
                  "time: changeover log back-complete.")
     return items

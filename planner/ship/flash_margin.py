@@ -110,3 +110,142 @@ def flash_margin_span(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: 
         return None
     idx = np.flatnonzero(hot)
     return FlashSpan(fuel, float(tp[idx[0]]), float(tp[idx[-1]]), float(temp[idx].max()), limit)
+
+
+@dataclass(frozen=True)
+class Precool:
+    """Lowering the heater set point before the switch, and the flash-point span left after.
+
+    The chief engineer's way to keep a distillate cool in the heated volumes
+    (common practice; the engine makers' changeover guidance lowers the
+    temperature of the old fuel first, [ENGINE-GUIDANCE] [M]): before the
+    valve is moved, bring the set point down from the old fuel's service
+    temperature to the coolest its maximum viscosity allows, at the rate limit;
+    hold it there; after the switch let it follow the blend down at the rate
+    limit (never above that held temperature).
+
+    Attributes
+    ----------
+    set_point_c : float [°C]
+        The old fuel's service set point (its target viscosity).
+    precool_c : float [°C]
+        Where it is taken before the switch: the old fuel at the window's
+        maximum viscosity ([ASTM-D341] line), not below the supply temperature.
+    lead_h : float [h]
+        How long before the switch to start: (set point − precool) / rate.
+    at_limit_h : float or None [h]
+        When the temperature is first at or below the flash point less the
+        margin, h after the switch (None: not within the path).
+    span : FlashSpan or None
+        The span still within the margin on that path (None: none).
+    """
+
+    set_point_c: float
+    precool_c: float
+    lead_h: float
+    at_limit_h: float | None
+    span: FlashSpan | None
+
+
+def precool_path(fuels: Sequence[Fuel], mass_fractions: ArrayLike, time_h: ArrayLike,
+                 window, margin_c: float = FLASH_POINT_MARGIN_C,
+                 step_h: float = 1.0 / 60.0) -> Precool:
+    """The flash-point span left when the heater set point is lowered ahead of the switch.
+
+    ``T_pre = max(T(ν_max; old fuel), T_supply)``, lead ``(T_set − T_pre) / r``;
+    after the switch ``T`` follows ``min(T_set(blend), T_pre)`` at the rate
+    ``r`` (:func:`planner.ship.thermal.rate_limited`), on a one-minute grid.
+
+    Parameters
+    ----------
+    fuels : sequence of Fuel
+        The fuels, in the order of the first axis of ``mass_fractions``.
+    mass_fractions : array_like [-]
+        The inlet's composition by mass, (n_fuels, n_times), from the switch.
+    time_h : array_like [h]
+        Times of the compositions, increasing, from 0 (the switch).
+    window : InletWindow
+        The consumer's heating rule and limits.
+    margin_c : float [°C], default 10
+        Kept below the flash point ([SOLAS-1974] reg. II-2/4.2.2.5, [M]).
+    step_h : float [h], default 1/60
+        Grid step.
+
+    Returns
+    -------
+    Precool
+
+    Notes
+    -----
+    [ASTM-D341] and [MAPLES-2000] for the blends' viscosity
+    (:func:`planner.ship.thermal.blend_line`); the rate limit from
+    [TC-SSB-04-2015] [S] for engines.
+
+    Examples
+    --------
+    Residual fuel washed out by gas oil in a stirred volume of 0.1 h residence:
+
+    >>> from planner.ship.thermal import InletWindow
+    >>> hfo = Fuel(name="HFO", grade="RMG 380", sulphur_pct=0.48, density_kg_m3=991.0,
+    ...            viscosity_cst=380.0, viscosity_ref_c=50.0)
+    >>> mgo = Fuel(name="MGO", grade="DMA", sulphur_pct=0.05, density_kg_m3=845.0,
+    ...            viscosity_cst=3.0, viscosity_ref_c=40.0)
+    >>> t = np.linspace(0.0, 3.0, 181)
+    >>> x = np.exp(-t / 0.1)
+    >>> p = precool_path([hfo, mgo], [x, 1.0 - x], t, InletWindow())
+    >>> round(p.set_point_c), round(p.precool_c), round(p.lead_h * 60, 1)
+    (135, 119, 8.4)
+    """
+    from planner.fuels import temperature_for_viscosity
+    from planner.ship.thermal import blend_line, rate_limited, set_point_c
+
+    w = np.asarray(mass_fractions, dtype=np.float64)
+    t = np.asarray(time_h, dtype=np.float64)
+    grid = np.arange(t[0], t[-1] + step_h / 2, step_h)
+    w_grid = np.array([np.interp(grid, t, wi) for wi in w])
+    a, b = blend_line(fuels, w_grid)
+    sp = set_point_c(a, b, window)
+    start = float(sp[0])
+    pre = min(start, max(float(temperature_for_viscosity(window.max_cst, a[0], b[0])),
+                         window.supply_temperature_c))
+    temp = rate_limited(np.minimum(sp, pre), grid, pre, window.max_rate_c_per_min)
+    span = flash_margin_span(fuels, w_grid, grid, temp, margin_c=margin_c)
+    limit = (min((f.flash_point for f, wi in zip(fuels, w, strict=True)
+                  if not f.is_residual and wi.max() > _PRESENT), default=np.inf) - margin_c)
+    cool = np.flatnonzero(temp <= limit)
+    return Precool(start, pre, (start - pre) / window.max_rate_c_per_min / 60.0,
+                   float(grid[cool[0]]) if cool.size else None, span)
+
+
+def inlet_flash_spans(result, circuit: str, paths, margin_c: float = FLASH_POINT_MARGIN_C
+                      ) -> dict[str, FlashSpan]:
+    """Each consumer of a circuit whose inlet path holds distillate within the margin.
+
+    Parameters
+    ----------
+    result : FlushResult
+        The flush (:meth:`~planner.flushing.FlushResult.circuit_inlets` gives
+        each inlet's composition).
+    circuit : str
+        The circuit switched.
+    paths : mapping of str to InletPath
+        Each consumer's temperature path (:func:`planner.flushing.study.study`).
+    margin_c : float [°C], default 10
+        Kept below the flash point ([SOLAS-1974] reg. II-2/4.2.2.5, [M]).
+
+    Returns
+    -------
+    dict of str to FlashSpan
+        Only the consumers with a span (:func:`flash_margin_span`).
+    """
+    curves = {c.consumer: c for c in result.circuit_inlets(circuit)}
+    out = {}
+    for consumer, path in paths.items():
+        curve = curves.get(consumer)
+        if curve is None:
+            continue
+        span = flash_margin_span(curve.fuels, curve.mass_fractions, curve.time_h,
+                                 path.temperature_c, path.time_h, margin_c)
+        if span is not None:
+            out[consumer] = span
+    return out

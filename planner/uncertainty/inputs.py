@@ -33,7 +33,6 @@ Every default states its source in :data:`DEFAULTS`. Bad values are one
 from __future__ import annotations
 
 import math
-import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass, field, replace
 from numbers import Real
@@ -41,6 +40,7 @@ from pathlib import Path
 from types import MappingProxyType
 
 from geo.errors import InputError
+from planner.common.input_files import read_toml
 from planner.ship.system import FuelSystem
 
 Z95 = 1.959963984540054  # two-sided 95 % normal quantile
@@ -304,13 +304,6 @@ def _sulphur_sd(value: object, file: str, where: str, system: FuelSystem | None,
     return changes, f"{where} (fuels not named: {SULPHUR_SOURCE})"
 
 
-def _toml(path: Path) -> dict:
-    try:
-        return tomllib.loads(path.read_bytes().decode("utf-8-sig"))
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError) as e:
-        raise InputError(str(path), "", str(e), "a readable TOML file") from None
-
-
 def load_uncertainty(ship_file: str | Path, system: FuelSystem | None = None,
                      voyage_file: str | Path | None = None) -> UncertaintySpec:
     """The spec of a ship file's ``[uncertainty]`` table, then a voyage file's, key by key.
@@ -328,9 +321,17 @@ def load_uncertainty(ship_file: str | Path, system: FuelSystem | None = None,
     -------
     UncertaintySpec
         The values as in :func:`parse_uncertainty`.
+
+    Raises
+    ------
+    geo.errors.InputError
+        One line for a file that is no readable TOML (a folder, a device such as
+        ``/dev/zero``, non-UTF-8 bytes, a NaN or infinite number:
+        :func:`planner.common.input_files.read_toml`) or a bad value.
     """
-    spec = parse_uncertainty(_toml(Path(ship_file)).get("uncertainty"), str(ship_file), system)
+    spec = parse_uncertainty(read_toml(ship_file, "ship file").get("uncertainty"),
+                             str(ship_file), system)
     if voyage_file is not None:
-        spec = parse_uncertainty(_toml(Path(voyage_file)).get("uncertainty"), str(voyage_file),
-                                 system, base=spec)
+        spec = parse_uncertainty(read_toml(voyage_file, "voyage file").get("uncertainty"),
+                                 str(voyage_file), system, base=spec)
     return spec

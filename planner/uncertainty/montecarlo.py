@@ -60,11 +60,23 @@ _NOT_REACHED = 1e300
 def quantile(x: np.ndarray, p: float) -> float | None:
     """The ``p`` [-] quantile of samples ``x`` (linear interpolation), in the unit of ``x``.
 
-    None when it is not reached (falls among the samples, inf, that never reach
-    the level by the horizon).
+    None when it is not reached: the quantile falls on, or interpolates
+    towards, a sample that never reaches the level by the horizon (inf or NaN).
+    The same rule as ``numpy.quantile``'s default ("linear", [HYNDMAN-FAN-1996]
+    definition 7): position ``h = (n − 1)·p`` in the sorted samples, the value
+    ``x[⌊h⌋] + (h − ⌊h⌋)·(x[⌈h⌉] − x[⌊h⌋])``; a not-reached neighbour with a
+    weight above zero makes the quantile not reached, never a huge number.
     """
-    q = float(np.quantile(np.where(np.isfinite(x), x, _NOT_REACHED), p))
-    return None if q >= 1e299 or not math.isfinite(q) else q
+    s = np.sort(np.where(np.isfinite(x), x, np.inf))
+    if s.size == 0:
+        return None
+    h = (s.size - 1) * float(p)
+    lo = int(math.floor(h))
+    hi = min(lo + 1, s.size - 1)
+    frac = h - lo
+    if not math.isfinite(s[lo]) or (frac > 0.0 and not math.isfinite(s[hi])):
+        return None
+    return float(s[lo] + frac * (s[hi] - s[lo])) if frac > 0.0 else float(s[lo])
 
 
 def quantile_interval(x: np.ndarray, p: float) -> tuple[float | None, float | None]:

@@ -16,12 +16,14 @@ Pure functions of the plan's parts, like :mod:`planner.voyage.checks`.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
+from datetime import datetime, timedelta
 
 from planner.common.defaults import SERVICE_ENDURANCE_H
 from planner.common.timefmt import format_utc
 from planner.fuels import FLASH_POINT_MARGIN_C
-from planner.ship.flash_margin import flash_margin_span
+from planner.ship.flash_margin import FlashSpan, inlet_flash_spans, precool_path
+from planner.ship.system import FuelSystem
 from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.runs import Change
 from planner.voyage.timeline import Timeline
@@ -68,36 +70,104 @@ def flash_point_warnings(voyage: Voyage, timeline: Timeline,
     found: dict[tuple, list] = {}
     for ch in changes:
         for part in ch.circuits:
-            curves = {c.consumer: c for c in part.study.result.circuit_inlets(part.circuit)}
-            for consumer, path in part.study.paths.items():
-                curve = curves.get(consumer)
-                if curve is None:
-                    continue
-                span = flash_margin_span(curve.fuels, curve.mass_fractions, curve.time_h,
-                                         path.temperature_c, path.time_h, margin)
-                if span is not None:
-                    key = (part.circuit, ch.direction, part.to_fuel, span.fuel.name)
-                    found.setdefault(key, []).append((ch.area, consumer, span))
+            spans = inlet_flash_spans(part.study.result, part.circuit, part.study.paths, margin)
+            for consumer, span in spans.items():
+                key = (part.circuit, ch.direction, part.to_fuel, span.fuel.name)
+                found.setdefault(key, []).append((ch.area, consumer, span, part))
     for (circuit, _, to_fuel, _), hits in found.items():
         areas = ", ".join(dict.fromkeys(h[0] for h in hits))
-        consumers = ", ".join(dict.fromkeys(h[1] for h in hits))
-        span = max((h[2] for h in hits), key=lambda s: s.max_temperature_c)
-        f = span.fuel
-        burners = all(getattr(system.consumers.get(h[1]), "kind", "") == "boiler" for h in hits)
-        if burners:
-            fix = ("switch the burner heater off (or bypass it) before the distillate arrives")
-        else:
-            fix = (f"the inlet temperature, changing no faster than its limit, is at or below "
-                   f"{span.limit_c:g} °C only after {span.to_h:.2f} h: blend the distillate in "
-                   "more slowly, so that the fuel is mainly distillate only from then on")
-        out.append(PlanWarning("flash_point", (
-            f"Circuit {circuit} ({consumers}), changeover to {to_fuel} ({areas}): the heated fuel "
-            f"is mainly {_flash_text(f.name, f.flash_point, f.flash_point_source)} at up to "
-            f"{span.max_temperature_c:.0f} °C {span.from_h:.2f}-{span.to_h:.2f} h after the "
-            f"switch, within {margin:g} °C of its flash point; {fix}. The {margin:g} °C margin "
-            "is SOLAS II-2 regulation 4.2.2.5's for heated fuel tanks, applied here to the "
-            "heaters and lines as a caution.")))
+        area, _, _, part = max(hits, key=lambda h: h[2].max_temperature_c)  # the worst one
+        spans = {h[1]: h[2] for h in hits if h[3] is part}
+        out.append(PlanWarning("flash_point", changeover_flash_text(
+            system, circuit, to_fuel, part.study, spans, areas,
+            timeline.utc(part.start_epoch_s), area if len(hits) > len(spans) else "")))
     return out
+
+
+def _clock(switch: datetime | None, after_h: float) -> str:
+    """`` (05:12Z)`` for a time ``after_h`` h after the switch (nothing without a clock)."""
+    return "" if switch is None else f" ({(switch + timedelta(hours=after_h)):%H:%MZ})"
+
+
+def changeover_flash_text(system: FuelSystem, circuit: str, to_fuel: str, study,
+                          spans: Mapping[str, FlashSpan], where: str = "",
+                          switch: datetime | None = None, named: str = "") -> str:
+    """The caution for a changeover that holds distillate near its flash point, with the fix.
+
+    One text for ``changeover plan`` and ``changeover flush``: which consumers,
+    how hot and when (:func:`planner.ship.flash_margin.flash_margin_span`), and
+    what the chief engineer can do, worked out on the consumers' own inlet path
+    (:func:`planner.ship.flash_margin.precool_path`): for engines, when to start
+    lowering the heater set point before the switch, to what temperature (the
+    old fuel at the engine's maximum viscosity), and when the fuel is then
+    cool enough; for boiler burners, stop the burner for the switch, or lower
+    the burner heater and switch it off as the distillate arrives.
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship (each consumer's kind and window).
+    circuit, to_fuel : str
+        The circuit switched and the fuel it changes to.
+    study : FlushStudy
+        Its flush (the inlet compositions and temperature paths).
+    spans : mapping of str to FlashSpan
+        The consumers within the margin and their spans.
+    where : str
+        The areas of the changeovers named (empty: none named).
+    switch : datetime, optional
+        When the valve is moved (UTC); without it times are after the switch.
+    named : str
+        The area of the changeover the figures are for, when ``where`` names several.
+    """
+    margin = FLASH_POINT_MARGIN_C
+    worst = max(spans, key=lambda c: spans[c].max_temperature_c)
+    span = spans[worst]
+    f = span.fuel
+    curve = next(c for c in study.result.circuit_inlets(circuit) if c.consumer == worst)
+    window = system.window_for(worst)
+    pre = precool_path(curve.fuels, curve.mass_fractions, curve.time_h, window, margin)
+    old = study.summary.from_fuel
+    burner = all(getattr(system.consumers.get(c), "kind", "") == "boiler" for c in spans)
+    rate = window.max_rate_c_per_min
+    at = "" if switch is None else (f" (the valve moved at {format_utc(switch)}"
+                                    + (f" for {named}" if named else "") + ")")
+    flash = _flash_text(f.name, f.flash_point, f.flash_point_source)
+    head = (f"Circuit {circuit} ({', '.join(spans)}), changeover to {to_fuel}"
+            + (f" ({where})" if where else "") + ": "
+            + ("firing through the switch, " if burner else "with the heater set point "
+               "following the fuel from the switch, ")
+            + f"the heated fuel is mainly {flash} at up to {span.max_temperature_c:.0f} °C "
+            f"{span.from_h:.2f}-{span.to_h:.2f} h after the switch{at}, within {margin:g} °C "
+            "of its flash point. ")
+    lower = (f"lower the {'burner ' if burner else ''}heater set point from "
+             f"{pre.set_point_c:.0f} °C to {pre.precool_c:.0f} °C ({old} at {worst}'s "
+             f"maximum of {window.max_cst:g} cSt) at {rate:g} °C/min, starting "
+             f"{pre.lead_h * 60:.0f} min before the switch{_clock(switch, -pre.lead_h)}, "
+             "and hold it there until the fuel arriving needs less")
+    cool = ("" if pre.at_limit_h is None else
+            f"at or below {span.limit_c:g} °C from {pre.at_limit_h:.2f} h after the switch"
+            f"{_clock(switch, pre.at_limit_h)}")
+    if pre.span is None:
+        left = (f"the {f.name} then stays at least {margin:g} °C below its flash point"
+                + (f" ({cool})" if cool else ""))
+    else:
+        left = (f"even so it is mainly {f.name} at up to {pre.span.max_temperature_c:.0f} °C "
+                f"{pre.span.from_h:.2f}-{pre.span.to_h:.2f} h after the switch"
+                f"{_clock(switch, pre.span.from_h)}" + (f", and {cool}" if cool else "")
+                + f"; {old} may not be cooler before the switch")
+    if burner:
+        fix = (f"Stop the burner for the switch: move the valve with the burner stopped, "
+               f"circulate {to_fuel} through the burner line with the heater off or bypassed "
+               f"until the fuel at the burner is at or below {span.limit_c:g} °C, and relight "
+               f"on {to_fuel}. If the steam demand does not allow it, {lower}, and switch the "
+               f"heater off as {to_fuel} arrives: {left}.")
+    else:
+        fix = (f"To shorten it, {lower}; then let it follow the fuel down at {rate:g} °C/min: "
+               f"{left}. Until then keep the circuit closed and pressurised and watch for "
+               "leaks of hot distillate.")
+    return (head + fix + f" The {margin:g} °C margin is SOLAS II-2 regulation 4.2.2.5's for "
+            "heated fuel tanks, applied here to the heaters and lines as a caution.")
 
 
 def tank_dry_warnings(timeline: Timeline, changes: Sequence[Change]) -> list[PlanWarning]:

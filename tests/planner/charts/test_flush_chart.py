@@ -3,9 +3,12 @@
 The sample ship's main circuit feeds main_engine, dg1 and dg2 through one line:
 their times to the limit in ``flush --json`` are equal (so their curves are the
 same and must be drawn once, labelled with the three names); the boiler circuit
-is its own line. The viscosity window's minimum and maximum (the ship file's
-``[inlet] min_cst`` and ``max_cst``, 2 and 20 cSt) must differ in dash pattern
-(black-and-white print) and be named in the legend. Read back with pdftotext.
+is its own line. Each consumer has its own viscosity window: the engines' 2 and
+20 cSt (the main engine's own table; the four-stroke defaults) and the boiler
+burner's 1 and 30 cSt (its kind's defaults, planner.ship.inlet_limits). Every
+distinct minimum and maximum must be drawn once, in its own dash pattern
+(black-and-white print), named in the legend with the consumer kinds it belongs
+to. Read back with pdftotext.
 """
 
 from __future__ import annotations
@@ -47,7 +50,12 @@ def test_figure_lines_and_limit_styles():
     lo = next(v for k, v in lines.items() if k.startswith("minimum 2 cSt"))
     hi = next(v for k, v in lines.items() if k.startswith("maximum 20 cSt"))
     assert lo.get_ydata()[0] == 2.0 and hi.get_ydata()[0] == 20.0
-    assert str(lo._dash_pattern) != str(hi._dash_pattern)
+    # the boiler burner's own window (kind defaults 1 and 30 cSt), without kinds named by
+    # consumer
+    lo_b = next(v for k, v in lines.items() if k.startswith("minimum 1 cSt, aux_boiler"))
+    hi_b = next(v for k, v in lines.items() if k.startswith("maximum 30 cSt, aux_boiler"))
+    limits = [lo, hi, lo_b, hi_b]
+    assert len({str(x._dash_pattern) for x in limits}) == 4   # four styles, one per value
     styles = [str(ln._dash_pattern) for ln in ax1.get_lines()
               if not ln.get_label().startswith("_")]  # the legend's lines (not the markers)
     assert len(set(styles)) == len(styles)  # each sulphur line its own pattern
@@ -76,4 +84,7 @@ def test_chart_pdf_legend(tmp_path):
     # paths differ (the engine's and the generators' own inlet limits and heating)
     assert t.count("main: " + ", ".join(main["consumer_time_to_limit_h"])) == 1
     assert "main: main_engine" in t and "main: dg1, dg2" in t
-    assert "minimum 2 cSt (dotted)" in t and "maximum 20 cSt (dash-dot)" in t
+    assert "minimum 2 cSt, two-stroke main engine, four-stroke engine (dotted)" in t
+    assert "maximum 20 cSt, two-stroke main engine, four-stroke engine (dash-dot)" in t
+    assert "minimum 1 cSt, boiler burner (sparse dots)" in t
+    assert "maximum 30 cSt, boiler burner (dash-dot-dot)" in t

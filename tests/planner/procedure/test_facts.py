@@ -165,8 +165,13 @@ def test_temperature_steps_follow_the_viscosity_model(facts):
     for c in facts.circuits:
         if all(r.viscosity.inside for r in c.rows):
             assert f"Circuit {c.name}: with the temperature following the fuel" in text
+        elif all(g.burner for g in c.windows):
+            # a burner's advice: stop the burner for the switch (common practice), never an
+            # engine's
+            assert f"Circuit {c.name}" in text and "Stop the burner for the switch" in text
         else:
             assert f"Circuit {c.name}" in text and "more slowly" in text
+    assert "stop the engine" not in text.lower()
     # a circuit the model can keep inside by cooling early: start that many minutes ahead
     main = circuit(facts, "main")
     early = ViscosityCheck(1.9, 14.0, False, 0.25, "main_engine", ((0.1, 0.3, "below"),))
@@ -174,7 +179,7 @@ def test_temperature_steps_follow_the_viscosity_model(facts):
     f2 = replace(facts, circuits=(replace(main, rows=rows),))
     text2 = " ".join(steps.temperature(f2))
     assert "Start lowering the heater set point 15 min before moving the valve" in text2
-    assert "falling to 1.9 cSt, below the 2.5 cSt minimum, from 0:06 to 0:18" in text2
+    assert "falling to 1.9 cSt, below its 2.5 cSt minimum, from 0:06 to 0:18" in text2
     assert "in steps (section 6)" in " ".join(steps.valves(f2))
 
 

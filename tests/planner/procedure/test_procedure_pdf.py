@@ -64,7 +64,7 @@ def test_pdf_has_every_section_in_order(pdf_text):
     assert at == sorted(at)
     for s in ("Before starting", "Temperature and viscosity", "Moving the valves", "Monitoring",
               "Completion and recording", "The fuel system", "How long a changeover takes",
-              "The engine's limits", "Approval and revisions"):
+              "Each consumer's inlet limits", "Approval and revisions"):
         assert s in SECTIONS
 
 
@@ -72,7 +72,7 @@ def test_pdf_has_every_section_in_order(pdf_text):
 def test_pdf_has_the_checks_and_the_record_items(pdf_text):
     t = pdf_text
     for phrase in ("Compatibility:", "Soundings: sound mgo_service and mgo_storage",
-                   "Heaters and cooler:", "Alarms:", "Manning:", "Position and time:",
+                   "Heaters and cooler for the", "Alarms:", "Manning:", "Position and time:",
                    "clear of confined or congested waters", "regulation 14.6",
                    "the date and time (UTC and ship's time)", "position (latitude and longitude)",
                    "the volume of compliant fuel in each tank", "changeover log complete",

@@ -64,7 +64,12 @@ def test_plan_flash_warning_matches_the_hand_calculation():
     t0 = float(hfo.temperature_for_viscosity(13.0))  # heated to 13 cSt ([ASTM-D341] line)
     assert f"at up to {t0 - 120.0 * t_star:.0f} °C {t_star:.2f}-" in w.text
     assert "flash point 60 °C, ISO 8217 minimum for DMA, from memory" in w.text
-    assert "at or below 50 °C only after" in w.text
+    # the fix is concrete: lower the set point ahead of the switch, to the residual's 20 cSt
+    # temperature, at 2 °C/min: (T13 − T20) / 2 min before the switch (rate × time)
+    t20 = float(hfo.temperature_for_viscosity(20.0))
+    assert f"from {t0:.0f} °C to {t20:.0f} °C" in w.text
+    assert f"starting {(t0 - t20) / 2.0:.0f} min before the switch" in w.text
+    assert "blend the distillate in more slowly" not in w.text
 
 
 def _copy(tmp_path, old, new):
@@ -95,5 +100,60 @@ def test_sample_plan_flash_warnings_name_the_circuit_and_a_fix_it_can_do():
     plan = build_plan(ROOT / "areas_sample" / "voyage.toml")
     texts = {w.text.split(" ")[1]: w.text for w in plan.warnings if w.kind == "flash_point"}
     assert set(texts) == {"main", "boiler"}
-    assert "burner heater off" in texts["boiler"]
-    assert "blend the distillate in more slowly" in texts["main"]
+    # a burner: stop it for the switch, or its heater lowered and then off (common practice)
+    assert "Stop the burner for the switch" in texts["boiler"]
+    assert "switch the heater off as mgo arrives" in texts["boiler"]
+    # an engine: when to start lowering the set point, to what, by what clock time
+    assert "lower the heater set point from 130 °C to 113 °C" in texts["main"]
+    assert "min before the switch (" in texts["main"] and "Z)" in texts["main"]
+    assert "more slowly" not in texts["main"] and "stop the engine" not in texts["main"].lower()
+
+
+def _sample_inlet(circuit, consumer):
+    from planner.flushing import schedule_at
+    from planner.flushing.study import study
+    from planner.ship.ship_file import load_ship
+
+    system = load_ship(ROOT / "areas_sample" / "ship.toml")
+    st = study(system, circuit, "vlsfo_service", "mgo_service", schedule_at(system), 0.1, 0.09)
+    curve = next(c for c in st.result.circuit_inlets(circuit) if c.consumer == consumer)
+    return system, curve
+
+
+@pytest.mark.parametrize(("circuit", "consumer"), [("main", "main_engine"),
+                                                   ("boiler", "aux_boiler")])
+def test_precooled_path_of_the_sample_by_hand(circuit, consumer):
+    """The sample ship's changeover to mgo, the set point lowered ahead of the switch.
+
+    Hand calculation (rate limit × time): the old fuel vlsfo is brought from its target
+    temperature T_t to T_max, where it has the consumer's maximum viscosity ([ASTM-D341]
+    line of its delivery-note viscosity), in (T_t − T_max)/r; held; once the blend arriving
+    needs less it falls at the rate r (the set point drops far faster), so it is at
+    50 °C (60 °C flash point − 10 °C) (T_max − 50)/r after it starts falling.
+    """
+    from planner.ship.flash_margin import precool_path
+
+    system, curve = _sample_inlet(circuit, consumer)
+    w = system.window_for(consumer)
+    vlsfo = system.fuels["vlsfo"]
+    t_target = float(vlsfo.temperature_for_viscosity(w.target_cst))
+    t_max = float(vlsfo.temperature_for_viscosity(w.max_cst))
+    p = precool_path(curve.fuels, curve.mass_fractions, curve.time_h, w)
+    r = w.max_rate_c_per_min
+    assert p.set_point_c == pytest.approx(t_target, abs=1e-6)
+    assert p.precool_c == pytest.approx(t_max, abs=1e-6)
+    assert p.lead_h * 60.0 == pytest.approx((t_target - t_max) / r, abs=1e-6)
+    # the fall: the minute it starts is read off the path's own held stretch; from there
+    # the time to 50 °C is (T_max − 50)/r (one grid minute of rounding)
+    from planner.ship.thermal import blend_line, set_point_c
+
+    grid = np.arange(0.0, curve.time_h[-1] + 1 / 120, 1 / 60)
+    wg = np.array([np.interp(grid, curve.time_h, x) for x in curve.mass_fractions])
+    sp = set_point_c(*blend_line(curve.fuels, wg), w)
+    fall_h = float(grid[np.flatnonzero(sp < t_max)[0]])
+    assert p.at_limit_h - fall_h == pytest.approx((t_max - 50.0) / r / 60.0, abs=1.5 / 60)
+    # the span left: the distillate is mainly mgo before the temperature is down to 50 °C,
+    # so a real ship has this too, and the warning stays (the old fuel may not be cooler)
+    assert p.span is not None
+    assert p.span.max_temperature_c == pytest.approx(
+        t_max - r * 60.0 * (p.span.from_h - fall_h), abs=r * 1.5)

@@ -126,3 +126,27 @@ def test_bad_values_are_one_clear_error(ship, table, place):
 def test_not_a_table(ship):
     with pytest.raises(InputError, match="an \\[uncertainty\\] table"):
         parse_uncertainty(5, "ship.toml", ship)
+
+
+def _load_refused(ship_file, voyage_file=None) -> str:
+    with pytest.raises(InputError) as err:
+        load_uncertainty(ship_file, None, voyage_file=voyage_file)
+    text = str(err.value)
+    assert "\n" not in text
+    return text
+
+
+def test_hostile_files_are_one_line_through_the_shared_reader(tmp_path):
+    # the behaviour of planner.common.input_files.read_toml (README "What input is refused")
+    assert "not a folder" in _load_refused(tmp_path)
+    assert "not a device, pipe or socket" in _load_refused("/dev/zero")
+    bad = tmp_path / "latin1.toml"
+    bad.write_bytes(b"[uncertainty]\n# caf\xe9\n")
+    text = _load_refused(bad)
+    assert text.startswith(str(bad)) and "line 2" in text and "0xe9" in text
+    nan = tmp_path / "nan.toml"
+    nan.write_text("[uncertainty]\nvolume_pct = nan\n", encoding="utf-8")
+    assert _load_refused(nan).startswith(str(nan))
+    # the voyage file is read by the same reader, and named in its message
+    assert _load_refused(SHIP, tmp_path).startswith(str(tmp_path))
+    assert "voyage file" in _load_refused(SHIP, tmp_path)
