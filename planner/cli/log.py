@@ -257,12 +257,15 @@ def _register_step(command: str, kind_name: str, doc: str) -> None:
     log_app.command(command)(step)
 
 
-_register_step("start", "STARTED", "Changeover to compliant fuel started (before entry).")
+_register_step("start", "STARTED", "Changeover to compliant fuel started (before entry, or before "
+               "the area comes into force while the ship is inside it).")
 _register_step("complete", "COMPLETED",
-               "Changeover to compliant fuel completed, before entry: regulation 14.6 record "
+               "Changeover to compliant fuel completed, before entry (or before the area "
+               "comes into force): regulation 14.6 record "
                "(time, position, --tank for each tank of compliant fuel).")
 _register_step("back", "BACK_COMMENCED",
-               "Changeover back to regular fuel commenced, after exit: regulation 14.6 record "
+               "Changeover back to regular fuel commenced, after exit (or after the area "
+               "ceases): regulation 14.6 record "
                "(time, position, --tank for each tank of compliant fuel).")
 _register_step("back-complete", "BACK_COMPLETED", "Changeover back to regular fuel completed.")
 

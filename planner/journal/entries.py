@@ -45,8 +45,9 @@ NOTE = "note"
 CORRECTION = "correction"
 
 CHANGEOVER_KINDS = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED)
-"""The four steps: to compliant fuel (started, completed before entry), back to regular
-fuel (commenced after exit, completed)."""
+"""The four steps: to compliant fuel (started, completed before entry or before the area
+comes into force), back to regular fuel (commenced after exit or after the area ceases,
+completed)."""
 
 REG14_KINDS = (COMPLETED, BACK_COMMENCED)
 """The two moments regulation 14.6 asks to be recorded with the volume in each tank."""
@@ -84,6 +85,11 @@ CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE
 """Kinds a correction may correct (set-up and fuel entries are superseded by new ones)."""
 
 MAX_OFFSET_MIN = 14 * 60
+
+BOUNDARY_EVENTS = ("enter", "exit", "comes_into_force", "ceases", "departure", "cap_change")
+"""What a planned boundary may be (the plan JSON's ``boundary_event``, docs/json-contract.md):
+a crossing (``enter``, ``exit``) or a moment on the clock (the others, see
+:mod:`planner.journal.events`)."""
 
 
 def _aware_utc(cls: str, name: str, value: object) -> None:
@@ -134,7 +140,11 @@ class Planned:
     planned start, or the time the fuel at the consumers is planned to be
     compliant); ``boundary_*``: the planned boundary crossing; ``margin_h``:
     the plan's margin, hours; ``flush_h``: the modelled time from the planned
-    start to compliant fuel (or back on regular fuel), hours.
+    start to compliant fuel (or back on regular fuel), hours; ``event``: what the
+    boundary is (:data:`BOUNDARY_EVENTS`; None in a plan made before the key existed:
+    a crossing), and ``clock_deadline`` whether it is a moment on the clock (an area
+    coming into force while the ship is inside, a departure...) rather than a crossing;
+    for such a moment ``boundary`` is where the ship then is.
     """
 
     source: str
@@ -148,8 +158,16 @@ class Planned:
     boundary: Position | None
     margin_h: float | None
     flush_h: float | None = field(default=None, metadata=ADDED)
+    event: str | None = field(default=None, metadata=ADDED)
+    clock_deadline: bool = field(default=False, metadata=ADDED)
 
     def __post_init__(self) -> None:
+        if self.event is not None and self.event not in BOUNDARY_EVENTS:
+            raise ValueError(f"Planned.event must be one of {BOUNDARY_EVENTS}, "
+                             f"got {self.event!r}")
+        if not isinstance(self.clock_deadline, bool):
+            raise ValueError(f"Planned.clock_deadline must be true or false, "
+                             f"got {self.clock_deadline!r}")
         if not isinstance(self.source, str) or not self.source:
             raise ValueError(f"Planned.source must be text, got {self.source!r}")
         if isinstance(self.changeover, bool) or not isinstance(self.changeover, int) \

@@ -74,7 +74,7 @@ def test_init_takes_the_ship_file(kestrel):
 
 @pytest.mark.parametrize(("target", "needle"), [
     ("none.toml", "expected an existing ship file"),
-    (".", "expected an existing ship file"),
+    (".", "expected a ship file (TOML), not a folder"),
 ])
 def test_init_refuses_a_bad_ship_file_and_writes_nothing(tmp_path, target, needle):
     r = run(tmp_path / "j.db", "init", "--ship-file", str(tmp_path / target), "--tz", "Z")
