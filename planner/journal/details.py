@@ -14,6 +14,7 @@ from datetime import date
 from typing import ClassVar
 
 from planner.common.imo import imo_check_digit, valid_imo  # noqa: F401  (re-exported)
+from planner.fuels.fuel import MAX_SULPHUR_PCT  # the fuel ceiling, 4.50 % m/m
 from planner.fuels.volume import (
     TABLE_54B_MAX_DENSITY_KG_M3,
     TABLE_54B_MIN_DENSITY_KG_M3,
@@ -27,8 +28,6 @@ MAX_TANK_VOLUME_M3 = 1e5
 TANK_TEMPERATURE_RANGE_C = (-10.0, 150.0)
 """Temperatures accepted for a sounding, °C (as in the voyage file)."""
 
-MAX_SULPHUR_PCT = 5.0
-"""Largest sulphur content accepted, % m/m (the highest global cap was 4.50)."""
 
 MAX_BUNKER_T = 1e6
 """Largest quantity bunkered accepted, tonnes (a typo guard)."""

@@ -14,16 +14,17 @@ one column (``name: observed m³ @ °C = m³ at 15 °C, t``) with the totals
 beside it. A cell a spreadsheet would run as a formula (text starting with
 ``=``, ``+``, ``-``, ``@``, a tab or a carriage return) is written with a
 single quote in front, so it is read as text [OWASP-CSV]; plain numbers
-(``-39.823333``) are left as they are.
+(``-39.823333``) are left as they are (:func:`planner.common.csv_cells.safe_cell`, the one
+neutraliser every CSV of the program uses).
 """
 
 from __future__ import annotations
 
 import csv
 import io
-import re
 from collections.abc import Iterable
 
+from planner.common.csv_cells import safe_cell
 from planner.common.timefmt import format_ship
 from planner.journal.codec import encode, iso
 from planner.journal.describe import position_text
@@ -120,20 +121,6 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
                    planned_position=position_text(p.position) if p.position else "",
                    planned_boundary_utc=iso(p.boundary_utc) if p.boundary_utc else "")
     return row
-
-
-FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
-"""First characters that make a spreadsheet read a cell as a formula [OWASP-CSV]."""
-
-_PLAIN_NUMBER = re.compile(r"^-?\d+(?:\.\d+)?$")
-
-
-def safe_cell(text: str) -> str:
-    """``text`` as a CSV cell no spreadsheet runs: ``'`` put before a formula-looking start
-    [OWASP-CSV]; a plain number (``-39.823333``) kept as it is."""
-    if text.startswith(FORMULA_START) and not _PLAIN_NUMBER.match(text):
-        return "'" + text
-    return text
 
 
 def export_csv(stored: Iterable[Stored], state: JournalState) -> str:

@@ -174,11 +174,7 @@ def _time(item: dict, key: str, file: str, place: str, required: bool) -> dateti
         return None
     if not isinstance(v, str):
         raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time")
-    try:
-        return parse_moment(v, file=file, place=f"{place}.{key}")
-    except OverflowError:
-        raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time of a year a "
-                                                    "ship's record can hold") from None
+    return parse_moment(v, file=file, place=f"{place}.{key}")
 
 
 def _event(item: dict, file: str, place: str) -> str | None:
