@@ -5,8 +5,9 @@ environment variable). Entries are checked and written in one transaction:
 bad input is one line on standard error, exit status 2, nothing written.
 This module holds ``log_app`` and the commands that write entries (init,
 setup, fuel, the four changeover steps, tanks, sample, note, correct); the
-options are in :mod:`planner.cli.log_options` and the commands that read the
-journal (show, verify, export, print) in :mod:`planner.cli.log_read`,
+options are in :mod:`planner.cli.log_options`, the commands that read the
+journal (show, verify, export, print) in :mod:`planner.cli.log_read` and the
+trend attachment (trend, export-trend) in :mod:`planner.cli.log_trend`,
 registered here.
 """
 
@@ -17,7 +18,7 @@ from typing import TYPE_CHECKING, Annotated
 
 import typer
 
-from planner.cli import log_read
+from planner.cli import log_read, log_trend
 from planner.cli.log_options import (
     AreaOpt,
     AsPlannedOpt,
@@ -71,11 +72,23 @@ def _typed(rank: str | None, name: str | None, at: str | None = None, tz: str | 
 
 def _append(journal: Path | None, make: Make | list[Make]) -> None:
     """Append one entry (or several, in one transaction) and print their summaries."""
+    _append_files(journal, make if isinstance(make, list) else [make], [])
+
+
+def _who_of(rank: str | None, name: str | None):
+    """Who signs, from ``--rank``/``--name`` (or the environment): one line if missing."""
+    from planner.journal.compose import _who
+
+    return _who(_typed(rank, name))
+
+
+def _append_files(journal: Path | None, makes: list[Make], files: list[bytes]) -> None:
+    """Append entries and the attached files' bytes in one transaction; print summaries."""
     from planner.journal import Journal
     from planner.journal.describe import summary
 
     with Journal.open(journal_path(journal)) as j:
-        stored = j.append_many(make if isinstance(make, list) else [make])
+        stored = j.append_many(makes, files)
         state = j.state()
         for s in stored:
             for line in summary(s, state):
@@ -342,6 +355,8 @@ def correct_cmd(
     _append(journal, correction_entry(entry, t, reason, void, text, number, seal, point))
 
 
+log_app.command("trend")(log_trend.trend_cmd)
+log_app.command("export-trend")(log_trend.export_trend_cmd)
 log_app.command("show")(log_read.show_cmd)
 log_app.command("verify")(log_read.verify_cmd)
 log_app.command("export")(log_read.export_cmd)

@@ -37,6 +37,7 @@ from planner.documents.record_pdf_cells import (
     others_section,
     ship_time,
     short_text,
+    trend_lines,
 )
 from planner.journal.book import Book, Changeover, Line, Version
 from planner.journal.describe import (
@@ -265,6 +266,7 @@ def _changeover(i: int | None, ch: Changeover) -> list:
     for line in ch.steps:
         if line.kind in REG14_KINDS:
             parts += _tanks_section(line)
+    parts += [para(t, "small") for t in trend_lines(ch.trends)]
     who = []
     for line in ch.steps:
         for v in line.versions:

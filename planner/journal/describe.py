@@ -81,6 +81,22 @@ def sample_and_text(d: object) -> list[str]:
     return out
 
 
+def trend_text(d: object) -> list[str]:
+    """A trend attachment in words: ``trend ME_inlet.csv, 48 213 bytes, SHA-256 ...``, the
+    entry it belongs to, the switch time and the column mapping when given (else ``[]``)."""
+    if getattr(d, "sha256", None) is None:
+        return []
+    out = [f"trend {d.file_name}, {d.size_bytes} bytes, SHA-256 {d.sha256}",
+           f"attached to entry {d.attaches}"]
+    if d.switch_utc is not None:
+        out.append(f"valve switched {format_utc(d.switch_utc)}")
+    if d.columns:
+        out.append("columns " + ", ".join(d.columns))
+    if d.tz:
+        out.append(f"times without an offset are UTC{d.tz}")
+    return out
+
+
 def minutes_text(delta_h: float) -> str:
     """``1 h 05 min`` / ``25 min`` from hours (sign dropped)."""
     m = round(abs(delta_h) * 60.0)
@@ -239,6 +255,7 @@ def summary(s: Stored, state: JournalState) -> list[str]:
                          f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
             lines += [f"  {x}" for x in bdn_items(d.fuel)]
         lines += ["  " + x for x in sample_and_text(d)]
+        lines += ["  " + x for x in trend_text(d)]
         lines += ["  " + x for x in against_plan(e.subject_kind, r)]
         lines += ["  warning: " + x for x in warnings(e.subject_kind, r)]
         lines += ["  warning confirmed (--confirm): " + x for x in r.confirmed]

@@ -31,6 +31,7 @@ from planner.journal.details import (
     SampleDetails,
     SetupDetails,
     TankDetails,
+    TrendDetails,
 )
 
 SETUP = "setup"
@@ -42,6 +43,7 @@ BACK_COMPLETED = "back_completed"
 TANKS = "tanks"
 SAMPLE = "sample"
 NOTE = "note"
+TREND = "trend"
 CORRECTION = "correction"
 
 CHANGEOVER_KINDS = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED)
@@ -69,6 +71,7 @@ LABELS = {
     TANKS: "tank soundings",
     SAMPLE: "fuel sample",
     NOTE: "note",
+    TREND: "trend file attached",
     CORRECTION: "correction",
 }
 """What each kind means, in words (the relation of a step to the boundary, before or after
@@ -77,11 +80,11 @@ it, is said from the facts where the entry is shown: ``describe.step_heading``).
 DETAILS_OF = {SETUP: SetupDetails, FUEL: FuelDetails, STARTED: ChangeoverDetails,
               COMPLETED: ChangeoverDetails, BACK_COMMENCED: ChangeoverDetails,
               BACK_COMPLETED: ChangeoverDetails, TANKS: TankDetails, SAMPLE: SampleDetails,
-              NOTE: NoteDetails}
+              NOTE: NoteDetails, TREND: TrendDetails}
 """The details class each (non-correction) kind carries."""
 
 KINDS = tuple(LABELS)
-CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE, NOTE)
+CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE, NOTE, TREND)
 """Kinds a correction may correct (set-up and fuel entries are superseded by new ones)."""
 
 MAX_OFFSET_MIN = 14 * 60
