@@ -72,27 +72,7 @@ def _typed(rank: str | None, name: str | None, at: str | None = None, tz: str | 
 
 def _append(journal: Path | None, make: Make | list[Make]) -> None:
     """Append one entry (or several, in one transaction) and print their summaries."""
-    _append_files(journal, make if isinstance(make, list) else [make], [])
-
-
-def _who_of(rank: str | None, name: str | None):
-    """Who signs, from ``--rank``/``--name`` (or the environment): one line if missing."""
-    from planner.journal.compose import _who
-
-    return _who(_typed(rank, name))
-
-
-def _append_files(journal: Path | None, makes: list[Make], files: list[bytes]) -> None:
-    """Append entries and the attached files' bytes in one transaction; print summaries."""
-    from planner.journal import Journal
-    from planner.journal.describe import summary
-
-    with Journal.open(journal_path(journal)) as j:
-        stored = j.append_many(makes, files)
-        state = j.state()
-        for s in stored:
-            for line in summary(s, state):
-                typer.echo(line)
+    log_trend.append_files(journal, make if isinstance(make, list) else [make], [])
 
 
 def _step(kind: str, journal: Path | None, rank: str | None, name: str | None, at: str | None,

@@ -38,14 +38,28 @@ def trend_cmd(
     journal: JournalOpt = None, rank: RankOpt = None, name: NameOpt = None,
 ) -> None:
     """Attach a trend file to a changeover entry (stored with its SHA-256 in the chain)."""
-    from planner.cli.log import _append_files, _who_of
     from planner.journal.attach import parse_columns, read_trend_bytes, trend_entry
+    from planner.journal.compose import Typed, _who
 
-    who = _who_of(rank, name)
+    who = _who(Typed(rank, name))
     columns = parse_columns(column or [])
     data = read_trend_bytes(trend)
     make = trend_entry(entry, who, trend.name, data, switch_at, columns, trend_tz, remarks)
-    _append_files(journal, [make], [data])
+    append_files(journal, [make], [data])
+
+
+def append_files(journal: Path | None, makes: list, files: list[bytes]) -> None:
+    """Append entries and the attached files' bytes in one transaction and print the
+    entries' summaries (every ``log`` command that writes goes through here)."""
+    from planner.journal import Journal
+    from planner.journal.describe import summary
+
+    with Journal.open(journal_path(journal)) as j:
+        stored = j.append_many(makes, files)
+        state = j.state()
+        for s in stored:
+            for line in summary(s, state):
+                typer.echo(line)
 
 
 def export_trend_cmd(

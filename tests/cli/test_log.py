@@ -496,7 +496,8 @@ def test_exported_files_get_the_users_umask(flow, tmp_path):
     (b"\xff\xfe{}", "expected valid JSON (UTF-8)"),
     (b'{"changeovers": [{"number": 1, "area": "A", "direction": "to_compliant", '
      b'"start_utc": "0001-01-01T00:00+14:00", "start_lat": 1, "start_lon": 1}]}',
-     "changeovers[0].start_utc: '0001-01-01T00:00+14:00': expected an ISO 8601 time of a year between 2 and 9998"),
+     "changeovers[0].start_utc: '0001-01-01T00:00+14:00': expected an ISO 8601 time of a "
+     "year between 2 and 9998"),
     (b"[" * 100000, "expected valid JSON"),
 ])
 def test_hostile_plan_files_are_one_line(flow, tmp_path, content, needle):
