@@ -154,8 +154,8 @@ def relation_text(kind: str, r: Record) -> str:
     event = event_of(r.planned, r.planned.direction)
     what = moment_word(event)
     verb = VERB.get(kind, "written")
-    if m == 0:
-        return f"{verb} at {what}"
+    if m == 0:  # "at entry", "as the area came into force"
+        return f"{verb} {'at' if event in ('enter', 'exit', 'departure') else 'as'} {what}"
     return (f"{verb} {alongside(event, m > 0)}{minutes_text(m / 60.0)} "
             f"{'before' if m > 0 else 'after'} {what}")
 
