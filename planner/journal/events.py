@@ -80,14 +80,16 @@ def goal_text(event: str, direction: str, area: str) -> str:
         if event == "comes_into_force":
             return f"to compliant fuel before {area} came into force (the ship inside it)"
         if event == "departure":
-            return f"to compliant fuel alongside before departure, inside {area}"
+            return ("to compliant fuel alongside before departure" if area == "departure"
+                    else f"to compliant fuel alongside before departure, inside {area}")
         if event == "cap_change":
             return f"to compliant fuel before the sulphur cap changed ({area})"
         return f"to compliant fuel before entering {area}"
     if event == "ceases":
         return f"back to regular fuel after {area} ceased to be in force (the ship inside it)"
-    if event == "departure":
-        return f"back to regular fuel at departure, {area}"
+    if event == "departure":  # a plan names the area of a switch back at departure so
+        return "back to regular fuel at departure" + (
+            "" if area == "departure" else f", {area}")
     if event == "cap_change":
         return f"back to regular fuel after the sulphur cap changed ({area})"
     return f"back to regular fuel after leaving {area}"

@@ -88,3 +88,15 @@ def test_an_unknown_event_is_refused():
     with pytest.raises(ValueError, match="Planned.event"):
         Planned("p", 1, "to_compliant", "A", None, None, None, None, None, None, None,
                 "arrival")
+
+
+def test_a_switch_back_at_departure_reads_as_such():
+    """The plan names a switch back commenced at departure with area "departure"."""
+    from planner.journal.events import goal_text
+
+    assert goal_text("departure", "to_regular", "departure") == \
+        "back to regular fuel at departure"
+    assert goal_text("comes_into_force", "to_compliant", "Tarrow Approaches ECA") == \
+        "to compliant fuel before Tarrow Approaches ECA came into force (the ship inside it)"
+    r = _record(BACK_COMMENCED, 0, "departure")
+    assert relation_text(BACK_COMMENCED, r) == "commenced at departure"
