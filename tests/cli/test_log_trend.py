@@ -226,3 +226,13 @@ def test_calibrate_refuses_altered_stored_bytes(j):
     conn.close()
     one_line_exit_2(_calibrate("--journal", str(j), "--entry", "9"),
                     "stored bytes match the SHA-256")
+
+
+def test_the_csv_export_names_the_trend(base):
+    import csv
+    import io
+
+    rows = list(csv.DictReader(io.StringIO(ok(base["journal"], "export", "--format", "csv"))))
+    row = next(r for r in rows if r["seq"] == "9")
+    digest = hashlib.sha256(TREND.read_bytes()).hexdigest()
+    assert row["kind"] == "trend" and digest in row["text"] and "attached to entry 5" in row["text"]
