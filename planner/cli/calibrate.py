@@ -31,11 +31,19 @@ ADVISORY = ("Advisory only: a calibrated model is an estimate from the logged tr
 
 def calibrate_cmd(
     ship: Annotated[Path, typer.Argument(help="Ship file (TOML).")],
-    trends: Annotated[list[Path], typer.Argument(help="Trend CSV file(s): time, inlet "
-                                                 "temperature °C, inlet viscosity cSt.")],
-    switch_at: Annotated[list[str], typer.Option(
+    trends: Annotated[list[Path] | None, typer.Argument(
+        help="Trend CSV file(s): time, inlet temperature °C, inlet viscosity cSt (or take "
+             "them from the journal: --journal with --entry).")] = None,
+    switch_at: Annotated[list[str] | None, typer.Option(
         "--switch-at", help="When the changeover valve was switched, ISO 8601 (with offset, "
-        "or in --tz); one per trend, in the trends' order.")],
+        "or in --tz); one per trend file, in the trends' order.")] = None,
+    journal: Annotated[Path | None, typer.Option(
+        help="The ship's journal holding trends attached with log trend (with --entry).")]
+        = None,
+    entry: Annotated[list[int] | None, typer.Option(
+        help="A trend entry of --journal (log trend): its stored trend, checked against its "
+             "SHA-256, with its switch time (else the changeover start's) and column "
+             "names; repeatable.")] = None,
     circuit: Annotated[str | None, typer.Option(help="Circuit whose valve was switched "
                                                 "(default the ship's first).")] = None,
     from_: Annotated[str | None, typer.Option("--from", help="Fuel or tank changed from "
@@ -94,7 +102,16 @@ def calibrate_cmd(
         raise InputError("--write", "", str(write), "a new file, not the ship file itself")
     system = load_ship(ship)
     change = _changeover(system, circuit, from_, to, inlet, load)
-    read = _trends(trends, switch_at, tz, time_col, temp_col, visc_col, load_col)
+    read = _trends(trends or [], switch_at or [], tz, time_col, temp_col, visc_col, load_col)
+    named_journal: list[str] = []
+    if entry or journal is not None:
+        from planner.cli.calibrate_journal import journal_trends
+
+        more, named_journal = journal_trends(journal, entry or [], tz, time_col, temp_col,
+                                             visc_col, load_col)
+        read += more
+    if not read:
+        raise InputError("TREND.csv", "", None, "a trend file, or --journal with --entry")
     changes = [_logged(system, change, tr) for tr in read]
     try:
         params = parameters(system, change.circuit, fit)
@@ -113,11 +130,12 @@ def calibrate_cmd(
             import hashlib
 
             named = [f"{t.name} (SHA-256 {hashlib.sha256(t.read_bytes()).hexdigest()})"
-                     for t in trends]
+                     for t in trends or []] + named_journal
             text = calibrated_text(ship.read_text(encoding="utf-8-sig"), str(write), system,
                                    spec, cal, named, datetime.now(UTC))
     except (CalibrationError, BlendError) as e:
-        raise InputError(", ".join(str(t) for t in trends), "calibration", str(e),
+        raise InputError(", ".join([str(t) for t in trends or []] + named_journal),
+                         "calibration", str(e),
                          "trends that determine the fitted parameters") from None
     doc = calibration_json(system, change, cal, ttt)
     if chart is not None:

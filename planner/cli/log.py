@@ -5,8 +5,9 @@ environment variable). Entries are checked and written in one transaction:
 bad input is one line on standard error, exit status 2, nothing written.
 This module holds ``log_app`` and the commands that write entries (init,
 setup, fuel, the four changeover steps, tanks, sample, note, correct); the
-options are in :mod:`planner.cli.log_options` and the commands that read the
-journal (show, verify, export, print) in :mod:`planner.cli.log_read`,
+options are in :mod:`planner.cli.log_options`, the commands that read the
+journal (show, verify, export, print) in :mod:`planner.cli.log_read` and the
+trend attachment (trend, export-trend) in :mod:`planner.cli.log_trend`,
 registered here.
 """
 
@@ -17,7 +18,7 @@ from typing import TYPE_CHECKING, Annotated
 
 import typer
 
-from planner.cli import log_read
+from planner.cli import log_read, log_trend
 from planner.cli.log_options import (
     AreaOpt,
     AsPlannedOpt,
@@ -71,15 +72,7 @@ def _typed(rank: str | None, name: str | None, at: str | None = None, tz: str | 
 
 def _append(journal: Path | None, make: Make | list[Make]) -> None:
     """Append one entry (or several, in one transaction) and print their summaries."""
-    from planner.journal import Journal
-    from planner.journal.describe import summary
-
-    with Journal.open(journal_path(journal)) as j:
-        stored = j.append_many(make if isinstance(make, list) else [make])
-        state = j.state()
-        for s in stored:
-            for line in summary(s, state):
-                typer.echo(line)
+    log_trend.append_files(journal, make if isinstance(make, list) else [make], [])
 
 
 def _step(kind: str, journal: Path | None, rank: str | None, name: str | None, at: str | None,
@@ -257,12 +250,15 @@ def _register_step(command: str, kind_name: str, doc: str) -> None:
     log_app.command(command)(step)
 
 
-_register_step("start", "STARTED", "Changeover to compliant fuel started (before entry).")
+_register_step("start", "STARTED", "Changeover to compliant fuel started (before entry, or before "
+               "the area comes into force while the ship is inside it).")
 _register_step("complete", "COMPLETED",
-               "Changeover to compliant fuel completed, before entry: regulation 14.6 record "
+               "Changeover to compliant fuel completed, before entry (or before the area "
+               "comes into force): regulation 14.6 record "
                "(time, position, --tank for each tank of compliant fuel).")
 _register_step("back", "BACK_COMMENCED",
-               "Changeover back to regular fuel commenced, after exit: regulation 14.6 record "
+               "Changeover back to regular fuel commenced, after exit (or after the area "
+               "ceases): regulation 14.6 record "
                "(time, position, --tank for each tank of compliant fuel).")
 _register_step("back-complete", "BACK_COMPLETED", "Changeover back to regular fuel completed.")
 
@@ -339,6 +335,8 @@ def correct_cmd(
     _append(journal, correction_entry(entry, t, reason, void, text, number, seal, point))
 
 
+log_app.command("trend")(log_trend.trend_cmd)
+log_app.command("export-trend")(log_trend.export_trend_cmd)
 log_app.command("show")(log_read.show_cmd)
 log_app.command("verify")(log_read.verify_cmd)
 log_app.command("export")(log_read.export_cmd)

@@ -2,9 +2,10 @@
 
 A cell beginning with ``=``, ``+``, ``-`` or ``@`` (or a tab or carriage
 return) may be run as a formula when the file is opened in a spreadsheet
-(CSV injection; common practice: prefix such a cell with an apostrophe).
+(CSV injection, OWASP's guidance [OWASP-CSV]: prefix such a cell with an apostrophe).
 A plain number (``-39.823815``, ``+12``) is left as it is, so figures stay
-figures; anything else that looks like a formula gets the apostrophe.
+figures; anything else that looks like a formula gets the apostrophe. The one
+neutraliser of the program: the tables' ``--csv`` and the journal's ``log export`` use it.
 """
 
 from __future__ import annotations

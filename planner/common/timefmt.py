@@ -39,7 +39,11 @@ def parse_moment(text: str, *, file: str = "--depart", place: str = "") -> datet
                          "such as 2027-05-29T08:00+12:00") from None
     if moment.tzinfo is None:
         raise InputError(file, place, text, "a time with its UTC offset (add Z or +hh:mm)")
-    return moment.astimezone(UTC)
+    try:
+        return moment.astimezone(UTC)
+    except OverflowError:  # year 1 east of UTC, or year 9999 west of it
+        raise InputError(file, place, text, "an ISO 8601 time of a year between 2 and "
+                         "9998") from None
 
 
 def parse_day(text: str, *, file: str = "--on", place: str = "") -> date:

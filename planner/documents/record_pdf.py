@@ -7,7 +7,8 @@ printed. Then the fuels named, with sulphur and delivery-note references;
 then each changeover: every step's entry number, date, time in UTC and in
 ship's time, position and what was planned; the fuel and its sulphur; the
 volume of compliant fuel in each tank (observed, at 15 °C by Table 54B [TABLE-54B], and
-mass); the margin to the planned boundary crossing; and lines for the chief
+mass); the margin to the planned boundary (a crossing, or a moment on the clock such as
+the area coming into force while the ship is inside it); and lines for the chief
 engineer and the master to sign. A corrected entry is printed struck through
 with the correction under it, never left out. Other entries (tank soundings,
 samples, notes) follow in one table. reportlab is imported inside functions.
@@ -36,6 +37,7 @@ from planner.documents.record_pdf_cells import (
     others_section,
     ship_time,
     short_text,
+    trend_lines,
 )
 from planner.journal.book import Book, Changeover, Line, Version
 from planner.journal.describe import (
@@ -52,14 +54,23 @@ from planner.journal.entries import (
     REG14_KINDS,
     Record,
 )
+from planner.journal.events import event_of, goal_text
 from planner.journal.verify import VerifyReport
 
 TITLE = "Fuel changeover record"
 SUBTITLE = ("MARPOL Annex VI regulation 14.6: the changeover to compliant fuel completed before "
-            "entry into an emission control area, and the changeover to regular fuel commenced "
-            "after exit, with the volume of compliant fuel in each tank. Printed from the ship's "
-            "journal, where entries are never changed: a correction is printed beside the "
-            "struck-through original.")
+            "entry into an emission control area (or before the area comes into force while "
+            "the ship is inside it), and the changeover to regular fuel commenced after exit "
+            "(or after the area ceases to be in force), with the volume of compliant fuel in "
+            "each tank. Printed from the ship's journal, where entries are never changed: a "
+            "correction is printed beside the struck-through original.")
+
+
+def goal(ch: Changeover) -> str:
+    """What the changeover is for, from its planned boundary (a crossing by default)."""
+    return goal_text(event_of(ch.planned, ch.direction), ch.direction, ch.area)
+
+
 def _plannedcell(r: Record) -> list[str]:
     p = r.planned
     if p is None:
@@ -205,8 +216,7 @@ def _summary(book: Book) -> list:
     rows = []
     for i, ch in numbered(book):
         key = _key_step(ch)
-        what = (f"to compliant fuel before entering {ch.area}" if ch.direction == "to_compliant"
-                else f"back to regular fuel after leaving {ch.area}")
+        what = goal(ch)
         if ch.circuit:
             what += f" ({ch.circuit})"
         if i is None:
@@ -238,9 +248,7 @@ def _changeover(i: int | None, ch: Changeover) -> list:
     from reportlab.platypus import KeepTogether
 
     name = f"Changeover {i}" if i is not None else "Struck out, not a changeover"
-    head = (f"{name}: to compliant fuel before entering {ch.area}"
-            if ch.direction == "to_compliant" else
-            f"{name}: back to regular fuel after leaving {ch.area}")
+    head = f"{name}: {goal(ch)}"
     facts = [x for x in (f"circuit {ch.circuit}" if ch.circuit else "",
                          f"voyage {ch.voyage}" if ch.voyage else "") if x]
     parts = [para(head, "h1")]
@@ -258,6 +266,7 @@ def _changeover(i: int | None, ch: Changeover) -> list:
     for line in ch.steps:
         if line.kind in REG14_KINDS:
             parts += _tanks_section(line)
+    parts += [para(t, "small") for t in trend_lines(ch.trends)]
     who = []
     for line in ch.steps:
         for v in line.versions:
@@ -274,8 +283,8 @@ def _changeover(i: int | None, ch: Changeover) -> list:
         parts.append(caution_box("Check this changeover", warn))
     if not any(line.kind in REG14_KINDS for line in ch.steps if not line.struck):
         parts.append(caution_box("Not complete", [
-            "No completion before entry (or commencement after exit) is recorded for this "
-            "changeover in the selection: regulation 14.6 asks for that record."]))
+            "No completion of this changeover (or commencement of the change back) is recorded "
+            "in the selection: regulation 14.6 asks for that record."]))
     sign = signature_block(["Chief engineer", "Master"])
     return [KeepTogether(parts + sign)] + long_texts(_free_texts(ch.steps))
 

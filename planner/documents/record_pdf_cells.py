@@ -12,7 +12,7 @@ from __future__ import annotations
 from planner.common.timefmt import format_offset, format_utc
 from planner.documents.pdf_common import FRAME_WIDTH_MM, Markup, data_table, esc, para
 from planner.journal.book import Line, Version
-from planner.journal.describe import fuel_text, position_text, sample_and_text
+from planner.journal.describe import fuel_text, position_text, sample_and_text, trend_text
 from planner.journal.entries import LABELS, Record
 
 GREY = "#6b6b6b"
@@ -97,7 +97,26 @@ def other_details(v: Version) -> list[str]:
         out.append(f"{t.tank}: {t.volume_m3:.3f} m³ @ {t.temperature_c:.1f} °C = "
                    f"{t.volume15_m3:.3f} m³ at 15 °C, {t.mass_t:.3f} t")
     out += [short_text(x, v.stored.seq) for x in sample_and_text(d)]
+    out += trend_text(d)
     out += [f"confirmed when written: {w}" for w in r.confirmed]
     e = v.stored.entry
     out.append(f"by {e.who.rank} {e.who.name}")
+    return out
+
+
+def trend_lines(trends: tuple[Line, ...]) -> list[str]:
+    """One sentence per trend file attached to a changeover's steps (a struck-out one said
+    so), with how to get the stored bytes back."""
+    out = []
+    for line in trends:
+        v = line.standing
+        e = line.versions[0].stored.entry
+        words = "; ".join(trend_text(line.record.details))
+        if line.struck:
+            out.append(f"Trend file of entry {line.seq} struck out by entry {v.stored.seq} "
+                       f"({v.reason or ''}): {words}.")
+            continue
+        out.append(f"Trend file attached, entry {line.seq} by {e.who.rank} {e.who.name}: "
+                   f"{words}. Kept in the journal: changeover log export-trend {line.seq} "
+                   "OUT.csv writes it back, checked against this hash.")
     return out

@@ -4,7 +4,8 @@ Pure data for printing and listing (no I/O): :func:`select` picks the
 original entries of a voyage, an area or a period, each as a :class:`Line`
 holding the original and all its corrections; :func:`make_book` groups the
 changeover steps into :class:`Changeover` s (a start with the completion that
-follows it) and keeps tank soundings, samples and notes apart.
+follows it), each with the trend files attached to its steps, and keeps tank soundings,
+samples and notes (and a trend whose changeover is outside the selection) apart.
 """
 
 from __future__ import annotations
@@ -19,6 +20,7 @@ from planner.journal.entries import (
     CORRECTABLE,
     DIRECTION,
     FOLLOWS,
+    TREND,
     Planned,
     Record,
 )
@@ -70,6 +72,7 @@ class Changeover:
     circuit: str | None
     voyage: str | None
     steps: tuple[Line, ...]
+    trends: tuple[Line, ...] = ()  # trend files attached to its steps (log trend)
 
     @property
     def struck(self) -> bool:
@@ -163,15 +166,23 @@ def make_book(state: JournalState, voyage: str | None = None, area: str | None =
         groups.append(group)
         if line.kind in FOLLOWS.values():
             by_start[line.seq] = group
+    trends = [x for x in lines if x.kind == TREND]
+
+    def attached(group: list[Line]) -> tuple[Line, ...]:
+        seqs = {x.seq for x in group}
+        return tuple(t for t in trends if t.record.details.attaches in seqs)
+
     changeovers = tuple(Changeover(DIRECTION[g[0].kind], g[0].record.area or "",
-                                   g[0].record.circuit, g[0].record.voyage, tuple(g))
+                                   g[0].record.circuit, g[0].record.voyage, tuple(g),
+                                   attached(g))
                         for g in groups)
+    shown = {t.seq for ch in changeovers for t in ch.trends}
     used: dict[str, FuelSpec] = {}
     for line in lines:
         for v in line.versions:
             for f in (v.record.fuels if v.record else ()):
                 used.setdefault(f"{f.fuel.name}\n{f.fuel.bdn_ref}", f.fuel)
-    others = tuple(x for x in lines if x.kind not in CHANGEOVER_KINDS)
+    others = tuple(x for x in lines if x.kind not in CHANGEOVER_KINDS and x.seq not in shown)
     return Book(state.ship_name or "", state.imo_number or "", tuple(used.values()),
                 changeovers, others, describe_selection(voyage, area, since, until),
                 len(state.stored), state.last_seq, state.last_hash)

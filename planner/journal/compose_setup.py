@@ -15,6 +15,7 @@ from __future__ import annotations
 import dataclasses
 
 from geo.errors import InputError
+from planner.fuels.fuel import MAX_SULPHUR_PCT
 from planner.journal.compose import Builder, Typed, _entry, _simple, _when, _who
 from planner.journal.details import (
     FuelDetails,
@@ -70,8 +71,9 @@ def fuel_entry(t: Typed, name: str, grade: str, sulphur_pct: float | None,
                density15_kg_m3: float | None, bdn_ref: str | None, **items: object) -> Builder:
     """A fuel on board with its delivery-note data, for later entries to name; ``items``
     are the optional ones of :data:`BDN_OPTIONS` (None: not given)."""
-    if sulphur_pct is None or not 0.0 <= sulphur_pct <= 5.0:
-        raise InputError("--sulphur", "", sulphur_pct, "% m/m from the delivery note, 0 to 5")
+    if sulphur_pct is None or not 0.0 <= sulphur_pct <= MAX_SULPHUR_PCT:
+        raise InputError("--sulphur", "", sulphur_pct, f"% m/m from the delivery note, 0 to "
+                         f"{MAX_SULPHUR_PCT:.2f} (the highest global limit there has been)")
     if density15_kg_m3 is None or not 653.0 <= density15_kg_m3 <= 1075.0:
         raise InputError("--density", "", density15_kg_m3,
                          "kg/m³ at 15 °C from the delivery note, 653 to 1075 (Table 54B)")

@@ -44,7 +44,9 @@ def entry_warnings(kind: str, r: Record, state: JournalState, written_utc: datet
         start = state.current(follows) if follows in state.stored else None
         if start is not None:
             took_h = (r.time_utc - start.time_utc).total_seconds() / 3600.0
-            if took_h < p.flush_h:
+            # whole minutes, as entries are written and shown (a planned start rounded to
+            # its minute must not make an as-planned completion look early)
+            if round(took_h * 60.0) < round(p.flush_h * 60.0):
                 what = "compliant" if kind == COMPLETED else "back on regular fuel"
                 out.append(f"completed {_span(took_h)} after its start (entry {follows}), "
                            f"sooner than the {_span(p.flush_h)} the plan ({p.source}) "

@@ -22,6 +22,13 @@ from planner.journal.entries import (
     Position,
     Record,
 )
+from planner.journal.events import (
+    alongside,
+    boundary_phrase,
+    event_of,
+    late_check,
+    moment_word,
+)
 from planner.journal.state import JournalState, Stored
 
 
@@ -74,6 +81,22 @@ def sample_and_text(d: object) -> list[str]:
     return out
 
 
+def trend_text(d: object) -> list[str]:
+    """A trend attachment in words: ``trend ME_inlet.csv, 48 213 bytes, SHA-256 ...``, the
+    entry it belongs to, the switch time and the column mapping when given (else ``[]``)."""
+    if getattr(d, "sha256", None) is None:
+        return []
+    out = [f"trend {d.file_name}, {d.size_bytes} bytes, SHA-256 {d.sha256}",
+           f"attached to entry {d.attaches}"]
+    if d.switch_utc is not None:
+        out.append(f"valve switched {format_utc(d.switch_utc)}")
+    if d.columns:
+        out.append("columns " + ", ".join(d.columns))
+    if d.tz:
+        out.append(f"times without an offset are UTC{d.tz}")
+    return out
+
+
 def minutes_text(delta_h: float) -> str:
     """``1 h 05 min`` / ``25 min`` from hours (sign dropped)."""
     m = round(abs(delta_h) * 60.0)
@@ -120,21 +143,27 @@ def boundary_minutes(r: Record) -> int | None:
 
 
 def relation_text(kind: str, r: Record) -> str:
-    """``completed 12 min after entry``, ``commenced at exit``, or ``""`` without a planned
-    boundary: what happened, in words, for the step of ``kind``."""
+    """``completed 12 min after entry``, ``commenced at exit``, ``completed 1 h 00 min
+    before the area came into force``, ``completed alongside 2 h 10 min before departure``,
+    or ``""`` without a planned boundary: what happened, in words, for the step of
+    ``kind``, measured against the planned boundary whatever it is (a crossing or a moment
+    on the clock, :mod:`planner.journal.events`)."""
     m = boundary_minutes(r)
     if m is None or r.planned is None:
         return ""
-    what = "entry" if r.planned.direction == "to_compliant" else "exit"
+    event = event_of(r.planned, r.planned.direction)
+    what = moment_word(event)
     verb = VERB.get(kind, "written")
-    if m == 0:
-        return f"{verb} at {what}"
-    return f"{verb} {minutes_text(m / 60.0)} {'before' if m > 0 else 'after'} {what}"
+    if m == 0:  # "at entry", "as the area came into force"
+        return f"{verb} {'at' if event in ('enter', 'exit', 'departure') else 'as'} {what}"
+    return (f"{verb} {alongside(event, m > 0)}{minutes_text(m / 60.0)} "
+            f"{'before' if m > 0 else 'after'} {what}")
 
 
 def step_heading(kind: str, r: Record | None) -> str:
     """The heading of a changeover step as it happened: ``Completed 12 min after entry``,
-    ``Commenced 16 min after exit``; ``Completed`` when no planned boundary is linked."""
+    ``Commenced 16 min after exit``, ``Completed 1 h 00 min before the area came into
+    force``; ``Completed`` when no planned boundary is linked."""
     base = STEP_NAME.get(kind, LABELS.get(kind, kind))
     if r is None or kind not in (COMPLETED, BACK_COMMENCED):
         return base
@@ -144,32 +173,34 @@ def step_heading(kind: str, r: Record | None) -> str:
 
 def boundary_text(kind: str, r: Record) -> str:
     """``planned boundary entry 2027-05-31 11:46Z at ...: completed 1 h 42 min before it``
-    (``... at it`` within half a minute)."""
+    (``... at it`` within half a minute); for a moment on the clock ``Tarrow Approaches
+    ECA came into force at 2027-06-12 00:00Z (...; the ship then at ...): completed
+    1 h 00 min before it``."""
     p = r.planned
     m = boundary_minutes(r)
     if p is None or m is None:
         return ""
-    what = "entry" if p.direction == "to_compliant" else "exit"
+    event = event_of(p, p.direction)
     margin = f" (the plan's margin {p.margin_h:.2f} h)" if p.margin_h is not None else ""
-    rel = "at it" if m == 0 else f"{minutes_text(m / 60.0)} {'before' if m > 0 else 'after'} it"
-    return (f"planned boundary {what} {format_utc(p.boundary_utc)}"
-            f"{' at ' + position_text(p.boundary) if p.boundary else ''}: "
-            f"{VERB.get(kind, 'written')} {rel}{margin}")
+    rel = "at it" if m == 0 else (f"{alongside(event, m > 0)}{minutes_text(m / 60.0)} "
+                                  f"{'before' if m > 0 else 'after'} it")
+    head = boundary_phrase(event, p.area, format_utc(p.boundary_utc),
+                           position_text(p.boundary) if p.boundary else "")
+    return f"{head}: {VERB.get(kind, 'written')} {rel}{margin}"
 
 
 def warnings(kind: str, r: Record) -> list[str]:
-    """What a reader must notice: a completion after the planned entry, a changeover back
-    commenced before the planned exit (to the whole minute, as the record shows them)."""
+    """What a reader must notice: a completion after the planned boundary (entry, the area
+    coming into force, departure), a changeover back commenced before it (exit, the area
+    ceasing), to the whole minute, as the record shows them."""
     p = r.planned
     m = boundary_minutes(r)
     if p is None or m is None:
         return []
-    if kind == COMPLETED and m < 0:
-        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): check "
-                "where the ship crossed into the area"]
-    if kind == BACK_COMMENCED and m > 0:
-        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): check "
-                "where the ship left the area"]
+    event = event_of(p, p.direction)
+    if (kind == COMPLETED and m < 0) or (kind == BACK_COMMENCED and m > 0):
+        return [f"{relation_text(kind, r)} ({format_utc(p.boundary_utc)} planned): "
+                f"{late_check(event, kind == COMPLETED)}"]
     return []
 
 
@@ -224,6 +255,7 @@ def summary(s: Stored, state: JournalState) -> list[str]:
                          f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
             lines += [f"  {x}" for x in bdn_items(d.fuel)]
         lines += ["  " + x for x in sample_and_text(d)]
+        lines += ["  " + x for x in trend_text(d)]
         lines += ["  " + x for x in against_plan(e.subject_kind, r)]
         lines += ["  warning: " + x for x in warnings(e.subject_kind, r)]
         lines += ["  warning confirmed (--confirm): " + x for x in r.confirmed]

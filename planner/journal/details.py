@@ -10,10 +10,11 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from datetime import date
+from datetime import date, datetime, timedelta
 from typing import ClassVar
 
 from planner.common.imo import imo_check_digit, valid_imo  # noqa: F401  (re-exported)
+from planner.fuels.fuel import MAX_SULPHUR_PCT  # the fuel ceiling, 4.50 % m/m
 from planner.fuels.volume import (
     TABLE_54B_MAX_DENSITY_KG_M3,
     TABLE_54B_MIN_DENSITY_KG_M3,
@@ -27,8 +28,6 @@ MAX_TANK_VOLUME_M3 = 1e5
 TANK_TEMPERATURE_RANGE_C = (-10.0, 150.0)
 """Temperatures accepted for a sounding, °C (as in the voyage file)."""
 
-MAX_SULPHUR_PCT = 5.0
-"""Largest sulphur content accepted, % m/m (the highest global cap was 4.50)."""
 
 MAX_BUNKER_T = 1e6
 """Largest quantity bunkered accepted, tonnes (a typo guard)."""
@@ -322,8 +321,75 @@ class FuelDetails:
         _text("FuelDetails", "remarks", self.remarks, empty_ok=True)
 
 
+MAX_TREND_BYTES = 20 * 2**20
+"""Largest trend file attached to an entry, bytes (20 MiB: a week of one-second readings
+of a few columns is well under it; the journal holds the bytes)."""
+
+TREND_COLUMNS = ("time", "temperature", "viscosity", "load")
+"""What a trend file's column mapping may name (``changeover calibrate``'s options)."""
+
+
+@dataclass(frozen=True)
+class TrendDetails:
+    """A trend file (an export of the inlet viscosity and temperature) attached to a
+    changeover entry: the file's name as given, its size and the SHA-256 of its bytes (the
+    bytes themselves are kept beside the entries, under that hash), and optionally the
+    valve switch time and the column mapping, as ``changeover calibrate`` takes them.
+
+    ``attaches``: the number of the changeover entry (start or completion);
+    ``columns``: ``"time=Zeit"``-style pairs for :data:`TREND_COLUMNS`; ``tz``: the UTC
+    offset of times written without one (``+12:00``), or empty.
+    """
+
+    TYPE: ClassVar[str] = "trend"
+    attaches: int
+    file_name: str
+    size_bytes: int
+    sha256: str
+    switch_utc: datetime | None = None
+    columns: tuple[str, ...] = ()
+    tz: str = ""
+    remarks: str = ""
+
+    def __post_init__(self) -> None:
+        if isinstance(self.attaches, bool) or not isinstance(self.attaches, int) \
+                or self.attaches < 1:
+            raise ValueError(f"TrendDetails.attaches must be an entry number, "
+                             f"got {self.attaches!r}")
+        _text("TrendDetails", "file_name", self.file_name)
+        if isinstance(self.size_bytes, bool) or not isinstance(self.size_bytes, int) \
+                or not 0 <= self.size_bytes <= MAX_TREND_BYTES:
+            raise ValueError(f"TrendDetails.size_bytes must be 0 to {MAX_TREND_BYTES}, "
+                             f"got {self.size_bytes!r}")
+        if not (isinstance(self.sha256, str) and len(self.sha256) == 64
+                and all(c in "0123456789abcdef" for c in self.sha256)):
+            raise ValueError(f"TrendDetails.sha256 must be 64 lowercase hex digits, "
+                             f"got {self.sha256!r}")
+        if self.switch_utc is not None and (not isinstance(self.switch_utc, datetime)
+                                            or self.switch_utc.utcoffset() != timedelta(0)):
+            raise ValueError(f"TrendDetails.switch_utc must be a UTC time, "
+                             f"got {self.switch_utc!r}")
+        if not isinstance(self.columns, tuple):
+            raise ValueError("TrendDetails.columns must be a tuple of WHAT=NAME pairs")
+        for c in self.columns:
+            what, eq, name = c.partition("=") if isinstance(c, str) else ("", "", "")
+            if what not in TREND_COLUMNS or not eq or not name.strip():
+                raise ValueError(f"TrendDetails.columns: {c!r} is not WHAT=NAME with WHAT "
+                                 f"one of {', '.join(TREND_COLUMNS)}")
+        _text("TrendDetails", "tz", self.tz, empty_ok=True)
+        _text("TrendDetails", "remarks", self.remarks, empty_ok=True)
+
+    def column(self, what: str) -> str | None:
+        """The trend's column name for ``what`` (``time``...), or None (the default)."""
+        for c in self.columns:
+            w, _, name = c.partition("=")
+            if w == what:
+                return name
+        return None
+
+
 Details = (ChangeoverDetails | TankDetails | SampleDetails | NoteDetails | SetupDetails
-           | FuelDetails)
+           | FuelDetails | TrendDetails)
 DETAIL_TYPES: dict[str, type] = {c.TYPE: c for c in (ChangeoverDetails, TankDetails,
                                                     SampleDetails, NoteDetails, SetupDetails,
-                                                    FuelDetails)}
+                                                    FuelDetails, TrendDetails)}

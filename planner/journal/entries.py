@@ -31,6 +31,7 @@ from planner.journal.details import (
     SampleDetails,
     SetupDetails,
     TankDetails,
+    TrendDetails,
 )
 
 SETUP = "setup"
@@ -42,11 +43,13 @@ BACK_COMPLETED = "back_completed"
 TANKS = "tanks"
 SAMPLE = "sample"
 NOTE = "note"
+TREND = "trend"
 CORRECTION = "correction"
 
 CHANGEOVER_KINDS = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED)
-"""The four steps: to compliant fuel (started, completed before entry), back to regular
-fuel (commenced after exit, completed)."""
+"""The four steps: to compliant fuel (started, completed before entry or before the area
+comes into force), back to regular fuel (commenced after exit or after the area ceases,
+completed)."""
 
 REG14_KINDS = (COMPLETED, BACK_COMMENCED)
 """The two moments regulation 14.6 asks to be recorded with the volume in each tank."""
@@ -68,6 +71,7 @@ LABELS = {
     TANKS: "tank soundings",
     SAMPLE: "fuel sample",
     NOTE: "note",
+    TREND: "trend file attached",
     CORRECTION: "correction",
 }
 """What each kind means, in words (the relation of a step to the boundary, before or after
@@ -76,14 +80,19 @@ it, is said from the facts where the entry is shown: ``describe.step_heading``).
 DETAILS_OF = {SETUP: SetupDetails, FUEL: FuelDetails, STARTED: ChangeoverDetails,
               COMPLETED: ChangeoverDetails, BACK_COMMENCED: ChangeoverDetails,
               BACK_COMPLETED: ChangeoverDetails, TANKS: TankDetails, SAMPLE: SampleDetails,
-              NOTE: NoteDetails}
+              NOTE: NoteDetails, TREND: TrendDetails}
 """The details class each (non-correction) kind carries."""
 
 KINDS = tuple(LABELS)
-CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE, NOTE)
+CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE, NOTE, TREND)
 """Kinds a correction may correct (set-up and fuel entries are superseded by new ones)."""
 
 MAX_OFFSET_MIN = 14 * 60
+
+BOUNDARY_EVENTS = ("enter", "exit", "comes_into_force", "ceases", "departure", "cap_change")
+"""What a planned boundary may be (the plan JSON's ``boundary_event``, docs/json-contract.md):
+a crossing (``enter``, ``exit``) or a moment on the clock (the others, see
+:mod:`planner.journal.events`)."""
 
 
 def _aware_utc(cls: str, name: str, value: object) -> None:
@@ -134,7 +143,11 @@ class Planned:
     planned start, or the time the fuel at the consumers is planned to be
     compliant); ``boundary_*``: the planned boundary crossing; ``margin_h``:
     the plan's margin, hours; ``flush_h``: the modelled time from the planned
-    start to compliant fuel (or back on regular fuel), hours.
+    start to compliant fuel (or back on regular fuel), hours; ``event``: what the
+    boundary is (:data:`BOUNDARY_EVENTS`; None in a plan made before the key existed:
+    a crossing), and ``clock_deadline`` whether it is a moment on the clock (an area
+    coming into force while the ship is inside, a departure...) rather than a crossing;
+    for such a moment ``boundary`` is where the ship then is.
     """
 
     source: str
@@ -148,8 +161,16 @@ class Planned:
     boundary: Position | None
     margin_h: float | None
     flush_h: float | None = field(default=None, metadata=ADDED)
+    event: str | None = field(default=None, metadata=ADDED)
+    clock_deadline: bool = field(default=False, metadata=ADDED)
 
     def __post_init__(self) -> None:
+        if self.event is not None and self.event not in BOUNDARY_EVENTS:
+            raise ValueError(f"Planned.event must be one of {BOUNDARY_EVENTS}, "
+                             f"got {self.event!r}")
+        if not isinstance(self.clock_deadline, bool):
+            raise ValueError(f"Planned.clock_deadline must be true or false, "
+                             f"got {self.clock_deadline!r}")
         if not isinstance(self.source, str) or not self.source:
             raise ValueError(f"Planned.source must be text, got {self.source!r}")
         if isinstance(self.changeover, bool) or not isinstance(self.changeover, int) \

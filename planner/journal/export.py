@@ -14,19 +14,20 @@ one column (``name: observed m³ @ °C = m³ at 15 °C, t``) with the totals
 beside it. A cell a spreadsheet would run as a formula (text starting with
 ``=``, ``+``, ``-``, ``@``, a tab or a carriage return) is written with a
 single quote in front, so it is read as text [OWASP-CSV]; plain numbers
-(``-39.823333``) are left as they are.
+(``-39.823333``) are left as they are (:func:`planner.common.csv_cells.safe_cell`, the one
+neutraliser every CSV of the program uses).
 """
 
 from __future__ import annotations
 
 import csv
 import io
-import re
 from collections.abc import Iterable
 
+from planner.common.csv_cells import safe_cell
 from planner.common.timefmt import format_ship
 from planner.journal.codec import encode, iso
-from planner.journal.describe import position_text
+from planner.journal.describe import position_text, trend_text
 from planner.journal.details import FuelUse
 from planner.journal.entries import LABELS, Record
 from planner.journal.state import JournalState, Stored
@@ -106,6 +107,8 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
                        ("sampling_point", "point")):
         row[col] = getattr(d, field, "") or ""
     row["text"] = getattr(d, "text", "") or getattr(d, "remarks", "") or ""
+    if getattr(d, "sha256", None):          # a trend: its file, size, hash, switch, columns
+        row["text"] = "; ".join(trend_text(d) + ([d.remarks] if d.remarks else []))
     if getattr(d, "ship_name", None):
         row["text"] = f"ship {d.ship_name}, IMO {d.imo_number or '(unchanged)'}"
     if getattr(d, "fuel", None) is not None:
@@ -120,20 +123,6 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
                    planned_position=position_text(p.position) if p.position else "",
                    planned_boundary_utc=iso(p.boundary_utc) if p.boundary_utc else "")
     return row
-
-
-FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
-"""First characters that make a spreadsheet read a cell as a formula [OWASP-CSV]."""
-
-_PLAIN_NUMBER = re.compile(r"^-?\d+(?:\.\d+)?$")
-
-
-def safe_cell(text: str) -> str:
-    """``text`` as a CSV cell no spreadsheet runs: ``'`` put before a formula-looking start
-    [OWASP-CSV]; a plain number (``-39.823333``) kept as it is."""
-    if text.startswith(FORMULA_START) and not _PLAIN_NUMBER.match(text):
-        return "'" + text
-    return text
 
 
 def export_csv(stored: Iterable[Stored], state: JournalState) -> str:

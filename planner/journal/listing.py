@@ -14,7 +14,7 @@ from datetime import date
 from geo.errors import InputError
 from planner.common.timefmt import format_ship, format_utc
 from planner.journal.codec import encode
-from planner.journal.describe import bdn_items, position_text, sample_and_text
+from planner.journal.describe import bdn_items, position_text, sample_and_text, trend_text
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -28,6 +28,7 @@ from planner.journal.entries import (
     SETUP,
     STARTED,
     TANKS,
+    TREND,
 )
 from planner.journal.state import JournalState, Stored
 from planner.journal.verify import VerifyReport
@@ -35,7 +36,7 @@ from planner.journal.verify import VerifyReport
 COMMAND_KINDS = {"start": STARTED, "complete": COMPLETED, "back": BACK_COMMENCED,
                  "back-complete": BACK_COMPLETED, "tanks": TANKS, "sample": SAMPLE, "note": NOTE,
                  "correction": CORRECTION, "correct": CORRECTION, "fuel": FUEL, "setup": SETUP,
-                 "init": SETUP}
+                 "init": SETUP, "trend": TREND}
 """Kind names as the commands spell them, to the stored kinds."""
 
 SHOWN_CHARS = 120
@@ -108,6 +109,7 @@ def _details(s: Stored) -> str:
                      f"kg/m³, BDN {f.bdn_ref}")
         parts += bdn_items(f)
     parts += [textwrap.shorten(x, SHOWN_CHARS, placeholder=" …") for x in sample_and_text(d)]
+    parts += trend_text(d)
     if getattr(d, "follows", None):
         parts.append(f"follows {d.follows}")
     if r.planned is not None:

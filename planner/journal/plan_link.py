@@ -4,7 +4,10 @@ The plan is the JSON of ``changeover plan VOYAGE --json`` (keys per
 docs/json-contract.md): ``changeovers`` is a list of ``{"area", "circuit", "direction":
 "to_compliant" | "to_regular", "start_utc", "start_lat", "start_lon",
 "compliant_utc" (or null), "boundary_utc", "boundary_lat", "boundary_lon",
-"margin_h"}``. ``--changeover N`` picks the N-th (from 1).
+"margin_h", "boundary_event", "clock_deadline"}``; ``--changeover N`` picks the N-th
+(from 1). ``boundary_event`` (absent in plans made before it existed: a crossing) says
+whether the boundary is a crossing or a moment on the clock, such as the area coming into
+force while the ship is inside it (:mod:`planner.journal.events`).
 
 What each step takes from it (:func:`planned_for`):
 
@@ -12,12 +15,13 @@ What each step takes from it (:func:`planned_for`):
 step                       direction           planned time and position
 =========================  ==================  ============================
 started                    to_compliant        start_utc, start_lat/lon
-completed (before entry)   to_compliant        compliant_utc, no position
-commenced (after exit)     to_regular          start_utc, start_lat/lon
-back completed             to_regular          compliant_utc, no position
+completed                  to_compliant        compliant_utc, compliant_lat/lon
+commenced                  to_regular          start_utc, start_lat/lon
+back completed             to_regular          complete_utc, complete_lat/lon
 =========================  ==================  ============================
 
-and every step keeps the area, circuit, boundary crossing and margin.
+(a completion's position only when the plan gives it), and every step keeps the area,
+circuit, boundary (time, position, event) and margin.
 """
 
 from __future__ import annotations
@@ -31,6 +35,7 @@ from geo.errors import InputError
 from planner.common.timefmt import parse_moment
 from planner.journal.entries import (
     BACK_COMMENCED,
+    BOUNDARY_EVENTS,
     DIRECTION,
     STARTED,
     Planned,
@@ -125,11 +130,14 @@ def planned_for(kind: str, path: str | Path, number: int | None,
         area=_text(item, "area", file, place),
         circuit=_text(item, "circuit", file, place, required=False),
         time_utc=_time(item, time_key, file, place, required=starts),
-        position=_position(item, "start", file, place) if starts else None,
+        position=_position(item, "start", file, place) if starts else _position(
+            item, done_key.removesuffix("_utc"), file, place, required=False),
         boundary_utc=_time(item, "boundary_utc", file, place, required=False),
         boundary=_position(item, "boundary", file, place, required=False),
         margin_h=_number(item, "margin_h", file, place),
         flush_h=flush_h,
+        event=_event(item, file, place),
+        clock_deadline=_flag(item, "clock_deadline", file, place),
     )
 
 
@@ -166,11 +174,24 @@ def _time(item: dict, key: str, file: str, place: str, required: bool) -> dateti
         return None
     if not isinstance(v, str):
         raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time")
-    try:
-        return parse_moment(v, file=file, place=f"{place}.{key}")
-    except OverflowError:
-        raise InputError(file, f"{place}.{key}", v, "an ISO 8601 UTC time of a year a "
-                                                    "ship's record can hold") from None
+    return parse_moment(v, file=file, place=f"{place}.{key}")
+
+
+def _event(item: dict, file: str, place: str) -> str | None:
+    v = item.get("boundary_event")
+    if v is None:
+        return None
+    if v not in BOUNDARY_EVENTS:
+        raise InputError(file, f"{place}.boundary_event", v, "one of " + ", ".join(
+            BOUNDARY_EVENTS))
+    return v
+
+
+def _flag(item: dict, key: str, file: str, place: str) -> bool:
+    v = item.get(key, False)
+    if not isinstance(v, bool):
+        raise InputError(file, f"{place}.{key}", v, "true or false")
+    return v
 
 
 def _number(item: dict, key: str, file: str, place: str) -> float | None:

@@ -17,6 +17,11 @@ written by the trigger that follows each new entry (an UPDATE or INSERT that
 does not name the last entry and its hash is refused, a DELETE is refused);
 the trigger that keeps it updates the row rather than replacing it.
 
+Version 4: the ``attachments`` table, the bytes of files attached to entries (a trend
+export, :mod:`planner.journal.attach`), keyed by their SHA-256; the entry that attaches a
+file holds that hash, so the chain covers the bytes too. Rows are never updated or
+deleted (triggers refuse it, as for the entries).
+
 :func:`schema_problems` names every table, index or trigger of the schema
 that is missing or not as this program wrote it (a trigger dropped to edit
 the entries, say); ``verify`` reports them.
@@ -34,7 +39,7 @@ from planner.journal.canonical import GENESIS_HASH
 APPLICATION_ID = 0x43484F56
 """``PRAGMA application_id`` of a changeover journal (ASCII "CHOV")."""
 
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 """The schema version this program writes."""
 
 _V1 = f"""
@@ -109,7 +114,23 @@ BEGIN
 END;
 """
 
-MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2, 3: _V3}
+_V4 = """
+CREATE TABLE attachments (
+    sha256 TEXT PRIMARY KEY,              -- SHA-256 of data, lowercase hex
+    size   INTEGER NOT NULL,              -- bytes
+    data   BLOB NOT NULL                  -- the file's bytes as read
+);
+CREATE TRIGGER attachments_never_updated BEFORE UPDATE ON attachments
+BEGIN
+    SELECT RAISE(ABORT, 'attached files are never changed');
+END;
+CREATE TRIGGER attachments_never_deleted BEFORE DELETE ON attachments
+BEGIN
+    SELECT RAISE(ABORT, 'attached files are never deleted');
+END;
+"""
+
+MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2, 3: _V3, 4: _V4}
 """SQL that takes the schema from version ``n - 1`` to ``n``."""
 
 

@@ -272,16 +272,39 @@ class Journal:
             finally:
                 self.conn.execute("COMMIT")
 
+    def attachments(self) -> dict[str, tuple[int, bytes]]:
+        """Every attached file as stored, ``{sha256: (size, bytes)}`` (untrusted; empty when
+        the table is gone: the schema check names it)."""
+        try:
+            cur = self.conn.execute("SELECT sha256, size, data FROM attachments")
+        except sqlite3.OperationalError:
+            return {}
+        return {str(k): (int(n), bytes(b)) for k, n, b in cur.fetchall()}
+
+    def attachment(self, digest: str) -> bytes | None:
+        """The bytes of the file attached under SHA-256 ``digest`` (None: not stored)."""
+        with sqlite_errors(self.path):
+            try:
+                r = self.conn.execute("SELECT data FROM attachments WHERE sha256 = ?",
+                                      (digest,)).fetchone()
+            except sqlite3.OperationalError:
+                return None
+        return bytes(r[0]) if r else None
+
     def verify(self, expect_hash: str | None = None) -> VerifyReport:
-        """Check the whole chain and the schema's triggers (see :mod:`.verify`)."""
+        """Check the whole chain, the attached files and the schema's triggers (see
+        :mod:`.verify` and :func:`planner.journal.attach.attachment_problems`)."""
+        from planner.journal.attach import attachment_problems
+
         with sqlite_errors(self.path):
             self.conn.execute("BEGIN")
             try:
                 rows, head = self.rows(), self.head()
                 schema = schema_problems(self.conn)
+                files = attachment_problems(rows, self.attachments())
             finally:
                 self.conn.execute("COMMIT")
-        return verify_rows(rows, head, expect_hash, schema)
+        return verify_rows(rows, head, expect_hash, schema, files)
 
     # -- writing ---------------------------------------------------------------------------
 
@@ -289,17 +312,22 @@ class Journal:
         """Append one entry (built and checked inside the transaction); return it as stored."""
         return self.append_many([make])[0]
 
-    def append_many(self, makes: Sequence[Make]) -> list[Stored]:
-        """Append entries in one transaction: all of them or, on any error, none."""
+    def append_many(self, makes: Sequence[Make], files: Sequence[bytes] = ()) -> list[Stored]:
+        """Append entries in one transaction: all of them or, on any error, none; ``files``
+        are attached files' bytes stored (under their SHA-256) in the same transaction."""
         if self.read_only:
             raise InputError(str(self.path), "", "read-only copy", "a journal opened to write")
         with sqlite_errors(self.path):
-            return self._append_many(makes)
+            return self._append_many(makes, files)
 
-    def _append_many(self, makes: Sequence[Make]) -> list[Stored]:
+    def _append_many(self, makes: Sequence[Make], files: Sequence[bytes] = ()) -> list[Stored]:
+        from planner.journal.attach import store_attachment
+
         conn = self.conn
         conn.execute("BEGIN IMMEDIATE")
         try:
+            for data in files:
+                store_attachment(conn, data)
             state = self._refresh()
             out = []
             for make in makes:

@@ -14,7 +14,9 @@ per entry number:
   hash, than the table holds (the last entries removed), or none at all;
 - a table, index or trigger of the schema that is missing or replaced (the
   triggers that refuse edits dropped, say), as
-  :func:`planner.journal.schema.schema_problems` finds them.
+  :func:`planner.journal.schema.schema_problems` finds them;
+- an attached file (a trend) missing, or whose stored bytes no longer give the SHA-256
+  its entry holds, as :func:`planner.journal.attach.attachment_problems` finds them.
 
 A journal rewritten from the changed entry onwards with freshly computed
 hashes passes these checks; that is what the printed last hash is for:
@@ -89,10 +91,12 @@ def listing_columns(body: dict) -> tuple[str, str | None, str | None, str | None
 
 
 def verify_rows(rows: Sequence[Row], head: tuple[int, str] | None,
-                expect_hash: str | None = None, schema: Sequence[str] = ()) -> VerifyReport:
-    """Check the rows (sorted by ``seq``), the head row and the schema findings ``schema``;
-    see the module docstring."""
+                expect_hash: str | None = None, schema: Sequence[str] = (),
+                files: Sequence[Problem] = ()) -> VerifyReport:
+    """Check the rows (sorted by ``seq``), the head row, the schema findings ``schema`` and
+    the attached files' findings ``files``; see the module docstring."""
     problems: list[Problem] = [Problem(None, f"the journal's {x}") for x in schema]
+    problems += files
     expected, prev = 1, GENESIS_HASH
     expect_seq = None
     for row in rows:

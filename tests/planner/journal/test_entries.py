@@ -224,3 +224,15 @@ def test_plan_refusals(tmp_path):
         planned_for(STARTED, bad, 1)
     with pytest.raises(InputError, match="existing plan"):
         planned_for(STARTED, tmp_path / "none.json", 1)
+
+
+def test_the_journal_sulphur_ceiling_is_the_fuel_files():
+    """One ceiling, 4.50 % m/m (the highest global limit, MARPOL Annex VI reg. 14.1
+    [MARPOL-VI]), shared with the ship and voyage files."""
+    from planner.fuels.fuel import MAX_SULPHUR_PCT
+    from planner.journal import details
+
+    assert details.MAX_SULPHUR_PCT is MAX_SULPHUR_PCT == 4.50
+    assert FuelSpec("HSFO", "RMG 380", 4.50, 990.0, "B-1").sulphur_pct == 4.50
+    with pytest.raises(ValueError, match="sulphur_pct"):
+        FuelSpec("HSFO", "RMG 380", 4.51, 990.0, "B-1")
