@@ -31,6 +31,11 @@ import numpy as np
 
 from planner.flushing.phi import phi_double, phi_stack
 
+try:  # the LAPACK gesv kernel numpy.linalg.solve calls, without its per-call checks
+    from numpy.linalg._umath_linalg import solve as _gesv
+except ImportError:  # pragma: no cover - a numpy without it
+    _gesv = None
+
 _ORDER = 7  # φ_0 … φ_7: the end state and four repeated integrals of a quadratic input
 _CACHED_STEPS = 64  # step lengths kept per stirred-volume matrix
 _CACHED_MATRICES = 8  # stirred-volume matrices kept
@@ -311,7 +316,18 @@ def _pipe_outflows(
     ftu = np.matmul(fresh[:, :3, :3], tu.transpose(1, 0, 2)).reshape(3 * p, 3 * p + f)
     system = _permutation(p) - ftu[:, : 3 * p]
     rhs = known[:, :3].reshape(3 * p, f) + ftu[:, 3 * p :]
-    return np.linalg.solve(system, rhs).reshape(3, p, f)
+    return _solve(system, rhs).reshape(3, p, f)
+
+
+def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """``numpy.linalg.solve(a, b)`` for a square ``a`` and a 2-D ``b`` of floats, the same
+    kernel and so the same result; a singular ``a`` (a result not finite) goes through
+    ``numpy.linalg.solve`` for its error."""
+    if _gesv is not None:
+        r = _gesv(a, b, signature="dd->d")
+        if np.isfinite(r).all():
+            return r
+    return np.linalg.solve(a, b)
 
 
 _PERMUTATIONS: dict[int, np.ndarray] = {}
