@@ -147,15 +147,30 @@ def _augmented_step(a: np.ndarray, tau: float) -> np.ndarray:
     """``exp`` over ``tau`` of ``[x, g, g', g'']`` with ``x' = A·x + g`` and ``g''' = 0``."""
     s = a.shape[0]
     phi = phi_stack(a * tau, 3)
-    eye = np.eye(s)
-    e = np.zeros((4 * s, 4 * s))
+    e = _augmented_template(s, tau).copy()
     for k in range(4):
         e[:s, k * s : (k + 1) * s] = tau**k * phi[k]
-    for row in range(1, 4):
-        for k in range(row, 4):
-            shift = tau ** (k - row) / _FACT[k - row]  # g^(row) advances by Taylor's formula
-            e[row * s : (row + 1) * s, k * s : (k + 1) * s] = shift * eye
     return e
+
+
+_TEMPLATES: dict[tuple[int, float], np.ndarray] = {}
+
+
+def _augmented_template(s: int, tau: float) -> np.ndarray:
+    """The matrix of :func:`_augmented_step` but its first block row (zero here): the
+    Taylor shifts of the input, which depend on the size and ``tau`` only (kept)."""
+    found = _TEMPLATES.get((s, tau))
+    if found is None:
+        eye = np.eye(s)
+        found = np.zeros((4 * s, 4 * s))
+        for row in range(1, 4):
+            for k in range(row, 4):
+                shift = tau ** (k - row) / _FACT[k - row]  # g^(row) advances by Taylor's formula
+                found[row * s : (row + 1) * s, k * s : (k + 1) * s] = shift * eye
+        if len(_TEMPLATES) >= _CACHED_MATRICES:
+            _TEMPLATES.clear()
+        _TEMPLATES[(s, tau)] = found
+    return found
 
 
 _FACT = (1.0, 1.0, 2.0, 6.0)
