@@ -152,7 +152,20 @@ def expected_for(exc: FlushError, tanks_and_pumps: str) -> str:
     """What a refusal's "expected" part says for a flush that cannot run: a fuel within the
     limit when the new fuel is itself over it (:class:`NeverReached`), else
     ``tanks_and_pumps`` (the caller's words for tanks that hold enough and pumps that cover
-    the consumption)."""
+    the consumption).
+
+    Parameters
+    ----------
+    exc : FlushError
+        Why the flush cannot run.
+    tanks_and_pumps : str
+        The caller's words for the other case.
+
+    Returns
+    -------
+    str
+        The "expected" part of the refusal (no number, so no unit).
+    """
     if isinstance(exc, NeverReached):
         return "a compliant fuel whose own sulphur is within the limit"
     return tanks_and_pumps
