@@ -9,15 +9,18 @@ On the sample voyage (``areas_sample/voyage.toml``, fictional), each REPEATS tim
 2. the same with the confidence starts at 0.99 (the command line's 4000 samples, seed 0);
 3. the command ``changeover plan areas_sample/voyage.toml --json`` as a process (wall
    time, imports included), for the figure a user sees, against a process that only
-   imports the planner (the start-up part of it).
+   imports the planner (the start-up part of it); also the command's processor time
+   (user and system, less moved by other work on the machine than the wall time).
 
-Also printed: the flushes and simulations run and remembered, and the machine.
+Also printed: the flushes and simulations run and remembered, the machine and its load
+average (the machine is shared: wall times move with it).
 """
 
 from __future__ import annotations
 
 import os
 import platform
+import resource
 import statistics
 import subprocess
 import sys
@@ -75,11 +78,14 @@ def command(repeats: int) -> None:
     cmd = ([str(exe)] if exe.exists() else [sys.executable, "-m", "planner"])
     cmd += ["plan", str(VOYAGE.relative_to(ROOT)), "--json"]
     base = [sys.executable, "-c", "import planner.voyage.run, planner.voyage.report"]
-    times, imports = [], []
+    times, imports, cpu = [], [], []
     for _ in range(repeats):  # interleaved, so a burst of load falls on both
+        before = resource.getrusage(resource.RUSAGE_CHILDREN)
         t0 = time.perf_counter()
         subprocess.run(cmd, cwd=ROOT, check=True, capture_output=True)
         times.append(time.perf_counter() - t0)
+        after = resource.getrusage(resource.RUSAGE_CHILDREN)
+        cpu.append(after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime)
         t0 = time.perf_counter()
         subprocess.run(base, cwd=ROOT, check=True, capture_output=True)
         imports.append(time.perf_counter() - t0)
@@ -87,16 +93,19 @@ def command(repeats: int) -> None:
     print(f"command {' '.join(cmd[1:])}: {a:.2f} s median of {repeats} "
           f"({min(times):.2f}-{max(times):.2f} s), imports and start-up included; baseline, "
           f"a process importing the planner only: {b:.2f} s; command / baseline {a / b:.1f}x")
+    print(f"  processor time of the command: {statistics.median(cpu):.2f} s median "
+          f"({min(cpu):.2f}-{max(cpu):.2f} s)")
 
 
 def main() -> None:
     repeats = int(sys.argv[1]) if len(sys.argv) > 1 else 3
     print(f"machine: {cpu_model()}, {os.cpu_count()} CPUs, "
-          f"Python {platform.python_version()}")
+          f"Python {platform.python_version()}, load average {os.getloadavg()[0]:.1f}")
     run(True, None)  # warm imports and caches of the libraries
     compare("plan build + JSON", None, repeats)
     compare("plan build + JSON, confidence 0.99", 0.99, repeats)
     command(repeats)
+    print(f"load average at the end: {os.getloadavg()[0]:.1f}")
 
 
 if __name__ == "__main__":
