@@ -9,8 +9,9 @@ On the sample voyage (``areas_sample/voyage.toml``, fictional), each REPEATS tim
 2. the same with the confidence starts at 0.99 (the command line's 4000 samples, seed 0);
 3. the command ``changeover plan areas_sample/voyage.toml --json`` as a process (wall
    time, imports included), for the figure a user sees, against a process that only
-   imports the planner (the start-up part of it); also the command's processor time
-   (user and system, less moved by other work on the machine than the wall time).
+   imports the planner (the start-up part of it), and the same with ``--confidence 0.99``;
+   also the command's processor time (user and system, less moved by other work on the
+   machine than the wall time).
 
 Also printed: the flushes and simulations run and remembered, the machine and its load
 average (the machine is shared: wall times move with it).
@@ -72,11 +73,11 @@ def compare(label: str, confidence: float | None, repeats: int) -> None:
             print(f"  {kind}: {misses} run, {hits} remembered ({hits + misses} asked)")
 
 
-def command(repeats: int) -> None:
-    """Median wall time of the plan command with --json, as a process."""
+def command(repeats: int, extra: tuple[str, ...] = ()) -> None:
+    """Median wall time of the plan command with --json (and ``extra``), as a process."""
     exe = Path(sys.executable).with_name("changeover")
     cmd = ([str(exe)] if exe.exists() else [sys.executable, "-m", "planner"])
-    cmd += ["plan", str(VOYAGE.relative_to(ROOT)), "--json"]
+    cmd += ["plan", str(VOYAGE.relative_to(ROOT)), "--json", *extra]
     base = [sys.executable, "-c", "import planner.voyage.run, planner.voyage.report"]
     times, imports, cpu = [], [], []
     for _ in range(repeats):  # interleaved, so a burst of load falls on both
@@ -105,6 +106,7 @@ def main() -> None:
     compare("plan build + JSON", None, repeats)
     compare("plan build + JSON, confidence 0.99", 0.99, repeats)
     command(repeats)
+    command(repeats, ("--confidence", "0.99"))
     print(f"load average at the end: {os.getloadavg()[0]:.1f}")
 
 
