@@ -76,12 +76,11 @@ def phi_stack(x: np.ndarray, order: int) -> np.ndarray:
     norm = float(np.abs(x).sum(axis=0).max()) if x.size else 0.0
     s = max(0, math.ceil(math.log2(norm / _THETA))) if norm > _THETA else 0
     y = x * 0.5**s
-    power = np.eye(n)
-    powers = [power]
-    for _ in range(_DEGREE):
-        power = power.dot(y)
-        powers.append(power)
-    phi = _TAYLOR[: order + 1].dot(np.array(powers).reshape(_DEGREE + 1, n * n))
+    powers = np.empty((_DEGREE + 1, n, n))
+    powers[0] = np.eye(n)
+    for j in range(_DEGREE):
+        np.dot(powers[j], y, out=powers[j + 1])
+    phi = _TAYLOR[: order + 1].dot(powers.reshape(_DEGREE + 1, n * n))
     phi = phi.reshape(order + 1, n, n)
     for _ in range(s):
         phi = phi_double(phi)

@@ -77,7 +77,7 @@ class PipeSet:
         parcels now in the pipe.
         """
         lo, hi = self._lo, self._hi
-        st, ln = self.start[lo:hi].T.copy(), self.length[lo:hi].T.copy()  # (P, n)
+        st, ln = self.start[lo:hi].T, self.length[lo:hi].T  # (P, n), read only
         p, n = st.shape
         if not p:
             return np.zeros((0, 4, self.coef.shape[-1]))

@@ -31,6 +31,11 @@ import numpy as np
 
 from planner.flushing.phi import phi_double, phi_stack
 
+try:  # the LAPACK gesv kernel numpy.linalg.solve calls, without its per-call checks
+    from numpy.linalg._umath_linalg import solve as _gesv
+except ImportError:  # pragma: no cover - a numpy without it
+    _gesv = None
+
 _ORDER = 7  # φ_0 … φ_7: the end state and four repeated integrals of a quadratic input
 _CACHED_STEPS = 64  # step lengths kept per stirred-volume matrix
 _CACHED_MATRICES = 8  # stirred-volume matrices kept
@@ -142,15 +147,30 @@ def _augmented_step(a: np.ndarray, tau: float) -> np.ndarray:
     """``exp`` over ``tau`` of ``[x, g, g', g'']`` with ``x' = A·x + g`` and ``g''' = 0``."""
     s = a.shape[0]
     phi = phi_stack(a * tau, 3)
-    eye = np.eye(s)
-    e = np.zeros((4 * s, 4 * s))
+    e = _augmented_template(s, tau).copy()
     for k in range(4):
         e[:s, k * s : (k + 1) * s] = tau**k * phi[k]
-    for row in range(1, 4):
-        for k in range(row, 4):
-            shift = tau ** (k - row) / _FACT[k - row]  # g^(row) advances by Taylor's formula
-            e[row * s : (row + 1) * s, k * s : (k + 1) * s] = shift * eye
     return e
+
+
+_TEMPLATES: dict[tuple[int, float], np.ndarray] = {}
+
+
+def _augmented_template(s: int, tau: float) -> np.ndarray:
+    """The matrix of :func:`_augmented_step` but its first block row (zero here): the
+    Taylor shifts of the input, which depend on the size and ``tau`` only (kept)."""
+    found = _TEMPLATES.get((s, tau))
+    if found is None:
+        eye = np.eye(s)
+        found = np.zeros((4 * s, 4 * s))
+        for row in range(1, 4):
+            for k in range(row, 4):
+                shift = tau ** (k - row) / _FACT[k - row]  # g^(row) advances by Taylor's formula
+                found[row * s : (row + 1) * s, k * s : (k + 1) * s] = shift * eye
+        if len(_TEMPLATES) >= _CACHED_MATRICES:
+            _TEMPLATES.clear()
+        _TEMPLATES[(s, tau)] = found
+    return found
 
 
 _FACT = (1.0, 1.0, 2.0, 6.0)
@@ -311,7 +331,18 @@ def _pipe_outflows(
     ftu = np.matmul(fresh[:, :3, :3], tu.transpose(1, 0, 2)).reshape(3 * p, 3 * p + f)
     system = _permutation(p) - ftu[:, : 3 * p]
     rhs = known[:, :3].reshape(3 * p, f) + ftu[:, 3 * p :]
-    return np.linalg.solve(system, rhs).reshape(3, p, f)
+    return _solve(system, rhs).reshape(3, p, f)
+
+
+def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """``numpy.linalg.solve(a, b)`` for a square ``a`` and a 2-D ``b`` of floats, the same
+    kernel and so the same result; a singular ``a`` (a result not finite) goes through
+    ``numpy.linalg.solve`` for its error."""
+    if _gesv is not None:
+        r = _gesv(a, b, signature="dd->d")
+        if np.isfinite(r).all():
+            return r
+    return np.linalg.solve(a, b)
 
 
 _PERMUTATIONS: dict[int, np.ndarray] = {}

@@ -115,7 +115,7 @@ class Watch:
     def inlets_at_level(self, inlet: np.ndarray, w: np.ndarray | None = None) -> bool:
         """Every watched source (its composition now, ``inlet`` (n_sources, F)) inside the
         half-space ``w·φ ≤ 0`` (default: at the level)."""
-        g = np.clip(inlet[self.sources], 0.0, None) @ (self.w if w is None else w)
+        g = np.maximum(inlet[self.sources], 0.0) @ (self.w if w is None else w)
         return bool(g.size == 0 or float(g.max()) <= 0.0)
 
     def settled(self, x: np.ndarray, stirred_out_m3h: np.ndarray, pipes: PipeSet,
@@ -124,7 +124,7 @@ class Watch:
         level's)."""
         w = self.w if w is None else w
         flowing = stirred_out_m3h > _UNFLOWING_M3H
-        if flowing.any() and float((np.clip(x[flowing], 0.0, None) @ w).max()) > 0.0:
+        if flowing.any() and float((np.maximum(x[flowing], 0.0) @ w).max()) > 0.0:
             return False
         return pipes.max_linear(w, pipe_flow_m3h > _UNFLOWING_M3H) <= 0.0
 

@@ -151,7 +151,7 @@ def spread(times: list[float]) -> str:
 def main() -> None:
     print(f"machine: {cpu_model()} "
           f"({platform.machine()}), {os.cpu_count()} cores, Python {platform.python_version()}, "
-          f"numpy {np.__version__}")
+          f"numpy {np.__version__}, load average {os.getloadavg()[0]:.1f}")
     for name, path, from_, to in CASES:
         system = load_ship(path)
         sched = schedule_at(system, load_pct=85.0, circuits=["main"])

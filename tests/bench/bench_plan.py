@@ -1,4 +1,4 @@
-"""Benchmark of the voyage plan (plain script: python tests/bench/bench_plan.py [REPEATS]).
+"""Benchmark of the voyage plan (plain script: python tests/bench/bench_plan.py [REPEATS] [TREE]).
 
 On the sample voyage (``areas_sample/voyage.toml``, fictional), each REPEATS times
 (default 3), medians reported:
@@ -9,15 +9,20 @@ On the sample voyage (``areas_sample/voyage.toml``, fictional), each REPEATS tim
 2. the same with the confidence starts at 0.99 (the command line's 4000 samples, seed 0);
 3. the command ``changeover plan areas_sample/voyage.toml --json`` as a process (wall
    time, imports included), for the figure a user sees, against a process that only
-   imports the planner (the start-up part of it).
+   imports the planner (the start-up part of it), and the same with ``--confidence 0.99``;
+   also the command's processor time (user and system, less moved by other work on the
+   machine than the wall time); given TREE (another checkout, e.g. ``git archive main``
+   unpacked), the same commands run on its code, interleaved, and the ratio.
 
-Also printed: the flushes and simulations run and remembered, and the machine.
+Also printed: the flushes and simulations run and remembered, the machine and its load
+average (the machine is shared: wall times move with it).
 """
 
 from __future__ import annotations
 
 import os
 import platform
+import resource
 import statistics
 import subprocess
 import sys
@@ -69,34 +74,54 @@ def compare(label: str, confidence: float | None, repeats: int) -> None:
             print(f"  {kind}: {misses} run, {hits} remembered ({hits + misses} asked)")
 
 
-def command(repeats: int) -> None:
-    """Median wall time of the plan command with --json, as a process."""
-    exe = Path(sys.executable).with_name("changeover")
-    cmd = ([str(exe)] if exe.exists() else [sys.executable, "-m", "planner"])
-    cmd += ["plan", str(VOYAGE.relative_to(ROOT)), "--json"]
+def _timed(cmd: list[str], cwd: Path) -> tuple[float, float]:
+    """Wall time and processor time (user and system) of one run of ``cmd``, s."""
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    t0 = time.perf_counter()
+    subprocess.run(cmd, cwd=cwd, check=True, capture_output=True)
+    wall = time.perf_counter() - t0
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return wall, after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime
+
+
+def command(repeats: int, extra: tuple[str, ...] = (), against: Path | None = None) -> None:
+    """Median wall time of the plan command with --json (and ``extra``), as a process;
+    with ``against``, also the same command run on the code of that tree (interleaved)."""
+    args = ["plan", str(VOYAGE.relative_to(ROOT)), "--json", *extra]
+    cmd = [sys.executable, "-m", "planner", *args]  # the package of the working directory
     base = [sys.executable, "-c", "import planner.voyage.run, planner.voyage.report"]
-    times, imports = [], []
-    for _ in range(repeats):  # interleaved, so a burst of load falls on both
-        t0 = time.perf_counter()
-        subprocess.run(cmd, cwd=ROOT, check=True, capture_output=True)
-        times.append(time.perf_counter() - t0)
-        t0 = time.perf_counter()
-        subprocess.run(base, cwd=ROOT, check=True, capture_output=True)
-        imports.append(time.perf_counter() - t0)
+    times, imports, cpu, old, old_cpu = [], [], [], [], []
+    for _ in range(repeats):  # interleaved, so a burst of load falls on all alike
+        wall, proc = _timed(cmd, ROOT)
+        times.append(wall), cpu.append(proc)
+        imports.append(_timed(base, ROOT)[0])
+        if against is not None:
+            wall, proc = _timed(cmd, against)
+            old.append(wall), old_cpu.append(proc)
     a, b = statistics.median(times), statistics.median(imports)
-    print(f"command {' '.join(cmd[1:])}: {a:.2f} s median of {repeats} "
+    print(f"command {' '.join(args)}: {a:.2f} s median of {repeats} "
           f"({min(times):.2f}-{max(times):.2f} s), imports and start-up included; baseline, "
           f"a process importing the planner only: {b:.2f} s; command / baseline {a / b:.1f}x")
+    print(f"  processor time of the command: {statistics.median(cpu):.2f} s median "
+          f"({min(cpu):.2f}-{max(cpu):.2f} s)")
+    if against is not None:
+        c, d = statistics.median(old), statistics.median(old_cpu)
+        print(f"  the same on the code of {against}: {c:.2f} s median wall "
+              f"({min(old):.2f}-{max(old):.2f} s), {d:.2f} s processor; "
+              f"that / this: {c / a:.2f}x wall, {d / statistics.median(cpu):.2f}x processor")
 
 
 def main() -> None:
     repeats = int(sys.argv[1]) if len(sys.argv) > 1 else 3
+    against = Path(sys.argv[2]).resolve() if len(sys.argv) > 2 else None
     print(f"machine: {cpu_model()}, {os.cpu_count()} CPUs, "
-          f"Python {platform.python_version()}")
+          f"Python {platform.python_version()}, load average {os.getloadavg()[0]:.1f}")
     run(True, None)  # warm imports and caches of the libraries
     compare("plan build + JSON", None, repeats)
     compare("plan build + JSON, confidence 0.99", 0.99, repeats)
-    command(repeats)
+    command(repeats, against=against)
+    command(repeats, ("--confidence", "0.99"), against)
+    print(f"load average at the end: {os.getloadavg()[0]:.1f}")
 
 
 if __name__ == "__main__":

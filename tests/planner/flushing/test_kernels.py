@@ -7,6 +7,9 @@
   parcel profiles ([SCIPY-2020] ``scipy.integrate.quad``), including pipes
   that take nothing in for a while (plug flow, [LEVENSPIEL-1999] [P]);
 - the one-product flow map against the link-by-link flow matrices;
+- the dense-output matrix against SciPy's exponential of the augmented system
+  ([SCIPY-2020] ``scipy.linalg.expm``), and the pipe system's solve against
+  ``numpy.linalg.solve`` itself, bit for bit;
 - a branch whose consumer burns nothing: its inlet keeps the old fuel and every
   fuel is conserved ([LEVENSPIEL-1999] mass balance [D]).
 """
@@ -180,3 +183,38 @@ def test_a_filled_tank_warns_over_capacity_and_a_drawn_tank_runs_dry():
     assert len(r.warnings) == 1 and "'mgo_service' exceeds its capacity 120 m³" in r.warnings[0]
     with pytest.raises(FlushError, match=r"'hfo_service' runs dry at t = 16\.667 h"):
         simulate(system, sw, schedule, 30.0)
+
+
+def test_the_pipe_system_solve_is_numpys_bit_for_bit_and_refuses_a_singular_one():
+    """``step._solve`` calls the LAPACK kernel behind ``numpy.linalg.solve`` directly: the
+    same result to the last bit (the reference is numpy.linalg.solve itself), and a singular
+    system still raises numpy's LinAlgError."""
+    from planner.flushing.step import _solve
+
+    rng = np.random.default_rng(7)
+    for p in (1, 2, 4, 6):
+        a = np.eye(3 * p) + 0.3 * rng.standard_normal((3 * p, 3 * p))
+        b = rng.standard_normal((3 * p, 2))
+        assert np.array_equal(_solve(a, b), np.linalg.solve(a, b))
+    with pytest.warns(RuntimeWarning), pytest.raises(np.linalg.LinAlgError):
+        _solve(np.zeros((3, 3)), np.ones((3, 2)))
+
+
+@pytest.mark.parametrize("tau", [10.0 / 3600.0, 0.05])
+def test_the_dense_output_matrix_is_the_exponential_of_the_augmented_system(tau):
+    """``exp`` over ``tau`` of ``[x, g, g', g'']`` with ``x' = A·x + g``, ``g''' = 0``
+    against SciPy's exponential of that block matrix ([SCIPY-2020] ``scipy.linalg.expm``),
+    twice for the same size and step (the kept constant blocks must stay as they were)."""
+    from planner.flushing.step import _augmented_step
+
+    rng = np.random.default_rng(3)
+    for _ in range(2):
+        a = compartmental(rng, 4, 20.0)
+        n = len(a)
+        m = np.zeros((4 * n, 4 * n))
+        m[:n, :n] = a
+        for k in range(3):
+            m[k * n:(k + 1) * n, (k + 1) * n:(k + 2) * n] = np.eye(n)
+        ref = scipy.linalg.expm(m * tau)
+        got = _augmented_step(a, tau)
+        assert np.allclose(got, ref, rtol=1e-12, atol=1e-14)
