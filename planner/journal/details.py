@@ -14,13 +14,18 @@ from datetime import date, datetime, timedelta
 from typing import ClassVar
 
 from planner.common.imo import imo_check_digit, valid_imo  # noqa: F401  (re-exported)
-from planner.fuels.fuel import MAX_SULPHUR_PCT  # the fuel ceiling, 4.50 % m/m
 from planner.fuels.volume import (
     TABLE_54B_MAX_DENSITY_KG_M3,
     TABLE_54B_MIN_DENSITY_KG_M3,
     standard_volume_m3,
     volume_correction_factor,
 )
+
+STORED_MAX_SULPHUR_PCT = 5.0
+"""The highest sulphur a stored fuel entry may hold [% m/m]: journals written while the
+entry ceiling was 5.0 % must still read whole (the journal never loses an entry). New
+entries are refused above :data:`planner.fuels.fuel.MAX_SULPHUR_PCT` (4.50 %) when they
+are composed (:mod:`planner.journal.compose_setup`)."""
 
 MAX_TANK_VOLUME_M3 = 1e5
 """Largest tank volume accepted, m³ (a typo guard, not a ship limit)."""
@@ -100,7 +105,7 @@ class FuelSpec:
                              f"got {self.declaration!r}")
         object.__setattr__(self, "sulphur_pct",
                            _number("FuelSpec", "sulphur_pct", self.sulphur_pct, 0.0,
-                                   MAX_SULPHUR_PCT))
+                                   STORED_MAX_SULPHUR_PCT))
         object.__setattr__(self, "density15_kg_m3",
                            _number("FuelSpec", "density15_kg_m3", self.density15_kg_m3,
                                    TABLE_54B_MIN_DENSITY_KG_M3, TABLE_54B_MAX_DENSITY_KG_M3))

@@ -230,9 +230,17 @@ def test_the_journal_sulphur_ceiling_is_the_fuel_files():
     """One ceiling, 4.50 % m/m (the highest global limit, MARPOL Annex VI reg. 14.1
     [MARPOL-VI]), shared with the ship and voyage files."""
     from planner.fuels.fuel import MAX_SULPHUR_PCT
-    from planner.journal import details
+    from planner.journal.compose import Typed
+    from planner.journal.compose_setup import fuel_entry
+    from planner.journal.details import STORED_MAX_SULPHUR_PCT
 
-    assert details.MAX_SULPHUR_PCT is MAX_SULPHUR_PCT == 4.50
+    assert MAX_SULPHUR_PCT == 4.50
     assert FuelSpec("HSFO", "RMG 380", 4.50, 990.0, "B-1").sulphur_pct == 4.50
+    # a new fuel entry above 4.50 % is refused as it is typed ...
+    with pytest.raises(InputError, match="--sulphur"):
+        fuel_entry(Typed(), "HSFO", "RMG 380", 4.51, 990.0, "B-1")
+    # ... but an entry stored when the ceiling was 5.0 % still reads: nothing is lost
+    assert FuelSpec("HSFO", "RMG 380", 4.80, 990.0, "B-1").sulphur_pct == 4.80
+    assert STORED_MAX_SULPHUR_PCT == 5.0
     with pytest.raises(ValueError, match="sulphur_pct"):
-        FuelSpec("HSFO", "RMG 380", 4.51, 990.0, "B-1")
+        FuelSpec("HSFO", "RMG 380", 5.01, 990.0, "B-1")
