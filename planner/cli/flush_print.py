@@ -39,12 +39,11 @@ def back_on_regular(st: FlushStudy) -> tuple[float, float | None]:
     The level is the plan's: within ``SWITCH_BACK_COMPLETE`` (5 %) of the fuels'
     sulphur difference from the regular fuel (common practice; :mod:`planner.voyage.changeovers`).
     """
-    from planner.voyage.changeovers import SWITCH_BACK_COMPLETE
+    from planner.voyage.changeovers import back_on_regular_pct
 
     s = st.summary
     fuels = {f.name: f.sulphur_pct for f in st.result.fuels}
-    s_old, s_new = fuels[s.from_fuel], fuels[s.to_fuel]
-    level = s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
+    level = back_on_regular_pct(fuels[s.from_fuel], fuels[s.to_fuel])
     times = [c.time_at_or_above_h(level, True) for c in st.result.circuit_inlets(s.circuit)]
     return level, None if any(t is None for t in times) else max(times)  # type: ignore[type-var]
 

@@ -250,9 +250,8 @@ def plan_to_regular(system: FuelSystem, timeline: Timeline, circuit: str, from_t
     CircuitChange
         The switch back, simulated (with the thermal path) from the exit.
     """
-    s_old = _main_fuel_sulphur(system, from_tank)
-    s_new = _main_fuel_sulphur(system, to_tank)
-    level = s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
+    level = back_on_regular_pct(_main_fuel_sulphur(system, from_tank),
+                                _main_fuel_sulphur(system, to_tank))
     flushes = flushes if flushes is not None else FlushCache()
     final = _run(flushes, system, timeline, circuit, from_tank, to_tank, exit_epoch_s,
                  limit_pct, level, thermal)
@@ -281,9 +280,22 @@ def switch_back_level_pct(system: FuelSystem, from_tank: str, to_tank: str) -> f
     """
     s_old = _main_fuel_sulphur(system, from_tank)
     s_new = _main_fuel_sulphur(system, to_tank)
-    if s_new <= s_old:
-        return None
-    return s_new - SWITCH_BACK_COMPLETE * (s_new - s_old)
+    return None if s_new <= s_old else back_on_regular_pct(s_old, s_new)
+
+
+def back_on_regular_pct(compliant_pct: float, regular_pct: float) -> float:
+    """The sulphur every inlet must reach for a switch back to be complete [% m/m]: within
+    :data:`SWITCH_BACK_COMPLETE` of the two fuels' difference from the regular fuel.
+
+    Parameters
+    ----------
+    compliant_pct, regular_pct : float [% m/m]
+        The fuel switched from and the fuel switched back to.
+
+    >>> round(back_on_regular_pct(0.08, 0.45), 4)
+    0.4315
+    """
+    return regular_pct - SWITCH_BACK_COMPLETE * (regular_pct - compliant_pct)
 
 
 def _main_fuel_sulphur(system: FuelSystem, tank: str) -> float:

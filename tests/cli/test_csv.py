@@ -12,10 +12,9 @@ import csv
 import json
 import re
 import shutil
-import subprocess
-import sys
 from pathlib import Path
 
+from tests.helpers.cli import changeover as run
 from tests.helpers.paths import ROOT
 from tests.helpers.terminal import position
 
@@ -28,9 +27,6 @@ WORDS = {"Area", "Circuit", "Direction", "From fuel", "To fuel", "Fuel", "Under"
          "In force", "Clock deadline", "Main driver", "Volume", "Kind", "Fed from"}
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    return subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                          capture_output=True, text=True, timeout=180)
 
 
 def read(path: Path) -> list[dict]:

@@ -12,19 +12,12 @@ circuit must take the same time.
 from __future__ import annotations
 
 import json
-import subprocess
-import sys
 
-from tests.helpers.paths import ROOT
+from tests.helpers.cli import changeover_ok as run
 
 ARGS = ["flush", "areas_sample/voyage.toml", "--from", "mgo", "--to", "vlsfo"]
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    r = subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                       capture_output=True, text=True, timeout=180)
-    assert r.returncode == 0, r.stderr
-    return r
 
 
 def test_switch_back_reports_back_on_regular():

@@ -20,15 +20,13 @@ from __future__ import annotations
 import csv
 import json
 import re
-import subprocess
-import sys
 from datetime import UTC, timedelta, timezone
 from xml.etree import ElementTree as ET
 
 import pytest
 
 from tests.cli.test_tables_width import blocks, check_lines, on_a_line
-from tests.helpers.paths import ROOT
+from tests.helpers.cli import changeover_ok as run
 from tests.helpers.pdf import pdf_flat, pdf_pages
 from tests.helpers.terminal import moment, on_tty, piped, position, utc_full
 
@@ -39,11 +37,6 @@ GPX = "{http://www.topografix.com/GPX/1/1}"
 WIDTHS = (80, 120, None)  # None: piped
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    r = subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                       capture_output=True, text=True, timeout=300)
-    assert r.returncode == 0, r.stderr
-    return r
 
 
 @pytest.fixture(scope="module")

@@ -10,13 +10,12 @@ from __future__ import annotations
 
 import json
 import re
-import subprocess
-import sys
 from datetime import datetime
 from pathlib import Path
 
 import pytest
 
+from tests.helpers.cli import changeover as run
 from tests.helpers.paths import ROOT
 
 SAMPLE = ROOT / "areas_sample"
@@ -27,9 +26,6 @@ ROW_KEYS = {"area", "circuit", "direction", "start_utc", "start_lat", "start_lon
 PNG = b"\x89PNG\r\n\x1a\n"
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    return subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                          capture_output=True, text=True, timeout=120)
 
 
 def t(text: str) -> datetime:

@@ -22,12 +22,12 @@ import json
 import re
 import shutil
 import subprocess
-import sys
 from pathlib import Path
 
 import pytest
 
 from planner.charts.geo_ticks import lat_label, lon_label, tick_step_min, ticks_deg
+from tests.helpers.cli import changeover_ok as run
 from tests.helpers.paths import ROOT
 from tests.helpers.pdf import pdf_flat, pdf_words
 
@@ -37,11 +37,6 @@ ROUTE = ["route", "areas_sample/aldmere_to_skarvik.csv", "--areas", "areas_sampl
          "--depart", "2027-05-30T06:00+12:00"]
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    r = subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                       capture_output=True, text=True, timeout=300)
-    assert r.returncode == 0, r.stderr
-    return r
 
 
 words, text = pdf_words, pdf_flat

@@ -11,13 +11,11 @@ precision), longitudes in [−180, 180).
 from __future__ import annotations
 
 import json
-import subprocess
-import sys
 
 import defusedxml.ElementTree as DET
 import pytest
 
-from tests.helpers.paths import ROOT
+from tests.helpers.cli import changeover_ok as run
 
 NS = "{http://www.topografix.com/GPX/1/1}"
 # [GPX-11] [M]: the children of gpx and of wptType, in schema order
@@ -29,11 +27,6 @@ META_CHILDREN = ["name", "desc", "author", "copyright", "link", "time", "keyword
                  "extensions"]
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    r = subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                       capture_output=True, text=True, timeout=300)
-    assert r.returncode == 0, r.stderr
-    return r
 
 
 @pytest.fixture(scope="module")

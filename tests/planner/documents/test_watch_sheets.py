@@ -21,6 +21,7 @@ import sys
 
 import pytest
 
+from tests.helpers.cli import changeover_ok as run
 from tests.helpers.paths import ROOT
 from tests.helpers.terminal import moment, position
 
@@ -29,11 +30,6 @@ SIZES = {"a4": (595, 842), "letter": (612, 792)}
 TANKS = ("vlsfo_service", "vlsfo_settling", "mgo_service", "mgo_storage")  # ship.toml
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    r = subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                       capture_output=True, text=True, timeout=300)
-    assert r.returncode == 0, r.stderr
-    return r
 
 
 @pytest.fixture(scope="module")

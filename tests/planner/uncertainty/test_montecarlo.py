@@ -4,8 +4,6 @@ against brute force, rank correlation, the plan's API, and the flush command."""
 from __future__ import annotations
 
 import json
-import subprocess
-import sys
 
 import numpy as np
 import pytest
@@ -16,6 +14,7 @@ from planner.ship.ship_file import load_ship
 from planner.uncertainty import UncertaintySpec, analyse, start_quantiles, uncertainty_json
 from planner.uncertainty.sensitivity import ranks, spearman
 from planner.uncertainty.surrogate import Case, run_case
+from tests.helpers.cli import changeover as run
 from tests.helpers.flushing import HFO_EQ, MGO_EQ, series
 from tests.helpers.paths import ROOT
 
@@ -179,9 +178,6 @@ def test_start_quantiles_for_the_plan(ship, sched):
     assert r2.lead_conf_h == pytest.approx(r.lead_conf_h)
 
 
-def run(*args: str) -> subprocess.CompletedProcess:
-    return subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT,
-                          capture_output=True, text=True, timeout=300)
 
 
 def test_flush_command_json_and_chart(tmp_path):
