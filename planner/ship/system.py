@@ -31,6 +31,7 @@ from planner.ship.components import (  # noqa: F401  (re-exported)
 )
 from planner.ship.consumers import Consumer
 from planner.ship.flows import circuit_flows
+from planner.ship.scrubbers import Scrubber
 from planner.ship.thermal import InletWindow
 
 
@@ -43,6 +44,8 @@ class FuelSystem:
     (:mod:`planner.ship.inlet_limits`), which :meth:`window_for` returns.
     ``input_warnings`` holds the ship file's values that were taken although
     outside their usual range (:mod:`planner.ship.plausible`), one line each.
+    ``scrubbers`` holds the exhaust gas cleaning systems by name
+    (:mod:`planner.ship.scrubbers`; empty: the ship has none).
     """
 
     ship: ShipIdentity
@@ -54,14 +57,21 @@ class FuelSystem:
     inlet: InletWindow = field(default_factory=InletWindow)
     input_warnings: tuple[str, ...] = ()
     inlets: Mapping[str, InletWindow] = field(default_factory=dict)
+    scrubbers: Mapping[str, Scrubber] = field(default_factory=dict)
 
     def __post_init__(self) -> None:
-        for name in ("fuels", "tanks", "volumes", "consumers", "circuits", "inlets"):
+        for name in ("fuels", "tanks", "volumes", "consumers", "circuits", "inlets",
+                     "scrubbers"):
             object.__setattr__(self, name, MappingProxyType(dict(getattr(self, name))))
         _check_system(self)
         for name in self.inlets:
             if name not in self.consumers:
                 raise FuelSystemError(f"consumers.{name}.inlet", name, "a consumer of [consumers]")
+        for s in self.scrubbers.values():
+            for c in s.consumers:
+                if c not in self.consumers:
+                    raise FuelSystemError(f"scrubbers.{s.name}.consumers", c,
+                                          "a consumer of [consumers]")
 
     def window_for(self, consumer: str) -> InletWindow:
         """The inlet window of ``consumer``: its own, else the ship-wide :attr:`inlet`."""

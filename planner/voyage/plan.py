@@ -60,6 +60,7 @@ from planner.voyage.fuel_choice import (
 from planner.voyage.port import port_state
 from planner.voyage.quantities import Quantities, plan_quantities
 from planner.voyage.runs import Change, Run, make_runs, merge_same_fuel
+from planner.voyage.scrubber_events import ScrubberEvent, ScrubberSpan
 from planner.voyage.stay import needless_switch_back
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
@@ -98,6 +99,10 @@ class Plan:
         The flushes the plan simulated, remembered for the confidence study.
     no_changeover_reason : str or None
         Why the plan has no changeover (None when it has one).
+    scrubber_spans : tuple of ScrubberSpan
+        Where served circuits burn fuel above the limit on a scrubber, in time order.
+    scrubber_events : tuple of ScrubberEvent
+        Every scrubber start, stop, mode change and outage, in time order.
     """
 
     voyage: Voyage
@@ -112,6 +117,8 @@ class Plan:
     warnings: tuple[PlanWarning, ...] = ()
     flushes: FlushCache | None = None
     no_changeover_reason: str | None = None
+    scrubber_spans: tuple[ScrubberSpan, ...] = ()
+    scrubber_events: tuple[ScrubberEvent, ...] = ()
 
 
 def fuels_on_board(voyage: Voyage, system: FuelSystem) -> list[Fuel]:
