@@ -129,3 +129,67 @@ class ScrubberEvent:
             raise ValueError(f"a {self.kind} scrubber event "
                              f"{'carries no' if self.kind in (STOP, OUT_OF_SERVICE) else 'needs a'}"
                              f" mode, got {self.mode!r}")
+
+
+@dataclass(frozen=True)
+class ScrubberOutage:
+    """A scrubber out of service from a moment, as the voyage file states it.
+
+    Parameters
+    ----------
+    scrubber : str
+        The scrubber (a name of the ship file's ``[scrubbers]``).
+    from_epoch_s : float [s]
+        Out of service from this moment, seconds since 1970-01-01 UTC.
+    until_epoch_s : float or None [s]
+        Back in service at this moment (None: for the rest of the voyage).
+    reason : str
+        Why, as the voyage file says it (may be empty).
+    """
+
+    scrubber: str
+    from_epoch_s: float
+    until_epoch_s: float | None = None
+    reason: str = ""
+
+    def __post_init__(self) -> None:
+        _finite(f"outage of {self.scrubber!r}", from_epoch_s=self.from_epoch_s)
+        if self.until_epoch_s is not None:
+            _finite(f"outage of {self.scrubber!r}", until_epoch_s=self.until_epoch_s)
+            if self.until_epoch_s <= self.from_epoch_s:
+                raise ValueError(f"outage of {self.scrubber!r}: it must end after it begins")
+
+    def covers(self, epoch_s: float) -> bool:
+        """The scrubber is out of service at ``epoch_s``."""
+        return self.from_epoch_s <= epoch_s and (self.until_epoch_s is None
+                                                 or epoch_s < self.until_epoch_s)
+
+
+@dataclass(frozen=True)
+class ZonePassage:
+    """The route's passage through one washwater discharge zone.
+
+    Parameters
+    ----------
+    zone : str
+        The zone's name (its GeoJSON ``name``).
+    allows : tuple of str
+        The washwater modes the zone allows (``("closed",)``: no open-loop
+        discharge; ``()``: no discharge at all, no scrubbing).
+    from_m, to_m : float [m]
+        Where the route enters and leaves it, along the route from departure (0 when
+        the voyage departs inside it; the route's length when it arrives inside it).
+    """
+
+    zone: str
+    allows: tuple[str, ...]
+    from_m: float
+    to_m: float
+
+    def __post_init__(self) -> None:
+        _finite(f"passage of zone {self.zone!r}", from_m=self.from_m, to_m=self.to_m)
+        if any(m not in MODES for m in self.allows):
+            raise ValueError(f"zone {self.zone!r}: allows must be a subset of {MODES}, "
+                             f"got {self.allows!r}")
+        if self.to_m < self.from_m:
+            raise ValueError(f"passage of zone {self.zone!r}: it must not end before it begins")

@@ -49,3 +49,15 @@ def test_span_checks() -> None:
         ScrubberSpan("egcs", ("main",), "hsfo", "mgo", 0.1, "open", 10.0, 0.0, 0.0, 1.0)
     with pytest.raises(ValueError, match="mode"):
         ScrubberSpan("egcs", ("main",), "hsfo", "mgo", 0.1, "hybrid", 0.0, 1.0, 0.0, 1.0)
+
+
+def test_outage_and_passage() -> None:
+    from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
+    o = ScrubberOutage("egcs", 100.0, 200.0)
+    assert o.covers(100.0) and o.covers(199.9) and not o.covers(200.0) and not o.covers(99.0)
+    assert ScrubberOutage("egcs", 100.0).covers(1e12)
+    with pytest.raises(ValueError, match="end after"):
+        ScrubberOutage("egcs", 100.0, 100.0)
+    assert ZonePassage("z", ("closed",), 0.0, 5.0).allows == ("closed",)
+    with pytest.raises(ValueError, match="subset"):
+        ZonePassage("z", ("hybrid",), 0.0, 5.0)
