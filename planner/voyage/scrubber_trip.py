@@ -29,7 +29,8 @@ consumption of the circuit's consumers from the failure on, and that is a
 piecewise-constant rate changing at the timeline's load changes (a speed change,
 a stop, departure, arrival). A failure at ``t`` sees the same consumption as one
 at ``t'`` whenever no load change lies in ``[t, t + D]``: the lead ``D`` is then
-the same (and the cache returns it without simulating). It bends only (i) at a
+the same (and the cache returns it without simulating when no load change lies
+within the 8 h the flush also reads for its check of the tanks). It bends only (i) at a
 load change itself and (ii) where the flush would end exactly at a load change
 (``t + D(t) = b``). For a circuit whose volumes all carry one flow (a chain to
 one consumer) the state of the flush depends on the volume passed through only,
