@@ -38,8 +38,11 @@ so ``D`` is exactly piecewise linear with its kinks at (i) and (ii): we sample
 both exactly (the second solved by bisection, ``t + D(t)`` never decreases with
 ``t``, as in :mod:`planner.voyage.changeovers`), the span's start and end, every
 area boundary inside it, and every ``step_h`` (default 15 min) for the chart
-and for circuits with branches. Straight lines between the samples are then the
-lead itself for a one-flow chain, and a close chord otherwise.
+and for circuits with branches. The time out of compliance has one more kind of
+kink, where the flush would end exactly as the limit in force changes (an entry
+ahead, an exit): those failures are found the same way. Straight lines between
+the samples are then the figures themselves for a one-flow chain, and a close
+chord otherwise.
 
 A failure the flush cannot follow (the fallback tank runs dry, a pump cannot
 cover the consumption: :class:`~planner.flushing.FlushError`) or that never
@@ -68,7 +71,9 @@ from planner.voyage.scrubber_trip_moments import (
     BOUNDARY,
     BOUNDARY_EVENTS,
     ENDS_AT_CHANGE,
+    ENDS_AT_LIMIT,
     SAMPLE_KINDS,
+    limit_changes_epoch_s,
     load_changes_epoch_s,
     out_of_compliance_h,
     sample_moments,
@@ -320,17 +325,18 @@ def trip_leads(system: FuelSystem, timeline: Timeline, check: RouteCheck,
         target = flushing_target_pct(span.limit_pct, voyage_target_fraction,
                                      system.fuels[span.fallback_fuel])
         bounds = span_boundaries(check, span)
+        limits = limit_changes_epoch_s(check, timeline)
         for circuit in span.circuits:
             c = _Circuit(system, timeline, check, flushes, span, i, circuit, target)
             consumers = system.circuits[circuit].consumers if circuit in system.circuits else ()
             changes = load_changes_epoch_s(timeline, consumers)
             for t, kind in sample_moments(span, step_h, [b[2] for b in bounds], changes):
                 c.lead(t, kind)
-            for b in changes:
-                if b > span.from_epoch_s:
-                    t = c.ends_at(b)
+            for kind, moments in ((ENDS_AT_CHANGE, changes), (ENDS_AT_LIMIT, limits)):
+                for b in moments:
+                    t = c.ends_at(b) if b > span.from_epoch_s else None
                     if t is not None:
-                        c.lead(t, ENDS_AT_CHANGE)
+                        c.lead(t, kind)
             samples += [c.leads[t] for t in sorted(c.leads)]
             rows += [TripBoundary(area, event, c.lead(t, BOUNDARY))
                      for area, event, t in bounds]

@@ -23,9 +23,10 @@ _SAME_S = 0.5  # moments closer than this are one sample, s
 _SAME_RATE = 1e-9  # rates closer than this (relative) are one load: a leg's round-off
 _AT_M = 1.0  # a crossing this close to the span's start is at its start, m
 
-START, END, STEP, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE = (
-    "start", "end", "step", "boundary", "load_change", "ends_at_load_change")
-SAMPLE_KINDS = (START, END, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, STEP)
+START, END, STEP, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, ENDS_AT_LIMIT = (
+    "start", "end", "step", "boundary", "load_change", "ends_at_load_change",
+    "ends_at_limit_change")
+SAMPLE_KINDS = (START, END, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, ENDS_AT_LIMIT, STEP)
 """Why a moment is sampled, in priority order (a moment sampled for two reasons keeps the
 first)."""
 ENTER, INSIDE_AT_START, COMES_INTO_FORCE = "enter", "inside_at_start", "comes_into_force"
@@ -91,6 +92,22 @@ def load_changes_epoch_s(timeline: Timeline, consumers: Sequence[str]) -> list[f
                for n in consumers):
             out.append(b)
     return out
+
+
+def limit_changes_epoch_s(check: RouteCheck, timeline: Timeline) -> list[float]:
+    """The moments the limit in force changes along the route (the ship reaching the start
+    of a stretch whose limit differs from the one before), seconds since 1970-01-01 UTC.
+
+    Parameters
+    ----------
+    check : RouteCheck
+        The route check (its stretches).
+    timeline : Timeline
+        The voyage (its schedule).
+    """
+    st = check.stretches
+    at = [s.from_m for a, s in zip(st[:-1], st[1:], strict=True) if s.limit_pct != a.limit_pct]
+    return [float(t) for t in timeline.schedule.epoch_at(at)] if at else []
 
 
 def span_boundaries(check: RouteCheck, span: ScrubberSpan) -> list[tuple[str, str, float]]:

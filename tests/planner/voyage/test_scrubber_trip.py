@@ -28,6 +28,7 @@ from planner.voyage.scrubber_trip import TripLead, plan_trip_leads, trip_leads
 from planner.voyage.scrubber_trip_moments import (
     END,
     ENDS_AT_CHANGE,
+    ENDS_AT_LIMIT,
     LOAD_CHANGE,
     START,
     STEP,
@@ -86,6 +87,10 @@ def test_failure_before_the_entry_counts_from_the_boundary(closed):
         to_boundary_h = max(0.0, (entry - s.fail_epoch_s) / 3600.0)
         assert s.out_of_compliance_h == pytest.approx(max(0.0, t - to_boundary_h),
                                                       abs=TIME_TOL_H)
+    # the kink of the out-of-compliance line: the failure whose flush ends at the entry
+    (kink,) = [s for s in got.samples if s.kind == ENDS_AT_LIMIT]
+    assert kink.fail_epoch_s == pytest.approx(entry - t * 3600.0, abs=3.0)
+    assert kink.out_of_compliance_h == pytest.approx(0.0, abs=TIME_TOL_H)
     first = got.samples[0]
     assert first.kind == START
     # at 3.8°E the boundary is 1.2° of the parallel away at 12 kn: more than T
