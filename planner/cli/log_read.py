@@ -27,7 +27,8 @@ def show_cmd(
     since: SinceOpt = None, until: UntilOpt = None,
     kind: Annotated[list[str] | None, typer.Option(help="Only these kinds (start, complete, "
                                                    "back, back-complete, tanks, sample, note, "
-                                                   "trend, correction, fuel, setup).")] = None,
+                                                   "trend, scrubber, report, correction, "
+                                                   "fuel, setup).")] = None,
     json_out: JsonOpt = False,
 ) -> None:
     """List entries (filtered by voyage, area, dates or kind), corrections beside originals."""

@@ -215,6 +215,8 @@ def summary(s: Stored, state: JournalState) -> list[str]:
     e = s.entry
     r = e.record
     label = LABELS[e.kind]
+    if r is not None and getattr(r.details, "failure", False):
+        label = "scrubber failure"
     if e.kind == CORRECTION and e.correction is not None:
         c = e.correction
         label = (f"{'strike-out' if c.void else 'correction'} of entry {c.corrects} "

@@ -13,6 +13,7 @@ in the same transaction (:mod:`planner.journal.attach`), so the chain covers the
 
 from __future__ import annotations
 
+import dataclasses
 from collections.abc import Callable
 from datetime import UTC, datetime, timedelta
 from pathlib import Path
@@ -123,3 +124,16 @@ def record_document(journal: str | Path, file: str | Path, kind: str, title: str
         (stored,) = j.append_many([make], [data])
     return stored.seq
 
+
+def report_changes(title: str | None) -> Callable[[object], object] | None:
+    """What a correction changes in a report entry's details: its title (None: nothing)."""
+    if title is None:
+        return None
+    if not title.strip():
+        raise InputError("--title", "", title, "the document's title")
+
+    def change(d: object) -> object:
+        if not isinstance(d, ReportDetails):
+            raise InputError("correct", "", "--title", "a report entry (this entry is not one)")
+        return dataclasses.replace(d, title=" ".join(title.split()))
+    return change
