@@ -158,7 +158,8 @@ def print_cmd(
         raise InputError(str(path), "", "an entry too long for a page", "entries this "
                          "program wrote (names at most 120 characters); show --json "
                          "lists them") from None
-    typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.others)} other "
+    typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.scrubber)} scrubber "
+               f"events, {len(book.reports)} documents made, {len(book.others)} other "
                f"entries; journal last hash {report.last_hash}")
 
 
