@@ -39,8 +39,8 @@ from planner.documents.record_pdf_cells import (
     long_texts,
     others_section,
     reports_section,
-    ship_time,
     scrubber_section,
+    ship_time,
     short_text,
     trend_lines,
 )
