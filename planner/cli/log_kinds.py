@@ -65,13 +65,14 @@ def scrubber_cmd(
 ) -> None:
     """A scrubber event: started, stopped, washwater mode changed, failure, back in service,
     or an SO₂/CO₂ reading against its limit."""
-    from planner.cli.log import _append, _typed
+    from planner.cli.log_trend import append_files
+    from planner.journal.compose import Typed
     from planner.journal.scrubber import scrubber_entry
 
-    t = _typed(rank, name, at, tz, pos, area, voyage, remarks=remarks, plan=plan,
-               as_planned=as_planned, confirm=confirm)
-    _append(journal, scrubber_entry(t, scrubber, event, mode, so2_ppm, co2_pct, limit_pct,
-                                    ratio_limit, event_number))
+    t = Typed(rank, name, at, tz, pos, area, voyage, remarks=remarks,
+              plan=str(plan) if plan else None, as_planned=as_planned, confirm=confirm)
+    append_files(journal, [scrubber_entry(t, scrubber, event, mode, so2_ppm, co2_pct,
+                                          limit_pct, ratio_limit, event_number)], [])
 
 
 def report_cmd(
@@ -85,12 +86,11 @@ def report_cmd(
 ) -> None:
     """Keep a document made (a non-availability report, say) in the journal: its bytes, name,
     size and SHA-256 in the chain."""
-    from planner.cli.log import _typed
     from planner.cli.log_trend import append_files
-    from planner.journal.compose import _when, _who
+    from planner.journal.compose import Typed, _when, _who
     from planner.journal.reports import read_document_bytes, report_details, report_entry
 
-    t = _typed(rank, name, at, tz, remarks=remarks)
+    t = Typed(rank, name, at, tz, remarks=remarks)
     who = _who(t)
     data = read_document_bytes(file, "FILE")
     details = report_details(file.name, data, kind or "", title or "", remarks or "")
