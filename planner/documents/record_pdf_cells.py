@@ -140,7 +140,12 @@ def _label(line: Line, i: int, v: Version, first: str) -> str:
 
 
 def _scrubber_row(line: Line, i: int, v: Version) -> list[Markup]:
-    from planner.journal.describe_kinds import OVER_WORDS, event_head, reading_text
+    from planner.journal.describe_kinds import (
+        OVER_WORDS,
+        event_head,
+        planned_text,
+        reading_text,
+    )
 
     struck = not v.standing
     r = v.record
@@ -153,6 +158,7 @@ def _scrubber_row(line: Line, i: int, v: Version) -> list[Markup]:
     notes = [latin(reading_text(d))] if d.ratio is not None else []
     if d.remarks:
         notes.append(short_text(latin(d.remarks), v.stored.seq))
+    notes += [short_text(latin(x), v.stored.seq) for x in planned_text(d)]
     e = v.stored.entry
     notes.append(f"by {e.who.rank} {e.who.name}")
     body = "<br/>".join(f"<b>{esc(x)}</b>" if OVER_WORDS in x else esc(x) for x in notes)
