@@ -392,3 +392,13 @@ class TrendDetails:
                 return name
         return None
 
+
+
+def __getattr__(name: str) -> object:
+    """``Details`` and ``DETAIL_TYPES`` moved to :mod:`planner.journal.details_kinds` (with
+    the scrubber and report details); still found here for code that imports them."""
+    if name in ("Details", "DETAIL_TYPES"):
+        from planner.journal import details_kinds
+
+        return getattr(details_kinds, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -77,7 +77,9 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
     e = s.entry
     r: Record | None = e.record
     row = dict.fromkeys(CSV_COLUMNS, "")
-    row.update(seq=str(s.seq), kind=e.kind, what=LABELS[e.kind], rank=e.who.rank,
+    what = "scrubber failure" if getattr(getattr(e.record, "details", None), "failure",
+                                         False) else LABELS[e.kind]
+    row.update(seq=str(s.seq), kind=e.kind, what=what, rank=e.who.rank,
                name=e.who.name, written_utc=iso(e.written_utc), hash=s.hash)
     if e.correction is not None:
         row.update(corrects=str(e.correction.corrects), reason=e.correction.reason,

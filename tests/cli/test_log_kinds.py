@@ -104,6 +104,11 @@ def test_a_failure_reads_as_a_failure_with_its_action(base):
     assert "2026-05-31 01:00Z (ship's time 2026-05-31 13:00 (+12:00))" in out
     assert "39°18.0'S 175°54.0'E" in out
     assert "changed over to MGO at 01:20Z; flag state informed" in out
+    rows = list(csv.DictReader(io.StringIO(ok(base["journal"], "export", "--format", "csv"))))
+    row = next(r for r in rows if r["seq"] == "5")
+    assert row["what"] == "scrubber failure" and row["lat_deg"] == "-39.300000"
+    assert row["text"] == ("SCRUBBER FAILURE: EGCS 1; changed over to MGO at 01:20Z; flag "
+                           "state informed")
 
 
 def test_a_correction_works_the_ratio_out_again_and_a_void_strikes_out(base):
