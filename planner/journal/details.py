@@ -395,8 +395,7 @@ class TrendDetails:
 
 
 def __getattr__(name: str) -> object:
-    """``Details`` and ``DETAIL_TYPES`` moved to :mod:`planner.journal.details_kinds` (with
-    the scrubber and report details); still found here for code that imports them."""
+    """``Details`` and ``DETAIL_TYPES``, now in :mod:`planner.journal.details_kinds`."""
     if name in ("Details", "DETAIL_TYPES"):
         from planner.journal import details_kinds
 

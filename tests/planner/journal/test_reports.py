@@ -120,3 +120,19 @@ def test_markup_in_a_title_is_kept_as_typed(journal, doc):
                         rank="2nd Engineer")
     with Journal.open_read(journal) as j:
         assert j.state().stored[n].entry.record.details.title == title
+
+
+def test_record_document_migrates_a_schema_4_journal(tmp_path, doc):
+    from tests.helpers.paths import ROOT
+
+    old = tmp_path / "old.sqlite"
+    old.write_bytes((ROOT / "tests" / "data" / "journal" / "schema4_journal.sqlite")
+                    .read_bytes())
+    n = record_document(old, doc, "nonavailability", "NAR", MADE, "T. Okafor",
+                        rank="2nd Engineer")
+    assert n == 10
+    conn = sqlite3.connect(old)
+    assert conn.execute("PRAGMA user_version").fetchone()[0] == 5
+    conn.close()
+    with Journal.open_read(old) as j:
+        assert j.verify().ok and j.state().stored[n].entry.record.voyage == "V27-05"
