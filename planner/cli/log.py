@@ -6,8 +6,9 @@ bad input is one line on standard error, exit status 2, nothing written.
 This module holds ``log_app`` and the commands that write entries (init,
 setup, fuel, the four changeover steps, tanks, sample, note, correct); the
 options are in :mod:`planner.cli.log_options`, the commands that read the
-journal (show, verify, export, print) in :mod:`planner.cli.log_read` and the
-trend attachment (trend, export-trend) in :mod:`planner.cli.log_trend`,
+journal (show, verify, export, print) in :mod:`planner.cli.log_read`, the
+trend attachment (trend, export-trend) in :mod:`planner.cli.log_trend` and
+scrubber events, documents made and export-file in :mod:`planner.cli.log_kinds`,
 registered here.
 """
 
@@ -18,7 +19,7 @@ from typing import TYPE_CHECKING, Annotated
 
 import typer
 
-from planner.cli import log_read, log_trend
+from planner.cli import log_kinds, log_read, log_trend
 from planner.cli.log_options import (
     AreaOpt,
     AsPlannedOpt,
@@ -325,18 +326,35 @@ def correct_cmd(
     number: Annotated[str | None, typer.Option(help="Sample number.")] = None,
     seal: Annotated[str | None, typer.Option(help="Seal number.")] = None,
     point: Annotated[str | None, typer.Option(help="Sampling point.")] = None,
+    scrubber: log_kinds.ScrubberOpt = None, mode: log_kinds.ModeOpt = None,
+    so2_ppm: log_kinds.So2Opt = None, co2_pct: log_kinds.Co2Opt = None,
+    limit_pct: log_kinds.LimitPctOpt = None, ratio_limit: log_kinds.RatioLimitOpt = None,
+    title: log_kinds.TitleOpt = None,
     rank: RankOpt = None, name: NameOpt = None,
 ) -> None:
     """Correct an entry: a new entry with the corrected values; the original stays."""
     from planner.journal.compose import correction_entry
+    from planner.journal.reports import report_changes
+    from planner.journal.scrubber import scrubber_changes
 
     t = _typed(rank, name, at, tz, pos, area, voyage, circuit, fuel, from_fuel, tank, remarks,
                follows)
-    _append(journal, correction_entry(entry, t, reason, void, text, number, seal, point))
+    hooks = [h for h in (scrubber_changes(scrubber, mode, so2_ppm, co2_pct, limit_pct,
+                                          ratio_limit), report_changes(title)) if h]
+
+    def changes(d: object) -> object:
+        for h in hooks:
+            d = h(d)
+        return d
+    _append(journal, correction_entry(entry, t, reason, void, text, number, seal, point,
+                                      changes if hooks else None))
 
 
 log_app.command("trend")(log_trend.trend_cmd)
 log_app.command("export-trend")(log_trend.export_trend_cmd)
+log_app.command("scrubber")(log_kinds.scrubber_cmd)
+log_app.command("report")(log_kinds.report_cmd)
+log_app.command("export-file")(log_kinds.export_file_cmd)
 log_app.command("show")(log_read.show_cmd)
 log_app.command("verify")(log_read.verify_cmd)
 log_app.command("export")(log_read.export_cmd)

@@ -27,7 +27,8 @@ def show_cmd(
     since: SinceOpt = None, until: UntilOpt = None,
     kind: Annotated[list[str] | None, typer.Option(help="Only these kinds (start, complete, "
                                                    "back, back-complete, tanks, sample, note, "
-                                                   "trend, correction, fuel, setup).")] = None,
+                                                   "trend, scrubber, report, correction, "
+                                                   "fuel, setup).")] = None,
     json_out: JsonOpt = False,
 ) -> None:
     """List entries (filtered by voyage, area, dates or kind), corrections beside originals."""
@@ -157,7 +158,8 @@ def print_cmd(
         raise InputError(str(path), "", "an entry too long for a page", "entries this "
                          "program wrote (names at most 120 characters); show --json "
                          "lists them") from None
-    typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.others)} other "
+    typer.echo(f"wrote {pdf}: {len(book.standing)} changeovers, {len(book.scrubber)} scrubber "
+               f"events, {len(book.reports)} documents made, {len(book.others)} other "
                f"entries; journal last hash {report.last_hash}")
 
 

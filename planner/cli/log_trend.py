@@ -88,6 +88,14 @@ def export_trend_cmd(
 def trend_of(state, entry: int):
     """The :class:`~planner.journal.details.TrendDetails` of trend entry ``entry`` as it
     stands (one line if it is not one)."""
+    from planner.journal.entries import TREND
+
+    return file_of(state, entry, (TREND,))
+
+
+def file_of(state, entry: int, kinds: tuple[str, ...]):
+    """The details of entry ``entry`` of one of ``kinds`` (entries that attach a file) as
+    it stands, or as written when struck out (the bytes stay); one line if it is not one."""
     from geo.errors import InputError
     from planner.journal.entries import LABELS, TREND
 
@@ -95,8 +103,10 @@ def trend_of(state, entry: int):
         span = f"1 to {state.last_seq}" if state.last_seq else "none yet"
         raise InputError("ENTRY", "", entry, f"the number of an entry in this journal ({span})")
     kind = state.kind_of(entry)
-    if kind != TREND:
-        raise InputError("ENTRY", "", entry, f"a trend entry (log trend); entry {entry} is a "
+    if kind not in kinds:
+        what = "a trend entry (log trend)" if kinds == (TREND,) else \
+            "a trend or report entry (log trend, log report)"
+        raise InputError("ENTRY", "", entry, f"{what}; entry {entry} is a "
                                              f"{LABELS[kind]} entry")
     r = state.current(state.root(entry))
     if r is None:
@@ -104,15 +114,15 @@ def trend_of(state, entry: int):
     return r.details
 
 
-def check_bytes(data: bytes | None, d, entry: int) -> None:
+def check_bytes(data: bytes | None, d, entry: int, noun: str = "trend") -> None:
     """Refuse stored bytes that are missing or do not give the entry's SHA-256 and size."""
     from geo.errors import InputError
     from planner.journal.attach import sha256_hex
 
     if data is None:
-        raise InputError("ENTRY", "", entry, "a trend whose bytes are in the journal (they "
+        raise InputError("ENTRY", "", entry, f"a {noun} whose bytes are in the journal (they "
                                              "are missing: run changeover log verify)")
     if sha256_hex(data) != d.sha256 or len(data) != d.size_bytes:
-        raise InputError("ENTRY", "", entry, "a trend whose stored bytes match the SHA-256 "
+        raise InputError("ENTRY", "", entry, f"a {noun} whose stored bytes match the SHA-256 "
                                              "in its entry (they do not: the journal was "
                                              "altered; run changeover log verify)")

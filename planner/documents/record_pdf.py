@@ -11,7 +11,10 @@ mass); the margin to the planned boundary (a crossing, or a moment on the clock 
 the area coming into force while the ship is inside it); and lines for the chief
 engineer and the master to sign. A corrected entry is printed struck through
 with the correction under it, never left out. Other entries (tank soundings,
-samples, notes) follow in one table. reportlab is imported inside functions.
+samples, notes) follow in one table, after the scrubber events (time, position, event,
+washwater mode, SO2 and CO2 readings against the ratio limit, an over-limit reading and a
+failure said in words) and the documents made (title, file, SHA-256). reportlab is
+imported inside functions.
 """
 
 from __future__ import annotations
@@ -35,6 +38,8 @@ from planner.documents.record_pdf_cells import (
     cell,
     long_texts,
     others_section,
+    reports_section,
+    scrubber_section,
     ship_time,
     short_text,
     trend_lines,
@@ -312,7 +317,8 @@ def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
         ("Ship", book.ship_name),
         ("IMO number", book.imo_number),
         ("This copy covers", f"{book.selection}: {len(book.standing)} changeover(s), "
-                             f"{len(book.others)} other entries"),
+                             f"{len(book.scrubber)} scrubber event(s), {len(book.reports)} "
+                             f"document(s) made, {len(book.others)} other entries"),
         ("Journal", f"{journal_name}: {book.entries} entries, the last is entry "
                     f"{book.last_seq}"),
         ("Journal's last hash", para(book.last_hash, "mono")),
@@ -342,6 +348,8 @@ def write_record_pdf(target: str | Path, book: Book, report: VerifyReport, *,
         story.append(para("No changeover is recorded in this selection.", "h2"))
     for i, ch in numbered(book):
         story += _changeover(i, ch)
+    story += scrubber_section(book.scrubber)
+    story += reports_section(book.reports)
     story += others_section(book.others)
     story += [para("How to check this copy", "h2"), para(
         f"Run <font face='Courier'>changeover log verify --journal {esc(journal_name)} --hash "

@@ -3,7 +3,8 @@
 Used by :mod:`planner.documents.record_pdf`. A cell holds escaped text, struck through
 (grey) for a version that no longer stands; free text longer than :data:`CELL_CHARS` is
 cut in its cell with a pointer and printed in full under the table, in paragraphs that
-break across pages. The other entries (tank soundings, samples, notes) are one table.
+break across pages. The other entries (tank soundings, samples, notes) are one table, the
+scrubber events another, the documents made a third.
 reportlab is imported inside functions.
 """
 
@@ -120,3 +121,124 @@ def trend_lines(trends: tuple[Line, ...]) -> list[str]:
                    f"{words}. Kept in the journal: changeover log export-trend {line.seq} "
                    "OUT.csv writes it back, checked against this hash.")
     return out
+
+
+def latin(text: str) -> str:
+    """Text for the PDF's standard fonts (Latin-1): the subscript two of SO₂ as ``2``."""
+    return text.replace("\u2082", "2")
+
+
+def _label(line: Line, i: int, v: Version, first: str) -> str:
+    """The version's label: ``first`` for the original, else the correction's or strike-out's
+    words with its reason."""
+    reason = short_text(v.reason or "", v.stored.seq)
+    if i == 0:
+        return first
+    if v.record is None:
+        return f"struck out: {reason}"
+    return f"correction of {v.stored.entry.correction.corrects}: {reason}"
+
+
+def _scrubber_row(line: Line, i: int, v: Version) -> list[Markup]:
+    from planner.journal.describe_kinds import (
+        OVER_WORDS,
+        event_head,
+        planned_text,
+        reading_text,
+    )
+
+    struck = not v.standing
+    r = v.record
+    if r is None:
+        return ([cell([str(v.stored.seq)], struck), cell([_label(line, i, v, "")], struck)]
+                + [cell(["—"], struck)] * 4)
+    d = r.details
+    head = latin(event_head(d))
+    label = [head] if i == 0 else [_label(line, i, v, ""), head]
+    notes = [latin(reading_text(d))] if d.ratio is not None else []
+    if d.remarks:
+        notes.append(short_text(latin(d.remarks), v.stored.seq))
+    notes += [short_text(latin(x), v.stored.seq) for x in planned_text(d)]
+    e = v.stored.entry
+    notes.append(f"by {e.who.rank} {e.who.name}")
+    body = "<br/>".join(f"<b>{esc(x)}</b>" if OVER_WORDS in x else esc(x) for x in notes)
+    shown = [esc(x) for x in label]
+    if d.failure or d.over_limit:   # the event line in bold: what a reader must see
+        shown[-1] = f"<b>{shown[-1]}</b>"
+    event = "<br/>".join(shown)
+    if struck:
+        body = f'<font color="{GREY}"><strike>{body}</strike></font>'
+        event = f'<font color="{GREY}"><strike>{event}</strike></font>'
+    return [cell([str(v.stored.seq)], struck, bold=v.standing), Markup(event),
+            cell([format_utc(r.time_utc)], struck), cell(ship_time(r), struck),
+            cell(position_text(r.position).split(" ", 1), struck), Markup(body)]
+
+
+def scrubber_section(lines: tuple[Line, ...]) -> list:
+    """Scrubber events in time order, each version (corrections struck through), with a
+    caution box for every failure and over-limit reading that stands."""
+    from planner.documents.pdf_common import caution_box
+    from planner.journal.describe_kinds import event_head, reading_text
+
+    if not lines:
+        return []
+    rows = [_scrubber_row(line, i, v) for line in lines for i, v in enumerate(line.versions)]
+    out = [para("Scrubber events", "h1"), para(
+        "Exhaust gas cleaning system events as recorded: SO2 in ppm and CO2 in % v/v read at "
+        "the scrubber outlet, their ratio against the limit in force (MEPC.340(77) Table 1 "
+        "for the sulphur limit named).", "small"),
+           data_table(["Entry", "Event", "UTC", "Ship's time", "Position",
+                       "Readings, remarks, by"], rows, [12, 36, 25, 25, 24,
+                                                       FRAME_WIDTH_MM - 122])]
+    marks = []
+    for line in lines:
+        r = line.standing.record
+        if r is None or not (r.details.failure or r.details.over_limit):
+            continue
+        what = reading_text(r.details) if r.details.over_limit else event_head(r.details)
+        action = f"; action: {r.details.remarks}" if r.details.remarks else \
+            "; no action recorded"
+        marks.append(latin(f"entry {line.seq}, {format_utc(r.time_utc)}, "
+                           f"{position_text(r.position)}: {what}"
+                           f"{action if r.details.failure else ''}"))
+    if marks:
+        out.append(caution_box("Scrubber failures and readings over the limit", marks))
+    full = [(v.stored.seq, what, text) for line in lines for v in line.versions
+            for what, text in (("reason", v.reason or ""),
+                               ("remarks", v.record.details.remarks if v.record else ""))]
+    return out + long_texts(full)
+
+
+def reports_section(lines: tuple[Line, ...]) -> list:
+    """Documents made and kept in the journal: title, kind, file, size, the SHA-256 in
+    short (the first 16 digits) and when, each version (corrections struck through)."""
+    if not lines:
+        return []
+    rows = []
+    for line in lines:
+        for i, v in enumerate(line.versions):
+            struck = not v.standing
+            r = v.record
+            if r is None:
+                rows.append([cell([str(v.stored.seq)], struck),
+                             cell([_label(line, i, v, "")], struck)] + [cell(["—"], struck)] * 3)
+                continue
+            d = r.details
+            label = [d.title, f"({d.report_kind})"]
+            if i:
+                label.insert(0, _label(line, i, v, ""))
+            e = v.stored.entry
+            rows.append([cell([str(v.stored.seq)], struck), cell(label, struck),
+                         cell([format_utc(r.time_utc)] + ship_time(r), struck),
+                         cell([d.file_name, f"{d.size_bytes} bytes"], struck),
+                         cell([f"{d.sha256[:16]}…", f"by {e.who.rank} {e.who.name}"]
+                              + ([short_text(d.remarks, v.stored.seq)] if d.remarks else []),
+                              struck)])
+    from reportlab.platypus import KeepTogether
+
+    return [KeepTogether([para("Documents made", "h1"), para(
+        "Each document is kept in the journal under its SHA-256 (first 16 hexadecimal digits "
+        "shown): changeover log export-file ENTRY OUT writes it back, checked against the "
+        "full hash in the chain.", "small"),
+            data_table(["Entry", "Document", "Made (UTC, ship's time)", "File", "SHA-256, by"],
+                       rows, [12, 56, 32, 38, FRAME_WIDTH_MM - 138])])]

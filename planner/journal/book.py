@@ -4,8 +4,9 @@ Pure data for printing and listing (no I/O): :func:`select` picks the
 original entries of a voyage, an area or a period, each as a :class:`Line`
 holding the original and all its corrections; :func:`make_book` groups the
 changeover steps into :class:`Changeover` s (a start with the completion that
-follows it), each with the trend files attached to its steps, and keeps tank soundings,
-samples and notes (and a trend whose changeover is outside the selection) apart.
+follows it), each with the trend files attached to its steps, and keeps scrubber events,
+documents made, and tank soundings, samples and notes (and a trend whose changeover is
+outside the selection) apart.
 """
 
 from __future__ import annotations
@@ -20,6 +21,8 @@ from planner.journal.entries import (
     CORRECTABLE,
     DIRECTION,
     FOLLOWS,
+    REPORT,
+    SCRUBBER,
     TREND,
     Planned,
     Record,
@@ -100,6 +103,8 @@ class Book:
     entries: int
     last_seq: int
     last_hash: str
+    scrubber: tuple[Line, ...] = ()   # scrubber events, in time order
+    reports: tuple[Line, ...] = ()    # documents made, in time order
 
     @property
     def standing(self) -> tuple[Changeover, ...]:
@@ -182,7 +187,10 @@ def make_book(state: JournalState, voyage: str | None = None, area: str | None =
         for v in line.versions:
             for f in (v.record.fuels if v.record else ()):
                 used.setdefault(f"{f.fuel.name}\n{f.fuel.bdn_ref}", f.fuel)
-    others = tuple(x for x in lines if x.kind not in CHANGEOVER_KINDS and x.seq not in shown)
+    apart = (*CHANGEOVER_KINDS, SCRUBBER, REPORT)
+    others = tuple(x for x in lines if x.kind not in apart and x.seq not in shown)
     return Book(state.ship_name or "", state.imo_number or "", tuple(used.values()),
                 changeovers, others, describe_selection(voyage, area, since, until),
-                len(state.stored), state.last_seq, state.last_hash)
+                len(state.stored), state.last_seq, state.last_hash,
+                tuple(x for x in lines if x.kind == SCRUBBER),
+                tuple(x for x in lines if x.kind == REPORT))

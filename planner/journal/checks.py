@@ -48,7 +48,8 @@ NAME_CHARS = 120
 only the free text (:data:`FREE_TEXT`) may be longer."""
 
 FREE_TEXT = {"text": "the note", "remarks": "--remarks", "reason": "--reason",
-             "supplier": "--supplier", "confirmed": "--confirm"}
+             "supplier": "--supplier", "confirmed": "--confirm",
+             "planned_reason": "the plan's reason"}
 """Fields of free text, of any length (printed in full across pages)."""
 
 

@@ -285,9 +285,12 @@ def note_entry(t: Typed, text: str) -> Builder:
 
 def correction_entry(number: int, t: Typed, reason: str | None, void: bool = False,
                      text: str | None = None, sample_number: str | None = None,
-                     seal: str | None = None, point: str | None = None) -> Builder:
+                     seal: str | None = None, point: str | None = None,
+                     changes: Callable[[object], object] | None = None) -> Builder:
     """A correction of entry ``number``: the given values replace those of the version
-    corrected; the original stays. ``void`` strikes the entry out."""
+    corrected; the original stays. ``void`` strikes the entry out; ``changes`` turns the
+    details (with the common changes made) into the corrected ones (a scrubber's readings,
+    :func:`planner.journal.scrubber.scrubber_changes`; a report's title)."""
     def make(state: JournalState) -> Entry:
         who = _who(t)
         if not reason or not reason.strip():
@@ -301,6 +304,8 @@ def correction_entry(number: int, t: Typed, reason: str | None, void: bool = Fal
         if void:
             return _entry(CORRECTION, who, None, Correction(number, kind, reason.strip(), True))
         record = _corrected(state, kind, base, t, text, sample_number, seal, point)
+        if changes is not None:
+            record = dataclasses.replace(record, details=changes(record.details))
         if record == base:
             raise InputError("correct", "", number, "the corrected values (--at, --pos, --tank, "
                                                     "--fuel, --area, --text, ...) or --void")

@@ -393,8 +393,11 @@ class TrendDetails:
         return None
 
 
-Details = (ChangeoverDetails | TankDetails | SampleDetails | NoteDetails | SetupDetails
-           | FuelDetails | TrendDetails)
-DETAIL_TYPES: dict[str, type] = {c.TYPE: c for c in (ChangeoverDetails, TankDetails,
-                                                    SampleDetails, NoteDetails, SetupDetails,
-                                                    FuelDetails, TrendDetails)}
+
+def __getattr__(name: str) -> object:
+    """``Details`` and ``DETAIL_TYPES``, now in :mod:`planner.journal.details_kinds`."""
+    if name in ("Details", "DETAIL_TYPES"):
+        from planner.journal import details_kinds
+
+        return getattr(details_kinds, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

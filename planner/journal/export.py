@@ -28,6 +28,7 @@ from planner.common.csv_cells import safe_cell
 from planner.common.timefmt import format_ship
 from planner.journal.codec import encode, iso
 from planner.journal.describe import position_text, trend_text
+from planner.journal.describe_kinds import report_text, scrubber_text
 from planner.journal.details import FuelUse
 from planner.journal.entries import LABELS, Record
 from planner.journal.state import JournalState, Stored
@@ -76,7 +77,9 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
     e = s.entry
     r: Record | None = e.record
     row = dict.fromkeys(CSV_COLUMNS, "")
-    row.update(seq=str(s.seq), kind=e.kind, what=LABELS[e.kind], rank=e.who.rank,
+    what = "scrubber failure" if getattr(getattr(e.record, "details", None), "failure",
+                                         False) else LABELS[e.kind]
+    row.update(seq=str(s.seq), kind=e.kind, what=what, rank=e.who.rank,
                name=e.who.name, written_utc=iso(e.written_utc), hash=s.hash)
     if e.correction is not None:
         row.update(corrects=str(e.correction.corrects), reason=e.correction.reason,
@@ -109,6 +112,9 @@ def csv_row(s: Stored, state: JournalState) -> dict[str, str]:
     row["text"] = getattr(d, "text", "") or getattr(d, "remarks", "") or ""
     if getattr(d, "sha256", None):          # a trend: its file, size, hash, switch, columns
         row["text"] = "; ".join(trend_text(d) + ([d.remarks] if d.remarks else []))
+    words = scrubber_text(d) + report_text(d)   # a scrubber event, a document made
+    if words:
+        row["text"] = "; ".join(words + ([d.remarks] if d.remarks else []))
     if getattr(d, "ship_name", None):
         row["text"] = f"ship {d.ship_name}, IMO {d.imo_number or '(unchanged)'}"
     if getattr(d, "fuel", None) is not None:

@@ -15,6 +15,7 @@ from geo.errors import InputError
 from planner.common.timefmt import format_ship, format_utc
 from planner.journal.codec import encode
 from planner.journal.describe import bdn_items, position_text, sample_and_text, trend_text
+from planner.journal.describe_kinds import report_text, scrubber_text
 from planner.journal.details import TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -24,7 +25,9 @@ from planner.journal.entries import (
     FUEL,
     KINDS,
     NOTE,
+    REPORT,
     SAMPLE,
+    SCRUBBER,
     SETUP,
     STARTED,
     TANKS,
@@ -36,7 +39,7 @@ from planner.journal.verify import VerifyReport
 COMMAND_KINDS = {"start": STARTED, "complete": COMPLETED, "back": BACK_COMMENCED,
                  "back-complete": BACK_COMPLETED, "tanks": TANKS, "sample": SAMPLE, "note": NOTE,
                  "correction": CORRECTION, "correct": CORRECTION, "fuel": FUEL, "setup": SETUP,
-                 "init": SETUP, "trend": TREND}
+                 "init": SETUP, "trend": TREND, "scrubber": SCRUBBER, "report": REPORT}
 """Kind names as the commands spell them, to the stored kinds."""
 
 SHOWN_CHARS = 120
@@ -108,6 +111,7 @@ def _details(s: Stored) -> str:
         parts.append(f"{f.name} {f.grade} {f.sulphur_pct:.2f} % S, {f.density15_kg_m3:.1f} "
                      f"kg/m³, BDN {f.bdn_ref}")
         parts += bdn_items(f)
+    parts += scrubber_text(d) + report_text(d)
     parts += [textwrap.shorten(x, SHOWN_CHARS, placeholder=" …") for x in sample_and_text(d)]
     parts += trend_text(d)
     if getattr(d, "follows", None):

@@ -49,6 +49,15 @@ MAX_PLAN_BYTES = 64 * 2**20
 
 def load_changeovers(path: str | Path) -> list[dict]:
     """The ``changeovers`` list of a plan JSON file (each item checked when used)."""
+    doc = load_json(path)
+    items = doc.get("changeovers") if isinstance(doc, dict) else None
+    if not isinstance(items, list):
+        raise InputError(str(path), "changeovers", None, "a plan with a list of changeovers")
+    return items
+
+
+def load_json(path: str | Path) -> object:
+    """The document of a plan JSON file (at most :data:`MAX_PLAN_BYTES`), as parsed."""
     file = str(path)
     p = Path(path)
     try:
@@ -67,10 +76,7 @@ def load_changeovers(path: str | Path) -> list[dict]:
         doc = json.loads(data.decode("utf-8"))
     except (ValueError, UnicodeDecodeError, RecursionError) as exc:
         raise InputError(file, "", str(exc)[:200], "valid JSON (UTF-8)") from None
-    items = doc.get("changeovers") if isinstance(doc, dict) else None
-    if not isinstance(items, list):
-        raise InputError(file, "changeovers", None, "a plan with a list of changeovers")
-    return items
+    return doc
 
 
 def _pick(items: list, number: int, circuit: str | None, file: str) -> tuple[int, object]:
