@@ -71,7 +71,11 @@ class CarriedFuel:
                              f"not above the {self.limit_pct!r} % carriage limit")
 
     def text(self) -> str:
-        """The warning as printed (plan, flush, procedure)."""
+        """The warning as printed (plan, flush): ``Carriage ban:`` and :meth:`body`."""
+        return f"Carriage ban: {self.body()}"
+
+    def body(self) -> str:
+        """What is carried, where, why it may not be, and the rule."""
         held = ", ".join(f"{t} ({v:.1f} m³ at 15 °C)" for t, v in self.tanks)
         where = (f"held in tank{'s' if len(self.tanks) > 1 else ''} {held}" if self.tanks
                  else "listed for the ship though no tank holds it now")
@@ -83,7 +87,7 @@ class CarriedFuel:
         else:
             why = (f"above {self.limit_pct:.2f} % m/m, and the ship file lists no exhaust gas "
                    "cleaning system (scrubber)")
-        return (f"Carriage ban: {self.fuel} ({self.sulphur_pct:.2f} % m/m sulphur) is {where}, "
+        return (f"{self.fuel} ({self.sulphur_pct:.2f} % m/m sulphur) is {where}, "
                 f"{why}. {RULE}. Unless it is carried as cargo, it may not be on board.")
 
 
