@@ -206,6 +206,7 @@ class ProcedureFacts:
     warnings: tuple[str, ...] = field(default=())
     windows: tuple[WindowFacts, ...] = ()  # every consumer's own inlet window, grouped
     carriage: tuple[str, ...] = ()  # carriage-ban cautions (CarriedFuel.body, voyage.carriage)
+    carriage_fuels: tuple[str, ...] = ()  # the fuels they name
 
     @property
     def swing_min(self) -> float:
@@ -421,15 +422,12 @@ def gather(system: FuelSystem, *, limit_pct: float = DEFAULT_LIMIT_PCT,
                            circuits, max(swing, 0.0), voyage,
                            windows=window_groups(system, list(dict.fromkeys(everyone)),
                                                  limit_pct))
-    return replace(facts, warnings=_warnings(facts), carriage=_carriage(system))
-
-
-def _carriage(system: FuelSystem) -> tuple[str, ...]:
-    """The carriage-ban caution of each fuel of the ship above what it may carry for use
-    (the procedure is a standing document: fuels listed count, held or not)."""
     from planner.voyage.carriage import carried_over_limit
 
-    return tuple(c.body() for c in carried_over_limit(system, held_only=False))
+    # the procedure is a standing document: every fuel listed counts, held or not
+    over = carried_over_limit(system, held_only=False)
+    return replace(facts, warnings=_warnings(facts), carriage=tuple(c.body() for c in over),
+                   carriage_fuels=tuple(c.fuel for c in over))
 
 
 def facts_json(facts: ProcedureFacts) -> dict:

@@ -58,8 +58,10 @@ def test_procedure_pdf_and_json(tmp_path):
     text = pdf_flat(pdf)
     assert "Carriage ban. hsfo (2.60 % m/m sulphur) is held in tank hsfo_storage" in text
     assert "regulation 14.1.3" in text
+    assert "Carriage: hsfo is above what the ship may carry for use on board" in text
     doc = json.loads(changeover_ok("procedure", SHIP_T1H, "--json").stdout)
     assert len(doc["carriage"]) == 1 and doc["carriage"][0].startswith("hsfo (2.60 %")
+    assert doc["carriage_fuels"] == ["hsfo"]
 
 
 @pytest.mark.requires_poppler
