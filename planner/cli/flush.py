@@ -35,6 +35,8 @@ from planner.cli.options import (
 from planner.common.defaults import DEFAULT_LIMIT_PCT
 
 if TYPE_CHECKING:
+    from datetime import datetime
+
     from planner.flushing import ConsumptionSchedule
     from planner.flushing.study import FlushStudy
     from planner.ship.system import FuelSystem
@@ -108,7 +110,7 @@ def flush_cmd(
                           json_out)
     margin_h = check_margin(None, voyage)
     doc = _document(studies, tables if table else None, load, mc, margin_h)
-    warnings = flush_warnings(system, studies)
+    warnings = flush_warnings(system, studies, voyage.depart_utc if voyage else None)
     doc["warnings"] = [text for _, text in warnings]
     doc["warning_kinds"] = [kind for kind, _ in warnings]
     _draw(system, studies, mc, chart, sensitivity_chart)
@@ -131,16 +133,24 @@ def flush_cmd(
         typer.echo(f"wrote {p}")
 
 
-def flush_warnings(system: FuelSystem, studies: list[FlushStudy]) -> list[tuple[str, str]]:
+def flush_warnings(system: FuelSystem, studies: list[FlushStudy],
+                   when: datetime | None = None) -> list[tuple[str, str]]:
     """``(kind, text)`` of the flush's warnings, as the plan words them.
 
     ``unusual_input``: the ship file's values taken although outside their usual
     range (:attr:`planner.ship.system.FuelSystem.input_warnings`); ``flash_point``:
     a changeover that holds distillate within 10 °C of its flash point in a heated
     volume (:func:`planner.ship.flash_margin.inlet_flash_spans`, the caution and
-    its fix :func:`planner.voyage.fuel_checks.changeover_flash_text`).
+    its fix :func:`planner.voyage.fuel_checks.changeover_flash_text`);
+    ``carriage_ban``: fuel held above what the ship may carry for use
+    (:func:`planner.voyage.carriage.carriage_warnings`), at ``when`` (a voyage's
+    departure; default now).
     """
+    from datetime import UTC
+    from datetime import datetime as _datetime
+
     from planner.ship.flash_margin import inlet_flash_spans
+    from planner.voyage.carriage import carriage_warnings
     from planner.voyage.fuel_checks import changeover_flash_text
 
     out = [("unusual_input", text) for text in system.input_warnings]
@@ -150,6 +160,8 @@ def flush_warnings(system: FuelSystem, studies: list[FlushStudy]) -> list[tuple[
         if spans:
             out.append(("flash_point", changeover_flash_text(system, s.circuit, s.to_fuel, st,
                                                              spans)))
+    moment = when if when is not None else _datetime.now(UTC)
+    out += [(w.kind, w.text) for w in carriage_warnings(system, moment)]
     return out
 
 

@@ -97,6 +97,8 @@ def procedure_cmd(
         typer.echo(f"wrote {p}")
     from planner.cli.console import echo_lines, text_lines, width
 
+    for w in facts.carriage:
+        echo_lines(text_lines(w, width(), "caution: carriage ban: "))
     for w in facts.warnings:
         echo_lines(text_lines(w, width(), "note: "))
 

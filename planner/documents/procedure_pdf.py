@@ -101,6 +101,7 @@ def _cautions(f: ProcedureFacts):
         "<b>Boundaries.</b> The official boundaries and sulphur limits of the control areas "
         "are those in MARPOL Annex VI and national law.",
     ]
+    lines += [f"<b>Carriage ban.</b> {esc(text)}" for text in f.carriage]
     if f.ship.fictional:
         lines.append("<b>Sample data.</b> This ship is fictional, and so are the sample areas "
                      "supplied with the planner.")

@@ -31,6 +31,7 @@ from numbers import Real
 from numpy.typing import ArrayLike
 
 from planner.fuels._arrays import FloatOrArray
+from planner.fuels.combustion import carbon_class
 from planner.fuels.energy import net_specific_energy_mj_kg
 from planner.fuels.flash_point import grade_min_flash_point_c
 from planner.fuels.viscosity import (
@@ -61,6 +62,7 @@ _REF_TEMPERATURE_RANGE_C = (-40.0, 200.0)
 _FLASH_POINT_RANGE_C = (0.0, 300.0)
 _Q_NET_RANGE_MJ_KG = (30.0, 50.0)
 _WATER_ASH_MAX_PCT = 10.0
+_CARBON_RANGE_PCT = (70.0, 92.0)
 _DISTILLATE_NAMES = ("MGO", "MDO")
 
 
@@ -115,6 +117,11 @@ class Fuel:
     flash_point_c : float or None
         Flash point, °C, 0-300, from the delivery note; otherwise the ISO 8217
         minimum for the grade (:attr:`flash_point`, [ISO-8217] [M]).
+    carbon_pct : float or None
+        Carbon, % m/m, 70-92 (marine distillates and residuals lie at about 84-88 %,
+        bio-blends lower: common practice), from the fuel analysis; otherwise the
+        typical value of its class (:attr:`carbon`, [MEPC-308] [M]). Carbon, sulphur,
+        water and ash together may not exceed 100 %.
 
     Examples
     --------
@@ -139,6 +146,7 @@ class Fuel:
     ash_pct: float | None = None
     q_net_mj_kg: float | None = None
     flash_point_c: float | None = None
+    carbon_pct: float | None = None
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip():
@@ -179,6 +187,18 @@ class Fuel:
         if self.flash_point_c is not None:
             put("flash_point_c", _number(n, "flash_point_c", self.flash_point_c))
             _in_range(n, "flash_point_c", self.flash_point_c, *_FLASH_POINT_RANGE_C, "°C")
+        if self.carbon_pct is not None:
+            self._check_carbon()
+
+    def _check_carbon(self) -> None:
+        n = self.name
+        c = _number(n, "carbon_pct", self.carbon_pct)
+        object.__setattr__(self, "carbon_pct", c)
+        _in_range(n, "carbon_pct", c, *_CARBON_RANGE_PCT, "% m/m")
+        total = c + self.sulphur_pct + (self.water_pct or 0.0) + (self.ash_pct or 0.0)
+        if total > 100.0:
+            raise ValueError(f"fuel {n!r}: carbon_pct, sulphur_pct, water_pct and ash_pct add "
+                             f"up to {total:g} % m/m, more than 100 %")
 
     def _check_second_point(self) -> None:
         n = self.name
@@ -279,6 +299,24 @@ class Fuel:
         if self.flash_point_c is not None:
             return "delivery note"
         return f"ISO 8217 minimum for {self.grade.strip()}, from memory"
+
+    @property
+    def carbon(self) -> float:
+        """Carbon, % m/m: ``carbon_pct`` when the analysis gives it, else the typical
+        content of its class (:func:`planner.fuels.combustion.carbon_class`, [MEPC-308]
+        [M], from memory)."""
+        if self.carbon_pct is not None:
+            return self.carbon_pct
+        return carbon_class(self.grade, self.is_residual).carbon_pct
+
+    @property
+    def carbon_source(self) -> str:
+        """Where :attr:`carbon` comes from, for the messages and the JSON."""
+        if self.carbon_pct is not None:
+            return "delivery note"
+        k = carbon_class(self.grade, self.is_residual)
+        return (f"typical for {k.name} ({k.grades}), IMO CO2 conversion factors "
+                "MEPC.308(73), from memory")
 
     @property
     def q_net(self) -> float:

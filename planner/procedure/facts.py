@@ -21,7 +21,10 @@ reportlab.
   path at each load (:func:`planner.flushing.study.study`); for any other
   circuit (boiler, generators) its one duration at its running rate;
 - the rule for the start: at least the time to the sulphur target at the
-  load to be run, plus the planning margin, before the boundary.
+  load to be run, plus the planning margin, before the boundary;
+- the carriage ban: a fuel of the ship above 0.50 % with no scrubber (or above what its
+  scrubbers are approved for) is a caution of its own ([MEPC-305],
+  :mod:`planner.voyage.carriage`), whether or not a tank holds it now.
 
 Units: volumes m³ at 15 °C, flows m³/h, times h (``*_min``: minutes),
 speeds kn, distances nm, temperatures °C, viscosities cSt, masses t,
@@ -202,6 +205,8 @@ class ProcedureFacts:
     voyage: str = ""
     warnings: tuple[str, ...] = field(default=())
     windows: tuple[WindowFacts, ...] = ()  # every consumer's own inlet window, grouped
+    carriage: tuple[str, ...] = ()  # carriage-ban cautions (CarriedFuel.body, voyage.carriage)
+    carriage_fuels: tuple[str, ...] = ()  # the fuels they name
 
     @property
     def swing_min(self) -> float:
@@ -417,7 +422,12 @@ def gather(system: FuelSystem, *, limit_pct: float = DEFAULT_LIMIT_PCT,
                            circuits, max(swing, 0.0), voyage,
                            windows=window_groups(system, list(dict.fromkeys(everyone)),
                                                  limit_pct))
-    return replace(facts, warnings=_warnings(facts))
+    from planner.voyage.carriage import carried_over_limit
+
+    # the procedure is a standing document: every fuel listed counts, held or not
+    over = carried_over_limit(system, held_only=False)
+    return replace(facts, warnings=_warnings(facts), carriage=tuple(c.body() for c in over),
+                   carriage_fuels=tuple(c.fuel for c in over))
 
 
 def facts_json(facts: ProcedureFacts) -> dict:

@@ -116,6 +116,10 @@ def checks(f: ProcedureFacts) -> list[str]:
         "Bridge: the officer of the watch knows the changeover is starting, that propulsion or "
         "power may be lost, and the emergency steps if it is.",
     ]
+    if f.carriage_fuels:
+        items.append(f"Carriage: {names(list(f.carriage_fuels))} is above what the ship may "
+                     "carry for use on board (the carriage ban in the cautions); the master "
+                     "and the company decide what is done with it.")
     port = [c for c in f.circuits if c.rows]
     if port:
         parts = [(f"circuit {c.name} {dur(c.alongside.time_to_target_h)}"

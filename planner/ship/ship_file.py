@@ -44,7 +44,7 @@ MAX_FILE_BYTES = MAX_TOML_BYTES
 
 _FUEL_KEYS = ("grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
               "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
-              "q_net_mj_kg", "flash_point_c")
+              "q_net_mj_kg", "flash_point_c", "carbon_pct")
 _CONSUMER_KEYS = {
     "main_engine": ("mcr_kw", "sfoc_g_kwh", "ref_speed_kn", "ref_load_pct", "sfoc_curve"),
     "generator": ("power_kw", "sfoc_g_kwh", "rated_kw"),

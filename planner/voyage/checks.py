@@ -17,6 +17,8 @@
   and longitude exchanged (:mod:`geo.swapped`).
 - Flash point, a tank running dry after the flush and a legal fuel passed over:
   :mod:`planner.voyage.fuel_checks`.
+- The carriage ban: fuel above 0.50 % on board a ship without a scrubber (or above what
+  its scrubbers are approved for), from 2020-03-01 ([MEPC-305]): :mod:`planner.voyage.carriage`.
 
 Pure functions of the plan's parts: nothing here builds or changes a plan;
 :func:`planner.voyage.plan.plan_voyage` puts :func:`plan_warnings` after its
@@ -35,6 +37,7 @@ from geo.plane import AreaShape, area_shape
 from geo.swapped import swapped_waypoints
 from planner.common.timefmt import format_utc
 from planner.ship.system import FuelSystem
+from planner.voyage.carriage import carriage_warnings
 from planner.voyage.changeovers import plan_to_compliant
 from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_checks import (
@@ -54,7 +57,7 @@ _ZONE_STEP_S = 60.0
 __all__ = ["SERVICE_ENDURANCE_H", "PlanWarning", "WarningKind", "flash_point_warnings",
            "passed_over_warnings", "tank_dry_warnings", "plan_warnings", "quantity_warnings",
            "zone_warnings", "viscosity_warnings", "start_before_departure_warnings",
-           "input_warnings", "caution_zone_shapes"]
+           "input_warnings", "caution_zone_shapes", "carriage_warnings"]
 
 
 def quantity_warnings(system: FuelSystem, quantities: Quantities) -> list[PlanWarning]:
@@ -264,7 +267,7 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
                   quantities: Quantities,
                   flushes: FlushCache | None = None) -> tuple[PlanWarning, ...]:
     """Every check's warnings in print order: quantity, caution zone, viscosity, early start,
-    flash point, unusual input.
+    flash point, unusual input, tank dry, carriage ban.
 
     Parameters
     ----------
@@ -285,4 +288,5 @@ def plan_warnings(voyage: Voyage, timeline: Timeline, changes: Sequence[Change],
                  + start_before_departure_warnings(timeline, changes)
                  + flash_point_warnings(voyage, timeline, changes)
                  + input_warnings(timeline)
-                 + tank_dry_warnings(timeline, changes))
+                 + tank_dry_warnings(timeline, changes)
+                 + carriage_warnings(timeline.system, voyage.depart_utc))

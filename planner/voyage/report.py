@@ -10,6 +10,7 @@ from __future__ import annotations
 from geo.area import Area
 from geo.ellipsoid import NM_M
 from planner.common.timefmt import format_offset, iso_utc
+from planner.voyage.emission_ratio import plan_ratios
 from planner.voyage.fuel_choice import FuelChoice, regular_fuel
 from planner.voyage.plan import Plan
 from planner.voyage.quantities import so2_by_area, sulphur_by_area
@@ -194,8 +195,9 @@ def plan_json(plan: Plan) -> dict:
             {"from_nm": c.stretch.from_nm, "to_nm": c.stretch.to_nm,
              "limit_pct": c.stretch.limit_pct, "areas": list(c.stretch.areas),
              "fuel": _run_fuel(plan, c.stretch.from_m), "fuel_choice": _why(plan, c),
-             "from_utc": iso_utc(c.stretch.from_utc), "to_utc": iso_utc(c.stretch.to_utc)}
-            for c in plan.choices
+             "from_utc": iso_utc(c.stretch.from_utc), "to_utc": iso_utc(c.stretch.to_utc),
+             **r.json()}  # the emission ratio (planner.voyage.emission_ratio)
+            for c, r in zip(plan.choices, plan_ratios(plan.choices, plan.runs), strict=True)
         ],
         "fuel_needed": [
             {"fuel": n.fuel, "from_utc": iso_utc(plan.timeline.utc(n.from_epoch_s)),

@@ -65,7 +65,7 @@ from planner.voyage.scrubber_voyage import discharge_zones_path, parse_outages
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
-             "q_net_mj_kg", "flash_point_c")
+             "q_net_mj_kg", "flash_point_c", "carbon_pct")
 TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty", "scrubber_outage")
 VOYAGE_KEYS = ("name", "ship", "route", "areas", "caution_zones", "depart", "ship_time",
                "speed_kn", "zone_change", "discharge_zones")

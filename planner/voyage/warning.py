@@ -1,8 +1,9 @@
 """One warning of the plan, typed: its kind and the text as printed.
 
 The checks that make them are in :mod:`planner.voyage.checks` (quantity, caution
-zones, viscosity, early start, unusual input) and :mod:`planner.voyage.fuel_checks`
-(flash point, a tank running dry after the flush, a legal fuel passed over).
+zones, viscosity, early start, unusual input), :mod:`planner.voyage.fuel_checks`
+(flash point, a tank running dry after the flush, a legal fuel passed over) and
+:mod:`planner.voyage.carriage` (fuel above 0.50 % on board without a scrubber).
 """
 
 from __future__ import annotations
@@ -13,7 +14,7 @@ from typing import Literal
 WarningKind = Literal["departs_inside", "quantity", "caution_zone", "viscosity",
                       "start_before_departure", "unusual_input", "swapped_lat_lon",
                       "flash_point", "fuel_passed_over",
-                      "tank_dry"]
+                      "tank_dry", "carriage_ban"]
 
 
 @dataclass(frozen=True)
@@ -29,8 +30,9 @@ class PlanWarning:
         outside its usual range), ``"swapped_lat_lon"`` (a route waypoint),
         ``"flash_point"`` (a distillate near its flash point), ``"fuel_passed_over"``
         (a fuel within the limit by its delivery note that the fuel-choice margin passes
-        over) or ``"tank_dry"`` (a tank at a changeover valve that runs dry soon after
-        the flush).
+        over), ``"tank_dry"`` (a tank at a changeover valve that runs dry soon after
+        the flush) or ``"carriage_ban"`` (fuel on board above what the ship may carry for
+        use: 0.50 % without a scrubber, [MEPC-305]).
     text : str
         The warning as printed (JSON ``warnings``, terminal, PDF).
     """
