@@ -391,13 +391,3 @@ class TrendDetails:
             if w == what:
                 return name
         return None
-
-
-
-def __getattr__(name: str) -> object:
-    """``Details`` and ``DETAIL_TYPES``, now in :mod:`planner.journal.details_kinds`."""
-    if name in ("Details", "DETAIL_TYPES"):
-        from planner.journal import details_kinds
-
-        return getattr(details_kinds, name)
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -24,6 +24,7 @@ from dataclasses import dataclass
 from datetime import datetime, timedelta
 from typing import ClassVar
 
+from planner.fuels.energy import SO2_CO2_RATIO_LIMITS
 from planner.journal.details import (
     MAX_TREND_BYTES,
     ChangeoverDetails,
@@ -52,11 +53,9 @@ NEEDS_MODE = ("start", "mode_change")
 SCRUBBER_MODES = ("open", "closed")
 """Washwater modes: open loop (sea water through, discharged) or closed loop."""
 
-RATIO_LIMITS: dict[float, float] = {0.10: 4.3, 0.50: 21.7, 1.00: 43.3, 1.50: 65.0,
-                                    3.50: 151.7, 4.50: 195.0}
+RATIO_LIMITS = SO2_CO2_RATIO_LIMITS
 """Sulphur limit of the fuel [% m/m] → the SO₂ (ppm) / CO₂ (% v/v) ratio limit that stands
-for it, Table 1 of [MEPC-340] (from memory). The same table is kept for the planning side
-(planner/fuels/combustion.py on another branch): both are to be made one table."""
+for it, Table 1 of [MEPC-340]: the one table, kept in :mod:`planner.fuels.energy`."""
 
 SO2_RANGE_PPM = (0.0, 5000.0)
 """SO₂ readings accepted, ppm (a typo guard: the raw exhaust of a 4.50 % fuel is some
