@@ -34,8 +34,8 @@ seconds (``*_epoch_s``: seconds since 1970-01-01 UTC).
 
 from __future__ import annotations
 
-from collections.abc import Callable
-from dataclasses import dataclass, replace
+from collections.abc import Callable, Mapping, Sequence
+from dataclasses import dataclass, field, replace
 from datetime import datetime
 from typing import TypeVar
 
@@ -46,8 +46,9 @@ from geo.schedule import to_epoch
 from planner.common.timefmt import format_utc
 from planner.flushing import FlushError, expected_for
 from planner.fuels import Fuel
+from planner.ship.scrubbers import Scrubber
 from planner.ship.system import FuelSystem
-from planner.voyage.changeovers import TargetUnreachable, plan_to_compliant, plan_to_regular
+from planner.voyage.changeovers import TargetUnreachable
 from planner.voyage.checks import PlanWarning, passed_over_warnings, plan_warnings
 from planner.voyage.explain import no_changeover_reason
 from planner.voyage.flush_cache import FlushCache
@@ -59,13 +60,74 @@ from planner.voyage.fuel_choice import (
 )
 from planner.voyage.port import port_state
 from planner.voyage.quantities import Quantities, plan_quantities
-from planner.voyage.runs import Change, Run, make_runs, merge_same_fuel
-from planner.voyage.scrubber_events import ScrubberEvent, ScrubberSpan
+from planner.voyage.runs import (
+    Change,
+    Run,
+    change_between,
+    changes_between,
+    flushing_target_pct,
+    make_runs,
+    merge_same_fuel,
+    with_thermal,
+)
+from planner.voyage.scrubber_events import (
+    ScrubberEvent,
+    ScrubberOutage,
+    ScrubberSpan,
+    ZonePassage,
+)
+from planner.voyage.scrubbing import (
+    Availability,
+    availability,
+    load_range_warnings,
+    served_circuits,
+)
+from planner.voyage.scrubbing_choice import served_choices, served_event, valve_fuels
+from planner.voyage.scrubbing_spans import spans_and_events
 from planner.voyage.stay import needless_switch_back
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
 
 T = TypeVar("T")
+
+__all__ = ["Plan", "Scrubbed", "flushing_target_pct", "fuels_on_board", "plan_voyage"]
+
+
+@dataclass(frozen=True, eq=False)
+class Scrubbed:
+    """The plan of the circuits one scrubber serves whole.
+
+    Parameters
+    ----------
+    scrubber : Scrubber
+        The scrubber.
+    circuits : tuple of str
+        The circuits it serves whole, in the ship file's order.
+    pieces : tuple of Availability
+        Its availability along the route (:func:`planner.voyage.scrubbing.availability`).
+    choices : tuple of FuelChoice
+        The circuits' fuel on every piece.
+    runs : tuple of Run
+        The circuits' runs (after the stay-compliant rule; ``limit_pct`` is the limit the
+        fuel was chosen against: the scrubber's where it is available).
+    changes : tuple of Change
+        The circuits' changes, in time order (also in :attr:`Plan.changes`).
+    notes, warnings
+        What the circuits' plan adds to the plan's.
+    spans, events
+        Where the plan relies on the scrubber, and when the crew acts on it.
+    """
+
+    scrubber: Scrubber
+    circuits: tuple[str, ...]
+    pieces: tuple[Availability, ...]
+    choices: tuple[FuelChoice, ...]
+    runs: tuple[Run, ...]
+    changes: tuple[Change, ...]
+    notes: tuple[str, ...] = ()
+    warnings: tuple[PlanWarning, ...] = ()
+    spans: tuple[ScrubberSpan, ...] = ()
+    events: tuple[ScrubberEvent, ...] = ()
 
 
 @dataclass(frozen=True, eq=False)
@@ -103,6 +165,9 @@ class Plan:
         Where served circuits burn fuel above the limit on a scrubber, in time order.
     scrubber_events : tuple of ScrubberEvent
         Every scrubber start, stop, mode change and outage, in time order.
+    scrubbed : mapping of str to Scrubbed
+        Each scrubber's circuits' own plan, by scrubber name (empty: no scrubber serves a
+        circuit whole; :attr:`runs` then is the whole ship's, else the other circuits').
     """
 
     voyage: Voyage
@@ -119,6 +184,7 @@ class Plan:
     no_changeover_reason: str | None = None
     scrubber_spans: tuple[ScrubberSpan, ...] = ()
     scrubber_events: tuple[ScrubberEvent, ...] = ()
+    scrubbed: Mapping[str, Scrubbed] = field(default_factory=dict)
 
 
 def fuels_on_board(voyage: Voyage, system: FuelSystem) -> list[Fuel]:
@@ -135,72 +201,9 @@ def fuels_on_board(voyage: Voyage, system: FuelSystem) -> list[Fuel]:
     return [f for f in voyage.fuels if f.name in held]
 
 
-def _area_of(run_in: Run, run_out: Run, direction: str) -> str:
-    """The area entered (first of the run entered) or left (last of the run left)."""
-    if direction == "to_compliant":
-        return run_in.areas[0] if run_in.areas else "global cap"
-    return run_out.areas[-1] if run_out.areas else "global cap"
-
-
-def flushing_target_pct(limit_pct: float, fraction: float, fuel: Fuel) -> float:
-    """The sulphur the inlets are flushed to, % m/m: ``fraction`` × limit, or halfway
-    between the fuel's own sulphur and the limit when the fuel is at or above that (a
-    0.47 % fuel under the 0.50 % cap: 0.485 %).
-
-    Parameters
-    ----------
-    limit_pct : float [% m/m]
-        The limit on the compliant side.
-    fraction : float [-]
-        The voyage's sulphur target fraction.
-    fuel : Fuel
-        The compliant fuel.
-    """
-    target = limit_pct * fraction
-    if fuel.sulphur_pct < target:
-        return target
-    return 0.5 * (fuel.sulphur_pct + limit_pct)
-
-
-def _change(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
-            before: Run, after: Run, boundary_epoch_s: float, boundary_m: float,
-            before_departure: bool = False,
-            circuits: tuple[str, ...] | None = None) -> Change:
-    """The change between two runs, every circuit (or those named), without the thermal
-    paths."""
-    down = after.fuel.sulphur_pct < before.fuel.sulphur_pct
-    direction = "to_compliant" if down else "to_regular"
-    limit = after.limit_pct if down else before.limit_pct
-    target = flushing_target_pct(limit, voyage.sulphur_target_fraction, after.fuel)
-    parts = []
-    for name in (circuits if circuits is not None else tuple(system.circuits)):
-        a = system.tank_for(name, before.fuel.name)
-        b = system.tank_for(name, after.fuel.name)
-        if down:
-            parts.append(plan_to_compliant(system, timeline, name, a, b, boundary_epoch_s,
-                                           voyage.time_margin_h, limit, target, flushes,
-                                           thermal=False))
-        else:
-            parts.append(plan_to_regular(system, timeline, name, a, b, boundary_epoch_s, limit,
-                                         flushes, thermal=False))
-    return Change(_area_of(after, before, direction), direction, boundary_m, boundary_epoch_s,
-                  limit, target, tuple(parts), before_departure)
-
-
-def _changes(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
-             runs: list[Run]) -> list[Change]:
-    return [_change(flushes, system, timeline, voyage, a, b, b.from_epoch_s, b.from_m)
-            for a, b in zip(runs[:-1], runs[1:], strict=True)]
-
-
-def _with_thermal(flushes: FlushCache, system: FuelSystem, ch: Change) -> Change:
-    """``ch`` with every circuit's inlet viscosity paths."""
-    parts = tuple(replace(p, study=flushes.with_thermal(system, p.study)) for p in ch.circuits)
-    return replace(ch, circuits=parts)
-
-
 def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
-                flushes: FlushCache | None = None) -> Plan:
+                flushes: FlushCache | None = None, passages: Sequence[ZonePassage] = (),
+                outages: Sequence[ScrubberOutage] = ()) -> Plan:
     """The whole plan (see the module notes).
 
     Parameters
@@ -213,6 +216,10 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
         The route check, with a schedule.
     flushes : FlushCache, optional
         Where the flushes are remembered (default: a new cache, kept with the plan).
+    passages : sequence of ZonePassage, optional
+        The route's passages through washwater discharge zones (for the scrubbers).
+    outages : sequence of ScrubberOutage, optional
+        The scrubbers' planned outages (the voyage file's).
 
     Raises
     ------
@@ -227,19 +234,11 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     timeline = Timeline(check.schedule, system, port_state(voyage, system))
     choices = choose_fuels(check.stretches, fuels_on_board(voyage, system),
                            voyage.fuel_choice_margin, voyage.file)
-    runs = make_runs(choices, timeline)
-    notes: list[str] = []
-    while True:
-        changes = _simulated(voyage, _changes, flushes, system, timeline, voyage, runs)
-        stay = needless_switch_back(changes, timeline, voyage.min_time_on_regular_h)
-        if stay is None:
-            break
-        k, why = stay
-        keep = runs[k]
-        runs[k + 1] = replace(runs[k + 1], fuel=keep.fuel,
-                              reasons=runs[k + 1].reasons + (why,))
-        notes.append(why)
-        runs = merge_same_fuel(runs)
+    served = served_circuits(system)
+    plain = None if not served else tuple(
+        c for c in system.circuits if not any(c in g for g in served.values()))
+    runs, changes, notes = _group_plan(flushes, system, timeline, voyage,
+                                       make_runs(choices, timeline), plain)
     regular = regular_fuel(choices)
     first = runs[0]
     inside = bool(check.stretches[0].areas)
@@ -247,31 +246,121 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
         regular = _outside_fuel(voyage, system, timeline.utc(first.from_epoch_s), regular)
     warnings: list[PlanWarning] = []
     departure, warning = _at_departure(flushes, voyage, system, timeline, first, regular,
-                                       inside)
+                                       inside, plain)
     changes[:0] = departure
     if warning is not None:
         warnings.append(warning)
-    elif inside and changes:
+    elif inside and changes and plain is None:
         notes.append(f"The voyage departs inside {', '.join(check.stretches[0].areas)} with "
                      f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
                      "changeover alongside.")
+    changes = [_with_event(check, ch) for ch in changes]
+    scrubbed = [_scrubbed(flushes, voyage, system, timeline, check, choices, name, circuits,
+                          passages, outages) for name, circuits in served.items()]
+    for s in scrubbed:
+        notes += s.notes
+        warnings += s.warnings
+    changes = _merged(system, [changes] + [s.changes for s in scrubbed])
     notes += _target_notes(voyage, changes)
     reason = None
     if not changes:
         reason = no_changeover_reason(check, runs, departs_compliant=inside)
         notes.append(reason)
-    changes = [_with_thermal(flushes, system, _with_event(check, ch)) for ch in changes]
-    quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes)
+    changes = [with_thermal(flushes, system, ch) for ch in changes]
+    first_fuels = None if not served else {
+        **{c: runs[0].fuel for c in plain or ()},
+        **{c: s.runs[0].fuel for s in scrubbed for c in s.circuits}}
+    quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes, first_fuels)
     warnings += passed_over_warnings(timeline, choices, voyage.fuel_choice_margin)
     warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)
+    warnings += load_range_warnings(system)
+    spans = tuple(sorted((x for s in scrubbed for x in s.spans), key=lambda x: x.from_epoch_s))
+    events = tuple(sorted((e for s in scrubbed for e in s.events), key=lambda e: e.epoch_s))
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
-                quantities, tuple(notes), tuple(warnings), flushes, reason)
+                quantities, tuple(notes), tuple(warnings), flushes, reason, spans, events,
+                {s.scrubber.name: s for s in scrubbed})
+
+
+def _group_plan(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
+                runs: list[Run], circuits: tuple[str, ...] | None
+                ) -> tuple[list[Run], list[Change], list[str]]:
+    """The runs and changes of ``circuits`` (None: every circuit) after the stay-compliant
+    rule, and its notes; no circuit: the runs as given, no change."""
+    notes: list[str] = []
+    if circuits is not None and not circuits:
+        return runs, [], notes
+    while True:
+        changes = _simulated(voyage, changes_between, flushes, system, timeline, voyage, runs,
+                             circuits)
+        stay = needless_switch_back(changes, timeline, voyage.min_time_on_regular_h)
+        if stay is None:
+            return runs, changes, notes
+        k, why = stay
+        keep = runs[k]
+        runs[k + 1] = replace(runs[k + 1], fuel=keep.fuel,
+                              reasons=runs[k + 1].reasons + (why,))
+        notes.append(why)
+        runs = merge_same_fuel(runs)
+
+
+def _scrubbed(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
+              check: RouteCheck, plain: list[FuelChoice], name: str, circuits: tuple[str, ...],
+              passages: Sequence[ZonePassage], outages: Sequence[ScrubberOutage]) -> Scrubbed:
+    """The plan of one scrubber's circuits (:mod:`planner.voyage.scrubbing_choice`)."""
+    scrubber = system.scrubbers[name]
+    pieces = availability(scrubber, timeline, check.stretches, passages, outages)
+    fuels = valve_fuels(system, circuits, fuels_on_board(voyage, system))
+    choices = served_choices(check, timeline, scrubber, pieces, fuels, voyage.fuel_choice_margin,
+                             voyage.file)
+    runs, changes, notes = _group_plan(flushes, system, timeline, voyage,
+                                       make_runs(choices, timeline), circuits)
+    head = f"Scrubber {name} (circuit {', '.join(circuits)}): "
+    notes = [head + n for n in notes]
+    changes = [served_event(ch, check, timeline, scrubber, pieces, passages, outages)
+               for ch in changes]
+    first = runs[0]
+    inside = bool(check.stretches[0].areas)
+    departure, warning = _at_departure(flushes, voyage, system, timeline, first,
+                                       regular_fuel(choices), inside and first.fuel.sulphur_pct
+                                       <= check.stretches[0].limit_pct, circuits)
+    changes = [_with_event(check, ch) for ch in departure + changes]
+    spans, events = spans_and_events(scrubber, circuits, runs, changes, plain, pieces, timeline,
+                                     outages)
+    return Scrubbed(scrubber, circuits, tuple(pieces), tuple(choices), tuple(runs),
+                    tuple(changes), tuple(notes), (warning,) if warning else (), tuple(spans),
+                    tuple(events))
+
+
+def _merged(system: FuelSystem, groups: list[list[Change]]) -> list[Change]:
+    """The changes of every group of circuits in time order (stable: a group's own order
+    kept), a change of one group joined to another group's at the same boundary (same
+    moment, direction, area, event, limit and target)."""
+    out: list[tuple[int, Change]] = []
+    order = list(system.circuits)
+    for g, changes in enumerate(groups):
+        for ch in changes:
+            same = next((i for i, (h, x) in enumerate(out) if h != g and _same(x, ch)), None)
+            if same is None:
+                out.append((g, ch))
+                continue
+            x = out[same][1]
+            parts = tuple(sorted(x.circuits + ch.circuits, key=lambda p: order.index(p.circuit)))
+            out[same] = (g, replace(x, circuits=parts))
+    return [ch for _, ch in sorted(out, key=lambda gc: gc[1].boundary_epoch_s)]
+
+
+def _same(a: Change, b: Change) -> bool:
+    return (abs(a.boundary_epoch_s - b.boundary_epoch_s) < 1.0 and a.direction == b.direction
+            and (a.area, a.event, a.before_departure) == (b.area, b.event, b.before_departure)
+            and abs(a.limit_pct - b.limit_pct) < 1e-12 and abs(a.target_pct - b.target_pct) < 1e-12)
 
 
 def _with_event(check: RouteCheck, ch: Change) -> Change:
     """``ch`` with what its boundary is (:attr:`Change.event`): a departure, an area's
     coming into or going out of force while inside it, a change of the global cap, else a
     crossing."""
+    if ch.event:
+        return ch
     if ch.before_departure or ch.area == "departure":
         return replace(ch, event="departure")
     for f in check.force_events:
@@ -297,17 +386,20 @@ def _target_notes(voyage: Voyage, changes: list[Change]) -> list[str]:
 
 
 def _at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
-                  first: Run, regular: Fuel, inside: bool
+                  first: Run, regular: Fuel, inside: bool,
+                  only: tuple[str, ...] | None = None
                   ) -> tuple[list[Change], PlanWarning | None]:
     """The changes at departure, from the fuel each circuit is on (``[port] departure_fuel``,
     default ``regular``) to the first run's: a change to a lower-sulphur fuel made alongside,
-    before departure; a change to a higher-sulphur fuel commenced at departure.
+    before departure; a change to a higher-sulphur fuel commenced at departure. Every
+    circuit, or those of ``only``.
 
     Returns the changes (to compliant first) and the departure warning, if any.
     """
     port = timeline.port
     given = port.departure_fuel if port is not None else {}
-    on = {c: voyage.fuel(given.get(c, regular.name)) for c in system.circuits}
+    on = {c: voyage.fuel(given.get(c, regular.name))
+          for c in (system.circuits if only is None else only)}
     out: list[Change] = []
     warning = None
     t0 = first.from_epoch_s
@@ -328,7 +420,7 @@ def _at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
         circuits = tuple(c for c, f in on.items() if f.name == fuel)
         if on[circuits[0]].sulphur_pct < first.fuel.sulphur_pct:
             pre = Run(first.from_m, first.from_m, t0, t0, on[circuits[0]], first.limit_pct, ())
-            back = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first,
+            back = _simulated(voyage, change_between, flushes, system, timeline, voyage, pre, first,
                               t0, 0.0, False, circuits)
             out.append(replace(back, area="departure"))
     return out, warning
@@ -348,7 +440,7 @@ def _departure_change(flushes: FlushCache, voyage: Voyage, system: FuelSystem,
                              f"alongside: it must be flushed to {first.fuel.name} before "
                              "departure")
     pre = Run(first.from_m, first.from_m, t0, t0, regular, 4.5, ())
-    dep = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first, t0, 0.0,
+    dep = _simulated(voyage, change_between, flushes, system, timeline, voyage, pre, first, t0, 0.0,
                      True, circuits)
     return replace(dep, area=first.areas[0] if first.areas else dep.area)
 
