@@ -11,15 +11,28 @@ distances metres along the route from departure.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, replace
+from typing import TypeVar
 
+from geo.errors import InputError
+from planner.common.timefmt import format_utc
+from planner.flushing import FlushError, expected_for
 from planner.fuels import Fuel
 from planner.ship.system import FuelSystem
-from planner.voyage.changeovers import CircuitChange, plan_to_compliant, plan_to_regular
+from planner.voyage.changeovers import (
+    CircuitChange,
+    TargetUnreachable,
+    plan_to_compliant,
+    plan_to_regular,
+)
 from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
+from planner.voyage.warning import PlanWarning
+
+T = TypeVar("T")
 
 SCRUBBER_OUT = "scrubber_out_of_service"
 """A served circuit's change to compliant fuel for a planned scrubber outage: compliant by
@@ -243,3 +256,77 @@ def with_thermal(flushes: FlushCache, system: FuelSystem, ch: Change) -> Change:
     """``ch`` with every circuit's inlet viscosity paths."""
     parts = tuple(replace(p, study=flushes.with_thermal(system, p.study)) for p in ch.circuits)
     return replace(ch, circuits=parts)
+
+
+def at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
+                  first: Run, regular: Fuel, inside: bool,
+                  only: tuple[str, ...] | None = None
+                  ) -> tuple[list[Change], PlanWarning | None]:
+    """The changes at departure, from the fuel each circuit is on (``[port] departure_fuel``,
+    default ``regular``) to the first run's: a change to a lower-sulphur fuel made alongside,
+    before departure; a change to a higher-sulphur fuel commenced at departure. Every
+    circuit, or those of ``only``.
+
+    Returns the changes (to compliant first) and the departure warning, if any.
+    """
+    port = timeline.port
+    given = port.departure_fuel if port is not None else {}
+    on = {c: voyage.fuel(given.get(c, regular.name))
+          for c in (system.circuits if only is None else only)}
+    out: list[Change] = []
+    warning = None
+    t0 = first.from_epoch_s
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # one change per fuel left
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct > first.fuel.sulphur_pct:
+            out.append(departure_change(flushes, voyage, system, timeline, first,
+                                         on[circuits[0]], circuits))
+    if out and inside:
+        start = min(c.start_epoch_s for ch in out for c in ch.circuits)
+        load = port.describe_departure() if port is not None else ""
+        warning = PlanWarning("departs_inside", (
+            f"The voyage departs inside {out[0].area}: every consumer must be on "
+            f"{first.fuel.name} before departure at {format_utc(timeline.utc(t0))}; start "
+            f"the changeover alongside by {format_utc(timeline.utc(start))} (planned at "
+            f"the consumption alongside: {load})."))
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # commenced at departure
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct < first.fuel.sulphur_pct:
+            pre = Run(first.from_m, first.from_m, t0, t0, on[circuits[0]], first.limit_pct, ())
+            back = simulated(voyage, change_between, flushes, system, timeline, voyage, pre, first,
+                              t0, 0.0, False, circuits)
+            out.append(replace(back, area="departure"))
+    return out, warning
+
+
+def departure_change(flushes: FlushCache, voyage: Voyage, system: FuelSystem,
+                      timeline: Timeline, first: Run, regular: Fuel,
+                      circuits: tuple[str, ...]) -> Change:
+    """The change of ``circuits`` to the first run's fuel, made alongside, from ``regular``."""
+    t0 = first.from_epoch_s
+    port = timeline.port
+    for c in circuits:
+        cons = system.circuits[c].consumers
+        if port is not None and sum(port.departure_iso_t_h[n] for n in cons) <= 0.0:
+            raise InputError(voyage.file, "port.departure_load_pct", port.describe_departure(),
+                             f"a consumer of circuit {c} ({', '.join(cons)}) burning fuel "
+                             f"alongside: it must be flushed to {first.fuel.name} before "
+                             "departure")
+    pre = Run(first.from_m, first.from_m, t0, t0, regular, 4.5, ())
+    dep = simulated(voyage, change_between, flushes, system, timeline, voyage, pre, first, t0, 0.0,
+                     True, circuits)
+    return replace(dep, area=first.areas[0] if first.areas else dep.area)
+
+
+def simulated(voyage: Voyage, fn: Callable[..., T], *args: object) -> T:
+    """``fn(*args)``, with a flushing simulation that cannot run (a tank runs dry, a pump below
+    the consumption) reported as bad input naming the voyage file."""
+    try:
+        return fn(*args)
+    except FlushError as exc:
+        raise InputError(voyage.file, "changeover simulation", str(exc), expected_for(
+                         exc, "tanks that hold enough fuel, and pumps that cover the "
+                         "consumption, for every changeover")) from None
+    except TargetUnreachable as exc:
+        raise InputError(voyage.file, "margins.sulphur_target_fraction", str(exc),
+                         "a sulphur target above the compliant fuel's own sulphur") from None
