@@ -19,6 +19,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
 from geo.compliance import RouteCheck
+from planner.common.timefmt import format_utc
 from planner.fuels import Fuel
 from planner.ship.scrubbers import Scrubber
 from planner.ship.system import FuelSystem
@@ -130,11 +131,10 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
     notes = [head + n for n in notes]
     changes = [served_event(ch, check, timeline, scrubber, pieces, passages, outages)
                for ch in changes]
-    first = runs[0]
-    inside = bool(check.stretches[0].areas)
-    departure, warning = at_departure(flushes, voyage, system, timeline, first,
-                                       regular_fuel(choices), inside and first.fuel.sulphur_pct
-                                       <= check.stretches[0].limit_pct, circuits)
+    departure, warning = at_departure(flushes, voyage, system, timeline, runs[0],
+                                      regular_fuel(choices), False, circuits)
+    departure, warning = _departs_unavailable(timeline, scrubber, circuits, pieces[0],
+                                              runs[0], departure)
     changes = departure + changes
     spans, events = spans_and_events(scrubber, circuits, runs, changes, plain, pieces, timeline,
                                      outages)
@@ -165,6 +165,26 @@ def _same(a: Change, b: Change) -> bool:
     return (abs(a.boundary_epoch_s - b.boundary_epoch_s) < 1.0 and a.direction == b.direction
             and (a.area, a.event, a.before_departure) == (b.area, b.event, b.before_departure)
             and abs(a.limit_pct - b.limit_pct) < 1e-12 and abs(a.target_pct - b.target_pct) < 1e-12)
+
+
+def _departs_unavailable(timeline: Timeline, scrubber: Scrubber, circuits: tuple[str, ...],
+                        first: Availability, run: Run, departure: list[Change]
+                        ) -> tuple[list[Change], PlanWarning | None]:
+    """The departure changes named for where the scrubber cannot work at departure (the
+    discharge zone, else the area), and the warning that the circuits must change over
+    alongside (None when no change is made alongside)."""
+    before = [ch for ch in departure if ch.before_departure]
+    if not before or first.mode is not None:
+        return departure, None
+    where = first.zones[0] if first.zones else before[0].area
+    departure = [replace(ch, area=where) if ch.before_departure else ch for ch in departure]
+    start = min(p.start_epoch_s for ch in before for p in ch.circuits)
+    t0 = timeline.start_epoch_s
+    return departure, PlanWarning("departs_inside", (
+        f"The voyage departs inside {where}, where scrubber {scrubber.name} cannot work "
+        f"({first.why}): circuit {', '.join(circuits)} must be on {run.fuel.name} before "
+        f"departure at {format_utc(timeline.utc(t0))}; start the changeover alongside by "
+        f"{format_utc(timeline.utc(start))}."))
 
 
 def merged(system: FuelSystem, groups: list[list[Change]]) -> list[Change]:

@@ -113,12 +113,12 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
     names = ", ".join(circuits)
     for on, off, run, into, away in _on_intervals(runs, changes, plain, timeline):
         mine: list[ScrubberSpan] = []
-        last_mode = scrubber.modes[0]
+        last_mode, last_zones = scrubber.modes[0], ()
         for a, b, p in _pieces_in(on, off, pieces, timeline):
             st = real_stretch_at(stretches, p.from_m)
             fallback = next(c.fuel.name for c in plain if c.stretch is st)
             mode = p.mode or last_mode
-            last_mode = mode
+            left, last_mode, last_zones = last_zones, mode, p.zones
             areas = tuple(dict.fromkeys(st.areas + p.zones))
             fm, tm = timeline.position(a)[2], timeline.position(b)[2]
             prev = mine[-1] if mine else None
@@ -132,7 +132,7 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
                                          st.limit_pct, mode, fm, tm, a, b, areas))
             if prev is not None and prev.mode != mode:
                 events.append(ScrubberEvent(scrubber.name, MODE_CHANGE, mode, a, fm,
-                                            _mode_reason(p, prev.mode, mode)))
+                                            _mode_reason(p, left, mode)))
         if not mine:
             continue
         spans += mine
@@ -140,7 +140,8 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
         start_why = (f"before {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) reaches the inlets "
                      f"of {names}: in operation at the valve switch from "
                      f"{into.circuits[0].from_fuel}" if into is not None else
-                     f"{names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) from departure")
+                     f"circuit {names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) from "
+                     "departure")
         events.append(ScrubberEvent(scrubber.name, START, first.mode, first.from_epoch_s,
                                     first.from_m, start_why))
         if away is not None:
@@ -163,8 +164,13 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
     return spans, events
 
 
-def _mode_reason(p: Availability, old: str, new: str) -> str:
-    """Why the mode changes here, in words."""
-    if p.zones:
-        return f"{new} loop established at the entry of {', '.join(p.zones)} ({p.why})"
-    return f"back to {new} loop from {old}: {p.why}"
+def _mode_reason(p: Availability, left: tuple[str, ...], new: str) -> str:
+    """Why the mode changes here (``left``: the zones of the piece before), in words."""
+    entered = [z for z in p.zones if z not in left]
+    gone = [z for z in left if z not in p.zones]
+    if entered:
+        allows = "only closed-loop" if new == "closed" else "open-loop"
+        return (f"{new} loop established at the entry of {', '.join(entered)} (it allows "
+                f"{allows} discharge)")
+    where = f"leaving {', '.join(gone)}" if gone else "here"
+    return f"{new} loop again on {where} ({p.why})"
