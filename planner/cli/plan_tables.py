@@ -92,6 +92,12 @@ def groups(rows: list[dict]) -> list[list[dict]]:
 
 
 SCRUBBER_EVENTS = {
+    "zone_enter": (
+        ", enter (a washwater discharge zone the scrubber cannot work in): change the served "
+        "circuits to compliant fuel before the boundary{limit}", ("Boundary", "at")),
+    "zone_exit": (
+        ", exit (a washwater discharge zone): change the served circuits back to the "
+        "high-sulphur fuel at or after the boundary, never before", ("Boundary", "at")),
     "scrubber_out_of_service": (
         ", scrubber out of service at {at}: the served circuits compliant by {at} wherever "
         "the ship is{limit}", ("Scrubber out of service", "the ship then at")),
@@ -99,8 +105,9 @@ SCRUBBER_EVENTS = {
         ", scrubber back in service at {at}: change back to the high-sulphur fuel at or "
         "after {at}, never before", ("Scrubber back in service", "the ship then at")),
 }
-"""The words of the served circuits' clock boundaries (:mod:`planner.voyage.scrubbing_choice`):
-the rest line, then the head's label and position words."""
+"""The words of the served circuits' own boundaries (:data:`planner.voyage.runs.SCRUBBER_EVENTS`,
+:mod:`planner.voyage.scrubbing_choice`): the rest of the head's first line, then its label
+and position words."""
 
 
 def _what(r: dict, day: str = "") -> str:

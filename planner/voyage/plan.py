@@ -189,7 +189,7 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
                      "changeover alongside.")
     changes = [_with_event(check, ch) for ch in changes]
     scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, choices, name, circuits,
-                          passages, outages) for name, circuits in served.items()]
+                              passages, outages, regular) for name, circuits in served.items()]
     for s in scrubbed:
         notes += s.notes
         warnings += s.warnings
