@@ -260,14 +260,18 @@ def scrubber_tables(doc: dict) -> list[TextTable]:
     sp = table("Where the plan relies on a scrubber", [
         ("Scrubber", "l"), ("Circuits", "l"), ("Fuel", "l"), ("Fallback", "l"),
         ("Limit % m/m", "r"), ("Mode", "l"), ("From nm", "r"), ("To nm", "r"),
-        ("From UTC", "l"), ("To UTC", "l"), ("Hours", "r"), ("Under", "w")],
+        ("From UTC", "l"), ("To UTC", "l"), ("Hours", "r"), ("SO₂ formed kg", "r"),
+        ("SO₂ cleaned ≤ kg", "r"), ("Under", "w")],
         [[atom(x["scrubber"]), atom(", ".join(x["circuits"])), atom(x["fuel"]),
           atom(x["fallback_fuel"]), f"{x['limit_pct']:.2f}", x["mode"],
           f"{x['from_nm']:,.1f}", f"{x['to_nm']:,.1f}", utc_full(x["from_utc"]),
-          utc_full(x["to_utc"]), f"{x['duration_h']:.2f}", ", ".join(x["areas"]) or "global cap"]
+          utc_full(x["to_utc"]), f"{x['duration_h']:.2f}", f"{x['so2_formed_kg']:,.0f}",
+          f"{x['so2_after_cleaning_max_kg']:,.0f}", ", ".join(x["areas"]) or "global cap"]
          for x in doc["scrubber_spans"]],
         "Fallback: the fuel the circuits burn there without the scrubber (change to it if the "
-        "scrubber fails).")
+        "scrubber fails). SO₂ of the served circuits: formed, and after cleaning at most "
+        "what the same fuel mass at the limit would form (the emission ratio limit's "
+        "equivalent, MEPC.340(77); the monitoring records the real emission).")
     return [ev, sp]
 
 

@@ -53,7 +53,7 @@ from planner.voyage.fuel_choice import (
     regular_fuel,
 )
 from planner.voyage.port import port_state
-from planner.voyage.quantities import Quantities, plan_quantities
+from planner.voyage.quantities import Quantities, plan_quantities, valve_periods
 from planner.voyage.runs import (
     Change,
     Run,
@@ -70,6 +70,7 @@ from planner.voyage.scrubber_events import (
 )
 from planner.voyage.scrubbing import load_range_warnings, served_circuits
 from planner.voyage.scrubbing_plan import Scrubbed, fuels_on_board, merged, scrubbed_plan
+from planner.voyage.scrubbing_spans import span_so2
 from planner.voyage.stay import group_plan
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
@@ -115,6 +116,9 @@ class Plan:
     scrubbed : mapping of str to Scrubbed
         Each scrubber's circuits' own plan, by scrubber name (empty: no scrubber serves a
         circuit whole; :attr:`runs` then is the whole ship's, else the other circuits').
+    scrubber_so2_kg : tuple of (float, float) [kg]
+        For each of :attr:`scrubber_spans`, the served circuits' SO₂ formed and after
+        cleaning at most (:func:`planner.voyage.scrubbing_spans.span_so2`).
     """
 
     voyage: Voyage
@@ -132,6 +136,7 @@ class Plan:
     scrubber_spans: tuple[ScrubberSpan, ...] = ()
     scrubber_events: tuple[ScrubberEvent, ...] = ()
     scrubbed: Mapping[str, Scrubbed] = field(default_factory=dict)
+    scrubber_so2_kg: tuple[tuple[float, float], ...] = ()
 
 
 def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
@@ -210,9 +215,12 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     warnings += load_range_warnings(system)
     spans = tuple(sorted((x for s in scrubbed for x in s.spans), key=lambda x: x.from_epoch_s))
     events = tuple(sorted((e for s in scrubbed for e in s.events), key=lambda e: e.epoch_s))
+    periods = [(p[0], p[1:]) for p in valve_periods(voyage, timeline, runs, changes,
+                                                    first_fuels)] if spans else []
+    so2 = tuple(span_so2(timeline, flushes, periods, x) for x in spans)
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
                 quantities, tuple(notes), tuple(warnings), flushes, reason, spans, events,
-                {s.scrubber.name: s for s in scrubbed})
+                {s.scrubber.name: s for s in scrubbed}, so2)
 
 
 def _with_event(check: RouteCheck, ch: Change) -> Change:

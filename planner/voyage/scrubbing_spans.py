@@ -17,6 +17,14 @@ open at its exit), and **out of service** at each planned outage's moment. The
 would burn without the scrubber, to change to if it fails). Events are in time
 order; positions are where the ship then is on the timeline.
 
+SO₂ on a span (:func:`span_so2`): *formed* is integrated from the blend that
+reaches each served inlet (:mod:`planner.voyage.so2`); *after cleaning, at most*
+is what the same mass of fuel at the limit in force would form. The scrubber's
+SO₂/CO₂ ratio limits are the fuel-sulphur limits' equivalents ([MEPC-340]
+Table 1 [P]: 4.3 for 0.10 %, 21.7 for 0.50 %); counting them mass for mass is an
+approximation (the CO₂ per tonne of the fuels differs by a few per cent, common
+practice), and the real emission is what the continuous monitoring records.
+
 Moments are epoch seconds (``*_epoch_s``: seconds since 1970-01-01 UTC),
 distances metres along the route from departure.
 """
@@ -25,7 +33,9 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+from planner.fuels import so2_formed_kg, so2_from_fuel_kg
 from planner.ship.scrubbers import Scrubber
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.runs import Change, Run
 from planner.voyage.scrubber_events import (
@@ -38,6 +48,7 @@ from planner.voyage.scrubber_events import (
     ScrubberSpan,
 )
 from planner.voyage.scrubbing import Availability, real_stretch_at
+from planner.voyage.so2 import Period, stretch_burnt_t, sulphur_burnt_t
 from planner.voyage.timeline import Timeline
 
 _ORDER = {STOP: 0, OUT_OF_SERVICE: 1, START: 2, MODE_CHANGE: 3}
@@ -174,3 +185,26 @@ def _mode_reason(p: Availability, left: tuple[str, ...], new: str) -> str:
                 f"{allows} discharge)")
     where = f"leaving {', '.join(gone)}" if gone else "here"
     return f"{new} loop again on {where} ({p.why})"
+
+
+def span_so2(timeline: Timeline, flushes: FlushCache, periods: Sequence[tuple[str, Period]],
+             span: ScrubberSpan) -> tuple[float, float]:
+    """SO₂ of the served circuits on a span, kg: ``(formed, after cleaning at most)`` (see
+    the module notes).
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline.
+    flushes : FlushCache
+        The plan's flushes (the inlet blends).
+    periods : sequence of (str, Period)
+        Every circuit's valve periods (:func:`planner.voyage.quantities.valve_periods`).
+    span : ScrubberSpan
+        The span.
+    """
+    mine = [(c, p) for c, p in periods if c in span.circuits]
+    burnt = stretch_burnt_t(timeline, flushes, mine, span.from_epoch_s, span.to_epoch_s)
+    formed = float(so2_formed_kg(sulphur_burnt_t(burnt, dict(timeline.system.fuels)) * 1000.0))
+    at_limit = float(so2_from_fuel_kg(sum(burnt.values()) * 1000.0, span.limit_pct))
+    return formed, min(formed, at_limit)

@@ -104,6 +104,19 @@ def test_hybrid_needs_no_changeover_and_burns_hsfo_in_the_areas():
         parallel_m(3.0, 4.0), 12.0), rel=1e-6)
 
 
+def test_span_so2_formed_and_after_cleaning():
+    """SO₂ = fuel × S/100 × 64.066/32.06 ([IUPAC-2021] [D]); after cleaning at most the same
+    fuel mass at the limit ([MEPC-340] Table 1: the ratio limits are the fuel limits'
+    equivalents [P])."""
+    _, doc = plan_of()
+    west = [s for s in doc["scrubber_spans"] if s["areas"] == ["West Far ECA"]][0]
+    fuel_kg = mass_rate_t_h(12.0) * 1000.0 * hours(parallel_m(3.0, 4.0), 12.0)
+    assert west["so2_formed_kg"] == pytest.approx(fuel_kg * S_HSFO / 100 * 64.066 / 32.06,
+                                                  rel=1e-6)
+    assert west["so2_after_cleaning_max_kg"] == pytest.approx(
+        fuel_kg * 0.10 / 100 * 64.066 / 32.06, rel=1e-6)
+
+
 def test_boiler_not_served_changes_over_as_without_the_scrubber():
     _, with_s = plan_of()
     _, without = plan_of(scrubber=False)
