@@ -323,8 +323,9 @@ def scrubber_json(plan: Plan) -> dict:
     """
     t = plan.timeline
     scrubbers = [{"name": s.name, "consumers": list(s.consumers),
-                  "circuits": list(plan.scrubbed[s.name].circuits) if s.name in plan.scrubbed
-                  else [], "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
+                  "circuits": [c for g in plan.scrubbed if g.scrubber.name == s.name
+                               for c in g.circuits],
+                  "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
                   "min_load_pct": s.min_load_pct, "max_load_pct": s.max_load_pct,
                   "load_range_applied": False, "approval": s.approval}
                  for s in plan.system.scrubbers.values()]

@@ -124,15 +124,19 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
     names = ", ".join(circuits)
     for on, off, run, into, away in _on_intervals(runs, changes, plain, timeline):
         mine: list[ScrubberSpan] = []
-        last_mode, last_zones = scrubber.modes[0], ()
+        last_mode, last_zones, gap = scrubber.modes[0], (), False
         for a, b, p in _pieces_in(on, off, pieces, timeline):
             st = real_stretch_at(stretches, p.from_m)
+            if run.fuel.sulphur_pct <= st.limit_pct + 1e-12:
+                gap = True  # the fuel meets the limit here: nothing relies on the scrubber
+                continue
             fallback = next(c.fuel.name for c in plain if c.stretch is st)
             mode = p.mode or last_mode
             left, last_mode, last_zones = last_zones, mode, p.zones
             areas = tuple(dict.fromkeys(st.areas + p.zones))
             fm, tm = timeline.position(a)[2], timeline.position(b)[2]
-            prev = mine[-1] if mine else None
+            prev = mine[-1] if mine and not gap else None
+            gap = False
             if prev is not None and (prev.mode, prev.limit_pct, prev.fallback_fuel) == \
                     (mode, st.limit_pct, fallback):
                 mine[-1] = ScrubberSpan(scrubber.name, circuits, run.fuel.name, fallback,
@@ -150,7 +154,11 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
         first = mine[0]
         start_why = (f"before {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) reaches the inlets "
                      f"of {names}: in operation at the valve switch from "
-                     f"{into.circuits[0].from_fuel}" if into is not None else
+                     f"{into.circuits[0].from_fuel}" if into is not None and
+                     first.from_epoch_s <= on + 1.0 else
+                     f"circuit {names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) above "
+                     f"the {first.limit_pct:.2f} % limit from here" if first.from_epoch_s > on + 1.0
+                     else
                      f"circuit {names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) from "
                      "departure")
         events.append(ScrubberEvent(scrubber.name, START, first.mode, first.from_epoch_s,

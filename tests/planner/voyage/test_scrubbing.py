@@ -240,3 +240,26 @@ def test_geojson_has_the_scrubber_event_points():
                                                       for e in doc["scrubber_events"]]
     lon = pts[1]["geometry"]["coordinates"][0]
     assert lon == pytest.approx(ZONE[1], abs=1e-6)
+
+
+def test_a_scrubber_serving_two_valves_plans_each_on_its_own_fuels():
+    """The boiler's valve cannot select hsfo: served too, it burns hfo (0.40 %) through the
+    areas on the scrubber, and needs the scrubber only inside them (hfo meets the 0.50 %
+    global cap, [MARPOL-VI] reg. 14 [P])."""
+    from planner.voyage.plan import plan_voyage
+    from planner.voyage.report import plan_json
+
+    voyage, system, check = _inputs()
+    s = system.scrubbers["egcs"]
+    system = replace(system, scrubbers={"egcs": replace(s, consumers=("main_engine",
+                                                                      "boiler"))})
+    doc = plan_json(plan_voyage(voyage, system, check))
+    assert doc["changeovers"] == []
+    assert doc["scrubbers"][0]["circuits"] == ["main", "boiler"]
+    boiler = [x for x in doc["scrubber_spans"] if x["circuits"] == ["boiler"]]
+    assert [(x["fuel"], x["areas"]) for x in boiler] == [("hfo", ["West Far ECA"]),
+                                                         ("hfo", ["East Far ECA"])]
+    assert abs((utc(boiler[0]["from_utc"]) - at(doc, 3.0)).total_seconds()) < TIME_TOL_S
+    starts = [e for e in doc["scrubber_events"] if e["event"] == "start"]
+    assert len(starts) == 2 and abs((utc(starts[1]["utc"]) - at(doc, 3.0)).total_seconds()) \
+        < TIME_TOL_S
