@@ -203,7 +203,7 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
                      f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
                      "changeover alongside.")
     changes = [_with_event(check, ch) for ch in changes]
-    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, choices, scrubber,
+    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, scrubber,
                               names, group, passages, joint_outages(outages, names, scrubber),
                               regular)
                 for names, scrubber, circuits in served

@@ -24,7 +24,7 @@ from planner.fuels import Fuel
 from planner.ship.scrubbers import Scrubber
 from planner.ship.system import FuelSystem
 from planner.voyage.flush_cache import FlushCache
-from planner.voyage.fuel_choice import FuelChoice, regular_fuel
+from planner.voyage.fuel_choice import FuelChoice, choose_fuels, regular_fuel
 from planner.voyage.runs import Change, Run, at_departure, make_runs
 from planner.voyage.scrubber_events import (
     ScrubberEvent,
@@ -97,7 +97,7 @@ class Scrubbed:
 
 
 def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
-                  check: RouteCheck, plain: list[FuelChoice], scrubber: Scrubber,
+                  check: RouteCheck, scrubber: Scrubber,
                   names: tuple[str, ...], circuits: tuple[str, ...],
                   passages: Sequence[ZonePassage],
                   outages: Sequence[ScrubberOutage], plain_regular: Fuel) -> Scrubbed:
@@ -115,8 +115,6 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
         The voyage's timeline.
     check : RouteCheck
         The route check.
-    plain : list of FuelChoice
-        The whole ship's fuel choice on the route check's stretches.
     scrubber : Scrubber
         The scrubber relied on (:func:`planner.voyage.scrubbing.joint_scrubber`).
     names : tuple of str
@@ -151,8 +149,10 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
     departure, warning = _departs_unavailable(timeline, scrubber, circuits, pieces[0],
                                               runs[0], departure)
     changes = departure + changes
-    spans, events = spans_and_events(scrubber, circuits, runs, changes, plain, pieces, timeline,
-                                     outages)
+    # the fallback: the circuits' own fuel choice without the scrubber (fuels on their valves)
+    fallback = choose_fuels(check.stretches, fuels, voyage.fuel_choice_margin, voyage.file)
+    spans, events = spans_and_events(scrubber, circuits, runs, changes, fallback, pieces,
+                                     timeline, outages)
     return Scrubbed(scrubber, names, circuits, tuple(pieces), tuple(choices), tuple(runs),
                     tuple(changes), tuple(notes), (warning,) if warning else (), tuple(spans),
                     tuple(events))
