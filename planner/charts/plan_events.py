@@ -30,6 +30,20 @@ KINDS = {"enter": "enter", "exit": "exit", "comes_into_force": "comes into force
          "cap_change": "global cap changes"}
 """The short name of each ``boundary_event`` (the map's, chart's and GPX's)."""
 
+SCRUBBER_KINDS = {"start": "scrubber start", "stop": "scrubber stop",
+                  "mode_change": "scrubber mode change",
+                  "out_of_service": "scrubber out of service"}
+"""The short name of each scrubber event kind (:mod:`planner.voyage.scrubber_events`)."""
+
+SCRUBBER_PREFIX = "S"
+"""Scrubber events are numbered apart and drawn ``S1``, ``S2`` ... (changeovers: 1, 2 ...)."""
+
+
+def scrubber_label(number: int) -> str:
+    """``S3`` for scrubber event 3."""
+    return f"{SCRUBBER_PREFIX}{number}"
+
+
 CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change")
 """Events that are a moment on the clock, not a place the ship reaches."""
 
@@ -93,9 +107,10 @@ def moment_words(r: dict) -> tuple[str, str]:
 
 @dataclass(frozen=True)
 class PlanEvent:
-    """One event: ``number`` (the changeover's, or None), ``kind`` (a value of
-    :data:`KINDS`), the area, the moment (ISO 8601 UTC or None), the position [° WGS84],
-    the distance from departure [nm] and a short note."""
+    """One event: ``number`` (the changeover's, or None; a scrubber event's own number),
+    ``kind`` (a value of :data:`KINDS` or :data:`SCRUBBER_KINDS`), the area (the
+    scrubber's name for a scrubber event), the moment (ISO 8601 UTC or None), the
+    position [° WGS84], the distance from departure [nm] and a short note."""
 
     number: int | None
     kind: str
@@ -109,13 +124,22 @@ class PlanEvent:
     def __post_init__(self) -> None:
         if not -90.0 <= self.lat <= 90.0:
             raise ValueError(f"event latitude {self.lat} outside -90..90")
-        if self.kind not in KINDS.values():
-            raise ValueError(f"event kind {self.kind!r} not one of {sorted(KINDS.values())}")
+        if self.kind not in KINDS.values() and self.kind not in SCRUBBER_KINDS.values():
+            raise ValueError(f"event kind {self.kind!r} not one of "
+                             f"{sorted(KINDS.values()) + sorted(SCRUBBER_KINDS.values())}")
+
+    @property
+    def is_scrubber(self) -> bool:
+        """A scrubber event (numbered apart: ``S1``; ``area`` holds the scrubber's name)."""
+        return self.kind in SCRUBBER_KINDS.values()
 
     @property
     def label(self) -> str:
-        """The number as drawn (empty for an unnumbered crossing)."""
-        return "" if self.number is None else str(self.number)
+        """The number as drawn (empty for an unnumbered crossing; ``S1`` for a scrubber
+        event)."""
+        if self.number is None:
+            return ""
+        return scrubber_label(self.number) if self.is_scrubber else str(self.number)
 
     @property
     def is_crossing(self) -> bool:

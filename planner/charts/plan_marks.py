@@ -1,9 +1,12 @@
 """Plan marks for the route map: caution zones, every changeover start with its number,
-and the crossings labelled with the plan's changeover numbers.
+and the crossings labelled with the plan's changeover numbers; where the plan relies on
+a scrubber, its spans along the route, its events (``S1``, ``S2`` ...) and the washwater
+discharge zones.
 
 A drawing callback for :func:`planner.charts.route_map.draw_route_map`
 (matplotlib is imported by the map, inside its drawing function), and the
 crossing labels (:func:`crossing_labels`) from :mod:`planner.charts.plan_events`.
+The scrubber's drawing is :mod:`planner.charts.scrubber_draw`.
 """
 
 from __future__ import annotations
@@ -20,11 +23,18 @@ IN_FORCE_KINDS = ("comes into force", "ceases to apply")
 
 def events_of(plan: Plan, doc: dict) -> list[PlanEvent]:
     """The plan's events (every crossing and every force event of the document, numbered
-    where a changeover is made)."""
+    where a changeover is made), and the scrubber events (``S1``, ``S2`` ..., from the
+    document's ``scrubber_events`` or else the plan's), in order along the route."""
+    from planner.charts.scrubber_marks import scrubber_plan_events, with_scrubbers
     from planner.voyage.route_report import route_json
 
-    return plan_events(route_json(plan.check)["crossings"], doc["changeovers"],
-                       doc.get("force_events", []))
+    out = plan_events(route_json(plan.check)["crossings"], doc["changeovers"],
+                      doc.get("force_events", []))
+    scrub = scrubber_plan_events(with_scrubbers(plan, doc)["scrubber_events"])
+    if not scrub:
+        return out
+    return sorted(out + scrub, key=lambda e: (e.distance_nm, e.time_utc or "",
+                                              e.is_scrubber, e.number or 0))
 
 
 def crossing_labels(events: list[PlanEvent]) -> list[tuple[str, str]]:
@@ -39,13 +49,21 @@ def crossing_labels(events: list[PlanEvent]) -> list[tuple[str, str]]:
 
 def event_notes(events: list[PlanEvent]) -> list[str]:
     """The map legend's line of each event that is no crossing (an area coming into force
-    while the ship is inside it, a departure, a change of the global cap), with its time
-    and the ship's position then."""
+    while the ship is inside it, a departure, a change of the global cap, a scrubber
+    event: two lines, its action beneath), with its time and the ship's position then."""
     from geo.position import format_position
 
-    return [f"{e.label or '-':>2}  {e.kind} {e.area} {e.when}, ship at "
-            f"{format_position(e.lat, e.lon)}, {e.distance_nm:,.1f} nm: {e.note}"
-            for e in events if e.kind not in CROSSING_KINDS]
+    out = []
+    for e in events:
+        if e.kind in CROSSING_KINDS:
+            continue
+        head = (f"{e.label or '-':>2}  {e.kind} {e.area} {e.when}, ship at "
+                f"{format_position(e.lat, e.lon)}, {e.distance_nm:,.1f} nm")
+        if e.is_scrubber:  # its action on a line of its own (the legend's width)
+            out += [head + ":", f"      {e.note}"]
+        else:
+            out.append(f"{head}: {e.note}")
+    return out
 
 
 def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
@@ -54,7 +72,13 @@ def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
 
     ``doc`` is the plan's ``--json`` document (the starts are read from its rows).
     """
+    from planner.charts.scrubber_marks import discharge_zones, with_scrubbers
+
     events = [e for e in events_of(plan, doc) if e.kind not in CROSSING_KINDS]
+    scrub = [e for e in events if e.is_scrubber]
+    events = [e for e in events if not e.is_scrubber]
+    spans = with_scrubbers(plan, doc)["scrubber_spans"]
+    zones = discharge_zones(plan)
 
     def draw(ax) -> None:
         import numpy as np
@@ -93,4 +117,8 @@ def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
             text = f"{e.label} {e.kind} {e.when}".strip() if clock else e.label
             ax.annotate(text, (lon, e.lat), textcoords="offset points", xytext=(0, 9),
                         fontsize=8, ha="center", weight="bold")
+        if spans or scrub or zones:
+            from planner.charts.scrubber_draw import draw_scrubbers
+
+            draw_scrubbers(ax, plan.check.path, spans, scrub, zones)
     return draw
