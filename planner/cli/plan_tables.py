@@ -91,24 +91,47 @@ def groups(rows: list[dict]) -> list[list[dict]]:
     return out
 
 
+SCRUBBER_EVENTS = {
+    "scrubber_out_of_service": (
+        ", scrubber out of service at {at}: the served circuits compliant by {at} wherever "
+        "the ship is{limit}", ("Scrubber out of service", "the ship then at")),
+    "scrubber_in_service": (
+        ", scrubber back in service at {at}: change back to the high-sulphur fuel at or "
+        "after {at}, never before", ("Scrubber back in service", "the ship then at")),
+}
+"""The words of the served circuits' clock boundaries (:mod:`planner.voyage.scrubbing_choice`):
+the rest line, then the head's label and position words."""
+
+
 def _what(r: dict, day: str = "") -> str:
     """What the changeover is, in words (after the area's name), from its
-    ``boundary_event`` (:func:`planner.charts.plan_events.what_text`); the boundary's
-    moment as ``HH:MMZ`` when on ``day``."""
+    ``boundary_event`` (:func:`planner.charts.plan_events.what_text`, or
+    :data:`SCRUBBER_EVENTS`); the boundary's moment as ``HH:MMZ`` when on ``day``."""
     from planner.charts.plan_events import what_text
 
-    return what_text(r, utc_cell(r.get("boundary_utc"), day))
+    at = utc_cell(r.get("boundary_utc"), day)
+    own = SCRUBBER_EVENTS.get(r.get("boundary_event", ""))
+    if own is not None:
+        limit = (f" (limit {r['limit_pct']:.2f} % m/m, target {r['target_pct']:.3f} % m/m)"
+                 if r.get("target_pct") else "")
+        return own[0].format(at=at, limit=limit)
+    return what_text(r, at)
+
+
+def _moment_words(r: dict) -> tuple[str, str]:
+    from planner.charts.plan_events import moment_words
+
+    own = SCRUBBER_EVENTS.get(r.get("boundary_event", ""))
+    return own[1] if own is not None else moment_words(r)
 
 
 def _head(g: list[dict]) -> tuple[str, ...]:
-    from planner.charts.plan_events import moment_words
-
     r = g[0]
     b = parse(r.get("boundary_utc"))
     ship = parse(r.get("boundary_ship_time"))
     day = f"{b.astimezone(UTC):%Y-%m-%d}" if b else ""
     first = keep_whole(f"Changeover {r.get('number')}: {r.get('area', DASH)}{_what(r, day)}")
-    label, at = moment_words(r)
+    label, at = _moment_words(r)
     where = f"{label} {utc_full(r.get('boundary_utc'))}"
     if ship is not None:
         where += f", ship's time {ship_full(r.get('boundary_ship_time'))}"
@@ -211,7 +234,38 @@ def fuel_tables(doc: dict) -> list[TextTable]:
     return [s, q, so]
 
 
+def scrubber_tables(doc: dict) -> list[TextTable]:
+    """The scrubber events (start, stop, mode changes, out of service) and the spans on which
+    the plan relies on a scrubber; none when the ship file has no scrubber."""
+    if "scrubbers" not in doc:
+        return []
+    ev = table("Scrubber events", [
+        ("No.", "r"), ("Scrubber", "l"), ("Event", "l"), ("Mode", "l"), ("UTC", "l"),
+        ("Ship's time", "l"), ("Position", "l"), ("nm", "r"), ("Why", "w")],
+        [[str(e["number"]), atom(e["scrubber"]), atom(e["event"].replace("_", " ")),
+          e["mode"] or DASH, utc_full(e["utc"]), ship_full(e["ship_time"]),
+          position(e["lat"], e["lon"]), f"{e['distance_nm']:,.1f}", e["reason"]]
+         for e in doc["scrubber_events"]],
+        "Start: in operation before the high-sulphur fuel reaches the inlets (at the valve "
+        "switch to it). Stop: every served inlet compliant again. The approval and the "
+        "system's operating manual come first." if doc["scrubber_events"] else
+        "No scrubber event: the plan relies on no scrubber on this voyage.")
+    sp = table("Where the plan relies on a scrubber", [
+        ("Scrubber", "l"), ("Circuits", "l"), ("Fuel", "l"), ("Fallback", "l"),
+        ("Limit % m/m", "r"), ("Mode", "l"), ("From nm", "r"), ("To nm", "r"),
+        ("From UTC", "l"), ("To UTC", "l"), ("Hours", "r"), ("Under", "w")],
+        [[atom(x["scrubber"]), atom(", ".join(x["circuits"])), atom(x["fuel"]),
+          atom(x["fallback_fuel"]), f"{x['limit_pct']:.2f}", x["mode"],
+          f"{x['from_nm']:,.1f}", f"{x['to_nm']:,.1f}", utc_full(x["from_utc"]),
+          utc_full(x["to_utc"]), f"{x['duration_h']:.2f}", ", ".join(x["areas"]) or "global cap"]
+         for x in doc["scrubber_spans"]],
+        "Fallback: the fuel the circuits burn there without the scrubber (change to it if the "
+        "scrubber fails).")
+    return [ev, sp]
+
+
 def plan_tables(doc: dict) -> list[TextTable]:
     """Every table the plan prints, in order."""
     conf = confidence_table(doc)
-    return [changeover_table(doc), *([conf] if conf else []), *fuel_tables(doc)]
+    return [changeover_table(doc), *([conf] if conf else []), *scrubber_tables(doc),
+            *fuel_tables(doc)]

@@ -98,3 +98,9 @@ RATE_C_PER_MIN = Plausible(0.0, 60.0, 0.1, 10.0, "°C/min", low_open=True,
                            hint="about 2 °C/min at an engine inlet, [TC-SSB-04-2015]")
 TEMPERATURE = Plausible(-20.0, 250.0, 0.0, 160.0, "°C",
                         hint="fuel is heated to at most about 150 °C, [ENGINE-GUIDANCE]")
+SCRUBBER_SULPHUR = Plausible(0.0, 4.5, 1.0, 3.5, "% m/m", low_open=True,
+                             hint="scrubbers are usually approved for fuels up to 3.50 % m/m, "
+                                  "common practice; above 4.50 % no fuel may be burnt, "
+                                  "[MARPOL-VI]")
+SCRUBBER_LOAD = Plausible(0.0, 110.0, 0.0, 110.0, "% MCR",
+                          hint="the load range the EGCS approval states, " + _TYPO)

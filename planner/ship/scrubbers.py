@@ -45,6 +45,11 @@ class Scrubber:
     min_load_pct, max_load_pct : float [% MCR]
         The load range of the served engines in which it may be relied on
         (default 0 to 110, the whole range).
+    approval : str
+        The approval's reference as the ship file gives it (e.g. the EGCS
+        certificate), printed with the plan; may be empty.
+    note : str
+        Free text from the ship file; may be empty.
     """
 
     name: str
@@ -53,6 +58,8 @@ class Scrubber:
     max_sulphur_pct: float
     min_load_pct: float = 0.0
     max_load_pct: float = 110.0
+    approval: str = ""
+    note: str = ""
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip():
@@ -79,6 +86,10 @@ class Scrubber:
             raise ValueError(f"scrubber {self.name!r}: the load range must satisfy 0 <= "
                              f"min_load_pct < max_load_pct <= 110 % MCR, got "
                              f"{self.min_load_pct!r} to {self.max_load_pct!r}")
+        for key in ("approval", "note"):
+            if not isinstance(getattr(self, key), str):
+                raise ValueError(f"scrubber {self.name!r}: {key} must be text, "
+                                 f"got {getattr(self, key)!r}")
 
     @property
     def hybrid(self) -> bool:
@@ -93,3 +104,12 @@ class Scrubber:
     def allows(self, mode: str) -> bool:
         """It can work in ``mode`` (``"open"`` or ``"closed"``)."""
         return mode in self.modes
+
+    def serves(self, consumer: str) -> bool:
+        """It cleans the exhaust of ``consumer``."""
+        return consumer in self.consumers
+
+    def modes_allowed(self, zone_allows: tuple[str, ...]) -> tuple[str, ...]:
+        """Its modes that a washwater discharge zone allowing ``zone_allows`` permits
+        (``()``: it may not run there), in the order of :data:`MODES`."""
+        return tuple(m for m in self.modes if m in zone_allows)

@@ -24,6 +24,7 @@ from planner.ship import plausible as pl
 from planner.ship._reader import Reader
 from planner.ship.consumers import CONSUMER_KINDS, Consumer, MainEngine, iso_demand_t_h
 from planner.ship.inlet_limits import WINDOW_KEYS, consumer_window
+from planner.ship.scrubber_file import parse_scrubbers, partial_circuit_warnings
 from planner.ship.system import (
     VALVE,
     Circuit,
@@ -132,7 +133,7 @@ def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
     """
     r = Reader(file)
     r.keys(data, ("ship", "fuels", "tanks", "consumers", "volumes", "circuits", "inlet",
-                  "uncertainty"), "")
+                  "uncertainty", "scrubbers"), "")
     ship_t = r.table(data, "ship", "ship")
     r.keys(ship_t, ("name", "imo", "fictional", "notes", "journal"), "ship")
     fictional = ship_t.get("fictional", False)
@@ -161,12 +162,14 @@ def parse_ship(data: dict[str, Any], file: str = "<ship>") -> FuelSystem:
               for n, c in consumers.items()}
     volumes = {n: _volume(r, n, t) for n, t in _tables(r, data, "volumes").items()}
     circuits = {n: _circuit(r, n, t) for n, t in _tables(r, data, "circuits").items()}
+    scrubbers = parse_scrubbers(r, data.get("scrubbers"), consumers)
     try:
         system = FuelSystem(ship, fuels, tanks, volumes, consumers, circuits, inlet,
-                            inlets=inlets)
+                            inlets=inlets, scrubbers=scrubbers)
     except FuelSystemError as e:
         raise InputError(file, e.place, e.value, e.expected) from None
     _check_pumps(r, system)
+    r.warnings += partial_circuit_warnings(file, scrubbers, system.circuits)
     return replace(system, input_warnings=tuple(r.warnings)) if r.warnings else system
 
 

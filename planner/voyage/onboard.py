@@ -15,6 +15,7 @@ from planner.common.input_files import read_toml
 from planner.fuels import standard_volume_m3
 from planner.ship.ship_file import load_ship
 from planner.ship.system import FuelSystem, FuelSystemError
+from planner.voyage.scrubber_voyage import check_scrubber_inputs
 from planner.voyage.voyage_file import Voyage, load_voyage
 
 
@@ -48,9 +49,12 @@ def ship_for_voyage(voyage: Voyage) -> FuelSystem:
     Raises
     ------
     InputError
-        For a tank the ship file lacks, or a volume the tank cannot hold.
+        For a tank the ship file lacks, or a volume the tank cannot hold; an outage of a
+        scrubber the ship file lacks, or a bad discharge-zone file
+        (:func:`planner.voyage.scrubber_voyage.check_scrubber_inputs`).
     """
     system = load_ship(voyage.ship_file)
+    check_scrubber_inputs(voyage, system.scrubbers)
     system = system.with_fuels({f.name: f for f in voyage.fuels})
     for name, content in voyage.tanks.items():
         if name not in system.tanks:

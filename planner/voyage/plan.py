@@ -34,20 +34,15 @@ seconds (``*_epoch_s``: seconds since 1970-01-01 UTC).
 
 from __future__ import annotations
 
-from collections.abc import Callable
-from dataclasses import dataclass, replace
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field, replace
 from datetime import datetime
-from typing import TypeVar
 
 from geo.compliance import RouteCheck
-from geo.errors import InputError
 from geo.limits import global_cap_changes_utc, global_cap_pct
 from geo.schedule import to_epoch
-from planner.common.timefmt import format_utc
-from planner.flushing import FlushError, expected_for
 from planner.fuels import Fuel
 from planner.ship.system import FuelSystem
-from planner.voyage.changeovers import TargetUnreachable, plan_to_compliant, plan_to_regular
 from planner.voyage.checks import PlanWarning, passed_over_warnings, plan_warnings
 from planner.voyage.explain import no_changeover_reason
 from planner.voyage.flush_cache import FlushCache
@@ -59,13 +54,27 @@ from planner.voyage.fuel_choice import (
 )
 from planner.voyage.port import port_state
 from planner.voyage.quantities import Quantities, plan_quantities
-from planner.voyage.runs import Change, Run, make_runs, merge_same_fuel
-from planner.voyage.scrubber_events import ScrubberEvent, ScrubberSpan
-from planner.voyage.stay import needless_switch_back
+from planner.voyage.runs import (
+    Change,
+    Run,
+    at_departure,
+    flushing_target_pct,
+    make_runs,
+    with_thermal,
+)
+from planner.voyage.scrubber_events import (
+    ScrubberEvent,
+    ScrubberOutage,
+    ScrubberSpan,
+    ZonePassage,
+)
+from planner.voyage.scrubbing import load_range_warnings, served_circuits
+from planner.voyage.scrubbing_plan import Scrubbed, fuels_on_board, merged, scrubbed_plan
+from planner.voyage.stay import group_plan
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
 
-T = TypeVar("T")
+__all__ = ["Plan", "Scrubbed", "flushing_target_pct", "fuels_on_board", "plan_voyage"]
 
 
 @dataclass(frozen=True, eq=False)
@@ -103,6 +112,9 @@ class Plan:
         Where served circuits burn fuel above the limit on a scrubber, in time order.
     scrubber_events : tuple of ScrubberEvent
         Every scrubber start, stop, mode change and outage, in time order.
+    scrubbed : mapping of str to Scrubbed
+        Each scrubber's circuits' own plan, by scrubber name (empty: no scrubber serves a
+        circuit whole; :attr:`runs` then is the whole ship's, else the other circuits').
     """
 
     voyage: Voyage
@@ -119,88 +131,12 @@ class Plan:
     no_changeover_reason: str | None = None
     scrubber_spans: tuple[ScrubberSpan, ...] = ()
     scrubber_events: tuple[ScrubberEvent, ...] = ()
-
-
-def fuels_on_board(voyage: Voyage, system: FuelSystem) -> list[Fuel]:
-    """The voyage's fuels that some tank holds, in the voyage file's order.
-
-    Parameters
-    ----------
-    voyage : Voyage
-        The voyage (its delivery-note fuels).
-    system : FuelSystem
-        The ship as she sails it (the tank contents).
-    """
-    held = {f for t in system.tanks.values() for f, v in t.content_m3.items() if v > 0}
-    return [f for f in voyage.fuels if f.name in held]
-
-
-def _area_of(run_in: Run, run_out: Run, direction: str) -> str:
-    """The area entered (first of the run entered) or left (last of the run left)."""
-    if direction == "to_compliant":
-        return run_in.areas[0] if run_in.areas else "global cap"
-    return run_out.areas[-1] if run_out.areas else "global cap"
-
-
-def flushing_target_pct(limit_pct: float, fraction: float, fuel: Fuel) -> float:
-    """The sulphur the inlets are flushed to, % m/m: ``fraction`` × limit, or halfway
-    between the fuel's own sulphur and the limit when the fuel is at or above that (a
-    0.47 % fuel under the 0.50 % cap: 0.485 %).
-
-    Parameters
-    ----------
-    limit_pct : float [% m/m]
-        The limit on the compliant side.
-    fraction : float [-]
-        The voyage's sulphur target fraction.
-    fuel : Fuel
-        The compliant fuel.
-    """
-    target = limit_pct * fraction
-    if fuel.sulphur_pct < target:
-        return target
-    return 0.5 * (fuel.sulphur_pct + limit_pct)
-
-
-def _change(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
-            before: Run, after: Run, boundary_epoch_s: float, boundary_m: float,
-            before_departure: bool = False,
-            circuits: tuple[str, ...] | None = None) -> Change:
-    """The change between two runs, every circuit (or those named), without the thermal
-    paths."""
-    down = after.fuel.sulphur_pct < before.fuel.sulphur_pct
-    direction = "to_compliant" if down else "to_regular"
-    limit = after.limit_pct if down else before.limit_pct
-    target = flushing_target_pct(limit, voyage.sulphur_target_fraction, after.fuel)
-    parts = []
-    for name in (circuits if circuits is not None else tuple(system.circuits)):
-        a = system.tank_for(name, before.fuel.name)
-        b = system.tank_for(name, after.fuel.name)
-        if down:
-            parts.append(plan_to_compliant(system, timeline, name, a, b, boundary_epoch_s,
-                                           voyage.time_margin_h, limit, target, flushes,
-                                           thermal=False))
-        else:
-            parts.append(plan_to_regular(system, timeline, name, a, b, boundary_epoch_s, limit,
-                                         flushes, thermal=False))
-    return Change(_area_of(after, before, direction), direction, boundary_m, boundary_epoch_s,
-                  limit, target, tuple(parts), before_departure)
-
-
-def _changes(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
-             runs: list[Run]) -> list[Change]:
-    return [_change(flushes, system, timeline, voyage, a, b, b.from_epoch_s, b.from_m)
-            for a, b in zip(runs[:-1], runs[1:], strict=True)]
-
-
-def _with_thermal(flushes: FlushCache, system: FuelSystem, ch: Change) -> Change:
-    """``ch`` with every circuit's inlet viscosity paths."""
-    parts = tuple(replace(p, study=flushes.with_thermal(system, p.study)) for p in ch.circuits)
-    return replace(ch, circuits=parts)
+    scrubbed: Mapping[str, Scrubbed] = field(default_factory=dict)
 
 
 def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
-                flushes: FlushCache | None = None) -> Plan:
+                flushes: FlushCache | None = None, passages: Sequence[ZonePassage] = (),
+                outages: Sequence[ScrubberOutage] = ()) -> Plan:
     """The whole plan (see the module notes).
 
     Parameters
@@ -213,6 +149,10 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
         The route check, with a schedule.
     flushes : FlushCache, optional
         Where the flushes are remembered (default: a new cache, kept with the plan).
+    passages : sequence of ZonePassage, optional
+        The route's passages through washwater discharge zones (for the scrubbers).
+    outages : sequence of ScrubberOutage, optional
+        The scrubbers' planned outages (the voyage file's).
 
     Raises
     ------
@@ -227,51 +167,60 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     timeline = Timeline(check.schedule, system, port_state(voyage, system))
     choices = choose_fuels(check.stretches, fuels_on_board(voyage, system),
                            voyage.fuel_choice_margin, voyage.file)
-    runs = make_runs(choices, timeline)
-    notes: list[str] = []
-    while True:
-        changes = _simulated(voyage, _changes, flushes, system, timeline, voyage, runs)
-        stay = needless_switch_back(changes, timeline, voyage.min_time_on_regular_h)
-        if stay is None:
-            break
-        k, why = stay
-        keep = runs[k]
-        runs[k + 1] = replace(runs[k + 1], fuel=keep.fuel,
-                              reasons=runs[k + 1].reasons + (why,))
-        notes.append(why)
-        runs = merge_same_fuel(runs)
+    served = served_circuits(system)
+    plain = None if not served else tuple(
+        c for c in system.circuits if not any(c in g for g in served.values()))
+    runs, changes, notes = group_plan(flushes, system, timeline, voyage,
+                                       make_runs(choices, timeline), plain)
     regular = regular_fuel(choices)
     first = runs[0]
     inside = bool(check.stretches[0].areas)
     if inside:  # departs inside an area: the fuel she burns outside, even if never again
         regular = _outside_fuel(voyage, system, timeline.utc(first.from_epoch_s), regular)
     warnings: list[PlanWarning] = []
-    departure, warning = _at_departure(flushes, voyage, system, timeline, first, regular,
-                                       inside)
+    departure, warning = at_departure(flushes, voyage, system, timeline, first, regular,
+                                       inside, plain)
     changes[:0] = departure
     if warning is not None:
         warnings.append(warning)
-    elif inside and changes:
+    elif inside and changes and plain is None:
         notes.append(f"The voyage departs inside {', '.join(check.stretches[0].areas)} with "
                      f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
                      "changeover alongside.")
+    changes = [_with_event(check, ch) for ch in changes]
+    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, choices, name, circuits,
+                          passages, outages) for name, circuits in served.items()]
+    for s in scrubbed:
+        notes += s.notes
+        warnings += s.warnings
+    changes = merged(system, [changes] + [[_with_event(check, ch) for ch in s.changes]
+                              for s in scrubbed])
     notes += _target_notes(voyage, changes)
     reason = None
     if not changes:
         reason = no_changeover_reason(check, runs, departs_compliant=inside)
         notes.append(reason)
-    changes = [_with_thermal(flushes, system, _with_event(check, ch)) for ch in changes]
-    quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes)
+    changes = [with_thermal(flushes, system, ch) for ch in changes]
+    first_fuels = None if not served else {
+        **{c: runs[0].fuel for c in plain or ()},
+        **{c: s.runs[0].fuel for s in scrubbed for c in s.circuits}}
+    quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes, first_fuels)
     warnings += passed_over_warnings(timeline, choices, voyage.fuel_choice_margin)
     warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)
+    warnings += load_range_warnings(system)
+    spans = tuple(sorted((x for s in scrubbed for x in s.spans), key=lambda x: x.from_epoch_s))
+    events = tuple(sorted((e for s in scrubbed for e in s.events), key=lambda e: e.epoch_s))
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
-                quantities, tuple(notes), tuple(warnings), flushes, reason)
+                quantities, tuple(notes), tuple(warnings), flushes, reason, spans, events,
+                {s.scrubber.name: s for s in scrubbed})
 
 
 def _with_event(check: RouteCheck, ch: Change) -> Change:
     """``ch`` with what its boundary is (:attr:`Change.event`): a departure, an area's
     coming into or going out of force while inside it, a change of the global cap, else a
     crossing."""
+    if ch.event:
+        return ch
     if ch.before_departure or ch.area == "departure":
         return replace(ch, event="departure")
     for f in check.force_events:
@@ -296,80 +245,9 @@ def _target_notes(voyage: Voyage, changes: list[Change]) -> list[str]:
     return out
 
 
-def _at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
-                  first: Run, regular: Fuel, inside: bool
-                  ) -> tuple[list[Change], PlanWarning | None]:
-    """The changes at departure, from the fuel each circuit is on (``[port] departure_fuel``,
-    default ``regular``) to the first run's: a change to a lower-sulphur fuel made alongside,
-    before departure; a change to a higher-sulphur fuel commenced at departure.
-
-    Returns the changes (to compliant first) and the departure warning, if any.
-    """
-    port = timeline.port
-    given = port.departure_fuel if port is not None else {}
-    on = {c: voyage.fuel(given.get(c, regular.name)) for c in system.circuits}
-    out: list[Change] = []
-    warning = None
-    t0 = first.from_epoch_s
-    for fuel in dict.fromkeys(f.name for f in on.values()):  # one change per fuel left
-        circuits = tuple(c for c, f in on.items() if f.name == fuel)
-        if on[circuits[0]].sulphur_pct > first.fuel.sulphur_pct:
-            out.append(_departure_change(flushes, voyage, system, timeline, first,
-                                         on[circuits[0]], circuits))
-    if out and inside:
-        start = min(c.start_epoch_s for ch in out for c in ch.circuits)
-        load = port.describe_departure() if port is not None else ""
-        warning = PlanWarning("departs_inside", (
-            f"The voyage departs inside {out[0].area}: every consumer must be on "
-            f"{first.fuel.name} before departure at {format_utc(timeline.utc(t0))}; start "
-            f"the changeover alongside by {format_utc(timeline.utc(start))} (planned at "
-            f"the consumption alongside: {load})."))
-    for fuel in dict.fromkeys(f.name for f in on.values()):  # commenced at departure
-        circuits = tuple(c for c, f in on.items() if f.name == fuel)
-        if on[circuits[0]].sulphur_pct < first.fuel.sulphur_pct:
-            pre = Run(first.from_m, first.from_m, t0, t0, on[circuits[0]], first.limit_pct, ())
-            back = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first,
-                              t0, 0.0, False, circuits)
-            out.append(replace(back, area="departure"))
-    return out, warning
-
-
-def _departure_change(flushes: FlushCache, voyage: Voyage, system: FuelSystem,
-                      timeline: Timeline, first: Run, regular: Fuel,
-                      circuits: tuple[str, ...]) -> Change:
-    """The change of ``circuits`` to the first run's fuel, made alongside, from ``regular``."""
-    t0 = first.from_epoch_s
-    port = timeline.port
-    for c in circuits:
-        cons = system.circuits[c].consumers
-        if port is not None and sum(port.departure_iso_t_h[n] for n in cons) <= 0.0:
-            raise InputError(voyage.file, "port.departure_load_pct", port.describe_departure(),
-                             f"a consumer of circuit {c} ({', '.join(cons)}) burning fuel "
-                             f"alongside: it must be flushed to {first.fuel.name} before "
-                             "departure")
-    pre = Run(first.from_m, first.from_m, t0, t0, regular, 4.5, ())
-    dep = _simulated(voyage, _change, flushes, system, timeline, voyage, pre, first, t0, 0.0,
-                     True, circuits)
-    return replace(dep, area=first.areas[0] if first.areas else dep.area)
-
-
 def _outside_fuel(voyage: Voyage, system: FuelSystem, when: datetime, regular: Fuel) -> Fuel:
     """The fuel the ship burns outside any area at ``when`` (UTC): the highest-sulphur fuel
     on board within the global cap's target (or ``regular`` if none is higher)."""
     cap = fuel_choice_target_pct(global_cap_pct(when), voyage.fuel_choice_margin)
     ok = [f for f in fuels_on_board(voyage, system) if f.sulphur_pct <= cap + 1e-12]
     return max(ok + [regular], key=lambda f: f.sulphur_pct)
-
-
-def _simulated(voyage: Voyage, fn: Callable[..., T], *args: object) -> T:
-    """``fn(*args)``, with a flushing simulation that cannot run (a tank runs dry, a pump below
-    the consumption) reported as bad input naming the voyage file."""
-    try:
-        return fn(*args)
-    except FlushError as exc:
-        raise InputError(voyage.file, "changeover simulation", str(exc), expected_for(
-                         exc, "tanks that hold enough fuel, and pumps that cover the "
-                         "consumption, for every changeover")) from None
-    except TargetUnreachable as exc:
-        raise InputError(voyage.file, "margins.sulphur_target_fraction", str(exc),
-                         "a sulphur target above the compliant fuel's own sulphur") from None

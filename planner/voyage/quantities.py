@@ -21,7 +21,7 @@ Pure functions of the plan's parts; :func:`plan_quantities` gathers them for
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from planner.fuels import Fuel, so2_formed_kg, so2_from_fuel_kg
@@ -131,7 +131,8 @@ by the switch ``change`` (None: since departure)."""
 
 
 def valve_periods(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
-                  changes: Sequence[Change]) -> list[ValvePeriod]:
+                  changes: Sequence[Change],
+                  first_fuels: Mapping[str, Fuel] | None = None) -> list[ValvePeriod]:
     """Each circuit's periods with its valve set to one fuel, departure to arrival.
 
     A change before departure puts the circuit on the compliant fuel from its
@@ -149,6 +150,10 @@ def valve_periods(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
         The plan's runs (the first gives the fuel at departure).
     changes : sequence of Change
         The plan's changes, in time order.
+    first_fuels : mapping of str to Fuel, optional
+        Each circuit's fuel at departure when they differ (circuits a scrubber serves burn
+        their own runs' fuel, :attr:`planner.voyage.plan.Plan.scrubbed`); default: the
+        first run's, every circuit.
 
     Returns
     -------
@@ -159,7 +164,7 @@ def valve_periods(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
     t_end = timeline.end_epoch_s + alongside_h(timeline, runs) * 3600.0
     for circuit in timeline.system.circuits:
         t = timeline.start_epoch_s
-        fuel = runs[0].fuel
+        fuel = runs[0].fuel if first_fuels is None else first_fuels[circuit]
         last: CircuitChange | None = None
         for ch in changes:
             part = next((c for c in ch.circuits if c.circuit == circuit), None)
@@ -194,7 +199,8 @@ def alongside_h(timeline: Timeline, runs: Sequence[Run]) -> float:
 
 
 def fuel_needs(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
-               changes: Sequence[Change]) -> list[FuelNeed]:
+               changes: Sequence[Change],
+               first_fuels: Mapping[str, Fuel] | None = None) -> list[FuelNeed]:
     """Fuel drawn per valve period, in the order of :func:`valve_periods`.
 
     Parameters
@@ -207,10 +213,12 @@ def fuel_needs(voyage: Voyage, timeline: Timeline, runs: Sequence[Run],
         The plan's runs.
     changes : sequence of Change
         The plan's changes, in time order.
+    first_fuels : mapping of str to Fuel, optional
+        Each circuit's fuel at departure (:func:`valve_periods`).
     """
     needs: list[FuelNeed] = []
     end = timeline.end_epoch_s
-    for circuit, a, b, fuel, _ in valve_periods(voyage, timeline, runs, changes):
+    for circuit, a, b, fuel, _ in valve_periods(voyage, timeline, runs, changes, first_fuels):
         consumers = timeline.system.circuits[circuit].consumers
         m = timeline.burnt_t(a, b, fuel, consumers)
         port_h = max(0.0, b - max(a, end)) / 3600.0
@@ -359,7 +367,8 @@ def sulphur_by_area(rows: Sequence[StretchSO2]) -> dict[str, float]:
 
 def plan_quantities(voyage: Voyage, timeline: Timeline, choices: Sequence[FuelChoice],
                     runs: Sequence[Run], changes: Sequence[Change],
-                    flushes: FlushCache | None = None) -> Quantities:
+                    flushes: FlushCache | None = None,
+                    first_fuels: Mapping[str, Fuel] | None = None) -> Quantities:
     """Every fuel and SO₂ figure of the plan.
 
     Parameters
@@ -376,10 +385,12 @@ def plan_quantities(voyage: Voyage, timeline: Timeline, choices: Sequence[FuelCh
         The plan's changes, in time order.
     flushes : FlushCache, optional
         The plan's flushes (default: a new cache).
+    first_fuels : mapping of str to Fuel, optional
+        Each circuit's fuel at departure (:func:`valve_periods`; default the first run's).
     """
     flushes = flushes if flushes is not None else FlushCache()
-    needs = fuel_needs(voyage, timeline, runs, changes)
-    periods = valve_periods(voyage, timeline, runs, changes)
+    needs = fuel_needs(voyage, timeline, runs, changes, first_fuels)
+    periods = valve_periods(voyage, timeline, runs, changes, first_fuels)
     return Quantities(tuple(needs), totals_t(needs), on_board_t(timeline.system),
                       tuple(stretch_so2(timeline, choices, runs, periods, flushes)),
                       alongside_so2(timeline, choices, runs, periods, flushes))

@@ -224,6 +224,7 @@ def plan_json(plan: Plan) -> dict:
                 "so2_on_regular_kg": port.so2_regular_kg, "sulphur_kg": port.sulphur_kg},
             "total_kg": sum(r.so2_kg for r in so2_all),
         },
+        **(scrubber_json(plan) if plan.system.scrubbers else {}),
         "notes": list(plan.notes),
         "no_changeover_reason": plan.no_changeover_reason,
         "warnings": [w.text for w in plan.warnings],
@@ -290,4 +291,59 @@ def plan_geojson(plan: Plan, doc: dict | None = None) -> dict:
                                "area": row["area"], "circuit": row["circuit"],
                                "direction": row["direction"], "time_utc": row[f"{kind}_utc"]},
             })
+    for e in (doc or plan_json(plan)).get("scrubber_events", []):
+        gj["features"].append({
+            "type": "Feature",
+            "geometry": {"type": "Point", "coordinates": [e["lon"], e["lat"]]},
+            "properties": {"kind": "scrubber_event", "number": e["number"],
+                           "scrubber": e["scrubber"], "event": e["event"], "mode": e["mode"],
+                           "time_utc": e["utc"], "distance_nm": e["distance_nm"],
+                           "reason": e["reason"]},
+        })
     return gj
+
+
+def scrubber_json(plan: Plan) -> dict:
+    """The plan's scrubber keys: ``scrubbers`` (each with the circuits it serves whole),
+    ``scrubber_spans`` and ``scrubber_events`` (numbered from 1, in time order). The plan's
+    document carries them only when the ship file has a scrubber (a plan without one is
+    byte for byte as before).
+
+    Parameters
+    ----------
+    plan : Plan
+        The plan.
+
+    Returns
+    -------
+    dict
+        Times ISO 8601 UTC (``*_utc``) and ship's time, positions in degrees (WGS84),
+        distances nm, durations h, sulphur % m/m.
+    """
+    t = plan.timeline
+    scrubbers = [{"name": s.name, "consumers": list(s.consumers),
+                  "circuits": list(plan.scrubbed[s.name].circuits) if s.name in plan.scrubbed
+                  else [], "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
+                  "min_load_pct": s.min_load_pct, "max_load_pct": s.max_load_pct,
+                  "load_range_applied": False, "approval": s.approval}
+                 for s in plan.system.scrubbers.values()]
+    spans = []
+    for x in plan.scrubber_spans:
+        (alat, alon), (blat, blon) = _point(plan, x.from_epoch_s), _point(plan, x.to_epoch_s)
+        spans.append({"scrubber": x.scrubber, "circuits": list(x.circuits), "fuel": x.fuel,
+                      "fallback_fuel": x.fallback_fuel, "limit_pct": x.limit_pct,
+                      "mode": x.mode, "from_nm": x.from_m / NM_M, "to_nm": x.to_m / NM_M,
+                      "from_utc": iso_utc(t.utc(x.from_epoch_s)),
+                      "to_utc": iso_utc(t.utc(x.to_epoch_s)),
+                      "from_ship_time": _ship_time(plan, x.from_epoch_s),
+                      "to_ship_time": _ship_time(plan, x.to_epoch_s),
+                      "from_lat": alat, "from_lon": alon, "to_lat": blat, "to_lon": blon,
+                      "areas": list(x.areas), "duration_h": x.duration_h})
+    events = []
+    for n, e in enumerate(plan.scrubber_events, start=1):
+        lat, lon = _point(plan, e.epoch_s)
+        events.append({"number": n, "scrubber": e.scrubber, "event": e.kind, "mode": e.mode,
+                       "utc": iso_utc(t.utc(e.epoch_s)), "ship_time": _ship_time(plan, e.epoch_s),
+                       "lat": lat, "lon": lon, "distance_nm": e.distance_m / NM_M,
+                       "reason": e.reason})
+    return {"scrubbers": scrubbers, "scrubber_spans": spans, "scrubber_events": events}

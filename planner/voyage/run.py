@@ -17,6 +17,8 @@ if TYPE_CHECKING:
     from geo.compliance import RouteCheck
     from planner.voyage.flush_cache import FlushCache
     from planner.voyage.plan import Plan
+    from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
+    from planner.voyage.voyage_file import Voyage
 
 
 def run_route_check(route_file: Path, areas: list[Path], depart: str | None, speed: float | None,
@@ -86,5 +88,24 @@ def build_plan(voyage_file: Path, progress: Callable[[str], object] | None = Non
     step("finding the boundary crossings")
     check = check_route(path, load_areas(voyage.area_paths, progress=step), schedule,
                         voyage.depart_utc.date(), progress=step)
+    passages, outages = scrubber_inputs(voyage, check)
     step("simulating every changeover on the voyage timeline")
-    return plan_voyage(voyage, system, check, flushes)
+    return plan_voyage(voyage, system, check, flushes, passages, outages)
+
+
+def scrubber_inputs(voyage: Voyage, check: RouteCheck
+                    ) -> tuple[tuple[ZonePassage, ...], tuple[ScrubberOutage, ...]]:
+    """What the plan's scrubbers depend on, from the voyage: the route's passages through its
+    washwater discharge zones (``[voyage] discharge_zones``) and the scrubbers' planned
+    outages (``[[scrubber_outage]]``); the one place the plan takes them from.
+
+    Parameters
+    ----------
+    voyage : Voyage
+        The voyage file as loaded.
+    check : RouteCheck
+        The route check of the voyage, with its schedule.
+    """
+    from planner.voyage.discharge import discharge_passages
+
+    return discharge_passages(voyage, check), tuple(voyage.scrubber_outages)

@@ -11,12 +11,38 @@ distances metres along the route from departure.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import dataclass, replace
+from typing import TypeVar
 
+from geo.errors import InputError
+from planner.common.timefmt import format_utc
+from planner.flushing import FlushError, expected_for
 from planner.fuels import Fuel
-from planner.voyage.changeovers import CircuitChange
+from planner.ship.system import FuelSystem
+from planner.voyage.changeovers import (
+    CircuitChange,
+    TargetUnreachable,
+    plan_to_compliant,
+    plan_to_regular,
+)
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.timeline import Timeline
+from planner.voyage.voyage_file import Voyage
+from planner.voyage.warning import PlanWarning
+
+T = TypeVar("T")
+
+SCRUBBER_OUT = "scrubber_out_of_service"
+"""A served circuit's change to compliant fuel for a planned scrubber outage: compliant by
+its moment (:mod:`planner.voyage.scrubbing`)."""
+SCRUBBER_BACK = "scrubber_in_service"
+"""A served circuit's change back to high-sulphur fuel when a scrubber's outage ends:
+commenced at its moment."""
+CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change", SCRUBBER_OUT,
+                SCRUBBER_BACK)
+"""The boundary events that are a moment on the clock, not a place the ship reaches."""
 
 
 @dataclass(frozen=True)
@@ -76,8 +102,11 @@ class Change:
         ``"comes_into_force"`` or ``"ceases"`` (the area's date, while the ship is inside
         it: a clock deadline, :class:`geo.compliance.ForceEvent`), ``"departure"`` (made
         alongside before departure, or commenced at departure) or ``"cap_change"`` (the
-        global cap changes under way). Empty: not yet known (``enter`` / ``exit`` by
-        direction).
+        global cap changes under way), ``"scrubber_out_of_service"`` (a served circuit
+        compliant by a scrubber's planned outage) or ``"scrubber_in_service"`` (back to
+        high-sulphur fuel when it ends). A served circuit's change at a washwater
+        discharge zone is ``"enter"`` / ``"exit"`` with the zone as ``area``. Empty: not
+        yet known (``enter`` / ``exit`` by direction).
     """
 
     area: str
@@ -101,7 +130,7 @@ class Change:
     def clock_deadline(self) -> bool:
         """The boundary is a moment on the clock, not a place the ship reaches (an area's
         date, a departure or a change of the global cap): no arrival-time uncertainty."""
-        return self.boundary_event in ("comes_into_force", "ceases", "departure", "cap_change")
+        return self.boundary_event in CLOCK_EVENTS
 
 
 def _joined(first: Run, second: Run, reasons: tuple[str, ...]) -> Run:
@@ -159,3 +188,145 @@ def merge_same_fuel(runs: list[Run]) -> list[Run]:
         else:
             out.append(r)
     return out
+
+
+def area_of(run_in: Run, run_out: Run, direction: str) -> str:
+    """The area entered (first of the run entered) or left (last of the run left)."""
+    if direction == "to_compliant":
+        return run_in.areas[0] if run_in.areas else "global cap"
+    return run_out.areas[-1] if run_out.areas else "global cap"
+
+
+def flushing_target_pct(limit_pct: float, fraction: float, fuel: Fuel) -> float:
+    """The sulphur the inlets are flushed to, % m/m: ``fraction`` × limit, or halfway
+    between the fuel's own sulphur and the limit when the fuel is at or above that (a
+    0.47 % fuel under the 0.50 % cap: 0.485 %).
+
+    Parameters
+    ----------
+    limit_pct : float [% m/m]
+        The limit on the compliant side.
+    fraction : float [-]
+        The voyage's sulphur target fraction.
+    fuel : Fuel
+        The compliant fuel.
+    """
+    target = limit_pct * fraction
+    if fuel.sulphur_pct < target:
+        return target
+    return 0.5 * (fuel.sulphur_pct + limit_pct)
+
+
+def change_between(flushes: FlushCache, system: FuelSystem, timeline: Timeline,
+                   voyage: Voyage, before: Run, after: Run, boundary_epoch_s: float,
+                   boundary_m: float, before_departure: bool = False,
+                   circuits: tuple[str, ...] | None = None) -> Change:
+    """The change between two runs, every circuit (or those named), without the thermal
+    paths."""
+    down = after.fuel.sulphur_pct < before.fuel.sulphur_pct
+    direction = "to_compliant" if down else "to_regular"
+    limit = after.limit_pct if down else before.limit_pct
+    target = flushing_target_pct(limit, voyage.sulphur_target_fraction, after.fuel)
+    parts = []
+    for name in (circuits if circuits is not None else tuple(system.circuits)):
+        a = system.tank_for(name, before.fuel.name)
+        b = system.tank_for(name, after.fuel.name)
+        if down:
+            parts.append(plan_to_compliant(system, timeline, name, a, b, boundary_epoch_s,
+                                           voyage.time_margin_h, limit, target, flushes,
+                                           thermal=False))
+        else:
+            parts.append(plan_to_regular(system, timeline, name, a, b, boundary_epoch_s, limit,
+                                         flushes, thermal=False))
+    return Change(area_of(after, before, direction), direction, boundary_m, boundary_epoch_s,
+                  limit, target, tuple(parts), before_departure)
+
+
+def changes_between(flushes: FlushCache, system: FuelSystem, timeline: Timeline,
+                    voyage: Voyage, runs: list[Run],
+                    circuits: tuple[str, ...] | None = None) -> list[Change]:
+    """The change at every boundary between ``runs``, every circuit (or those named), without
+    the thermal paths; change k lies between runs k and k + 1."""
+    return [change_between(flushes, system, timeline, voyage, a, b, b.from_epoch_s, b.from_m,
+                           False, circuits)
+            for a, b in zip(runs[:-1], runs[1:], strict=True)]
+
+
+def with_thermal(flushes: FlushCache, system: FuelSystem, ch: Change) -> Change:
+    """``ch`` with every circuit's inlet viscosity paths."""
+    parts = tuple(replace(p, study=flushes.with_thermal(system, p.study)) for p in ch.circuits)
+    return replace(ch, circuits=parts)
+
+
+def at_departure(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
+                  first: Run, regular: Fuel, inside: bool,
+                  only: tuple[str, ...] | None = None
+                  ) -> tuple[list[Change], PlanWarning | None]:
+    """The changes at departure, from the fuel each circuit is on (``[port] departure_fuel``,
+    default ``regular``) to the first run's: a change to a lower-sulphur fuel made alongside,
+    before departure; a change to a higher-sulphur fuel commenced at departure. Every
+    circuit, or those of ``only``.
+
+    Returns the changes (to compliant first) and the departure warning, if any.
+    """
+    port = timeline.port
+    given = port.departure_fuel if port is not None else {}
+    on = {c: voyage.fuel(given.get(c, regular.name))
+          for c in (system.circuits if only is None else only)}
+    out: list[Change] = []
+    warning = None
+    t0 = first.from_epoch_s
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # one change per fuel left
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct > first.fuel.sulphur_pct:
+            out.append(departure_change(flushes, voyage, system, timeline, first,
+                                         on[circuits[0]], circuits))
+    if out and inside:
+        start = min(c.start_epoch_s for ch in out for c in ch.circuits)
+        load = port.describe_departure() if port is not None else ""
+        warning = PlanWarning("departs_inside", (
+            f"The voyage departs inside {out[0].area}: every consumer must be on "
+            f"{first.fuel.name} before departure at {format_utc(timeline.utc(t0))}; start "
+            f"the changeover alongside by {format_utc(timeline.utc(start))} (planned at "
+            f"the consumption alongside: {load})."))
+    for fuel in dict.fromkeys(f.name for f in on.values()):  # commenced at departure
+        circuits = tuple(c for c, f in on.items() if f.name == fuel)
+        if on[circuits[0]].sulphur_pct < first.fuel.sulphur_pct:
+            pre = Run(first.from_m, first.from_m, t0, t0, on[circuits[0]], first.limit_pct, ())
+            back = simulated(voyage, change_between, flushes, system, timeline, voyage, pre, first,
+                              t0, 0.0, False, circuits)
+            out.append(replace(back, area="departure"))
+    return out, warning
+
+
+def departure_change(flushes: FlushCache, voyage: Voyage, system: FuelSystem,
+                      timeline: Timeline, first: Run, regular: Fuel,
+                      circuits: tuple[str, ...]) -> Change:
+    """The change of ``circuits`` to the first run's fuel, made alongside, from ``regular``."""
+    t0 = first.from_epoch_s
+    port = timeline.port
+    for c in circuits:
+        cons = system.circuits[c].consumers
+        if port is not None and sum(port.departure_iso_t_h[n] for n in cons) <= 0.0:
+            raise InputError(voyage.file, "port.departure_load_pct", port.describe_departure(),
+                             f"a consumer of circuit {c} ({', '.join(cons)}) burning fuel "
+                             f"alongside: it must be flushed to {first.fuel.name} before "
+                             "departure")
+    pre = Run(first.from_m, first.from_m, t0, t0, regular, 4.5, ())
+    dep = simulated(voyage, change_between, flushes, system, timeline, voyage, pre, first, t0, 0.0,
+                     True, circuits)
+    return replace(dep, area=first.areas[0] if first.areas else dep.area)
+
+
+def simulated(voyage: Voyage, fn: Callable[..., T], *args: object) -> T:
+    """``fn(*args)``, with a flushing simulation that cannot run (a tank runs dry, a pump below
+    the consumption) reported as bad input naming the voyage file."""
+    try:
+        return fn(*args)
+    except FlushError as exc:
+        raise InputError(voyage.file, "changeover simulation", str(exc), expected_for(
+                         exc, "tanks that hold enough fuel, and pumps that cover the "
+                         "consumption, for every changeover")) from None
+    except TargetUnreachable as exc:
+        raise InputError(voyage.file, "margins.sulphur_target_fraction", str(exc),
+                         "a sulphur target above the compliant fuel's own sulphur") from None

@@ -21,11 +21,15 @@ changeover's start, circuit by circuit, instead of the regular fuel
 from __future__ import annotations
 
 from collections.abc import Sequence
+from dataclasses import replace
 
 from geo.schedule import from_epoch
 from planner.common.timefmt import format_utc
-from planner.voyage.runs import Change
+from planner.ship.system import FuelSystem
+from planner.voyage.flush_cache import FlushCache
+from planner.voyage.runs import Change, Run, changes_between, merge_same_fuel, simulated
 from planner.voyage.timeline import Timeline
+from planner.voyage.voyage_file import Voyage
 
 
 def extra_compliant_t(timeline: Timeline, back: Change, fwd: Change) -> float:
@@ -94,3 +98,25 @@ def needless_switch_back(changes: Sequence[Change], timeline: Timeline,
 
 def _utc(epoch_s: float | None):
     return None if epoch_s is None else from_epoch(epoch_s)
+
+
+def group_plan(flushes: FlushCache, system: FuelSystem, timeline: Timeline, voyage: Voyage,
+                runs: list[Run], circuits: tuple[str, ...] | None
+                ) -> tuple[list[Run], list[Change], list[str]]:
+    """The runs and changes of ``circuits`` (None: every circuit) after the stay-compliant
+    rule, and its notes; no circuit: the runs as given, no change."""
+    notes: list[str] = []
+    if circuits is not None and not circuits:
+        return runs, [], notes
+    while True:
+        changes = simulated(voyage, changes_between, flushes, system, timeline, voyage, runs,
+                             circuits)
+        stay = needless_switch_back(changes, timeline, voyage.min_time_on_regular_h)
+        if stay is None:
+            return runs, changes, notes
+        k, why = stay
+        keep = runs[k]
+        runs[k + 1] = replace(runs[k + 1], fuel=keep.fuel,
+                              reasons=runs[k + 1].reasons + (why,))
+        notes.append(why)
+        runs = merge_same_fuel(runs)

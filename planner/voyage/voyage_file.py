@@ -11,6 +11,7 @@ Format (ours; an annotated example is ``areas_sample/voyage.toml``)::
     ship_time = "+12:00"                 # ship's time zone (default: depart's offset)
     speed_kn = 14.0                      # legs without their own speed or ETA
     caution_zones = "cautions.geojson"   # optional: confined or congested waters
+    discharge_zones = "discharge.geojson"  # optional: washwater discharge zones (scrubbers)
 
     [[voyage.zone_change]]               # optional: ship's clocks changed on the way
     at_utc = "2027-06-01T12:00Z"
@@ -22,6 +23,9 @@ Format (ours; an annotated example is ``areas_sample/voyage.toml``)::
 
     [tank."HFO service"]                 # the content of every tank now
     fuel = "VLSFO"  volume_m3 = 38.0  temperature_c = 60.0
+
+    [[scrubber_outage]]                  # optional: planner.voyage.scrubber_voyage
+    scrubber = "egcs"  from = "2027-05-31T02:00+12:00"  until = "..."  reason = "..."
 
     [margins]
     time_before_boundary_h = 1.0         # default 1 h (common practice)
@@ -56,13 +60,15 @@ from planner.common.input_files import read_toml
 from planner.common.keys import check_keys
 from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
+from planner.voyage.scrubber_events import ScrubberOutage
+from planner.voyage.scrubber_voyage import discharge_zones_path, parse_outages
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
              "q_net_mj_kg", "flash_point_c")
-TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty")
+TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty", "scrubber_outage")
 VOYAGE_KEYS = ("name", "ship", "route", "areas", "caution_zones", "depart", "ship_time",
-               "speed_kn", "zone_change")
+               "speed_kn", "zone_change", "discharge_zones")
 ZONE_CHANGE_KEYS = ("at_utc", "ship_time")
 TANK_KEYS = ("fuel", "volume_m3", "temperature_c")
 MARGIN_KEYS = ("time_before_boundary_h", "sulphur_target_fraction", "fuel_choice_margin",
@@ -158,6 +164,10 @@ class Voyage:
         Less than this fully on regular fuel between two areas: stay on compliant fuel.
     port : PortSpec
         The ship alongside before departure and after arrival.
+    discharge_zones : Path or None
+        Washwater discharge zones (GeoJSON, :mod:`geo.discharge_zones`), if any.
+    scrubber_outages : tuple of ScrubberOutage
+        Scrubbers out of service on the voyage (:mod:`planner.voyage.scrubber_voyage`).
     """
 
     file: str
@@ -178,6 +188,8 @@ class Voyage:
     fuel_choice_margin: float = 0.0
     min_time_on_regular_h: float = DEFAULT_MIN_TIME_ON_REGULAR_H
     port: PortSpec = field(default_factory=PortSpec)
+    discharge_zones: Path | None = None
+    scrubber_outages: tuple[ScrubberOutage, ...] = ()
 
     def fuel(self, name: str) -> Fuel:
         """The delivery-note fuel called ``name``.
@@ -354,7 +366,9 @@ def load_voyage(path: str | Path) -> Voyage:
     port = _port(_table(doc, "port", file, required=False), file, names)
     return Voyage(file, _text(v, "name", file, "voyage", required=False) or p.stem, ship, route,
                   areas, depart, tz, speed, fuels, tanks, tuple(changes), cautions, margin_h,
-                  frac, conf, choice, regular_h, port)
+                  frac, conf, choice, regular_h, port,
+                  discharge_zones=discharge_zones_path(v, base, file),
+                  scrubber_outages=parse_outages(doc.get("scrubber_outage"), file))
 
 
 def _loads(tab: dict, key: str, file: str) -> dict[str, float] | None:
