@@ -55,9 +55,27 @@ def plan_spans(plan: Plan) -> list[dict]:
     """The plan's scrubber spans as rows (none without a scrubber)."""
     if not plan.scrubber_spans:
         return []
-    from planner.charts.scrubber_marks import scrubber_rows
+    from planner.voyage.report import scrubber_json
 
-    return scrubber_rows(plan)["scrubber_spans"]
+    return scrubber_json(plan)["scrubber_spans"]
+
+
+def _above(plan: Plan, spans: list[dict]) -> str:
+    """The line naming the fuels burnt on a scrubber above the chart's scale."""
+    top = max([st.limit_pct for st in plan.check.stretches] + [0.6]) * 1.05
+    fuels = []
+    for s in spans:
+        try:
+            pct = plan.voyage.fuel(s["fuel"]).sulphur_pct
+        except KeyError:
+            continue
+        text = f"{s['fuel']} {pct:.2f} % m/m"
+        if pct > top and text not in fuels:
+            fuels.append(text)
+    if not fuels:
+        return ""
+    return (f"on the scrubber (hatched): {', '.join(fuels)} at the served inlets, above "
+            "the scale")
 
 
 def draw_plan_chart(plan: Plan, out: str | Path, events: list[PlanEvent] | None = None) -> None:
@@ -119,7 +137,7 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
         from planner.charts.scrubber_draw import chart_scrubbers
 
         chart_scrubbers(ax, lambda iso: datetime.fromisoformat(iso.replace("Z", "+00:00"))
-                        .replace(tzinfo=None), spans, scrub)
+                        .replace(tzinfo=None), spans, scrub, _above(plan, spans))
     ax.grid(True, lw=0.3)
     ax.legend(fontsize=8, loc="upper right")
     ax.set_title(f"{plan.system.ship.name}: sulphur at the inlets along the voyage "

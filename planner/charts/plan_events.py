@@ -27,7 +27,8 @@ MATCH_S = 1.0
 
 KINDS = {"enter": "enter", "exit": "exit", "comes_into_force": "comes into force",
          "ceases": "ceases to apply", "departure": "before departure",
-         "cap_change": "global cap changes"}
+         "cap_change": "global cap changes", "scrubber_out_of_service": "scrubber outage",
+         "scrubber_in_service": "scrubber back in service"}
 """The short name of each ``boundary_event`` (the map's, chart's and GPX's)."""
 
 SCRUBBER_KINDS = {"start": "scrubber start", "stop": "scrubber stop",
@@ -44,7 +45,8 @@ def scrubber_label(number: int) -> str:
     return f"{SCRUBBER_PREFIX}{number}"
 
 
-CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change")
+CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change",
+                "scrubber_out_of_service", "scrubber_in_service")
 """Events that are a moment on the clock, not a place the ship reaches."""
 
 
@@ -82,6 +84,12 @@ def what_text(r: dict, at: str) -> str:
     if ev == "ceases":
         return (f" ceases to apply at {at} while the ship is inside it: change back to "
                 f"regular fuel at or after {at}, never before")
+    if ev == "scrubber_out_of_service":
+        return (f", scrubber out of service at {at}: the served circuits compliant by {at} "
+                f"wherever the ship is{limit}")
+    if ev == "scrubber_in_service":
+        return (f", scrubber back in service at {at}: change back to the high-sulphur fuel "
+                f"at or after {at}, never before")
     if ev == "departure":
         if down:
             return (f", departure (alongside): the voyage departs inside the area: be "
@@ -102,7 +110,9 @@ def moment_words(r: dict) -> tuple[str, str]:
             "comes_into_force": ("Comes into force", "the ship then at"),
             "ceases": ("Ceases to apply", "the ship then at"),
             "departure": ("Departure", "alongside at"),
-            "cap_change": ("Global cap changes", "the ship then at")}[ev]
+            "cap_change": ("Global cap changes", "the ship then at"),
+            "scrubber_out_of_service": ("Scrubber out of service", "the ship then at"),
+            "scrubber_in_service": ("Scrubber back in service", "the ship then at")}[ev]
 
 
 @dataclass(frozen=True)
@@ -120,6 +130,9 @@ class PlanEvent:
     lon: float
     distance_nm: float
     note: str
+    zone: bool = False
+    """An entry or exit that is no crossing of the route check's areas (a washwater
+    discharge zone's boundary, where a scrubber's circuits change over)."""
 
     def __post_init__(self) -> None:
         if not -90.0 <= self.lat <= 90.0:
@@ -164,12 +177,12 @@ class PlanEvent:
 def _note(r: dict) -> str:
     ev = boundary_event(r)
     if r.get("direction") == "to_compliant":
-        if ev in ("comes_into_force", "cap_change"):
+        if ev in ("comes_into_force", "cap_change", "scrubber_out_of_service"):
             return f"on {r.get('to_fuel')} by then, wherever the ship is"
         if ev == "departure":
             return f"on {r.get('to_fuel')} before departure"
         return f"on {r.get('to_fuel')} before the boundary"
-    if ev in ("ceases", "cap_change"):
+    if ev in ("ceases", "cap_change", "scrubber_in_service"):
         return f"back to {r.get('to_fuel')} from then"
     if ev == "departure":
         return f"to {r.get('to_fuel')} from departure"
@@ -196,7 +209,8 @@ def plan_events(crossings: list[dict], changeovers: list[dict],
     """Every crossing (``route --json`` rows: area, event, lat, lon, distance_nm,
     time_utc) and every force event (``force_events`` rows: area, event, time_utc, lat,
     lon, distance_nm) with the number of the changeover made for it, and any changeover
-    tied to neither; in order along the route."""
+    tied to neither (an entry or exit of no crossing: a washwater discharge zone's, marked
+    ``zone``); in order along the route."""
     firsts: dict[int, dict] = {}
     for r in changeovers:
         firsts.setdefault(r["number"], r)
@@ -229,7 +243,8 @@ def plan_events(crossings: list[dict], changeovers: list[dict],
     for n, r in firsts.items():
         if n in used or r.get("boundary_lat") is None:
             continue
-        out.append(PlanEvent(n, KINDS[boundary_event(r)], r["area"], r.get("boundary_utc"),
+        ev = boundary_event(r)
+        out.append(PlanEvent(n, KINDS[ev], r["area"], r.get("boundary_utc"),
                              r["boundary_lat"], r["boundary_lon"], r.get("boundary_nm") or 0.0,
-                             _note(r)))
+                             _note(r), zone=ev in ("enter", "exit")))
     return sorted(out, key=lambda e: (e.distance_nm, e.time_utc or "", e.number or 0))

@@ -11,6 +11,7 @@ The scrubber's drawing is :mod:`planner.charts.scrubber_draw`.
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Callable
 
 from planner.charts.plan_events import PlanEvent, plan_events
@@ -18,6 +19,8 @@ from planner.voyage.checks import caution_zone_shapes
 from planner.voyage.plan import Plan
 
 CROSSING_KINDS = ("enter", "exit")
+NOTE_WIDTH = 150
+"""A scrubber event's action is wrapped to this many characters under the map."""
 IN_FORCE_KINDS = ("comes into force", "ceases to apply")
 
 
@@ -25,12 +28,12 @@ def events_of(plan: Plan, doc: dict) -> list[PlanEvent]:
     """The plan's events (every crossing and every force event of the document, numbered
     where a changeover is made), and the scrubber events (``S1``, ``S2`` ..., from the
     document's ``scrubber_events`` or else the plan's), in order along the route."""
-    from planner.charts.scrubber_marks import scrubber_plan_events, with_scrubbers
+    from planner.charts.scrubber_marks import event_rows, scrubber_plan_events, with_scrubbers
     from planner.voyage.route_report import route_json
 
     out = plan_events(route_json(plan.check)["crossings"], doc["changeovers"],
                       doc.get("force_events", []))
-    scrub = scrubber_plan_events(with_scrubbers(plan, doc)["scrubber_events"])
+    scrub = scrubber_plan_events(event_rows(with_scrubbers(plan, doc)))
     if not scrub:
         return out
     return sorted(out + scrub, key=lambda e: (e.distance_nm, e.time_utc or "",
@@ -41,10 +44,15 @@ def crossing_labels(events: list[PlanEvent]) -> list[tuple[str, str]]:
     """(label, legend line) of each crossing, in the route's order."""
     out = []
     for e in events:
-        if e.kind in CROSSING_KINDS:
+        if _crossing(e):
             out.append((e.label, f"{e.label or '-':>2}  {e.kind:<5} {e.area} at "
                         f"{e.distance_nm:,.1f} nm: {e.note}"))
     return out
+
+
+def _crossing(e: PlanEvent) -> bool:
+    """A crossing of the route check's areas (the map draws those itself)."""
+    return e.kind in CROSSING_KINDS and not e.zone
 
 
 def event_notes(events: list[PlanEvent]) -> list[str]:
@@ -55,12 +63,13 @@ def event_notes(events: list[PlanEvent]) -> list[str]:
 
     out = []
     for e in events:
-        if e.kind in CROSSING_KINDS:
+        if _crossing(e):
             continue
         head = (f"{e.label or '-':>2}  {e.kind} {e.area} {e.when}, ship at "
                 f"{format_position(e.lat, e.lon)}, {e.distance_nm:,.1f} nm")
-        if e.is_scrubber:  # its action on a line of its own (the legend's width)
-            out += [head + ":", f"      {e.note}"]
+        if e.is_scrubber:  # its action on lines of their own (the legend's width)
+            out += [head + ":"] + textwrap.wrap(e.note, NOTE_WIDTH, initial_indent=" " * 6,
+                                                subsequent_indent=" " * 6)
         else:
             out.append(f"{head}: {e.note}")
     return out
@@ -74,10 +83,10 @@ def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
     """
     from planner.charts.scrubber_marks import discharge_zones, with_scrubbers
 
-    events = [e for e in events_of(plan, doc) if e.kind not in CROSSING_KINDS]
+    events = [e for e in events_of(plan, doc) if not _crossing(e)]
     scrub = [e for e in events if e.is_scrubber]
     events = [e for e in events if not e.is_scrubber]
-    spans = with_scrubbers(plan, doc)["scrubber_spans"]
+    spans = with_scrubbers(plan, doc).get("scrubber_spans") or []
     zones = discharge_zones(plan)
 
     def draw(ax) -> None:
@@ -109,11 +118,12 @@ def plan_marks(plan: Plan, doc: dict) -> Callable[[object], None]:
         for e in events:
             lon = e.lon + 360.0 * round((lon_mid - e.lon) / 360.0)
             clock = e.kind in IN_FORCE_KINDS
+            kind = "washwater zone boundary (changeover)" if e.zone else e.kind
             ax.plot(lon, e.lat, "*" if clock else "D", color="darkgreen" if clock else "purple",
                     ms=12 if clock else 6, mec="black", mew=0.5,
-                    label=None if e.kind in shown else
-                    (f"area {e.kind} (ship's position then)" if clock else e.kind))
-            shown.add(e.kind)
+                    label=None if kind in shown else
+                    (f"area {e.kind} (ship's position then)" if clock else kind))
+            shown.add(kind)
             text = f"{e.label} {e.kind} {e.when}".strip() if clock else e.label
             ax.annotate(text, (lon, e.lat), textcoords="offset points", xytext=(0, 9),
                         fontsize=8, ha="center", weight="bold")

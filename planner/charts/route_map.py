@@ -25,6 +25,9 @@ NOTE_LINES_FIT = 8
 NOTE_LINE_IN = 0.125
 """The height of one legend line (7 pt monospace), inches."""
 
+LEGEND_ONE_COLUMN = 11
+"""A legend of more entries than this is laid out in two columns."""
+
 AREA_COLOURS = ("#1b9e77", "#7570b3", "#d95f02", "#e7298a", "#66a61e", "#e6ab02")
 
 
@@ -175,9 +178,11 @@ def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | No
     ax.set_title(f"Route {check.path.route.name}: areas and boundary crossings "
                  "(sketch, not for navigation)")
     ax.grid(True, lw=0.3)
-    ax.legend(loc="best", fontsize=8)
-    bottom = 0.03 + 0.018 * len(notes) / (height + 1.8) * 6
+    many = len(ax.get_legend_handles_labels()[1]) > LEGEND_ONE_COLUMN
+    ax.legend(loc="best", fontsize=8, ncol=2 if many else 1)
+    bottom, top = 0.03 + 0.018 * len(notes) / (height + 1.8) * 6, 1.0
     if grow:  # more legend lines than fit: the figure grew by them, and they get its foot
         bottom = (len(notes) * NOTE_LINE_IN + 0.6) / (height + 1.8 + grow)
-    fig.tight_layout(rect=(0, bottom, 1, 1))
+        top = 1.0 - 0.15 / (height + 1.8 + grow)
+    fig.tight_layout(rect=(0, bottom, 1, top))
     return fig

@@ -5,8 +5,8 @@ Styles read in black and white: a span is a double line along the route (open
 loop: white between the rules; closed loop: grey between them), on the chart a band
 hatched ``//`` (open loop) or ``xx`` (closed loop) on light grey; an event is a white
 hexagon labelled ``S1``, ``S2`` ... as in the plan's tables; a discharge zone
-a dash-dot outline with its name. Takes the rows of
-:func:`planner.charts.scrubber_marks.scrubber_rows` and the events of
+a dash-dot (closed loop only) or dotted (no discharge) outline with its name. Takes the rows of
+:func:`planner.voyage.report.scrubber_json` (spans) and the events of
 :func:`planner.charts.scrubber_marks.scrubber_plan_events`; matplotlib objects
 come in as arguments (this module imports no plotting package).
 """
@@ -16,7 +16,6 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from planner.charts.plan_events import PlanEvent
-from planner.charts.scrubber_marks import DischargeZone
 
 SPAN_HATCH = {"open": "//", "closed": "xx"}
 """The chart band's hatch of each washwater mode."""
@@ -25,6 +24,8 @@ SPAN_INSIDE = {"open": "white", "closed": "0.55"}
 """The inside of the map's double line for each washwater mode."""
 
 ZONE_WORDS = {("closed",): "closed loop only", (): "no washwater discharge"}
+ZONE_LINE = {("closed",): ("-.", 1.1), (): (":", 1.8)}
+"""The outline (line style, width) of a zone by the modes it allows."""
 
 
 def _span_legend(mode: str) -> str:
@@ -32,28 +33,33 @@ def _span_legend(mode: str) -> str:
 
 
 def draw_scrubbers(ax, path, spans: Sequence[dict], events: Sequence[PlanEvent],
-                   zones: Sequence[DischargeZone]) -> None:
+                   zones: Sequence[tuple[str, tuple[str, ...], object]]) -> None:
     """Draw on the route map: each span as a double line along ``path`` (the route's
-    :class:`geo.path.RoutePath`), each event as a labelled hexagon, each zone outlined."""
+    :class:`geo.path.RoutePath`), each event as a labelled hexagon, each zone (``(name,
+    allows, shapely shape)`` of :func:`planner.charts.scrubber_marks.discharge_zones`)
+    outlined."""
     import numpy as np
+    import shapely
 
     from geo.ellipsoid import NM_M
 
     lon_mid = float(np.mean(ax.get_xlim()))
     shown: set[str] = set()
-    for z in zones:
-        words = ZONE_WORDS.get(z.allows, "washwater rules")
-        for j, ring in enumerate(z.rings):
-            xs = np.array([p[0] for p in ring])
-            ys = np.array([p[1] for p in ring])
-            xs = xs + 360.0 * np.round((lon_mid - xs.mean()) / 360.0)
-            legend = f"washwater zone: {words}"
-            ax.plot(xs, ys, color="black", lw=1.1, ls="-.", zorder=1.6,
-                    label=None if legend in shown else legend)
+    x0, x1 = ax.get_xlim()
+    window = shapely.box(x0 - 5, -90, x1 + 5, 90)
+    for name, allows, shape in zones:
+        words = ZONE_WORDS.get(allows, "washwater rules")
+        legend = f"washwater zone: {words}"
+        for j, poly in enumerate(shapely.get_parts(shapely.intersection(shape, window))):
+            if poly.geom_type != "Polygon":
+                continue
+            xs, ys = (np.asarray(v) for v in poly.exterior.xy)
+            ax.plot(xs, ys, color="black", lw=ZONE_LINE[allows][1], ls=ZONE_LINE[allows][0],
+                    zorder=1.6, label=None if legend in shown else legend)
             shown.add(legend)
             if j == 0:
-                ax.annotate(f"{z.name} ({words})", (xs.mean(), ys.max()),
-                            textcoords="offset points", xytext=(0, 3), fontsize=7,
+                ax.annotate(name, (float(xs.mean()), float(ys.min())),
+                            textcoords="offset points", xytext=(0, -9), fontsize=7,
                             ha="center", style="italic")
     from matplotlib import patheffects
 
@@ -76,28 +82,47 @@ def draw_scrubbers(ax, path, spans: Sequence[dict], events: Sequence[PlanEvent],
                     style="italic", zorder=5)
 
 
-def chart_scrubbers(ax, dt, spans: Sequence[dict], events: Sequence[PlanEvent]) -> None:
-    """Draw on the voyage chart: each span as a hatched band over its time, labelled with
-    the scrubber and its mode, each event as a dash-dot line labelled ``S1`` ... ``dt``
-    turns ISO 8601 UTC texts into the axis's datetimes."""
+def merged_spans(spans: Sequence[dict]) -> list[dict]:
+    """Spans of one scrubber in one mode that follow on each other, as one (the plan cuts
+    them where the limit changes; the chart shows the scrubber's mode)."""
+    out: list[dict] = []
+    for s in spans:
+        last = out[-1] if out else None
+        if last is not None and last["scrubber"] == s["scrubber"] and \
+                last["mode"] == s["mode"] and last["to_utc"] == s["from_utc"]:
+            out[-1] = dict(last, to_utc=s["to_utc"], to_nm=s["to_nm"])
+        else:
+            out.append(dict(s))
+    return out
+
+
+def chart_scrubbers(ax, dt, spans: Sequence[dict], events: Sequence[PlanEvent],
+                    above: str = "") -> None:
+    """Draw on the voyage chart: each span (:func:`merged_spans`) as a hatched band over
+    its time, labelled with the scrubber and its mode, each event as a dash-dot line
+    labelled ``S1`` ... ``dt`` turns ISO 8601 UTC texts into the axis's datetimes;
+    ``above`` is a line on what the scale leaves out (the fuel burnt on the scrubber)."""
     y_top = ax.get_ylim()[1]
     shown: set[str] = set()
-    for s in spans:
+    for k, s in enumerate(merged_spans(spans)):
         a, b = dt(s["from_utc"]), dt(s["to_utc"])
         legend = _span_legend(s["mode"])
         ax.axvspan(a, b, facecolor="0.95", edgecolor="0.78", hatch=SPAN_HATCH[s["mode"]],
                    lw=0.0, zorder=0.5, label=None if legend in shown else legend)
         shown.add(legend)
-        ax.annotate(f"{s['scrubber']} {s['mode']} loop", (a + (b - a) / 2, y_top),
-                    textcoords="offset points", xytext=(0, -10), fontsize=7, ha="center",
-                    va="top", bbox={"boxstyle": "round,pad=0.15", "fc": "white",
-                                    "ec": "0.45", "lw": 0.5})
+        ax.annotate(f"{s['scrubber']} {s['mode']}", (a + (b - a) / 2, y_top),
+                    textcoords="offset points", xytext=(0, -4 if k % 2 == 0 else -17),
+                    fontsize=7, ha="center", va="top",
+                    bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": "0.45",
+                          "lw": 0.5})
     for k, e in enumerate(events):
         if e.time_utc is None:
             continue
         when = dt(e.time_utc)
         ax.axvline(when, color="black", lw=0.9, ls="-.",
                    label=None if k else "scrubber event (S number)")
-        ax.annotate(f"{e.label} {e.kind} {e.area}", (when, y_top * 0.55), rotation=90,
-                    fontsize=7, va="center", xytext=(-9, 0), textcoords="offset points",
-                    style="italic", weight="bold")
+        ax.annotate(f"{e.label} {e.kind.removeprefix('scrubber ')}", (when, y_top * 0.86),
+                    rotation=90, fontsize=7, va="top", xytext=(-9, 0),
+                    textcoords="offset points", style="italic", weight="bold")
+    if above:
+        ax.set_xlabel(f"UTC ({above})")

@@ -145,16 +145,18 @@ def scrubber_csv(doc: dict) -> list[CsvTable]:
     """The scrubber's events (numbered S1, S2 ... as on the map, chart, PDF and GPX) and
     its spans: the document's ``scrubber_events`` and ``scrubber_spans`` (no file without
     them, so a plan without a scrubber writes the files it always wrote)."""
+    from planner.charts.scrubber_marks import event_rows
+
     out = []
-    events, spans = doc.get("scrubber_events") or [], doc.get("scrubber_spans") or []
+    events, spans = event_rows(doc), doc.get("scrubber_spans") or []
     if events:
         out.append(CsvTable("scrubber_events", (
             "Event (label)", "Scrubber", "Kind", "Mode", "Time (UTC, ISO 8601)",
             "Ship's time (ISO 8601)", "Latitude (°)", "Longitude (°)", "Position (° ')",
             "Distance (nm)", "Action", "Reason"), tuple(
-            (e.get("label") or f"S{e['number']}", e["scrubber"], e["kind"], e.get("mode") or "",
-             e["time_utc"], e.get("ship_time") or "", fx(e["lat"], 6), fx(e["lon"], 6),
-             dm(e["lat"], e["lon"]), fx(e["distance_nm"], 3), e.get("action") or "",
+            (e["label"], e["scrubber"], e["event"], e.get("mode") or "",
+             e["utc"], e.get("ship_time") or "", fx(e["lat"], 6), fx(e["lon"], 6),
+             dm(e["lat"], e["lon"]), fx(e["distance_nm"], 3), e["action"],
              e.get("reason") or "") for e in events)))
     if spans:
         out.append(CsvTable("scrubber_spans", (

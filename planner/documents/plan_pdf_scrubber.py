@@ -2,7 +2,7 @@
 spans and their events.
 
 Read from the document's ``scrubber_spans`` and ``scrubber_events`` rows (the
-shape of :func:`planner.charts.scrubber_marks.scrubber_rows`), every key with a
+shape of :func:`planner.voyage.report.scrubber_json`), every key with a
 default; nothing is printed when both are empty, so a plan without a scrubber
 prints as before. Spans: scrubber, circuits, fuel (and the fallback fuel),
 washwater mode, from and to in UTC, ship's time and position. Events, numbered
@@ -53,10 +53,10 @@ def _event_row(e: dict) -> list:
     action = esc(plain(e.get("action") or ""))
     why = esc(plain(e.get("reason") or ""))
     text = f"<b>{action}</b>" + (f"<br/>{why}" if why else "")
-    return [markup(f"<b>{esc(label)}</b>"), lines(utc_lines(e.get("time_utc"))),
+    return [markup(f"<b>{esc(label)}</b>"), lines(utc_lines(e.get("utc"))),
             lines(ship_lines(e.get("ship_time"))), lines(pos_lines(e.get("lat"), e.get("lon"))),
             lines([plain(e.get("scrubber", "—")),
-                   KIND_WORDS.get(e.get("kind", ""), plain(e.get("kind", "—")))],
+                   KIND_WORDS.get(e.get("event", ""), plain(e.get("event", "—")))],
                   bold_first=True),
             plain(e.get("mode") or "—"), markup(text)]
 
@@ -70,10 +70,10 @@ def relies_text(spans: list[dict]) -> str:
 
 def scrubber_section(doc: dict) -> list:
     """The section "Scrubber" (nothing when the document has no scrubber span or event)."""
-    from planner.charts.scrubber_marks import CAUTION
+    from planner.charts.scrubber_marks import CAUTION, event_rows
 
     spans = doc.get("scrubber_spans") or []
-    events = doc.get("scrubber_events") or []
+    events = event_rows(doc)
     if not spans and not events:
         return []
     head: list = [para("Scrubber", "h1")]

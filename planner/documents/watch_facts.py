@@ -206,7 +206,7 @@ def watch_sheets(plan: Plan) -> list[WatchSheet | ScrubberSheet]:
         assert boundary is not None
         steps.append(Step(boundary, "", _boundary_step(ch.boundary_event, ch.area, down),
                           record=True))
-        steps += _scrubber_steps(plan, steps)
+        steps = _scrubber_steps(plan, steps) + steps  # a start before the switch it allows
         steps.sort(key=lambda s: (s.when is None, s.when.utc if s.when else 0))
         readings, step = _readings(plan, ch.circuits)
         out.append(WatchSheet(
@@ -264,12 +264,12 @@ def watch_of(m: Moment) -> str:
 
 def _scrubber_due(plan: Plan) -> list[ScrubberDue]:
     """The plan's scrubber events in time order, numbered as its rows (``S1`` ...)."""
-    from planner.charts.scrubber_marks import scrubber_rows
+    from planner.charts.scrubber_marks import event_rows
+    from planner.voyage.report import scrubber_json
 
-    rows = scrubber_rows(plan)["scrubber_events"]
-    ordered = sorted(plan.scrubber_events, key=lambda e: (e.epoch_s, e.distance_m))
+    rows = event_rows(scrubber_json(plan))
     out = []
-    for e, r in zip(ordered, rows, strict=True):
+    for e, r in zip(plan.scrubber_events, rows, strict=True):  # numbered in the plan's order
         m = _moment(plan, e.epoch_s)
         assert m is not None
         out.append(ScrubberDue(r["label"], e.scrubber, e.kind, e.mode, m, r["distance_nm"],
@@ -307,6 +307,12 @@ def _boundary_step(event: str, area: str, down: bool) -> str:
     if event == "ceases":
         return (f"ceases: {area} ceases to apply now, wherever the ship is (the switch back "
                 "may begin; note the position)")
+    if event == "scrubber_out_of_service":
+        return ("scrubber out: the scrubber is out of service from now (every inlet it served "
+                "compliant by now; note the position)")
+    if event == "scrubber_in_service":
+        return ("scrubber back: the scrubber is back in service from now (the switch back to "
+                "the high-sulphur fuel may begin; note the position)")
     return f"boundary: {'enter' if down else 'exit'} {area} (" + (
         "every inlet compliant by now" if down else "the switch back may begin") + ")"
 

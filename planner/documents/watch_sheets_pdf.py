@@ -135,7 +135,9 @@ def _event(what: str) -> str:
     if head.startswith("departure"):
         return "departed"
     return {"switch the valve": "valve switched", "boundary": "boundary crossed",
-            "in force": "in force (position)", "ceases": "ceased (position)"}.get(head, head)
+            "in force": "in force (position)", "ceases": "ceased (position)",
+            "scrubber out": "scrubber out of service (position)",
+            "scrubber back": "scrubber back in service (position)"}.get(head, head)
 
 
 def _record(s: WatchSheet) -> list:
