@@ -151,8 +151,8 @@ def scrubber_csv(doc: dict) -> list[CsvTable]:
     events, spans = event_rows(doc), doc.get("scrubber_spans") or []
     if events:
         out.append(CsvTable("scrubber_events", (
-            "Event (label)", "Scrubber", "Kind", "Mode", "Time (UTC, ISO 8601)",
-            "Ship's time (ISO 8601)", "Latitude (°)", "Longitude (°)", "Position (° ')",
+            "Scrubber event", "Scrubber", "Kind", "Mode", "Time (UTC, ISO 8601)",
+            "Time (ship's time, ISO 8601)", "Latitude (°)", "Longitude (°)", "Position (° ')",
             "Distance (nm)", "Action", "Reason"), tuple(
             (e["label"], e["scrubber"], e["event"], e.get("mode") or "",
              e["utc"], e.get("ship_time") or "", fx(e["lat"], 6), fx(e["lon"], 6),
