@@ -140,8 +140,20 @@ def _write_watch(plan: Plan, doc: dict, sheets: Path | None, paper: str,
         from planner.charts.plan_marks import events_of
         from planner.documents.gpx_marks import plan_waypoints, write_gpx
 
-        write_gpx(gpx, plan_waypoints(doc, events_of(plan, doc)),
+        marks = charts_doc(doc)
+        write_gpx(gpx, plan_waypoints(marks, events_of(plan, marks)),
                   name=f"{doc['voyage']['name']}: changeover marks")
+
+
+def charts_doc(doc: dict) -> dict:
+    """``doc`` for the map, the chart and the GPX marks: without the changeovers of served
+    circuits at their own boundaries (a discharge zone, a scrubber outage:
+    :data:`planner.voyage.runs.SCRUBBER_EVENTS`), which those displays have no words for yet;
+    the tables, the JSON, the CSV and the PDF's tables list them."""
+    from planner.voyage.runs import SCRUBBER_EVENTS
+
+    rows = [r for r in doc["changeovers"] if r.get("boundary_event") not in SCRUBBER_EVENTS]
+    return doc if len(rows) == len(doc["changeovers"]) else {**doc, "changeovers": rows}
 
 
 def _map(plan: Plan, doc: dict):
@@ -149,6 +161,7 @@ def _map(plan: Plan, doc: dict):
     from planner.charts.plan_marks import crossing_labels, event_notes, events_of, plan_marks
     from planner.charts.route_map import map_figure
 
+    doc = charts_doc(doc)
     events = events_of(plan, doc)
     return map_figure(plan.check, plan_marks(plan, doc), crossing_labels(events),
                       event_notes(events))
@@ -159,7 +172,7 @@ def _chart(plan: Plan, doc: dict):
     from planner.charts.plan_chart import chart_figure
     from planner.charts.plan_marks import events_of
 
-    return chart_figure(plan, events_of(plan, doc))
+    return chart_figure(plan, events_of(plan, charts_doc(doc)))
 
 
 def _document(plan: Plan, confidence: float | None, samples: int, seed: int,

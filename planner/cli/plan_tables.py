@@ -92,6 +92,12 @@ def groups(rows: list[dict]) -> list[list[dict]]:
 
 
 SCRUBBER_EVENTS = {
+    "zone_enter": (
+        ", enter (a washwater discharge zone the scrubber cannot work in): change the served "
+        "circuits to compliant fuel before the boundary{limit}", ("Boundary", "at")),
+    "zone_exit": (
+        ", exit (a washwater discharge zone): change the served circuits back to the "
+        "high-sulphur fuel at or after the boundary, never before", ("Boundary", "at")),
     "scrubber_out_of_service": (
         ", scrubber out of service at {at}: the served circuits compliant by {at} wherever "
         "the ship is{limit}", ("Scrubber out of service", "the ship then at")),
@@ -99,8 +105,9 @@ SCRUBBER_EVENTS = {
         ", scrubber back in service at {at}: change back to the high-sulphur fuel at or "
         "after {at}, never before", ("Scrubber back in service", "the ship then at")),
 }
-"""The words of the served circuits' clock boundaries (:mod:`planner.voyage.scrubbing_choice`):
-the rest line, then the head's label and position words."""
+"""The words of the served circuits' own boundaries (:data:`planner.voyage.runs.SCRUBBER_EVENTS`,
+:mod:`planner.voyage.scrubbing_choice`): the rest of the head's first line, then its label
+and position words."""
 
 
 def _what(r: dict, day: str = "") -> str:
@@ -253,14 +260,18 @@ def scrubber_tables(doc: dict) -> list[TextTable]:
     sp = table("Where the plan relies on a scrubber", [
         ("Scrubber", "l"), ("Circuits", "l"), ("Fuel", "l"), ("Fallback", "l"),
         ("Limit % m/m", "r"), ("Mode", "l"), ("From nm", "r"), ("To nm", "r"),
-        ("From UTC", "l"), ("To UTC", "l"), ("Hours", "r"), ("Under", "w")],
+        ("From UTC", "l"), ("To UTC", "l"), ("Hours", "r"), ("SO₂ formed kg", "r"),
+        ("SO₂ cleaned ≤ kg", "r"), ("Under", "w")],
         [[atom(x["scrubber"]), atom(", ".join(x["circuits"])), atom(x["fuel"]),
           atom(x["fallback_fuel"]), f"{x['limit_pct']:.2f}", x["mode"],
           f"{x['from_nm']:,.1f}", f"{x['to_nm']:,.1f}", utc_full(x["from_utc"]),
-          utc_full(x["to_utc"]), f"{x['duration_h']:.2f}", ", ".join(x["areas"]) or "global cap"]
+          utc_full(x["to_utc"]), f"{x['duration_h']:.2f}", f"{x['so2_formed_kg']:,.0f}",
+          f"{x['so2_after_cleaning_max_kg']:,.0f}", ", ".join(x["areas"]) or "global cap"]
          for x in doc["scrubber_spans"]],
         "Fallback: the fuel the circuits burn there without the scrubber (change to it if the "
-        "scrubber fails).")
+        "scrubber fails). SO₂ of the served circuits: formed, and after cleaning at most "
+        "what the same fuel mass at the limit would form (the emission ratio limit's "
+        "equivalent, MEPC.340(77); the monitoring records the real emission).")
     return [ev, sp]
 
 

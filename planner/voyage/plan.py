@@ -34,8 +34,8 @@ seconds (``*_epoch_s``: seconds since 1970-01-01 UTC).
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field, replace
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass, replace
 from datetime import datetime
 
 from geo.compliance import RouteCheck
@@ -53,7 +53,7 @@ from planner.voyage.fuel_choice import (
     regular_fuel,
 )
 from planner.voyage.port import port_state
-from planner.voyage.quantities import Quantities, plan_quantities
+from planner.voyage.quantities import Quantities, plan_quantities, valve_periods
 from planner.voyage.runs import (
     Change,
     Run,
@@ -63,13 +63,16 @@ from planner.voyage.runs import (
     with_thermal,
 )
 from planner.voyage.scrubber_events import (
+    MODE_CHANGE,
     ScrubberEvent,
     ScrubberOutage,
     ScrubberSpan,
     ZonePassage,
 )
 from planner.voyage.scrubbing import load_range_warnings, served_circuits
+from planner.voyage.scrubbing_choice import valve_fuels
 from planner.voyage.scrubbing_plan import Scrubbed, fuels_on_board, merged, scrubbed_plan
+from planner.voyage.scrubbing_spans import span_so2
 from planner.voyage.stay import group_plan
 from planner.voyage.timeline import Timeline
 from planner.voyage.voyage_file import Voyage
@@ -112,9 +115,13 @@ class Plan:
         Where served circuits burn fuel above the limit on a scrubber, in time order.
     scrubber_events : tuple of ScrubberEvent
         Every scrubber start, stop, mode change and outage, in time order.
-    scrubbed : mapping of str to Scrubbed
-        Each scrubber's circuits' own plan, by scrubber name (empty: no scrubber serves a
-        circuit whole; :attr:`runs` then is the whole ship's, else the other circuits').
+    scrubbed : tuple of Scrubbed
+        The own plan of each scrubber's circuits (those whose valves select the same fuels
+        together), in the ship file's order (empty: no scrubber serves a circuit whole;
+        :attr:`runs` then is the whole ship's, else the other circuits').
+    scrubber_so2_kg : tuple of (float, float) [kg]
+        For each of :attr:`scrubber_spans`, the served circuits' SO₂ formed and after
+        cleaning at most (:func:`planner.voyage.scrubbing_spans.span_so2`).
     """
 
     voyage: Voyage
@@ -131,7 +138,8 @@ class Plan:
     no_changeover_reason: str | None = None
     scrubber_spans: tuple[ScrubberSpan, ...] = ()
     scrubber_events: tuple[ScrubberEvent, ...] = ()
-    scrubbed: Mapping[str, Scrubbed] = field(default_factory=dict)
+    scrubbed: tuple[Scrubbed, ...] = ()
+    scrubber_so2_kg: tuple[tuple[float, float], ...] = ()
 
 
 def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
@@ -188,8 +196,10 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
                      f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
                      "changeover alongside.")
     changes = [_with_event(check, ch) for ch in changes]
-    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, choices, name, circuits,
-                          passages, outages) for name, circuits in served.items()]
+    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, choices, name, group,
+                              passages, outages, regular)
+                for name, circuits in served.items()
+                for group in _by_valve_fuels(voyage, system, circuits)]
     for s in scrubbed:
         notes += s.notes
         warnings += s.warnings
@@ -209,10 +219,38 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)
     warnings += load_range_warnings(system)
     spans = tuple(sorted((x for s in scrubbed for x in s.spans), key=lambda x: x.from_epoch_s))
-    events = tuple(sorted((e for s in scrubbed for e in s.events), key=lambda e: e.epoch_s))
+    events = tuple(sorted(_one_mode_change(e for s in scrubbed for e in s.events),
+                          key=lambda e: e.epoch_s))
+    periods = [(p[0], p[1:]) for p in valve_periods(voyage, timeline, runs, changes,
+                                                    first_fuels)] if spans else []
+    so2 = tuple(span_so2(timeline, flushes, periods, x) for x in spans)
     return Plan(voyage, system, check, timeline, tuple(choices), tuple(runs), tuple(changes),
                 quantities, tuple(notes), tuple(warnings), flushes, reason, spans, events,
-                {s.scrubber.name: s for s in scrubbed})
+                tuple(scrubbed), so2)
+
+
+def _one_mode_change(events: Iterable[ScrubberEvent]) -> list[ScrubberEvent]:
+    """``events`` with a scrubber's mode change listed once when two groups of its circuits
+    both meet it (same moment to 1 s, same mode)."""
+    out: list[ScrubberEvent] = []
+    for e in events:
+        if e.kind == MODE_CHANGE and any(
+                (o.scrubber, o.kind, o.mode) == (e.scrubber, e.kind, e.mode)
+                and abs(o.epoch_s - e.epoch_s) < 1.0 for o in out):
+            continue
+        out.append(e)
+    return out
+
+
+def _by_valve_fuels(voyage: Voyage, system: FuelSystem,
+                    circuits: tuple[str, ...]) -> list[tuple[str, ...]]:
+    """``circuits`` in groups whose changeover valves select the same fuels (one fuel choice
+    each), in the ship file's order."""
+    fuels = fuels_on_board(voyage, system)
+    out: dict[tuple[str, ...], list[str]] = {}
+    for c in circuits:
+        out.setdefault(tuple(f.name for f in valve_fuels(system, (c,), fuels)), []).append(c)
+    return [tuple(g) for g in out.values()]
 
 
 def _with_event(check: RouteCheck, ch: Change) -> Change:

@@ -318,17 +318,19 @@ def scrubber_json(plan: Plan) -> dict:
     -------
     dict
         Times ISO 8601 UTC (``*_utc``) and ship's time, positions in degrees (WGS84),
-        distances nm, durations h, sulphur % m/m.
+        distances nm, durations h, sulphur % m/m, SO₂ kg (a span's served circuits: formed,
+        and after cleaning at most, :func:`planner.voyage.scrubbing_spans.span_so2`).
     """
     t = plan.timeline
     scrubbers = [{"name": s.name, "consumers": list(s.consumers),
-                  "circuits": list(plan.scrubbed[s.name].circuits) if s.name in plan.scrubbed
-                  else [], "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
+                  "circuits": [c for g in plan.scrubbed if g.scrubber.name == s.name
+                               for c in g.circuits],
+                  "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
                   "min_load_pct": s.min_load_pct, "max_load_pct": s.max_load_pct,
                   "load_range_applied": False, "approval": s.approval}
                  for s in plan.system.scrubbers.values()]
     spans = []
-    for x in plan.scrubber_spans:
+    for x, (formed, cleaned) in zip(plan.scrubber_spans, plan.scrubber_so2_kg, strict=True):
         (alat, alon), (blat, blon) = _point(plan, x.from_epoch_s), _point(plan, x.to_epoch_s)
         spans.append({"scrubber": x.scrubber, "circuits": list(x.circuits), "fuel": x.fuel,
                       "fallback_fuel": x.fallback_fuel, "limit_pct": x.limit_pct,
@@ -338,7 +340,8 @@ def scrubber_json(plan: Plan) -> dict:
                       "from_ship_time": _ship_time(plan, x.from_epoch_s),
                       "to_ship_time": _ship_time(plan, x.to_epoch_s),
                       "from_lat": alat, "from_lon": alon, "to_lat": blat, "to_lon": blon,
-                      "areas": list(x.areas), "duration_h": x.duration_h})
+                      "areas": list(x.areas), "duration_h": x.duration_h,
+                      "so2_formed_kg": formed, "so2_after_cleaning_max_kg": cleaned})
     events = []
     for n, e in enumerate(plan.scrubber_events, start=1):
         lat, lon = _point(plan, e.epoch_s)

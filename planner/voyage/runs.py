@@ -40,6 +40,13 @@ its moment (:mod:`planner.voyage.scrubbing`)."""
 SCRUBBER_BACK = "scrubber_in_service"
 """A served circuit's change back to high-sulphur fuel when a scrubber's outage ends:
 commenced at its moment."""
+ZONE_ENTER = "zone_enter"
+"""A served circuit's change to compliant fuel before entering a washwater discharge zone the
+scrubber cannot work in (a place the ship reaches, like an area's entry)."""
+ZONE_EXIT = "zone_exit"
+"""A served circuit's change back to high-sulphur fuel on leaving such a zone."""
+SCRUBBER_EVENTS = (ZONE_ENTER, ZONE_EXIT, SCRUBBER_OUT, SCRUBBER_BACK)
+"""The boundary events of served circuits' changes only (:mod:`planner.voyage.scrubbing_choice`)."""
 CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change", SCRUBBER_OUT,
                 SCRUBBER_BACK)
 """The boundary events that are a moment on the clock, not a place the ship reaches."""
@@ -104,9 +111,9 @@ class Change:
         alongside before departure, or commenced at departure) or ``"cap_change"`` (the
         global cap changes under way), ``"scrubber_out_of_service"`` (a served circuit
         compliant by a scrubber's planned outage) or ``"scrubber_in_service"`` (back to
-        high-sulphur fuel when it ends). A served circuit's change at a washwater
-        discharge zone is ``"enter"`` / ``"exit"`` with the zone as ``area``. Empty: not
-        yet known (``enter`` / ``exit`` by direction).
+        high-sulphur fuel when it ends), ``"zone_enter"`` / ``"zone_exit"`` (a served
+        circuit's change at a washwater discharge zone the scrubber cannot work in, the zone
+        as ``area``). Empty: not yet known (``enter`` / ``exit`` by direction).
     """
 
     area: str

@@ -14,8 +14,9 @@ A change of served circuits is for one of these boundaries (:attr:`Change.event`
 - a planned outage (the voyage file's): ``scrubber_out_of_service``, compliant by
   its moment (a clock deadline, like an area coming into force);
   ``scrubber_in_service`` when it ends (commenced at its moment);
-- a washwater discharge zone the scrubber cannot work in: ``enter`` / ``exit`` with
-  the zone as the area (a crossing of the zone's boundary);
+- a washwater discharge zone the scrubber cannot work in: ``zone_enter`` /
+  ``zone_exit`` with the zone as the area (a crossing of the zone's boundary, a
+  place the ship reaches);
 - else what the whole ship's change would be (an area's boundary or date, the global
   cap, a departure).
 
@@ -33,7 +34,7 @@ from planner.fuels import Fuel
 from planner.ship.scrubbers import Scrubber
 from planner.ship.system import FuelSystem
 from planner.voyage.fuel_choice import FuelChoice, choose_fuels
-from planner.voyage.runs import SCRUBBER_BACK, SCRUBBER_OUT, Change
+from planner.voyage.runs import SCRUBBER_BACK, SCRUBBER_OUT, ZONE_ENTER, ZONE_EXIT, Change
 from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
 from planner.voyage.scrubbing import Availability, piece_at, scrubbed_stretches
 from planner.voyage.timeline import Timeline
@@ -139,5 +140,5 @@ def served_event(ch: Change, check: RouteCheck, timeline: Timeline, scrubber: Sc
     for p in passages:
         edge = p.from_m if down else p.to_m
         if abs(edge - ch.boundary_m) < _SAME_M and (not down or side.mode is None):
-            return replace(ch, area=p.zone, event="enter" if down else "exit")
+            return replace(ch, area=p.zone, event=ZONE_ENTER if down else ZONE_EXIT)
     return ch

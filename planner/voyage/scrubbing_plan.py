@@ -93,8 +93,9 @@ class Scrubbed:
 
 
 def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
-              check: RouteCheck, plain: list[FuelChoice], name: str, circuits: tuple[str, ...],
-              passages: Sequence[ZonePassage], outages: Sequence[ScrubberOutage]) -> Scrubbed:
+                  check: RouteCheck, plain: list[FuelChoice], name: str,
+                  circuits: tuple[str, ...], passages: Sequence[ZonePassage],
+                  outages: Sequence[ScrubberOutage], plain_regular: Fuel) -> Scrubbed:
     """The plan of the circuits scrubber ``name`` serves whole (see the module notes).
 
     Parameters
@@ -119,6 +120,10 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
         The route's passages through washwater discharge zones.
     outages : sequence of ScrubberOutage
         The voyage file's outages.
+    plain_regular : Fuel
+        The fuel the other circuits are on at departure by default: the served circuits'
+        too when the scrubber cannot work at departure (she came in on compliant fuel),
+        else the highest-sulphur fuel chosen for them (``[port] departure_fuel`` rules).
     """
     scrubber = system.scrubbers[name]
     pieces = availability(scrubber, timeline, check.stretches, passages, outages)
@@ -131,8 +136,11 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
     notes = [head + n for n in notes]
     changes = [served_event(ch, check, timeline, scrubber, pieces, passages, outages)
                for ch in changes]
-    departure, warning = at_departure(flushes, voyage, system, timeline, runs[0],
-                                      regular_fuel(choices), False, circuits)
+    regular = regular_fuel(choices)
+    if pieces[0].mode is None and plain_regular in fuels:
+        regular = plain_regular
+    departure, warning = at_departure(flushes, voyage, system, timeline, runs[0], regular,
+                                      False, circuits)
     departure, warning = _departs_unavailable(timeline, scrubber, circuits, pieces[0],
                                               runs[0], departure)
     changes = departure + changes

@@ -17,6 +17,14 @@ open at its exit), and **out of service** at each planned outage's moment. The
 would burn without the scrubber, to change to if it fails). Events are in time
 order; positions are where the ship then is on the timeline.
 
+SO₂ on a span (:func:`span_so2`): *formed* is integrated from the blend that
+reaches each served inlet (:mod:`planner.voyage.so2`); *after cleaning, at most*
+is what the same mass of fuel at the limit in force would form. The scrubber's
+SO₂/CO₂ ratio limits are the fuel-sulphur limits' equivalents ([MEPC-340]
+Table 1 [P]: 4.3 for 0.10 %, 21.7 for 0.50 %); counting them mass for mass is an
+approximation (the CO₂ per tonne of the fuels differs by a few per cent, common
+practice), and the real emission is what the continuous monitoring records.
+
 Moments are epoch seconds (``*_epoch_s``: seconds since 1970-01-01 UTC),
 distances metres along the route from departure.
 """
@@ -25,7 +33,9 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+from planner.fuels import so2_formed_kg, so2_from_fuel_kg
 from planner.ship.scrubbers import Scrubber
+from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.runs import Change, Run
 from planner.voyage.scrubber_events import (
@@ -38,6 +48,7 @@ from planner.voyage.scrubber_events import (
     ScrubberSpan,
 )
 from planner.voyage.scrubbing import Availability, real_stretch_at
+from planner.voyage.so2 import Period, stretch_burnt_t, sulphur_burnt_t
 from planner.voyage.timeline import Timeline
 
 _ORDER = {STOP: 0, OUT_OF_SERVICE: 1, START: 2, MODE_CHANGE: 3}
@@ -113,15 +124,19 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
     names = ", ".join(circuits)
     for on, off, run, into, away in _on_intervals(runs, changes, plain, timeline):
         mine: list[ScrubberSpan] = []
-        last_mode, last_zones = scrubber.modes[0], ()
+        last_mode, last_zones, gap = scrubber.modes[0], (), False
         for a, b, p in _pieces_in(on, off, pieces, timeline):
             st = real_stretch_at(stretches, p.from_m)
+            if run.fuel.sulphur_pct <= st.limit_pct + 1e-12:
+                gap = True  # the fuel meets the limit here: nothing relies on the scrubber
+                continue
             fallback = next(c.fuel.name for c in plain if c.stretch is st)
             mode = p.mode or last_mode
             left, last_mode, last_zones = last_zones, mode, p.zones
             areas = tuple(dict.fromkeys(st.areas + p.zones))
             fm, tm = timeline.position(a)[2], timeline.position(b)[2]
-            prev = mine[-1] if mine else None
+            prev = mine[-1] if mine and not gap else None
+            gap = False
             if prev is not None and (prev.mode, prev.limit_pct, prev.fallback_fuel) == \
                     (mode, st.limit_pct, fallback):
                 mine[-1] = ScrubberSpan(scrubber.name, circuits, run.fuel.name, fallback,
@@ -139,7 +154,11 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
         first = mine[0]
         start_why = (f"before {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) reaches the inlets "
                      f"of {names}: in operation at the valve switch from "
-                     f"{into.circuits[0].from_fuel}" if into is not None else
+                     f"{into.circuits[0].from_fuel}" if into is not None and
+                     first.from_epoch_s <= on + 1.0 else
+                     f"circuit {names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) above "
+                     f"the {first.limit_pct:.2f} % limit from here" if first.from_epoch_s > on + 1.0
+                     else
                      f"circuit {names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) from "
                      "departure")
         events.append(ScrubberEvent(scrubber.name, START, first.mode, first.from_epoch_s,
@@ -174,3 +193,26 @@ def _mode_reason(p: Availability, left: tuple[str, ...], new: str) -> str:
                 f"{allows} discharge)")
     where = f"leaving {', '.join(gone)}" if gone else "here"
     return f"{new} loop again on {where} ({p.why})"
+
+
+def span_so2(timeline: Timeline, flushes: FlushCache, periods: Sequence[tuple[str, Period]],
+             span: ScrubberSpan) -> tuple[float, float]:
+    """SO₂ of the served circuits on a span, kg: ``(formed, after cleaning at most)`` (see
+    the module notes).
+
+    Parameters
+    ----------
+    timeline : Timeline
+        The voyage's timeline.
+    flushes : FlushCache
+        The plan's flushes (the inlet blends).
+    periods : sequence of (str, Period)
+        Every circuit's valve periods (:func:`planner.voyage.quantities.valve_periods`).
+    span : ScrubberSpan
+        The span.
+    """
+    mine = [(c, p) for c, p in periods if c in span.circuits]
+    burnt = stretch_burnt_t(timeline, flushes, mine, span.from_epoch_s, span.to_epoch_s)
+    formed = float(so2_formed_kg(sulphur_burnt_t(burnt, dict(timeline.system.fuels)) * 1000.0))
+    at_limit = float(so2_from_fuel_kg(sum(burnt.values()) * 1000.0, span.limit_pct))
+    return formed, min(formed, at_limit)

@@ -1,0 +1,82 @@
+"""``changeover plan`` on the scrubber sample (areas_sample/egcs_voyage.toml, fictional),
+end to end through the command line.
+
+MV Gannet Shoal's hybrid scrubber serves the main circuit (main engine and generators);
+the boiler's circuit is not served. The sample's discharge zones: Port Aldmere's harbour
+waters and Skarvik's allow no discharge, Corran Sea coastal waters and the Brannoch
+Passage zone closed loop only. So (README, "Scrubbers in the plan", the rules of a
+ship's officer): the main circuit leaves Port Aldmere on vlsfo (the scrubber cannot work
+in the harbour) and changes to hsfo at the harbour's limit, keeps hsfo through every
+control area with the scrubber in closed loop across the two closed-only zones, and is
+compliant on mgo before Skarvik's harbour waters; the boiler changes over at every
+area as without a scrubber. Every printed table must fit 80 columns, and every time and
+position of the document's scrubber events must be on one line of the text.
+"""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+
+from tests.helpers.terminal import on_tty, piped, position, utc_full
+
+PLAN = ["plan", "areas_sample/egcs_voyage.toml"]
+WIDTHS = (80, 120, None)
+
+
+@pytest.fixture(scope="module")
+def sample():
+    doc = json.loads(piped([*PLAN, "--json"]))
+    texts = {w: (piped(PLAN) if w is None else on_tty(PLAN, w)) for w in WIDTHS}
+    return doc, texts
+
+
+def test_the_sample_plan_relies_on_the_scrubber(sample):
+    doc, _ = sample
+    assert doc["scrubbers"][0]["name"] == "egcs" and doc["scrubbers"][0]["circuits"] == ["main"]
+    main = [r for r in doc["changeovers"] if r["circuit"] == "main"]
+    assert [(r["boundary_event"], r["area"], r["from_fuel"], r["to_fuel"]) for r in main] == [
+        ("zone_exit", "Port Aldmere harbour waters", "vlsfo", "hsfo"),
+        ("zone_enter", "Skarvik harbour waters", "hsfo", "mgo")]
+    boiler = [r for r in doc["changeovers"] if r["circuit"] == "boiler"]
+    assert len(boiler) == 5 and {r["to_fuel"] for r in boiler} == {"mgo", "vlsfo"}
+    ev = [(e["event"], e["mode"]) for e in doc["scrubber_events"]]
+    assert ev == [("start", "open"), ("mode_change", "closed"), ("mode_change", "open"),
+                  ("mode_change", "closed"), ("mode_change", "open"), ("stop", None)]
+    assert doc["scrubber_events"][0]["utc"] == main[0]["start_utc"]
+    assert doc["scrubber_events"][-1]["utc"] == main[1]["compliant_utc"]
+    # hsfo inside every control area while the scrubber is relied on
+    inside = {a for s in doc["scrubber_spans"] for a in s["areas"] if a.endswith("ECA")}
+    assert inside == {"Corran Sea ECA", "Meridian Reach ECA", "Skarvik Basin ECA"}
+    assert {s["fuel"] for s in doc["scrubber_spans"]} == {"hsfo"}
+    assert "hsfo" in doc["fuel_totals"]
+
+
+@pytest.mark.parametrize("width", WIDTHS)
+def test_the_scrubber_tables_are_whole(sample, width):
+    doc, texts = sample
+    text = texts[width]
+    for line in text.splitlines():
+        assert line == line.rstrip() and "…" not in line
+        if width is not None:
+            assert len(line) <= width, line
+    assert "Scrubber events" in text and "Where the plan relies on a scrubber" in text
+    for e in doc["scrubber_events"]:
+        assert any(utc_full(e["utc"]) in line for line in text.splitlines())
+        assert any(position(e["lat"], e["lon"]) in line for line in text.splitlines())
+        assert any(f"{e['distance_nm']:,.1f}" in line for line in text.splitlines())
+    for s in doc["scrubber_spans"]:
+        assert any(utc_full(s["from_utc"]) in line for line in text.splitlines())
+        assert any(f"{s['duration_h']:.2f}" in line for line in text.splitlines())
+    # the served circuits' own boundaries in words, not as area crossings
+    assert "exit (a washwater discharge zone)" in " ".join(text.split())
+
+
+def test_the_sample_files_are_written(tmp_path):
+    gj = tmp_path / "plan.geojson"
+    out = piped([*PLAN, "--geojson", str(gj), "--map", str(tmp_path / "map.png"),
+                 "--gpx", str(tmp_path / "marks.gpx")])
+    assert f"wrote {gj}" in out
+    kinds = [f["properties"]["kind"] for f in json.loads(gj.read_text())["features"]]
+    assert kinds.count("scrubber_event") == 6
