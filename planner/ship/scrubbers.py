@@ -16,7 +16,12 @@ says where the plan may rely on it.
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from planner.ship.components import Circuit
 
 OPEN = "open"
 CLOSED = "closed"
@@ -113,3 +118,33 @@ class Scrubber:
         """Its modes that a washwater discharge zone allowing ``zone_allows`` permits
         (``()``: it may not run there), in the order of :data:`MODES`."""
         return tuple(m for m in self.modes if m in zone_allows)
+
+
+def served_circuits(scrubbers: Mapping[str, Scrubber],
+                    circuits: Mapping[str, Circuit]) -> dict[str, tuple[str, ...]]:
+    """The circuits every consumer of which a scrubber serves, with the scrubbers serving them.
+
+    Only such a circuit can burn fuel above the limit on the scrubbers: a circuit
+    carries one fuel to all its consumers.
+
+    Parameters
+    ----------
+    scrubbers : mapping of str to Scrubber
+        The ship's scrubbers (``FuelSystem.scrubbers``).
+    circuits : mapping of str to Circuit
+        The ship's circuits (``FuelSystem.circuits``).
+
+    Returns
+    -------
+    dict of str to tuple of str
+        Circuit name to the names of the scrubbers serving its consumers (in scrubber
+        order; more than one when its consumers are on different scrubbers), in circuit
+        order; a circuit with a consumer no scrubber serves is left out.
+    """
+    out = {}
+    for circuit in circuits.values():
+        on = [s.name for s in scrubbers.values()
+              if any(s.serves(c) for c in circuit.consumers)]
+        if on and all(any(scrubbers[n].serves(c) for n in on) for c in circuit.consumers):
+            out[circuit.name] = tuple(on)
+    return out

@@ -4,8 +4,9 @@ The format is documented in the README ("The ship file") and annotated in
 ``areas_sample/ship.toml``. Tables: ``[ship]``, ``[fuels.NAME]``,
 ``[tanks.NAME]``, ``[consumers.NAME]``, ``[volumes.NAME]``,
 ``[circuits.NAME]`` (chain form: ``chain``, optional ``loop``; or general
-form: ``links``). Every problem is one :class:`geo.errors.InputError` naming
-the file and the key (``circuits.main.links[2].flow``).
+form: ``links``), ``[scrubbers.NAME]`` (:mod:`planner.ship.scrubber_file`).
+Every problem is one :class:`geo.errors.InputError` naming the file and the
+key (``circuits.main.links[2].flow``).
 """
 
 from __future__ import annotations

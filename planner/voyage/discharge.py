@@ -47,7 +47,7 @@ def voyage_discharge_zones(voyage: Voyage) -> list[DischargeZone]:
     geo.errors.InputError
         For any fault of the zone file (:func:`geo.discharge_zones.load_discharge_zones`).
     """
-    path = getattr(voyage, "discharge_zones", None)
+    path = voyage.discharge_zones
     return [] if path is None else load_discharge_zones([path])
 
 

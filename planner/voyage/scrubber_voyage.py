@@ -176,13 +176,13 @@ def check_scrubber_inputs(voyage: Voyage, scrubbers: Mapping[str, Scrubber]) -> 
         of the voyage file), or any fault of the discharge-zone file
         (:func:`geo.discharge_zones.load_discharge_zones`).
     """
-    for i, outage in enumerate(getattr(voyage, "scrubber_outages", ()), start=1):
+    for i, outage in enumerate(voyage.scrubber_outages, start=1):
         if outage.scrubber not in scrubbers:
             have = (f"one of the ship file's scrubbers: {', '.join(scrubbers)}" if scrubbers
                     else "a scrubber of the ship file, which has none ([scrubbers.NAME])")
             raise InputError(voyage.file, f"scrubber_outage[{i}].scrubber", outage.scrubber,
                              have)
-    zones = getattr(voyage, "discharge_zones", None)
+    zones = voyage.discharge_zones
     if zones is not None:
         from geo.discharge_zones import load_discharge_zones
 

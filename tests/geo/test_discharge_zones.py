@@ -122,6 +122,11 @@ def test_geometry_refusals(tmp_path: Path) -> None:
     refused([write(tmp_path, zone(coords=[open_ring]), name="open.geojson")], "ring 1")
     refused([write(tmp_path, zone(kind="LineString", coords=closed(BOX)), name="l.geojson")],
             "geometry", "a Polygon or MultiPolygon")
+    far = [(170.0, -40.0), (172.0, -40.0), (172.0, -91.0), (170.0, -38.0)]
+    refused([write(tmp_path, zone(far), name="lat.geojson")], "ring 1", "-91")
+    half = [(0.0, 10.0), (180.0, 10.0), (180.0, 20.0)]
+    refused([write(tmp_path, zone(half), name="half.geojson")], "edge from vertex 1 to vertex 2",
+            "less than 180°")
     outside = [(180.0, -50.0), (181.0, -50.0), (181.0, -49.0), (180.0, -49.0)]
     refused([write(tmp_path, zone(coords=[closed(BOX), closed(outside)]), name="h.geojson")],
             "hole 1", "inside the exterior")

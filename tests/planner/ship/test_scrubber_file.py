@@ -9,6 +9,7 @@ import pytest
 
 from geo.errors import InputError
 from planner.ship.scrubber_file import SCRUBBER_KEYS
+from planner.ship.scrubbers import served_circuits
 from planner.ship.ship_file import load_ship, parse_ship
 from tests.helpers.paths import ROOT
 
@@ -178,3 +179,17 @@ def test_modes_allowed_in_a_zone() -> None:
     assert e.modes_allowed(("open", "closed")) == ("open", "closed")
     assert e.modes_allowed(("closed",)) == ("closed",)
     assert e.modes_allowed(()) == ()
+
+
+def test_served_circuits() -> None:
+    s = load_ship(SAMPLE)
+    assert served_circuits(s.scrubbers, s.circuits) == {"main": ("egcs",)}
+    table = PART.replace('"main_engine", "dg1", "dg2"', '"main_engine"')
+    second = '\n[scrubbers.aux]\nconsumers = ["dg1", "dg2"]\nmode = "closed"\n' \
+             'max_sulphur_pct = 3.5\n'
+    two = parse_ship(_with(table, second), FILE)
+    assert served_circuits(two.scrubbers, two.circuits) == {"main": ("egcs", "aux")}
+    part = parse_ship(_with(table), FILE)
+    assert served_circuits(part.scrubbers, part.circuits) == {}
+    plain = load_ship(ROOT / "areas_sample" / "ship.toml")
+    assert served_circuits(plain.scrubbers, plain.circuits) == {}
