@@ -120,7 +120,7 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
         if e.time_utc is None or e.is_scrubber:
             continue
         when = datetime.fromisoformat(e.time_utc.replace("Z", "+00:00")).replace(tzinfo=None)
-        clock = not e.is_crossing
+        clock = not (e.is_crossing or e.zone)
         ax.axvline(when, color="darkgreen" if clock else "grey", lw=1.0 if clock else 0.7,
                    ls="--" if clock else ":")
         at = f" {e.when}" if clock else ""

@@ -28,8 +28,13 @@ MATCH_S = 1.0
 KINDS = {"enter": "enter", "exit": "exit", "comes_into_force": "comes into force",
          "ceases": "ceases to apply", "departure": "before departure",
          "cap_change": "global cap changes", "scrubber_out_of_service": "scrubber outage",
-         "scrubber_in_service": "scrubber back in service"}
+         "scrubber_in_service": "scrubber back in service", "zone_enter": "zone enter",
+         "zone_exit": "zone exit"}
 """The short name of each ``boundary_event`` (the map's, chart's and GPX's)."""
+
+ZONE_EVENTS = ("enter", "exit", "zone_enter", "zone_exit")
+"""A changeover's boundary that is a place but no crossing of the route check's areas when
+no crossing matches it: a washwater discharge zone's (the served circuits')."""
 
 SCRUBBER_KINDS = {"start": "scrubber start", "stop": "scrubber stop",
                   "mode_change": "scrubber mode change",
@@ -84,6 +89,12 @@ def what_text(r: dict, at: str) -> str:
     if ev == "ceases":
         return (f" ceases to apply at {at} while the ship is inside it: change back to "
                 f"regular fuel at or after {at}, never before")
+    if ev == "zone_enter":
+        return (", enter (a washwater discharge zone the scrubber cannot work in): change the "
+                f"served circuits to compliant fuel before the boundary{limit}")
+    if ev == "zone_exit":
+        return (", exit (a washwater discharge zone): change the served circuits back to the "
+                "high-sulphur fuel at or after the boundary, never before")
     if ev == "scrubber_out_of_service":
         return (f", scrubber out of service at {at}: the served circuits compliant by {at} "
                 f"wherever the ship is{limit}")
@@ -107,6 +118,7 @@ def moment_words(r: dict) -> tuple[str, str]:
     an area's date, ``("Departure", "alongside at")`` ..."""
     ev = boundary_event(r)
     return {"enter": ("Boundary", "at"), "exit": ("Boundary", "at"),
+            "zone_enter": ("Boundary", "at"), "zone_exit": ("Boundary", "at"),
             "comes_into_force": ("Comes into force", "the ship then at"),
             "ceases": ("Ceases to apply", "the ship then at"),
             "departure": ("Departure", "alongside at"),
@@ -170,7 +182,7 @@ class PlanEvent:
         """``3 enter Corran Sea ECA: change to mgo`` (the legend and chart line); a moment
         on the clock with its time: ``3 comes into force Tarrow ECA 2027-06-12 00:00Z``."""
         head = f"{self.label} " if self.label else ""
-        at = "" if self.is_crossing or not self.when else f" {self.when}"
+        at = "" if self.is_crossing or self.zone or not self.when else f" {self.when}"
         return f"{head}{self.kind} {self.area}{at}: {self.note}"
 
 
@@ -181,11 +193,15 @@ def _note(r: dict) -> str:
             return f"on {r.get('to_fuel')} by then, wherever the ship is"
         if ev == "departure":
             return f"on {r.get('to_fuel')} before departure"
+        if ev == "zone_enter":
+            return f"on {r.get('to_fuel')} before the zone (the scrubber cannot work in it)"
         return f"on {r.get('to_fuel')} before the boundary"
     if ev in ("ceases", "cap_change", "scrubber_in_service"):
         return f"back to {r.get('to_fuel')} from then"
     if ev == "departure":
         return f"to {r.get('to_fuel')} from departure"
+    if ev == "zone_exit":
+        return f"back to {r.get('to_fuel')} from the zone's exit"
     return f"back to {r.get('to_fuel')} from the exit"
 
 
@@ -246,5 +262,5 @@ def plan_events(crossings: list[dict], changeovers: list[dict],
         ev = boundary_event(r)
         out.append(PlanEvent(n, KINDS[ev], r["area"], r.get("boundary_utc"),
                              r["boundary_lat"], r["boundary_lon"], r.get("boundary_nm") or 0.0,
-                             _note(r), zone=ev in ("enter", "exit")))
+                             _note(r), zone=ev in ZONE_EVENTS))
     return sorted(out, key=lambda e: (e.distance_nm, e.time_utc or "", e.number or 0))

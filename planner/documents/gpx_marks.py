@@ -78,7 +78,7 @@ def plan_waypoints(doc: dict, events: Sequence[PlanEvent]) -> list[Waypoint]:
             out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
                                 f"{e.label} {e.kind} {e.area} {e.when} (UTC), at "
                                 f"{e.distance_nm:,.1f} nm: {e.note}", e.kind))
-        elif e.is_crossing:
+        elif e.is_crossing or e.zone:
             out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
                                 f"{e.kind} {e.area} at {e.distance_nm:,.1f} nm: {e.note}",
                                 "boundary"))
@@ -94,7 +94,7 @@ def _event_name(e: PlanEvent) -> str:
     mode change`` ..."""
     if e.is_scrubber:
         return f"{e.label} {e.area} {e.kind.removeprefix('scrubber ')}"
-    what = "boundary" if e.is_crossing else e.kind
+    what = "boundary" if e.is_crossing or e.zone else e.kind
     if e.number is not None:
         return f"CO{e.number} {what}"
     return f"{e.kind} {e.area}"

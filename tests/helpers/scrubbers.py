@@ -43,4 +43,6 @@ def scrubbed(plan):
              span("open", OPEN_M, STOP_M, 0.10, ("Meridian Reach ECA",)))
     events = tuple(ScrubberEvent(SCRUBBER, kind, mode, at(m), m, why)
                    for kind, mode, m, why in EVENTS)
-    return dataclasses.replace(plan, scrubber_spans=spans, scrubber_events=events)
+    # the SO₂ of each span is not what these tests read: none is claimed (0 kg)
+    return dataclasses.replace(plan, scrubber_spans=spans, scrubber_events=events,
+                               scrubber_so2_kg=tuple((0.0, 0.0) for _ in spans))
