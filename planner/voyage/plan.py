@@ -22,7 +22,14 @@ Steps (DEVELOPERS.md, "How the plan is made"):
    no changeover says why (:mod:`planner.voyage.explain`);
 5. quantities and SO₂ are computed (:mod:`planner.voyage.quantities`), and
    quantities, caution zones, the inlet viscosity path and early starts are
-   checked (:mod:`planner.voyage.checks`).
+   checked (:mod:`planner.voyage.checks`);
+6. with a scrubber serving circuits whole (:mod:`planner.voyage.scrubbing`, its
+   rules), steps 2 to 4 run for the other circuits (:attr:`Plan.runs`) and, on
+   their own fuel choice (the scrubber's ``max_sulphur_pct`` where it is
+   available), for the served circuits (:mod:`planner.voyage.scrubbing_plan`);
+   every change is put in one time order, and the spans and events say where
+   the plan relies on the scrubber (:mod:`planner.voyage.scrubbing_spans`). With
+   none, the plan is as without scrubbers, byte for byte.
 
 The plan is built whole, once: its checks are pure functions of its parts, so
 nothing is added to it afterwards. Every flush goes through one

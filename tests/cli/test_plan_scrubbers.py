@@ -80,3 +80,29 @@ def test_the_sample_files_are_written(tmp_path):
     assert f"wrote {gj}" in out
     kinds = [f["properties"]["kind"] for f in json.loads(gj.read_text())["features"]]
     assert kinds.count("scrubber_event") == 6
+
+
+@pytest.mark.parametrize("cols", [80, 120, 160])
+def test_an_outage_is_named_as_a_moment_on_the_clock(cols):
+    """The changeover for a planned outage reads as a deadline on the clock, not as an entry
+    (README, "Scrubbers in the plan"), and its rows are whole at every width."""
+    from datetime import timedelta
+
+    from geo.schedule import to_epoch
+    from planner.cli.plan import charts_doc, plan_lines
+    from planner.voyage.scrubber_events import ScrubberOutage
+    from tests.planner.voyage.test_scrubbing import _inputs, hours, parallel_m, plan_of
+
+    voyage, _, _ = _inputs()
+    moment = voyage.depart_utc + timedelta(hours=hours(parallel_m(2.0, 3.8), 12.0))
+    _, doc = plan_of(outages=(ScrubberOutage("egcs", to_epoch(moment)),))
+    lines = plan_lines(doc, cols)
+    assert all(len(line) <= cols for line in lines)
+    text = " ".join(" ".join(lines).split())
+    row = next(r for r in doc["changeovers"] if r["boundary_event"] == "scrubber_out_of_service")
+    assert f"Changeover {row['number']}: West Far ECA, scrubber out of service at" in text
+    assert f"Scrubber out of service {utc_full(row['boundary_utc'])}" in text
+    assert position(row["start_lat"], row["start_lon"]) in text
+    # the map, chart and GPX are given the plan without it (they have no words for it yet)
+    assert row not in charts_doc(doc)["changeovers"]
+    assert len(charts_doc(doc)["changeovers"]) == len(doc["changeovers"]) - 1
