@@ -84,3 +84,15 @@ def test_a_bad_discharge_zone_file(tmp_path: Path, old: str, new: str, words: st
     zones = tmp_path / "zones.geojson"
     zones.write_text(ZONES.read_text().replace(old, new, 1))
     _refused(tmp_path, _voyage(tmp_path, zones=zones), str(zones), words)
+
+
+def test_the_commented_out_outage_of_the_sample_is_valid(tmp_path: Path) -> None:
+    text = VOYAGE.read_text()
+    example = [line for line in text.splitlines() if line.startswith("# [[scrubber_outage]]")
+               or line.startswith("# scrubber =") or line.startswith("# from =")
+               or line.startswith("# until =") or line.startswith("# reason =")]
+    assert len(example) == 5
+    extra = "\n" + "\n".join(line[2:].split("  #")[0] for line in example) + "\n"
+    v = _voyage(tmp_path, extra=extra)
+    doc = json.loads(changeover_ok("plan", str(v), "--json").stdout)
+    assert doc["changeovers"]
