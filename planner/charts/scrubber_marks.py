@@ -109,10 +109,11 @@ def action_text(event: dict, spans: list[dict]) -> str:
             return (f"stop {name} only once {_circuits(s, 'burn')} {s['fallback_fuel']} at every "
                     f"inlet (at or under {s['limit_pct']:.2f} % m/m)")
         return f"stop {name}"
-    fallback = (f": {_circuits(s)} must change to {s['fallback_fuel']} (at or under "
-                f"{s['limit_pct']:.2f} % m/m)" if s else "")
-    return (f"{name} out of service{fallback}; follow the ship's EGCS failure procedure and "
-            "report as its approval requires")
+    fallback = (f"{_circuits(s)} must be on {s['fallback_fuel']} (at or under "
+                f"{s['limit_pct']:.2f} % m/m)" if s else
+                "no fuel above the limit on the circuits it serves")
+    return (f"{name} out of service from now: {fallback}; report it as the scrubber's "
+            "approval requires")
 
 
 def relies_text(spans: list[dict]) -> str:

@@ -229,8 +229,11 @@ def _event(kind: str, mode: str | None, utc: str) -> dict:
     ("stop", None, "2027-05-30T04:30:00Z",
      "stop EGCS 1 only once circuit main burns mgo at every inlet (at or under 0.10 % m/m)"),
     ("out_of_service", None, "2027-05-30T04:30:00Z",
-     "EGCS 1 out of service: circuit main must change to mgo (at or under 0.10 % m/m); "
-     "follow the ship's EGCS failure procedure and report as its approval requires"),
+     "EGCS 1 out of service from now: circuit main must be on mgo (at or under 0.10 % "
+     "m/m); report it as the scrubber's approval requires"),
+    ("out_of_service", None, "2027-05-30T09:00:00Z",  # no span ends then
+     "EGCS 1 out of service from now: no fuel above the limit on the circuits it serves; "
+     "report it as the scrubber's approval requires"),
     ("stop", None, "2027-05-30T09:00:00Z", "stop EGCS 1"),  # no span ends then
 ])
 def test_action_words(kind, mode, utc, words):
@@ -266,3 +269,32 @@ def test_a_scrubber_event_is_not_a_crossing():
     assert not c.is_scrubber and c.label == "3"
     with pytest.raises(ValueError, match="event kind"):
         PlanEvent(1, "scrubber nap", "EGCS 1", None, 0.0, 0.0, 0.0, "")
+
+
+@pytest.mark.parametrize(("event", "direction", "label", "words"), [
+    ("zone_enter", "to_compliant", ("Boundary", "at"),
+     ", enter (a washwater discharge zone the scrubber cannot work in): change the served "
+     "circuits to compliant fuel before the boundary (limit 0.10 % m/m)"),
+    ("zone_exit", "to_regular", ("Boundary", "at"),
+     ", exit (a washwater discharge zone): change the served circuits back to the "
+     "high-sulphur fuel at or after the boundary, never before"),
+    ("scrubber_out_of_service", "to_compliant", ("Scrubber out of service", "the ship then at"),
+     ", scrubber out of service at 14:00Z: the served circuits compliant by 14:00Z wherever "
+     "the ship is (limit 0.10 % m/m)"),
+    ("scrubber_in_service", "to_regular", ("Scrubber back in service", "the ship then at"),
+     ", scrubber back in service at 14:00Z: change back to the high-sulphur fuel at or after "
+     "14:00Z, never before"),
+])
+def test_the_served_circuits_boundaries_have_words(event, direction, label, words):
+    """The words of the terminal table (planner/cli/plan_tables.py SCRUBBER_EVENTS, the
+    scrubber plan's own), for the PDF, the sheets, the map, the chart and the GPX."""
+    from planner.charts.plan_events import KINDS, moment_words, plan_events, what_text
+
+    r = {"boundary_event": event, "direction": direction, "limit_pct": 0.1, "number": 3,
+         "area": "Corran Sea ECA", "to_fuel": "mgo", "boundary_nm": 50.0, "boundary_lat": -39.9,
+         "boundary_lon": 171.0, "boundary_utc": "2027-05-30T14:00:00Z"}
+    assert what_text(r, "14:00Z") == words
+    assert moment_words(r) == label
+    [e] = plan_events([], [r], [])
+    assert e.kind == KINDS[event] and e.label == "3"
+    assert e.zone == event.startswith("zone_")
