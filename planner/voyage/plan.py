@@ -76,7 +76,7 @@ from planner.voyage.scrubber_events import (
     ScrubberSpan,
     ZonePassage,
 )
-from planner.voyage.scrubbing import load_range_warnings, served_circuits
+from planner.voyage.scrubbing import joint_outages, load_range_warnings, served_groups
 from planner.voyage.scrubbing_choice import valve_fuels
 from planner.voyage.scrubbing_plan import Scrubbed, fuels_on_board, merged, scrubbed_plan
 from planner.voyage.scrubbing_spans import span_so2
@@ -182,9 +182,9 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
     timeline = Timeline(check.schedule, system, port_state(voyage, system))
     choices = choose_fuels(check.stretches, fuels_on_board(voyage, system),
                            voyage.fuel_choice_margin, voyage.file)
-    served = served_circuits(system)
+    served = served_groups(system)
     plain = None if not served else tuple(
-        c for c in system.circuits if not any(c in g for g in served.values()))
+        c for c in system.circuits if not any(c in g for _, _, g in served))
     runs, changes, notes = group_plan(flushes, system, timeline, voyage,
                                        make_runs(choices, timeline), plain)
     regular = regular_fuel(choices)
@@ -203,9 +203,10 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
                      f"every circuit already on {first.fuel.name} ([port] departure_fuel): no "
                      "changeover alongside.")
     changes = [_with_event(check, ch) for ch in changes]
-    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, choices, name, group,
-                              passages, outages, regular)
-                for name, circuits in served.items()
+    scrubbed = [scrubbed_plan(flushes, voyage, system, timeline, check, scrubber,
+                              names, group, passages, joint_outages(outages, names, scrubber),
+                              regular)
+                for names, scrubber, circuits in served
                 for group in _by_valve_fuels(voyage, system, circuits)]
     for s in scrubbed:
         notes += s.notes

@@ -323,7 +323,7 @@ def scrubber_json(plan: Plan) -> dict:
     """
     t = plan.timeline
     scrubbers = [{"name": s.name, "consumers": list(s.consumers),
-                  "circuits": [c for g in plan.scrubbed if g.scrubber.name == s.name
+                  "circuits": [c for g in plan.scrubbed if s.name in g.names
                                for c in g.circuits],
                   "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
                   "min_load_pct": s.min_load_pct, "max_load_pct": s.max_load_pct,

@@ -3,7 +3,8 @@
 The rules (a ship's officer's; README, "Scrubbers in the plan"):
 
 1. A circuit carries one fuel, so it may burn fuel above the limit in force only
-   if one scrubber serves *every* consumer on it (:func:`served_circuits`); a
+   if scrubbers serve *every* consumer on it (:func:`served_groups`: several at
+   once when its consumers are on different scrubbers, relied on together); a
    scrubber serving only part of a circuit is not relied on (the ship file's
    loader warns of it). Every other circuit changes over as without a scrubber.
 2. Along the route and in time a scrubber is *available* in a mode
@@ -31,12 +32,13 @@ the route where the ship then is (at a stop, where she stops).
 
 from __future__ import annotations
 
-from collections.abc import Sequence
-from dataclasses import dataclass
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, replace
 
 from geo.compliance import Stretch
 from geo.schedule import from_epoch
-from planner.ship.scrubbers import CLOSED, OPEN, Scrubber
+from planner.ship.scrubbers import CLOSED, MODES, OPEN, Scrubber
+from planner.ship.scrubbers import served_circuits as circuits_served
 from planner.ship.system import FuelSystem
 from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
 from planner.voyage.timeline import Timeline
@@ -71,24 +73,70 @@ class Availability:
     out_of_service: bool = False
 
 
-def served_circuits(system: FuelSystem) -> dict[str, tuple[str, ...]]:
-    """The circuits each scrubber serves whole (every consumer on them), by scrubber name,
-    in the ship file's order; a circuit served by two scrubbers goes to the first.
+def served_groups(system: FuelSystem) -> list[tuple[tuple[str, ...], Scrubber,
+                                                     tuple[str, ...]]]:
+    """The circuits the ship's scrubbers serve whole, grouped by the scrubbers serving them:
+    ``(scrubber names, the scrubber relied on, circuits)`` in the ship file's order
+    (:func:`planner.ship.scrubbers.served_circuits`). A circuit whose consumers are on two
+    scrubbers relies on both at once (:func:`joint_scrubber`); one whose scrubbers share no
+    washwater mode is left out (planned on compliant fuel).
 
     Parameters
     ----------
     system : FuelSystem
         The ship (its circuits and scrubbers).
     """
-    out: dict[str, tuple[str, ...]] = {}
-    taken: set[str] = set()
-    for s in system.scrubbers.values():
-        got = tuple(c for c, circ in system.circuits.items()
-                    if c not in taken and all(n in s.consumers for n in circ.consumers))
-        taken.update(got)
-        if got:
-            out[s.name] = got
+    by: dict[tuple[str, ...], list[str]] = {}
+    for circuit, names in circuits_served(system.scrubbers, system.circuits).items():
+        by.setdefault(tuple(names), []).append(circuit)
+    out = []
+    for names, circuits in by.items():
+        s = joint_scrubber(system.scrubbers, names)
+        if s is not None:
+            out.append((names, s, tuple(circuits)))
     return out
+
+
+def joint_scrubber(scrubbers: Mapping[str, Scrubber], names: Sequence[str]) -> Scrubber | None:
+    """The scrubber ``names`` make together for a circuit whose consumers they share: itself
+    for one; for several, named ``"a + b"``, the modes they all have, the lowest approved
+    sulphur, the narrowest load range (None when they share no mode).
+
+    Parameters
+    ----------
+    scrubbers : mapping of str to Scrubber
+        The ship's scrubbers.
+    names : sequence of str
+        The scrubbers serving one circuit.
+    """
+    ss = [scrubbers[n] for n in names]
+    if len(ss) == 1:
+        return ss[0]
+    modes = tuple(m for m in MODES if all(m in s.modes for s in ss))
+    if not modes:
+        return None
+    low, high = max(s.min_load_pct for s in ss), min(s.max_load_pct for s in ss)
+    low, high = (low, high) if low < high else (0.0, 110.0)
+    return Scrubber(" + ".join(names), tuple(c for s in ss for c in s.consumers), modes,
+                    min(s.max_sulphur_pct for s in ss), low, high)
+
+
+def joint_outages(outages: Sequence[ScrubberOutage], names: Sequence[str],
+                  joint: Scrubber) -> tuple[ScrubberOutage, ...]:
+    """The outages of any of ``names``, as outages of ``joint`` (out of service when one of
+    them is).
+
+    Parameters
+    ----------
+    outages : sequence of ScrubberOutage
+        The voyage file's outages.
+    names : sequence of str
+        The scrubbers ``joint`` is made of.
+    joint : Scrubber
+        Their :func:`joint_scrubber`.
+    """
+    return tuple(o if o.scrubber == joint.name else replace(o, scrubber=joint.name)
+                 for o in outages if o.scrubber in names)
 
 
 def load_range_warnings(system: FuelSystem) -> list[PlanWarning]:
@@ -102,9 +150,9 @@ def load_range_warnings(system: FuelSystem) -> list[PlanWarning]:
         The ship (its circuits and scrubbers).
     """
     out = []
-    served = served_circuits(system)
+    relied = {n for names, _, _ in served_groups(system) for n in names}
     for s in system.scrubbers.values():
-        if s.name in served and (s.min_load_pct > 0.0 or s.max_load_pct < 110.0):
+        if s.name in relied and (s.min_load_pct > 0.0 or s.max_load_pct < 110.0):
             out.append(PlanWarning("scrubber_load_range", (  # type: ignore[arg-type]
                 f"Scrubber {s.name}: the load range {s.min_load_pct:g}-{s.max_load_pct:g} % "
                 "MCR is not applied by the plan; check the served engines' load on every "

@@ -1,6 +1,6 @@
 """The served circuits' fuel choice, and what each of their changes is for.
 
-A scrubber's circuits (:func:`planner.voyage.scrubbing.served_circuits`) get the
+A scrubber's circuits (:func:`planner.voyage.scrubbing.served_groups`) get the
 plan's own fuel choice (:func:`planner.voyage.fuel_choice.choose_fuels`) on the
 route check's stretches cut where the scrubber's availability changes, with its
 ``max_sulphur_pct`` as the limit where it is available

@@ -24,7 +24,7 @@ from planner.fuels import Fuel
 from planner.ship.scrubbers import Scrubber
 from planner.ship.system import FuelSystem
 from planner.voyage.flush_cache import FlushCache
-from planner.voyage.fuel_choice import FuelChoice, regular_fuel
+from planner.voyage.fuel_choice import FuelChoice, choose_fuels, regular_fuel
 from planner.voyage.runs import Change, Run, at_departure, make_runs
 from planner.voyage.scrubber_events import (
     ScrubberEvent,
@@ -62,7 +62,10 @@ class Scrubbed:
     Parameters
     ----------
     scrubber : Scrubber
-        The scrubber.
+        The scrubber relied on (two or more of the ship file's as one, named ``"a + b"``,
+        when they serve the circuits' consumers together).
+    names : tuple of str
+        The ship file's scrubbers it stands for.
     circuits : tuple of str
         The circuits it serves whole, in the ship file's order.
     pieces : tuple of Availability
@@ -81,6 +84,7 @@ class Scrubbed:
     """
 
     scrubber: Scrubber
+    names: tuple[str, ...]
     circuits: tuple[str, ...]
     pieces: tuple[Availability, ...]
     choices: tuple[FuelChoice, ...]
@@ -93,10 +97,11 @@ class Scrubbed:
 
 
 def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timeline: Timeline,
-                  check: RouteCheck, plain: list[FuelChoice], name: str,
-                  circuits: tuple[str, ...], passages: Sequence[ZonePassage],
+                  check: RouteCheck, scrubber: Scrubber,
+                  names: tuple[str, ...], circuits: tuple[str, ...],
+                  passages: Sequence[ZonePassage],
                   outages: Sequence[ScrubberOutage], plain_regular: Fuel) -> Scrubbed:
-    """The plan of the circuits scrubber ``name`` serves whole (see the module notes).
+    """The plan of the circuits ``scrubber`` serves whole (see the module notes).
 
     Parameters
     ----------
@@ -110,29 +115,29 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
         The voyage's timeline.
     check : RouteCheck
         The route check.
-    plain : list of FuelChoice
-        The whole ship's fuel choice on the route check's stretches.
-    name : str
-        The scrubber.
+    scrubber : Scrubber
+        The scrubber relied on (:func:`planner.voyage.scrubbing.joint_scrubber`).
+    names : tuple of str
+        The ship file's scrubbers it stands for (one, or those serving the circuits
+        together).
     circuits : tuple of str
         The circuits it serves whole.
     passages : sequence of ZonePassage
         The route's passages through washwater discharge zones.
     outages : sequence of ScrubberOutage
-        The voyage file's outages.
+        The outages of ``scrubber`` (:func:`planner.voyage.scrubbing.joint_outages`).
     plain_regular : Fuel
         The fuel the other circuits are on at departure by default: the served circuits'
         too when the scrubber cannot work at departure (she came in on compliant fuel),
         else the highest-sulphur fuel chosen for them (``[port] departure_fuel`` rules).
     """
-    scrubber = system.scrubbers[name]
     pieces = availability(scrubber, timeline, check.stretches, passages, outages)
     fuels = valve_fuels(system, circuits, fuels_on_board(voyage, system))
     choices = served_choices(check, timeline, scrubber, pieces, fuels, voyage.fuel_choice_margin,
                              voyage.file)
     runs, changes, notes = group_plan(flushes, system, timeline, voyage,
                                        make_runs(choices, timeline), circuits)
-    head = f"Scrubber {name} (circuit {', '.join(circuits)}): "
+    head = f"Scrubber {scrubber.name} (circuit {', '.join(circuits)}): "
     notes = [head + n for n in notes]
     changes = [served_event(ch, check, timeline, scrubber, pieces, passages, outages)
                for ch in changes]
@@ -144,9 +149,11 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
     departure, warning = _departs_unavailable(timeline, scrubber, circuits, pieces[0],
                                               runs[0], departure)
     changes = departure + changes
-    spans, events = spans_and_events(scrubber, circuits, runs, changes, plain, pieces, timeline,
-                                     outages)
-    return Scrubbed(scrubber, circuits, tuple(pieces), tuple(choices), tuple(runs),
+    # the fallback: the circuits' own fuel choice without the scrubber (fuels on their valves)
+    fallback = choose_fuels(check.stretches, fuels, voyage.fuel_choice_margin, voyage.file)
+    spans, events = spans_and_events(scrubber, circuits, runs, changes, fallback, pieces,
+                                     timeline, outages)
+    return Scrubbed(scrubber, names, circuits, tuple(pieces), tuple(choices), tuple(runs),
                     tuple(changes), tuple(notes), (warning,) if warning else (), tuple(spans),
                     tuple(events))
 

@@ -110,7 +110,8 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
     changes : sequence of Change
         Their changes, in time order.
     plain : sequence of FuelChoice
-        The whole ship's fuel choice on the route check's stretches (the fallback fuel).
+        The circuits' fuel choice without the scrubber on the route check's stretches (the
+        fallback fuel; the limit in force).
     pieces : sequence of Availability
         The scrubber's availability along the route.
     timeline : Timeline

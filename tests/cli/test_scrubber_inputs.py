@@ -1,8 +1,9 @@
 """``changeover plan`` on the scrubber sample (areas_sample/egcs_voyage.toml) and its refusals.
 
-The sample (fictional) must plan today: the plan does not yet rely on the scrubber,
-and the high-sulphur fuel (2.60 % m/m) is above every limit on the route (0.50 % global
-cap and 0.10 % in the areas, [MARPOL-VI] regulation 14 [P]), so it is never chosen.
+The sample (fictional) must plan: the whole ship's fuel choice never picks the
+high-sulphur fuel (2.60 % m/m is above every limit on the route, 0.50 % global cap and
+0.10 % in the areas, [MARPOL-VI] regulation 14 [P]); only the scrubber's circuit burns it
+(tests/cli/test_plan_scrubbers.py), and the tanks hold enough of every fuel.
 Each bad scrubber input is one line, exit 2, nothing written (README "What input is
 refused").
 """

@@ -263,3 +263,62 @@ def test_a_scrubber_serving_two_valves_plans_each_on_its_own_fuels():
     starts = [e for e in doc["scrubber_events"] if e["event"] == "start"]
     assert len(starts) == 2 and abs((utc(starts[1]["utc"]) - at(doc, 3.0)).total_seconds()) \
         < TIME_TOL_S
+
+
+def test_a_circuit_on_two_scrubbers_relies_on_both_at_once():
+    """Main engine on one scrubber, generators on another: the main circuit may burn hsfo
+    only where both can work (their common modes), up to the lower approved sulphur."""
+    from planner.ship.scrubbers import Scrubber
+    from planner.voyage.scrubbing import joint_outages, joint_scrubber, served_groups
+
+    _, system, _ = _inputs()
+    two = {"a": Scrubber("a", ("main_engine",), ("open", "closed"), 3.5),
+           "b": Scrubber("b", ("boiler",), ("open",), 3.0)}
+    system = replace(system, scrubbers=two)
+    (names, joint, circuits), (names_b, alone, circuits_b) = served_groups(system)
+    assert (names, joint.name, circuits) == (("a",), "a", ("main",))
+    assert (names_b, alone.name, circuits_b) == (("b",), "b", ("boiler",))
+    both = joint_scrubber(two, ("a", "b"))
+    assert (both.name, both.modes, both.max_sulphur_pct) == ("a + b", ("open",), 3.0)
+    assert joint_scrubber({**two, "b": replace(two["b"], modes=("closed",))},
+                          ("a", "b")).modes == ("closed",)
+    assert joint_scrubber({"a": replace(two["a"], modes=("open",)),
+                           "b": replace(two["b"], modes=("closed",))}, ("a", "b")) is None
+    outs = (ScrubberOutage("b", 0.0), ScrubberOutage("c", 0.0))
+    assert [o.scrubber for o in joint_outages(outs, ("a", "b"), both)] == ["a + b"]
+
+
+def test_the_sample_main_circuit_on_two_scrubbers():
+    """The scrubber sample (areas_sample/egcs_voyage.toml) with the generators on an
+    open-loop-only scrubber of their own: the main circuit cannot burn hsfo in the two
+    closed-only zones and changes over for each, the joint scrubber named in the spans."""
+    from geo.area_files import load_areas
+    from geo.compliance import check_route
+    from geo.path import route_path
+    from geo.route_loader import load_route
+    from geo.schedule import make_schedule
+    from planner.ship.scrubbers import Scrubber
+    from planner.voyage.onboard import ship_for_voyage
+    from planner.voyage.plan import plan_voyage
+    from planner.voyage.report import plan_json
+    from planner.voyage.run import scrubber_inputs
+    from planner.voyage.voyage_file import load_voyage
+    from tests.helpers.paths import ROOT
+
+    voyage = load_voyage(ROOT / "areas_sample" / "egcs_voyage.toml")
+    system = ship_for_voyage(voyage)
+    me = replace(system.scrubbers["egcs"], consumers=("main_engine",))
+    dg = Scrubber("dg_egcs", ("dg1", "dg2"), ("open",), 3.5)
+    system = replace(system, scrubbers={"egcs": me, "dg_egcs": dg})
+    path = route_path(load_route(voyage.route_file))
+    check = check_route(path, load_areas(voyage.area_paths),
+                        make_schedule(path, voyage.depart_utc, voyage.speed_kn),
+                        voyage.depart_utc.date())
+    doc = plan_json(plan_voyage(voyage, system, check, None, *scrubber_inputs(voyage, check)))
+    assert [s["circuits"] for s in doc["scrubbers"]] == [["main"], ["main"]]
+    zones = [r["area"] for r in doc["changeovers"]
+             if r["circuit"] == "main" and r["boundary_event"] == "zone_enter"]
+    assert zones == ["Corran Sea coastal waters", "Brannoch Passage washwater zone",
+                     "Skarvik harbour waters"]
+    assert {s["scrubber"] for s in doc["scrubber_spans"]} == {"egcs + dg_egcs"}
+    assert {s["mode"] for s in doc["scrubber_spans"]} == {"open"}
