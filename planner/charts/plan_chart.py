@@ -5,8 +5,10 @@ Every crossing is marked and labelled as on the plan's map and in its tables
 unnumbered where none is); a moment on the clock (an area coming into force or
 ceasing while the ship is inside it, a departure) is a dashed line labelled
 with its kind and time. Moments are epoch seconds (``*_epoch_s``: seconds
-since 1970-01-01 UTC) until they are drawn, against UTC. PNG, or PDF for a
-``.pdf`` name.
+since 1970-01-01 UTC) until they are drawn, against UTC. Where the plan relies
+on a scrubber, its spans are hatched bands labelled with the scrubber and its
+washwater mode, and its events dash-dot lines labelled ``S1``, ``S2`` ...
+(:mod:`planner.charts.scrubber_draw`). PNG, or PDF for a ``.pdf`` name.
 """
 
 from __future__ import annotations
@@ -49,6 +51,33 @@ def inlet_sulphur_along_voyage(plan: Plan, circuit: str) -> tuple[np.ndarray, np
     return np.array(ts), np.array(ss)
 
 
+def plan_spans(plan: Plan) -> list[dict]:
+    """The plan's scrubber spans as rows (none without a scrubber)."""
+    if not plan.scrubber_spans:
+        return []
+    from planner.voyage.report import scrubber_json
+
+    return scrubber_json(plan)["scrubber_spans"]
+
+
+def _above(plan: Plan, spans: list[dict]) -> str:
+    """The line naming the fuels burnt on a scrubber above the chart's scale."""
+    top = max([st.limit_pct for st in plan.check.stretches] + [0.6]) * 1.05
+    fuels = []
+    for s in spans:
+        try:
+            pct = plan.voyage.fuel(s["fuel"]).sulphur_pct
+        except KeyError:
+            continue
+        text = f"{s['fuel']} {pct:.2f} % m/m"
+        if pct > top and text not in fuels:
+            fuels.append(text)
+    if not fuels:
+        return ""
+    return (f"on the scrubber (hatched): {', '.join(fuels)} at the served inlets, above "
+            "the scale")
+
+
 def draw_plan_chart(plan: Plan, out: str | Path, events: list[PlanEvent] | None = None) -> None:
     """Write the chart (PNG, or PDF for a ``.pdf`` name); see :func:`chart_figure`."""
     from planner.charts.route_map import save_figure
@@ -86,11 +115,12 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
         events = [PlanEvent(n, KINDS[ch.boundary_event], ch.area,
                             plan.timeline.utc(ch.boundary_epoch_s).isoformat(), 0.0, 0.0, 0.0,
                             "") for n, ch in enumerate(plan.changes, start=1)]
+    scrub = [e for e in events if e.is_scrubber]
     for e in events:
-        if e.time_utc is None:
+        if e.time_utc is None or e.is_scrubber:
             continue
         when = datetime.fromisoformat(e.time_utc.replace("Z", "+00:00")).replace(tzinfo=None)
-        clock = not e.is_crossing
+        clock = not (e.is_crossing or e.zone)
         ax.axvline(when, color="darkgreen" if clock else "grey", lw=1.0 if clock else 0.7,
                    ls="--" if clock else ":")
         at = f" {e.when}" if clock else ""
@@ -102,6 +132,12 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
     ax.xaxis.set_major_formatter(mdates.DateFormatter("%d %b %H:%M"))
     fig.autofmt_xdate()
     ax.set_ylim(0.0, max(lv + [0.6]) * 1.05)
+    spans = plan_spans(plan)
+    if spans or scrub:
+        from planner.charts.scrubber_draw import chart_scrubbers
+
+        chart_scrubbers(ax, lambda iso: datetime.fromisoformat(iso.replace("Z", "+00:00"))
+                        .replace(tzinfo=None), spans, scrub, _above(plan, spans))
     ax.grid(True, lw=0.3)
     ax.legend(fontsize=8, loc="upper right")
     ax.set_title(f"{plan.system.ship.name}: sulphur at the inlets along the voyage "

@@ -27,10 +27,31 @@ MATCH_S = 1.0
 
 KINDS = {"enter": "enter", "exit": "exit", "comes_into_force": "comes into force",
          "ceases": "ceases to apply", "departure": "before departure",
-         "cap_change": "global cap changes"}
+         "cap_change": "global cap changes", "scrubber_out_of_service": "scrubber outage",
+         "scrubber_in_service": "scrubber back in service", "zone_enter": "zone enter",
+         "zone_exit": "zone exit"}
 """The short name of each ``boundary_event`` (the map's, chart's and GPX's)."""
 
-CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change")
+ZONE_EVENTS = ("enter", "exit", "zone_enter", "zone_exit")
+"""A changeover's boundary that is a place but no crossing of the route check's areas when
+no crossing matches it: a washwater discharge zone's (the served circuits')."""
+
+SCRUBBER_KINDS = {"start": "scrubber start", "stop": "scrubber stop",
+                  "mode_change": "scrubber mode change",
+                  "out_of_service": "scrubber out of service"}
+"""The short name of each scrubber event kind (:mod:`planner.voyage.scrubber_events`)."""
+
+SCRUBBER_PREFIX = "S"
+"""Scrubber events are numbered apart and drawn ``S1``, ``S2`` ... (changeovers: 1, 2 ...)."""
+
+
+def scrubber_label(number: int) -> str:
+    """``S3`` for scrubber event 3."""
+    return f"{SCRUBBER_PREFIX}{number}"
+
+
+CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change",
+                "scrubber_out_of_service", "scrubber_in_service")
 """Events that are a moment on the clock, not a place the ship reaches."""
 
 
@@ -68,6 +89,18 @@ def what_text(r: dict, at: str) -> str:
     if ev == "ceases":
         return (f" ceases to apply at {at} while the ship is inside it: change back to "
                 f"regular fuel at or after {at}, never before")
+    if ev == "zone_enter":
+        return (", enter (a washwater discharge zone the scrubber cannot work in): change the "
+                f"served circuits to compliant fuel before the boundary{limit}")
+    if ev == "zone_exit":
+        return (", exit (a washwater discharge zone): change the served circuits back to the "
+                "high-sulphur fuel at or after the boundary, never before")
+    if ev == "scrubber_out_of_service":
+        return (f", scrubber out of service at {at}: the served circuits compliant by {at} "
+                f"wherever the ship is{limit}")
+    if ev == "scrubber_in_service":
+        return (f", scrubber back in service at {at}: change back to the high-sulphur fuel "
+                f"at or after {at}, never before")
     if ev == "departure":
         if down:
             return (f", departure (alongside): the voyage departs inside the area: be "
@@ -85,17 +118,21 @@ def moment_words(r: dict) -> tuple[str, str]:
     an area's date, ``("Departure", "alongside at")`` ..."""
     ev = boundary_event(r)
     return {"enter": ("Boundary", "at"), "exit": ("Boundary", "at"),
+            "zone_enter": ("Boundary", "at"), "zone_exit": ("Boundary", "at"),
             "comes_into_force": ("Comes into force", "the ship then at"),
             "ceases": ("Ceases to apply", "the ship then at"),
             "departure": ("Departure", "alongside at"),
-            "cap_change": ("Global cap changes", "the ship then at")}[ev]
+            "cap_change": ("Global cap changes", "the ship then at"),
+            "scrubber_out_of_service": ("Scrubber out of service", "the ship then at"),
+            "scrubber_in_service": ("Scrubber back in service", "the ship then at")}[ev]
 
 
 @dataclass(frozen=True)
 class PlanEvent:
-    """One event: ``number`` (the changeover's, or None), ``kind`` (a value of
-    :data:`KINDS`), the area, the moment (ISO 8601 UTC or None), the position [° WGS84],
-    the distance from departure [nm] and a short note."""
+    """One event: ``number`` (the changeover's, or None; a scrubber event's own number),
+    ``kind`` (a value of :data:`KINDS` or :data:`SCRUBBER_KINDS`), the area (the
+    scrubber's name for a scrubber event), the moment (ISO 8601 UTC or None), the
+    position [° WGS84], the distance from departure [nm] and a short note."""
 
     number: int | None
     kind: str
@@ -105,17 +142,29 @@ class PlanEvent:
     lon: float
     distance_nm: float
     note: str
+    zone: bool = False
+    """An entry or exit that is no crossing of the route check's areas (a washwater
+    discharge zone's boundary, where a scrubber's circuits change over)."""
 
     def __post_init__(self) -> None:
         if not -90.0 <= self.lat <= 90.0:
             raise ValueError(f"event latitude {self.lat} outside -90..90")
-        if self.kind not in KINDS.values():
-            raise ValueError(f"event kind {self.kind!r} not one of {sorted(KINDS.values())}")
+        if self.kind not in KINDS.values() and self.kind not in SCRUBBER_KINDS.values():
+            raise ValueError(f"event kind {self.kind!r} not one of "
+                             f"{sorted(KINDS.values()) + sorted(SCRUBBER_KINDS.values())}")
+
+    @property
+    def is_scrubber(self) -> bool:
+        """A scrubber event (numbered apart: ``S1``; ``area`` holds the scrubber's name)."""
+        return self.kind in SCRUBBER_KINDS.values()
 
     @property
     def label(self) -> str:
-        """The number as drawn (empty for an unnumbered crossing)."""
-        return "" if self.number is None else str(self.number)
+        """The number as drawn (empty for an unnumbered crossing; ``S1`` for a scrubber
+        event)."""
+        if self.number is None:
+            return ""
+        return scrubber_label(self.number) if self.is_scrubber else str(self.number)
 
     @property
     def is_crossing(self) -> bool:
@@ -133,22 +182,26 @@ class PlanEvent:
         """``3 enter Corran Sea ECA: change to mgo`` (the legend and chart line); a moment
         on the clock with its time: ``3 comes into force Tarrow ECA 2027-06-12 00:00Z``."""
         head = f"{self.label} " if self.label else ""
-        at = "" if self.is_crossing or not self.when else f" {self.when}"
+        at = "" if self.is_crossing or self.zone or not self.when else f" {self.when}"
         return f"{head}{self.kind} {self.area}{at}: {self.note}"
 
 
 def _note(r: dict) -> str:
     ev = boundary_event(r)
     if r.get("direction") == "to_compliant":
-        if ev in ("comes_into_force", "cap_change"):
+        if ev in ("comes_into_force", "cap_change", "scrubber_out_of_service"):
             return f"on {r.get('to_fuel')} by then, wherever the ship is"
         if ev == "departure":
             return f"on {r.get('to_fuel')} before departure"
+        if ev == "zone_enter":
+            return f"on {r.get('to_fuel')} before the zone (the scrubber cannot work in it)"
         return f"on {r.get('to_fuel')} before the boundary"
-    if ev in ("ceases", "cap_change"):
+    if ev in ("ceases", "cap_change", "scrubber_in_service"):
         return f"back to {r.get('to_fuel')} from then"
     if ev == "departure":
         return f"to {r.get('to_fuel')} from departure"
+    if ev == "zone_exit":
+        return f"back to {r.get('to_fuel')} from the zone's exit"
     return f"back to {r.get('to_fuel')} from the exit"
 
 
@@ -172,7 +225,8 @@ def plan_events(crossings: list[dict], changeovers: list[dict],
     """Every crossing (``route --json`` rows: area, event, lat, lon, distance_nm,
     time_utc) and every force event (``force_events`` rows: area, event, time_utc, lat,
     lon, distance_nm) with the number of the changeover made for it, and any changeover
-    tied to neither; in order along the route."""
+    tied to neither (an entry or exit of no crossing: a washwater discharge zone's, marked
+    ``zone``); in order along the route."""
     firsts: dict[int, dict] = {}
     for r in changeovers:
         firsts.setdefault(r["number"], r)
@@ -205,7 +259,8 @@ def plan_events(crossings: list[dict], changeovers: list[dict],
     for n, r in firsts.items():
         if n in used or r.get("boundary_lat") is None:
             continue
-        out.append(PlanEvent(n, KINDS[boundary_event(r)], r["area"], r.get("boundary_utc"),
+        ev = boundary_event(r)
+        out.append(PlanEvent(n, KINDS[ev], r["area"], r.get("boundary_utc"),
                              r["boundary_lat"], r["boundary_lon"], r.get("boundary_nm") or 0.0,
-                             _note(r)))
+                             _note(r), zone=ev in ZONE_EVENTS))
     return sorted(out, key=lambda e: (e.distance_nm, e.time_utc or "", e.number or 0))

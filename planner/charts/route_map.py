@@ -20,6 +20,14 @@ from geo.compliance import RouteCheck
 from geo.ellipsoid import NM_M
 from planner.common.outputs import write_atomic
 
+NOTE_LINES_FIT = 8
+"""Legend lines under the map that fit its foot; the figure grows by each line more."""
+NOTE_LINE_IN = 0.125
+"""The height of one legend line (7 pt monospace), inches."""
+
+LEGEND_ONE_COLUMN = 11
+"""A legend of more entries than this is laid out in two columns."""
+
 AREA_COLOURS = ("#1b9e77", "#7570b3", "#d95f02", "#e7298a", "#66a61e", "#e6ab02")
 
 
@@ -108,7 +116,10 @@ def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | No
     y0, y1 = max(y0, -90.0), min(y1, 90.0)
     aspect = 1.0 / max(np.cos(np.radians(0.5 * (y0 + y1))), 0.05)
     height = float(np.clip(10.0 * (y1 - y0) * aspect / (x1 - x0), 3.0, 9.0))
-    fig, ax = plt.subplots(figsize=(11, height + 1.8), dpi=120)
+    lines = len(check.crossings) + len(notes or []) + (len(check.force_events)
+                                                       if extra is None else 0)
+    grow = max(0, lines - NOTE_LINES_FIT) * NOTE_LINE_IN
+    fig, ax = plt.subplots(figsize=(11, height + 1.8 + grow), dpi=120)
     for k, (track, shape) in enumerate(zip(check.tracks, shapes, strict=True)):
         colour = AREA_COLOURS[k % len(AREA_COLOURS)]
         geom = shapely.intersection(shape.union, window)
@@ -167,6 +178,11 @@ def map_figure(check: RouteCheck, extra=None, labels: list[tuple[str, str]] | No
     ax.set_title(f"Route {check.path.route.name}: areas and boundary crossings "
                  "(sketch, not for navigation)")
     ax.grid(True, lw=0.3)
-    ax.legend(loc="best", fontsize=8)
-    fig.tight_layout(rect=(0, 0.03 + 0.018 * len(notes) / (height + 1.8) * 6, 1, 1))
+    many = len(ax.get_legend_handles_labels()[1]) > LEGEND_ONE_COLUMN
+    ax.legend(loc="best", fontsize=8, ncol=2 if many else 1)
+    bottom, top = 0.03 + 0.018 * len(notes) / (height + 1.8) * 6, 1.0
+    if grow:  # more legend lines than fit: the figure grew by them, and they get its foot
+        bottom = (len(notes) * NOTE_LINE_IN + 0.6) / (height + 1.8 + grow)
+        top = 1.0 - 0.15 / (height + 1.8 + grow)
+    fig.tight_layout(rect=(0, bottom, 1, top))
     return fig

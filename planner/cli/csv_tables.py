@@ -86,8 +86,9 @@ def _done(r: dict) -> tuple:
 
 
 def plan_csv(doc: dict) -> list[CsvTable]:
-    """The plan's tables: changeovers, starts at the confidence, stretches, fuel, SO₂, and
-    the areas coming into force or ceasing while the ship is inside them."""
+    """The plan's tables: changeovers, starts at the confidence, stretches, fuel, SO₂, the
+    areas coming into force or ceasing while the ship is inside them, and the scrubber's
+    events and spans."""
     from planner.charts.plan_events import boundary_event
 
     rows = []
@@ -137,7 +138,39 @@ def plan_csv(doc: dict) -> list[CsvTable]:
                                 f"SO₂ on {doc['regular_fuel']} (kg)"),
                         tuple((a, fx(x["so2_kg"], 1), fx(x["so2_on_regular_kg"], 1))
                               for a, x in doc["so2"]["areas"].items())))
-    return out + force_events_csv(doc)
+    return out + force_events_csv(doc) + scrubber_csv(doc)
+
+
+def scrubber_csv(doc: dict) -> list[CsvTable]:
+    """The scrubber's events (numbered S1, S2 ... as on the map, chart, PDF and GPX) and
+    its spans: the document's ``scrubber_events`` and ``scrubber_spans`` (no file without
+    them, so a plan without a scrubber writes the files it always wrote)."""
+    from planner.charts.scrubber_marks import event_rows
+
+    out = []
+    events, spans = event_rows(doc), doc.get("scrubber_spans") or []
+    if events:
+        out.append(CsvTable("scrubber_events", (
+            "Scrubber event", "Scrubber", "Kind", "Mode", "Time (UTC, ISO 8601)",
+            "Time (ship's time, ISO 8601)", "Latitude (°)", "Longitude (°)", "Position (° ')",
+            "Distance (nm)", "Action", "Reason"), tuple(
+            (e["label"], e["scrubber"], e["event"], e.get("mode") or "",
+             e["utc"], e.get("ship_time") or "", fx(e["lat"], 6), fx(e["lon"], 6),
+             dm(e["lat"], e["lon"]), fx(e["distance_nm"], 3), e["action"],
+             e.get("reason") or "") for e in events)))
+    if spans:
+        out.append(CsvTable("scrubber_spans", (
+            "Scrubber", "Circuits", "Fuel", "Fallback fuel", "Limit (% m/m)", "Mode",
+            "From (nm)", "To (nm)", "From (UTC, ISO 8601)", "From (ship's time, ISO 8601)",
+            "From position (° ')", "To (UTC, ISO 8601)", "To (ship's time, ISO 8601)",
+            "To position (° ')", "Duration (h)", "Areas"), tuple(
+            (s["scrubber"], "; ".join(s["circuits"]), s["fuel"], s.get("fallback_fuel") or "",
+             fx(s["limit_pct"], 3), s["mode"], fx(s["from_nm"], 3), fx(s["to_nm"], 3),
+             s["from_utc"], s.get("from_ship_time") or "",
+             dm(s.get("from_lat"), s.get("from_lon")), s["to_utc"],
+             s.get("to_ship_time") or "", dm(s.get("to_lat"), s.get("to_lon")),
+             fx(s.get("duration_h"), 3), "; ".join(s.get("areas") or [])) for s in spans)))
+    return out
 
 
 def force_events_csv(doc: dict) -> list[CsvTable]:

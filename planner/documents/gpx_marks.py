@@ -4,7 +4,9 @@ Every changeover's start point (per circuit), its compliant point (going in)
 or complete point (going back), each boundary crossing (numbered as the
 plan's changeovers, unnumbered where none is made) and each area coming into
 force or ceasing while the ship is inside it (``CO3 comes into force``, type
-``comes into force``, at the ship's position at that moment, with its time) as
+``comes into force``, at the ship's position at that moment, with its time) and
+each scrubber event (``S2 EGCS 1 mode change``, type ``scrubber mode change``,
+numbered as in the plan's scrubber table, with the action in the comment) as
 a ``wpt`` with its name, UTC time, a comment and a type, so they load as marks
 beside the route. The
 route itself stays in its own file (the voyage's route file, any format): these
@@ -48,7 +50,8 @@ def _lon(lon: float) -> float:
 
 
 def plan_waypoints(doc: dict, events: Sequence[PlanEvent]) -> list[Waypoint]:
-    """The plan's marks, in time order: starts, compliant or complete points, crossings."""
+    """The plan's marks, in time order: starts, compliant or complete points, crossings,
+    force events and scrubber events."""
     out = []
     for r in doc["changeovers"]:
         n, c = r["number"], r["circuit"]
@@ -71,7 +74,11 @@ def plan_waypoints(doc: dict, events: Sequence[PlanEvent]) -> list[Waypoint]:
         seen[name] = seen.get(name, 0) + 1
         if seen[name] > 1:  # the same area left twice: names stay unique on the chart
             name = f"{name} ({seen[name]})"
-        if e.is_crossing:
+        if e.is_scrubber:  # the scrubber's name is in the event's area
+            out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
+                                f"{e.label} {e.kind} {e.area} {e.when} (UTC), at "
+                                f"{e.distance_nm:,.1f} nm: {e.note}", e.kind))
+        elif e.is_crossing or e.zone:
             out.append(Waypoint(e.lat, e.lon, e.time_utc, name,
                                 f"{e.kind} {e.area} at {e.distance_nm:,.1f} nm: {e.note}",
                                 "boundary"))
@@ -83,8 +90,11 @@ def plan_waypoints(doc: dict, events: Sequence[PlanEvent]) -> list[Waypoint]:
 
 
 def _event_name(e: PlanEvent) -> str:
-    """``CO3 boundary``, ``CO3 comes into force``, ``exit Corran Sea ECA`` ..."""
-    what = "boundary" if e.is_crossing else e.kind
+    """``CO3 boundary``, ``CO3 comes into force``, ``exit Corran Sea ECA``, ``S2 EGCS 1
+    mode change`` ..."""
+    if e.is_scrubber:
+        return f"{e.label} {e.area} {e.kind.removeprefix('scrubber ')}"
+    what = "boundary" if e.is_crossing or e.zone else e.kind
     if e.number is not None:
         return f"CO{e.number} {what}"
     return f"{e.kind} {e.area}"

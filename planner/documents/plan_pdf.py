@@ -7,7 +7,9 @@ arrival, the ship's time and the planning margins; then the changeovers,
 grouped by boundary: each boundary (area, entry or exit, time in UTC and
 ship's time, position) once, with every circuit's changeover beneath it (fuel
 from and to, start in UTC and ship's time and position, compliant or complete
-time and position, margin, duration); the route map and the sulphur chart
+time and position, margin, duration); where the plan relies on a scrubber, the
+section "Scrubber" (:mod:`planner.documents.plan_pdf_scrubber`: its spans, its
+events S1, S2 ... and the caution); the route map and the sulphur chart
 when given (their events numbered as the changeovers). Then the fuel burnt and the SO2 formed
 on each stretch, the fuel needed against what is on board, SO2 inside each
 area against the regular fuel, the notes, the warnings (highlighted), the
@@ -32,6 +34,7 @@ from pathlib import Path
 
 from planner.documents.pdf_common import build_pdf, figure, title_block
 from planner.documents.plan_pdf_cells import keep, plain
+from planner.documents.plan_pdf_scrubber import scrubber_section
 from planner.documents.plan_pdf_sections import (
     cautions,
     notes_and_warnings,
@@ -69,6 +72,7 @@ def write_plan_pdf(target: str | Path, doc: dict, *, printed_at: datetime | None
     story = title_block(TITLE, SUBTITLE, title_facts(doc))
     story += changeover_table(doc)
     story += confidence_table(doc)
+    story += scrubber_section(doc)
     for png, caption in figures:
         story += figure(png, plain(caption))
     story += keep(stretch_table(doc))

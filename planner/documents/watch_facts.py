@@ -7,7 +7,11 @@ valve switch, every inlet at the limit, the target reached or back on regular
 fuel), then the expected readings at regular clock times from the first switch
 to the last completion: the worst inlet's sulphur [% m/m], the inlets'
 viscosity range [cSt] and temperature [°C] from the flushing model and the
-inlet temperature path (:mod:`planner.ship.thermal`). Times are aware UTC
+inlet temperature path (:mod:`planner.ship.thermal`). Where the plan relies on a
+scrubber, the scrubber events near a changeover are steps of its sheet, and a
+:class:`ScrubberSheet` lists every scrubber event by the ship's watch (four
+hours of ship's time) with its action, numbered ``S1``, ``S2`` ... as the
+plan's scrubber table. Times are aware UTC
 datetimes with the ship's zone at that moment. Pure computation (no reportlab).
 """
 
@@ -21,6 +25,11 @@ import numpy as np
 
 from geo.ellipsoid import NM_M
 from planner.voyage.plan import Plan
+
+SCRUBBER_WINDOW_H = 1.0
+"""A scrubber event this close [h] to a changeover's first or last step is on its sheet."""
+WATCH_H = 4
+"""The ship's watches: four hours of ship's time each, from 00:00."""
 
 INTERVALS_MIN = (5, 10, 15, 20, 30, 60, 120)
 """Candidate reading intervals, minutes; the smallest giving at most :data:`MAX_READINGS`."""
@@ -49,6 +58,8 @@ class Step:
     circuit: str
     what: str
     record: bool = False
+    record_as: str = ""
+    """The step's short name in the record's table (empty: from :attr:`what`)."""
 
 
 @dataclass(frozen=True)
@@ -178,8 +189,11 @@ def _readings(plan: Plan, parts) -> tuple[list[Reading], int]:
     return [Reading(_moment(plan, t), _reading(parts, t)) for t in times], step
 
 
-def watch_sheets(plan: Plan) -> list[WatchSheet]:
-    """One sheet per changeover of the plan, numbered as in its ``--json`` document."""
+def watch_sheets(plan: Plan) -> list[WatchSheet | ScrubberSheet]:
+    """One sheet per changeover of the plan, numbered as in its ``--json`` document; then,
+    when the plan relies on a scrubber, its sheet (:class:`ScrubberSheet`). A scrubber
+    event within :data:`SCRUBBER_WINDOW_H` of a changeover's steps is a step of that
+    changeover's sheet too."""
     out = []
     tanks = tuple((name, max(t.content_m3.items(), key=lambda kv: kv[1])[0])
                   for name, t in plan.system.tanks.items())
@@ -192,6 +206,7 @@ def watch_sheets(plan: Plan) -> list[WatchSheet]:
         assert boundary is not None
         steps.append(Step(boundary, "", _boundary_step(ch.boundary_event, ch.area, down),
                           record=True))
+        steps = _scrubber_steps(plan, steps) + steps  # a start before the switch it allows
         steps.sort(key=lambda s: (s.when is None, s.when.utc if s.when else 0))
         readings, step = _readings(plan, ch.circuits)
         out.append(WatchSheet(
@@ -199,7 +214,84 @@ def watch_sheets(plan: Plan) -> list[WatchSheet]:
             ch.target_pct if down else None, tuple(p.circuit for p in ch.circuits),
             tuple(f"{p.from_fuel} → {p.to_fuel}" for p in ch.circuits), tuple(steps),
             tuple(readings), step, tanks, ch.boundary_event))
+    if plan.scrubber_events:
+        out.append(scrubber_sheet(plan))
     return out
+
+
+@dataclass(frozen=True)
+class ScrubberDue:
+    """A scrubber event as the watch acts on it: its label (``S2``), the scrubber, the
+    kind, the mode from then on (or None), the moment, the action and why, and the
+    ship's watch it falls in (``08-12``, ship's time)."""
+
+    label: str
+    scrubber: str
+    kind: str
+    mode: str | None
+    when: Moment
+    distance_nm: float
+    action: str
+    reason: str
+    watch: str
+
+
+@dataclass(frozen=True)
+class ScrubberSheet:
+    """The scrubber's sheet: every scrubber event of the voyage, by the ship's watch."""
+
+    events: tuple[ScrubberDue, ...]
+
+    @property
+    def watches(self) -> list[tuple[str, list[ScrubberDue]]]:
+        """``(ship's date and watch, events)`` in time order: ``("2027-05-30 08-12", [..])``."""
+        out: list[tuple[str, list[ScrubberDue]]] = []
+        for e in self.events:
+            day = e.when.utc.astimezone(e.when.ship_tz).strftime("%Y-%m-%d")
+            key = f"{day} {e.watch}"
+            if out and out[-1][0] == key:
+                out[-1][1].append(e)
+            else:
+                out.append((key, [e]))
+        return out
+
+
+def watch_of(m: Moment) -> str:
+    """The ship's watch of a moment, by ship's time: ``00-04``, ``04-08`` ... ``20-24``."""
+    hour = m.utc.astimezone(m.ship_tz).hour // WATCH_H * WATCH_H
+    return f"{hour:02d}-{hour + WATCH_H:02d}"
+
+
+def _scrubber_due(plan: Plan) -> list[ScrubberDue]:
+    """The plan's scrubber events in time order, numbered as its rows (``S1`` ...)."""
+    from planner.charts.scrubber_marks import event_rows
+    from planner.voyage.report import scrubber_json
+
+    rows = event_rows(scrubber_json(plan))
+    out = []
+    for e, r in zip(plan.scrubber_events, rows, strict=True):  # numbered in the plan's order
+        m = _moment(plan, e.epoch_s)
+        assert m is not None
+        out.append(ScrubberDue(r["label"], e.scrubber, e.kind, e.mode, m, r["distance_nm"],
+                               r["action"], e.reason, watch_of(m)))
+    return out
+
+
+def scrubber_sheet(plan: Plan) -> ScrubberSheet:
+    """The scrubber's sheet of the plan: every scrubber event with its watch."""
+    return ScrubberSheet(tuple(_scrubber_due(plan)))
+
+
+def _scrubber_steps(plan: Plan, steps: list[Step]) -> list[Step]:
+    """The scrubber events near a changeover's steps, as steps of its sheet."""
+    if not plan.scrubber_events:
+        return []
+    timed = [s.when.utc for s in steps if s.when is not None]
+    lo = min(timed) - timedelta(hours=SCRUBBER_WINDOW_H)
+    hi = max(timed) + timedelta(hours=SCRUBBER_WINDOW_H)
+    return [Step(d.when, d.scrubber, f"{d.label}: {d.action}", record=True,
+                 record_as=f"{d.label} {d.kind.replace('_', ' ')}")
+            for d in _scrubber_due(plan) if lo <= d.when.utc <= hi]
 
 
 def _boundary_step(event: str, area: str, down: bool) -> str:
@@ -215,6 +307,12 @@ def _boundary_step(event: str, area: str, down: bool) -> str:
     if event == "ceases":
         return (f"ceases: {area} ceases to apply now, wherever the ship is (the switch back "
                 "may begin; note the position)")
+    if event == "scrubber_out_of_service":
+        return ("scrubber out: the scrubber is out of service from now (every inlet it served "
+                "compliant by now; note the position)")
+    if event == "scrubber_in_service":
+        return ("scrubber back: the scrubber is back in service from now (the switch back to "
+                "the high-sulphur fuel may begin; note the position)")
     return f"boundary: {'enter' if down else 'exit'} {area} (" + (
         "every inlet compliant by now" if down else "the switch back may begin") + ")"
 

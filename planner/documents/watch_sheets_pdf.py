@@ -6,7 +6,10 @@ and ship's time) and positions; the expected readings at regular clock times
 with a blank column to write each reading taken; blank fields for what the
 record needs (MARPOL Annex VI reg. 14.6: date, time and position of each valve
 switch and completion, the boundary crossed, and the sounding of each tank),
-and the signature lines. Built from :mod:`planner.documents.watch_facts`.
+and the signature lines. Where the plan relies on a scrubber, its events near a
+changeover are steps of that page, and a last page lists every scrubber event
+by the ship's watch with its action. Built from
+:mod:`planner.documents.watch_facts`.
 
 Printed in black on white only (rules and light grey, no colour meaning), in
 fonts of 8 pt or more, laid out for the narrower and shorter of A4 and US
@@ -28,7 +31,7 @@ from planner.documents.pdf_common import (
     para,
 )
 from planner.documents.plan_pdf_cells import plain, pos_text
-from planner.documents.watch_facts import Moment, WatchSheet, offset
+from planner.documents.watch_facts import Moment, ScrubberSheet, WatchSheet, offset
 
 TITLE = "Changeover watch sheet"
 WIDTH_MM = 178.0  # the A4 frame; US Letter's is wider, its page shorter (checked in tests)
@@ -132,7 +135,9 @@ def _event(what: str) -> str:
     if head.startswith("departure"):
         return "departed"
     return {"switch the valve": "valve switched", "boundary": "boundary crossed",
-            "in force": "in force (position)", "ceases": "ceased (position)"}.get(head, head)
+            "in force": "in force (position)", "ceases": "ceased (position)",
+            "scrubber out": "scrubber out of service (position)",
+            "scrubber back": "scrubber back in service (position)"}.get(head, head)
 
 
 def _record(s: WatchSheet) -> list:
@@ -142,8 +147,8 @@ def _record(s: WatchSheet) -> list:
     from reportlab.platypus import Table, TableStyle
 
     events = [st for st in s.steps if st.record]
-    rows = [[plain(f"{st.circuit or 'bridge'}: {_event(st.what)}"), "", "", ""]
-            for st in events]
+    rows = [[plain(f"{st.circuit or 'bridge'}: {st.record_as or _event(st.what)}"), "", "",
+             ""] for st in events]
     t = data_table(["Event", "Date, time UTC", "Position", "Initials"], rows,
                    [36, 24, 27, 14], zebra=False)
     tanks = [[name, fuel, "", ""] for name, fuel in s.tanks]
@@ -199,10 +204,45 @@ def sheet_story(s: WatchSheet) -> list:
                     "small")])
 
 
-def write_watch_sheets(target: str | Path, sheets: Sequence[WatchSheet], *, ship: str,
+def scrubber_story(s: ScrubberSheet) -> list:
+    """The scrubber's page: every scrubber event by the ship's watch, with its action, the
+    planned position and blanks for the actual time and initials."""
+    from reportlab.lib import colors
+    from reportlab.platypus import TableStyle
+
+    from planner.charts.scrubber_marks import CAUTION
+
+    rows, firsts = [], []
+    for watch, due in s.watches:
+        firsts.append(len(rows) + 1)
+        for k, d in enumerate(due):
+            utc = d.when.utc.astimezone(UTC)
+            ship = d.when.utc.astimezone(d.when.ship_tz)
+            why = f"<br/>{esc(plain(d.reason))}" if d.reason else ""
+            rows.append([plain(watch) if k == 0 else "", Markup(f"<b>{esc(d.label)}</b>"),
+                         f"{utc:%Y-%m-%d %H:%M}Z", f"{ship:%Y-%m-%d %H:%M} ({offset(d.when)})",
+                         plain(d.scrubber),
+                         Markup(f"<b>{esc(plain(d.action))}</b>{why}"),
+                         pos_text(d.when.lat, d.when.lon), "", ""])
+    t = data_table(["Watch (ship's time)", "No.", "UTC", "Ship's time", "Scrubber",
+                    "Action, and why", "Planned position", "Actual UTC", "Init."], rows,
+                   [18, 8, 17, 19, 16, 54, 21, 15, 10], zebra=False, compact=True)
+    t.setStyle(TableStyle([("LINEABOVE", (0, r), (-1, r), 0.6, colors.HexColor("#1a1a1a"))
+                           for r in firsts]))
+    first, last = s.events[0].label, s.events[-1].label
+    text = ("Each scrubber event in the watch it falls in (four-hour watches of ship's time), "
+            "numbered as in the plan's scrubber table, on its map, chart and GPX marks. Write "
+            "the actual time of each and initial it.")
+    return [para(plain(f"Scrubber watch sheet: {first} to {last}"), "h1"),
+            para(plain(CAUTION), "small"), para(text, "small"), t] + _signatures()
+
+
+def write_watch_sheets(target: str | Path, sheets: Sequence[WatchSheet | ScrubberSheet], *,
+                       ship: str,
                        voyage: str, paper: str = "a4",
                        printed_at: datetime | None = None) -> None:
-    """Write one page per changeover to ``target`` (A4 or US Letter), all-or-nothing."""
+    """Write one page per changeover to ``target`` (A4 or US Letter), and the scrubber's
+    page when there is one, all-or-nothing."""
     from reportlab.platypus import PageBreak
 
     printed_at = printed_at or datetime.now(UTC).replace(microsecond=0)
@@ -210,7 +250,7 @@ def write_watch_sheets(target: str | Path, sheets: Sequence[WatchSheet], *, ship
     for k, s in enumerate(sheets):
         if k:
             story.append(PageBreak())
-        story += sheet_story(s)
+        story += scrubber_story(s) if isinstance(s, ScrubberSheet) else sheet_story(s)
     if not story:
         story = [para("No changeover is needed on this voyage.", "h1")]
     build_pdf(target, story, title=TITLE, header_right=plain(ship),

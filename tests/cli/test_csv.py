@@ -24,7 +24,9 @@ UNIT = re.compile(r"\((h|nm|t|kg|°|° '|kn|m³|m³/h|min|cSt|% m/m|% MCR|m³ at
                   r"UTC, ISO 8601|ship's time, ISO 8601|fraction|t, by fuel|\+12:00|"
                   r"h after the switch)\)$")
 WORDS = {"Area", "Circuit", "Direction", "From fuel", "To fuel", "Fuel", "Under", "Event",
-         "In force", "Clock deadline", "Main driver", "Volume", "Kind", "Fed from"}
+         "In force", "Clock deadline", "Main driver", "Volume", "Kind", "Fed from",
+         "Scrubber event", "Scrubber", "Mode", "Action", "Reason", "Circuits", "Fallback fuel",
+         "Areas"}
 
 
 
@@ -109,3 +111,45 @@ def test_csv_onto_a_file_is_bad_input_nothing_written(tmp_path):
     lines = r.stderr.strip().splitlines()
     assert len(lines) == 1 and "--csv" in lines[0] and "folder" in lines[0]
     assert not pdf.exists() and target.read_text() == "x"
+
+
+def test_plan_csv_scrubber_events(tmp_path):
+    """The scrubber sample (areas_sample/egcs_voyage.toml, fictional): a scrubber_events
+    and a scrubber_spans table, one row per row of the ``--json`` document, the events
+    labelled S1, S2 ... in their order, positions in degrees and in degrees and minutes."""
+    out = tmp_path / "egcs_csv"
+    r = run("plan", "areas_sample/egcs_voyage.toml", "--csv", str(out))
+    assert r.returncode == 0, r.stderr
+    doc = json.loads(run("plan", "areas_sample/egcs_voyage.toml", "--json").stdout)
+    events = read(out / "scrubber_events.csv")
+    assert len(events) == len(doc["scrubber_events"]) >= 4
+    for row, e in zip(events, doc["scrubber_events"], strict=True):
+        assert row["Scrubber event"] == f"S{e['number']}"
+        assert (row["Scrubber"], row["Kind"], row["Mode"]) == (e["scrubber"], e["event"],
+                                                              e["mode"] or "")
+        assert row["Time (UTC, ISO 8601)"] == e["utc"]
+        assert row["Time (ship's time, ISO 8601)"] == e["ship_time"]
+        assert abs(float(row["Latitude (°)"]) - e["lat"]) < 5e-7
+        assert row["Position (° ')"] == position(e["lat"], e["lon"])
+        assert row["Reason"] == e["reason"] and row["Action"]
+    spans = read(out / "scrubber_spans.csv")
+    assert len(spans) == len(doc["scrubber_spans"])
+    for row, s in zip(spans, doc["scrubber_spans"], strict=True):
+        assert row["Mode"] == s["mode"] and row["Fallback fuel"] == s["fallback_fuel"]
+        assert abs(float(row["Duration (h)"]) - s["duration_h"]) < 5e-4
+    assert f"wrote {out / 'scrubber_events.csv'}" in r.stdout
+
+
+def test_scrubber_csv_neutralises_formula_cells():
+    """A reason or a scrubber name that a spreadsheet would read as a formula is written as
+    text (common practice: a leading apostrophe)."""
+    from planner.cli.csv_tables import scrubber_csv
+    from planner.common.csv_cells import csv_text
+
+    e = {"number": 1, "scrubber": "=EGCS", "event": "start", "mode": "open",
+         "utc": "2027-05-30T00:00:00Z", "ship_time": "2027-05-30T12:00+12:00", "lat": -39.5,
+         "lon": 170.0, "distance_nm": 1.0, "reason": "+1 cmd"}
+    [t] = scrubber_csv({"scrubber_events": [e]})
+    text = csv_text(t.header, t.rows)
+    assert "'=EGCS" in text and "'+1 cmd" in text
+    assert scrubber_csv({}) == [] == scrubber_csv({"scrubber_events": [], "scrubbers": []})
