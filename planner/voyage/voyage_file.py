@@ -56,11 +56,12 @@ from planner.common.input_files import read_toml
 from planner.common.keys import check_keys
 from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
+from planner.voyage.bunkering_file import BUNKERING_KEYS, Bunkering, load_bunkering
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
              "q_net_mj_kg", "flash_point_c")
-TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty")
+TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty") + BUNKERING_KEYS
 VOYAGE_KEYS = ("name", "ship", "route", "areas", "caution_zones", "depart", "ship_time",
                "speed_kn", "zone_change")
 ZONE_CHANGE_KEYS = ("at_utc", "ship_time")
@@ -158,6 +159,9 @@ class Voyage:
         Less than this fully on regular fuel between two areas: stay on compliant fuel.
     port : PortSpec
         The ship alongside before departure and after arrival.
+    bunkering : Bunkering
+        Bunker ports on the way and attempts to buy compliant fuel
+        (:mod:`planner.voyage.bunkering_file`).
     """
 
     file: str
@@ -178,6 +182,7 @@ class Voyage:
     fuel_choice_margin: float = 0.0
     min_time_on_regular_h: float = DEFAULT_MIN_TIME_ON_REGULAR_H
     port: PortSpec = field(default_factory=PortSpec)
+    bunkering: Bunkering = field(default_factory=Bunkering)
 
     def fuel(self, name: str) -> Fuel:
         """The delivery-note fuel called ``name``.
@@ -354,7 +359,7 @@ def load_voyage(path: str | Path) -> Voyage:
     port = _port(_table(doc, "port", file, required=False), file, names)
     return Voyage(file, _text(v, "name", file, "voyage", required=False) or p.stem, ship, route,
                   areas, depart, tz, speed, fuels, tanks, tuple(changes), cautions, margin_h,
-                  frac, conf, choice, regular_h, port)
+                  frac, conf, choice, regular_h, port, bunkering=load_bunkering(doc, file))
 
 
 def _loads(tab: dict, key: str, file: str) -> dict[str, float] | None:
