@@ -11,6 +11,10 @@ finds a stored file that is missing, or whose bytes no longer give the entry's h
 Refused with one line, nothing written: an entry number the journal does not have, a
 correction's number, an entry that is not a changeover start or completion, a struck-out
 one; a missing, unreadable or non-regular file, or one over the cap.
+
+A ``report`` entry (a document made, :mod:`planner.journal.reports`) keeps its file the
+same way: :func:`read_file_bytes` reads it, :func:`store_attachment` stores it and
+:func:`attachment_problems` checks it (:data:`ATTACHING`).
 """
 
 from __future__ import annotations
@@ -28,6 +32,7 @@ from planner.journal.entries import (
     CHANGEOVER_KINDS,
     CORRECTION,
     LABELS,
+    REPORT,
     TREND,
     Entry,
     Person,
@@ -49,30 +54,38 @@ def sha256_hex(data: bytes) -> str:
 def read_trend_bytes(path: str | Path, option: str = "TREND.csv") -> bytes:
     """The bytes of a trend file: a regular file of at most :data:`MAX_TREND_BYTES` bytes
     (one :class:`InputError` line otherwise; a device or a pipe is never read)."""
+    return read_file_bytes(path, option, "trend file", " (CSV)", MAX_TREND_BYTES,
+                           ": cut the export to the changeover")
+
+
+def read_file_bytes(path: str | Path, option: str, noun: str, form: str, cap: int,
+                    hint: str = "") -> bytes:
+    """The bytes of a regular file of at most ``cap`` bytes to attach (one
+    :class:`InputError` line otherwise, naming it a ``noun`` ``form``; a device or a pipe is
+    never read; ``hint`` follows the size refusal)."""
     p = Path(path)
     try:
         st = p.stat()
     except FileNotFoundError:
-        raise InputError(option, "", str(path), "an existing trend file (CSV)") from None
+        raise InputError(option, "", str(path), f"an existing {noun}{form}") from None
     except OSError as exc:
         raise InputError(str(path), "", exc.strerror or str(exc),
-                         "a trend file you may read") from None
+                         f"a {noun} you may read") from None
     if not stat.S_ISREG(st.st_mode):
         what = "a folder" if stat.S_ISDIR(st.st_mode) else "not a regular file"
-        raise InputError(option, "", str(path), f"a regular trend file (CSV); it is {what}")
-    if st.st_size > MAX_TREND_BYTES:
+        raise InputError(option, "", str(path), f"a regular {noun}{form}; it is {what}")
+    if st.st_size > cap:
         raise InputError(str(path), "file size", f"{st.st_size} bytes",
-                         f"a trend file of at most {MAX_TREND_BYTES} bytes "
-                         f"({MAX_TREND_BYTES // 2**20} MiB): cut the export to the changeover")
+                         f"a {noun} of at most {cap} bytes ({cap // 2**20} MiB){hint}")
     try:
         with p.open("rb") as f:
-            data = f.read(MAX_TREND_BYTES + 1)
+            data = f.read(cap + 1)
     except OSError as exc:
         raise InputError(str(path), "", exc.strerror or str(exc),
-                         "a trend file you may read") from None
-    if len(data) > MAX_TREND_BYTES:  # grew while read
-        raise InputError(str(path), "file size", f"over {MAX_TREND_BYTES} bytes",
-                         f"a trend file of at most {MAX_TREND_BYTES} bytes")
+                         f"a {noun} you may read") from None
+    if len(data) > cap:  # grew while read
+        raise InputError(str(path), "file size", f"over {cap} bytes",
+                         f"a {noun} of at most {cap} bytes")
     return data
 
 
@@ -133,14 +146,19 @@ def store_attachment(conn, data: bytes) -> str:
     return digest
 
 
+ATTACHING = {TREND: "trend file", REPORT: "document"}
+"""The kinds of entry that attach a file's bytes, and what the file is called."""
+
+
 def attachment_problems(rows: Iterable[Row], stored: Mapping[str, tuple[int, bytes]]
                         ) -> list[Problem]:
-    """Each trend entry whose file is missing from ``stored`` (``{sha256: (size, bytes)}``)
-    or whose stored bytes no longer give the SHA-256 (and size) the entry holds; and each
+    """Each trend or report entry whose file is missing from ``stored`` (``{sha256: (size,
+    bytes)}``) or whose stored bytes no longer give the SHA-256 (and size) the entry holds; and each
     stored file whose bytes do not match the hash it is kept under."""
     out = []
     for row in rows:
-        if row.kind != TREND:
+        noun = ATTACHING.get(row.kind)
+        if noun is None:
             continue
         try:
             d = json.loads(row.body)["record"]["details"]
@@ -148,12 +166,12 @@ def attachment_problems(rows: Iterable[Row], stored: Mapping[str, tuple[int, byt
         except (ValueError, KeyError, TypeError):
             continue        # the content check names an unreadable entry
         if digest not in stored:
-            out.append(Problem(row.seq, "its trend file's bytes are missing from the journal "
+            out.append(Problem(row.seq, f"its {noun}'s bytes are missing from the journal "
                                         "(removed)"))
             continue
         kept_size, data = stored[digest]
         if sha256_hex(data) != digest or len(data) != size or kept_size != size:
-            out.append(Problem(row.seq, "its trend file's stored bytes do not give the SHA-256 "
+            out.append(Problem(row.seq, f"its {noun}'s stored bytes do not give the SHA-256 "
                                         "the entry holds: the file was changed"))
     for digest, (_, data) in stored.items():
         if sha256_hex(data) != digest and not any(
@@ -161,7 +179,6 @@ def attachment_problems(rows: Iterable[Row], stored: Mapping[str, tuple[int, byt
             out.append(Problem(None, f"an attached file kept under {digest[:16]}… does not "
                                      "match that hash (changed)"))
     return out
-
 
 
 def trend_entry(number: int, who: Person, file_name: str, data: bytes,

@@ -18,7 +18,7 @@ import typing
 from dataclasses import MISSING, Field, fields, is_dataclass
 from datetime import UTC, datetime
 
-from planner.journal.details import DETAIL_TYPES
+from planner.journal.details_kinds import DETAIL_TYPES
 from planner.journal.entries import Entry
 
 

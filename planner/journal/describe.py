@@ -10,6 +10,7 @@ from datetime import datetime
 
 from geo.position import format_position
 from planner.common.timefmt import format_ship, format_utc
+from planner.journal.describe_kinds import report_text, scrubber_text
 from planner.journal.details import FuelSpec, FuelUse, TankReading
 from planner.journal.entries import (
     BACK_COMMENCED,
@@ -84,7 +85,7 @@ def sample_and_text(d: object) -> list[str]:
 def trend_text(d: object) -> list[str]:
     """A trend attachment in words: ``trend ME_inlet.csv, 48 213 bytes, SHA-256 ...``, the
     entry it belongs to, the switch time and the column mapping when given (else ``[]``)."""
-    if getattr(d, "sha256", None) is None:
+    if getattr(d, "attaches", None) is None:
         return []
     out = [f"trend {d.file_name}, {d.size_bytes} bytes, SHA-256 {d.sha256}",
            f"attached to entry {d.attaches}"]
@@ -254,6 +255,7 @@ def summary(s: Stored, state: JournalState) -> list[str]:
             lines.append(f"  fuel: {fuel_text(FuelUse('subject', d.fuel))}, "
                          f"{d.fuel.density15_kg_m3:.1f} kg/m³ at 15 °C")
             lines += [f"  {x}" for x in bdn_items(d.fuel)]
+        lines += ["  " + x for x in scrubber_text(d) + report_text(d)]
         lines += ["  " + x for x in sample_and_text(d)]
         lines += ["  " + x for x in trend_text(d)]
         lines += ["  " + x for x in against_plan(e.subject_kind, r)]

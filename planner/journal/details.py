@@ -392,9 +392,3 @@ class TrendDetails:
                 return name
         return None
 
-
-Details = (ChangeoverDetails | TankDetails | SampleDetails | NoteDetails | SetupDetails
-           | FuelDetails | TrendDetails)
-DETAIL_TYPES: dict[str, type] = {c.TYPE: c for c in (ChangeoverDetails, TankDetails,
-                                                    SampleDetails, NoteDetails, SetupDetails,
-                                                    FuelDetails, TrendDetails)}

@@ -24,7 +24,6 @@ from datetime import UTC, datetime, timedelta, timezone
 from planner.journal.details import (
     ADDED,
     ChangeoverDetails,
-    Details,
     FuelDetails,
     FuelUse,
     NoteDetails,
@@ -33,6 +32,7 @@ from planner.journal.details import (
     TankDetails,
     TrendDetails,
 )
+from planner.journal.details_kinds import Details, ReportDetails, ScrubberDetails
 
 SETUP = "setup"
 FUEL = "fuel"
@@ -44,6 +44,8 @@ TANKS = "tanks"
 SAMPLE = "sample"
 NOTE = "note"
 TREND = "trend"
+SCRUBBER = "scrubber"
+REPORT = "report"
 CORRECTION = "correction"
 
 CHANGEOVER_KINDS = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED)
@@ -72,6 +74,8 @@ LABELS = {
     SAMPLE: "fuel sample",
     NOTE: "note",
     TREND: "trend file attached",
+    SCRUBBER: "scrubber event",
+    REPORT: "document made",
     CORRECTION: "correction",
 }
 """What each kind means, in words (the relation of a step to the boundary, before or after
@@ -80,11 +84,13 @@ it, is said from the facts where the entry is shown: ``describe.step_heading``).
 DETAILS_OF = {SETUP: SetupDetails, FUEL: FuelDetails, STARTED: ChangeoverDetails,
               COMPLETED: ChangeoverDetails, BACK_COMMENCED: ChangeoverDetails,
               BACK_COMPLETED: ChangeoverDetails, TANKS: TankDetails, SAMPLE: SampleDetails,
-              NOTE: NoteDetails, TREND: TrendDetails}
+              NOTE: NoteDetails, TREND: TrendDetails, SCRUBBER: ScrubberDetails,
+              REPORT: ReportDetails}
 """The details class each (non-correction) kind carries."""
 
 KINDS = tuple(LABELS)
-CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE, NOTE, TREND)
+CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE, NOTE, TREND,
+               SCRUBBER, REPORT)
 """Kinds a correction may correct (set-up and fuel entries are superseded by new ones)."""
 
 MAX_OFFSET_MIN = 14 * 60
@@ -334,6 +340,8 @@ def _check_record(kind: str, r: Record) -> None:
                              "each tank (regulation 14.6)")
         if r.details.follows is not None and kind not in FOLLOWS:
             raise ValueError(f"a {LABELS[kind]} entry follows no other step")
+    if kind == SCRUBBER and r.position is None:
+        raise ValueError("a scrubber event entry needs the position")
     if r.planned is not None and kind in DIRECTION and r.planned.direction != DIRECTION[kind]:
         raise ValueError(f"a {LABELS[kind]} entry cannot carry a plan for a "
                          f"{r.planned.direction} changeover")

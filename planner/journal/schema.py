@@ -22,6 +22,12 @@ export, :mod:`planner.journal.attach`), keyed by their SHA-256; the entry that a
 file holds that hash, so the chain covers the bytes too. Rows are never updated or
 deleted (triggers refuse it, as for the entries).
 
+Version 5: the journal may hold entries of the kinds ``scrubber`` (scrubber events) and
+``report`` (documents made, their bytes in ``attachments``), which a program of version 4
+cannot read: it now refuses the journal as newer than itself (``update changeover``)
+rather than failing on an entry. An index by kind lists them. Taken on the next write;
+nothing else changes.
+
 :func:`schema_problems` names every table, index or trigger of the schema
 that is missing or not as this program wrote it (a trigger dropped to edit
 the entries, say); ``verify`` reports them.
@@ -39,7 +45,7 @@ from planner.journal.canonical import GENESIS_HASH
 APPLICATION_ID = 0x43484F56
 """``PRAGMA application_id`` of a changeover journal (ASCII "CHOV")."""
 
-SCHEMA_VERSION = 4
+SCHEMA_VERSION = 5
 """The schema version this program writes."""
 
 _V1 = f"""
@@ -130,7 +136,11 @@ BEGIN
 END;
 """
 
-MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2, 3: _V3, 4: _V4}
+_V5 = """
+CREATE INDEX entries_by_kind ON entries (kind, time_utc);
+"""
+
+MIGRATIONS: dict[int, str] = {1: _V1, 2: _V2, 3: _V3, 4: _V4, 5: _V5}
 """SQL that takes the schema from version ``n - 1`` to ``n``."""
 
 

@@ -373,7 +373,7 @@ def test_a_journal_made_by_schema_version_2_is_read_and_migrated(tmp_path):
     assert "written by schema version 2" in ok(j, "show")
     ok(j, "note", "written by schema version 4")               # writing migrates it
     conn = sqlite3.connect(j)
-    assert conn.execute("PRAGMA user_version").fetchone()[0] == 4
+    assert conn.execute("PRAGMA user_version").fetchone()[0] == 5
     with pytest.raises(sqlite3.DatabaseError, match="journal head"):
         conn.execute("UPDATE head SET seq = 1")
     conn.close()
