@@ -15,6 +15,7 @@ from typing import TYPE_CHECKING, Annotated
 
 import typer
 
+from planner.cli.log_options import NameOpt, RankOpt
 from planner.cli.options import JsonOpt
 
 if TYPE_CHECKING:
@@ -27,7 +28,11 @@ def nonavailability_cmd(
     pdf: Annotated[Path | None, typer.Option(help="The report to write (PDF).")] = None,
     journal: Annotated[Path | None, typer.Option(help="The ship's journal: its ship identity, "
                                                  "latest tank soundings and fuel entries go "
-                                                 "into the report (read only).")] = None,
+                                                 "into the report, and the report is "
+                                                 "recorded in it (a report entry with the "
+                                                 "PDF's bytes).")] = None,
+    rank: RankOpt = None,
+    name: NameOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """The fuel oil non-availability report (MARPOL Annex VI regulation 18.2) as a PDF.
@@ -41,6 +46,8 @@ def nonavailability_cmd(
     if pdf is None:
         raise InputError("--pdf", "", None, "the PDF file to write, e.g. --pdf fonar.pdf")
     check_outputs({"--pdf": pdf})
+    if journal is not None:
+        _check_signer(rank, name)
     from planner.cli.progress import status
     from planner.voyage import run
     from planner.voyage.report import plan_json
@@ -57,12 +64,42 @@ def nonavailability_cmd(
 
     write_nonavailability_pdf(pdf, facts)
     facts["pdf"] = str(pdf)
+    facts["journal_entry"] = None
+    if journal is not None:
+        facts["journal_entry"] = _record(journal, pdf, facts, rank or "", name or "")
     if json_out:
         from planner.common.outputs import dumps
 
         typer.echo(dumps(facts))
         return
     _print(facts, pdf)
+
+
+def _check_signer(rank: str | None, name: str | None) -> None:
+    """Who records the report in the journal: rank and name, checked before anything is
+    written."""
+    from geo.errors import InputError
+
+    for opt, v in (("--rank", rank), ("--name", name)):
+        if not v or not v.strip():
+            raise InputError(opt, "", None, "who records the report in the journal: rank and "
+                             "name as they sign (or set CHANGEOVER_RANK and CHANGEOVER_NAME)")
+
+
+def _record(journal: Path, pdf: Path, facts: dict, rank: str, name: str) -> int:
+    """The report recorded in the journal (its bytes kept); the new entry's number."""
+    from datetime import UTC, datetime
+
+    from planner.documents.nonavailability_pdf import TITLE
+    from planner.journal.reports import record_document
+
+    sf = facts["shortfall"]
+    short = "; ".join(f"{f['fuel']} {f['short_t']:.1f} t short" for f in sf["fuels"]) if sf \
+        else "no compliant fuel short in the plan"
+    note = (f"voyage file {facts['voyage_plan']['file']}: {short}; "
+            f"{len(facts['purchase_attempts'])} purchase attempt(s)")
+    return record_document(journal, pdf, "nonavailability", TITLE, datetime.now(UTC), name,
+                           note, rank=rank, voyage=facts["voyage_plan"]["voyage"])
 
 
 def journal_facts(path: Path, ship: dict) -> dict:
@@ -158,4 +195,7 @@ def _print(facts: dict, pdf: Path) -> None:
     out += text_lines(f"wrote {pdf}: fuel oil non-availability report of {facts['ship']['name']}"
                       f", {n} purchase attempt(s), to be completed and signed by the master",
                       cols)
+    if facts.get("journal_entry") is not None:
+        out += text_lines(f"recorded in the journal {facts['journal']['file']} as entry "
+                          f"{facts['journal_entry']} (report, the PDF's bytes kept)", cols)
     echo_lines(out)
