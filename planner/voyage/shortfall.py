@@ -250,7 +250,7 @@ def run_out_at(plan: Plan, epoch_s: float) -> RunOut:
     lat, lon, d = tl.position(epoch_s)
     where = ("before_departure" if epoch_s < tl.start_epoch_s
              else "after_arrival" if epoch_s > tl.end_epoch_s else "at_sea")
-    return RunOut(epoch_s, d, lat, lon, where)
+    return RunOut(float(epoch_s), float(d), float(lat), float(lon), where)
 
 
 def short_stretches(plan: Plan, fuel: str, run_out: RunOut) -> list[ShortStretch]:
@@ -278,7 +278,8 @@ def short_stretches(plan: Plan, fuel: str, run_out: RunOut) -> list[ShortStretch
         a = max(st.from_m, run_out.distance_m)
         t0 = max(float(sched.epoch_at([a])[0]), min(run_out.epoch_s, t1))
         if st.to_m - a > 1e-6 or t1 - t0 > 1e-6:
-            out.append(ShortStretch(tuple(st.areas), st.limit_pct, a, st.to_m, t0, t1))
+            out.append(ShortStretch(tuple(st.areas), float(st.limit_pct), float(a),
+                                    float(st.to_m), float(t0), float(t1)))
     return out
 
 
@@ -315,6 +316,6 @@ def fuel_shortages(plan: Plan) -> list[FuelShortage]:
         if plan.runs[-1].areas and plan.runs[-1].fuel.name == name:
             end = tl.end_epoch_s + alongside_h(tl, plan.runs) * 3600.0
             port_h = max(0.0, end - max(moment, tl.end_epoch_s)) / 3600.0
-        out.append(FuelShortage(name, need, held, plan.system.fuels[name].density_kg_m3, ro,
+        out.append(FuelShortage(name, float(need), float(held), plan.system.fuels[name].density_kg_m3, ro,
                                 tuple(short_stretches(plan, name, ro)), port_h, curve))
     return out

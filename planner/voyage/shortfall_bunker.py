@@ -142,7 +142,7 @@ def bunker_options(plan: Plan, shortage: FuelShortage) -> list[BunkerOption]:
             sched.epoch_at([d])[0])
         drawn = shortage.curve.drawn_by(t)
         left_t = max(0.0, shortage.on_board_t - drawn)
-        before = t <= shortage.run_out.epoch_s
+        before = bool(t <= shortage.run_out.epoch_s)
         take = max(0.0, shortage.needed_t - drawn - left_t)
         take_m3 = take * 1000.0 / fuel.density_kg_m3
         room = max(0.0, capacity - left_t * 1000.0 / fuel.density_kg_m3)
@@ -157,7 +157,8 @@ def bunker_options(plan: Plan, shortage: FuelShortage) -> list[BunkerOption]:
         if take_m3 > room + 1e-9:
             why.append(f"the tanks holding {fuel.name} have room for {room:.1f} m³ at 15 °C "
                        f"there, not {take_m3:.1f} m³")
-        out.append(BunkerOption(port, d, t, offered, before, take, take_m3, room, not why,
+        out.append(BunkerOption(port, float(d), float(t), offered, before, float(take),
+                                float(take_m3), float(room), not why,
                                 "; ".join(why)))
     return out
 
