@@ -21,6 +21,7 @@ from geo.position import format_position
 from planner.common.timefmt import format_utc
 from planner.documents.pdf_common import (
     FRAME_WIDTH_MM,
+    Markup,
     build_pdf,
     caution_box,
     data_table,
@@ -186,7 +187,7 @@ def _attempts(facts: dict) -> list:
     if not rows:
         out.append(para("No attempt is recorded in the voyage file ([[purchase_attempt]]); "
                         "write them here:", "body"))
-        rows = [["", "", "", "", "", ""] for _ in range(3)]
+        rows = [[Markup("&nbsp;<br/>&nbsp;"), "", "", "", "", ""] for _ in range(3)]
     out.append(data_table(["Port", "Supplier", "Date", "Fuel asked for", "t", "Answer"],
                           rows, [28, 38, 20, 30, 14, 48], "llllrl", zebra=False))
     out.append(_blanks([BLANKS[1], ""]))

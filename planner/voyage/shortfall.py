@@ -316,6 +316,7 @@ def fuel_shortages(plan: Plan) -> list[FuelShortage]:
         if plan.runs[-1].areas and plan.runs[-1].fuel.name == name:
             end = tl.end_epoch_s + alongside_h(tl, plan.runs) * 3600.0
             port_h = max(0.0, end - max(moment, tl.end_epoch_s)) / 3600.0
-        out.append(FuelShortage(name, float(need), float(held), plan.system.fuels[name].density_kg_m3, ro,
+        density = plan.system.fuels[name].density_kg_m3
+        out.append(FuelShortage(name, float(need), float(held), density, ro,
                                 tuple(short_stretches(plan, name, ro)), port_h, curve))
     return out
