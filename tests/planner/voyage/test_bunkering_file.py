@@ -89,3 +89,22 @@ def test_refusals_name_file_place_value_and_what_is_expected(doc, place, expecte
     assert e.place == place
     assert expected in e.expected
     assert "\n" not in str(e)
+
+
+def test_a_port_off_the_route_is_refused_even_with_enough_fuel(tmp_path):
+    from planner.voyage.report import plan_json
+    from planner.voyage.run import build_plan
+
+    text = (VOYAGES / "short_mgo_t1.toml").read_text(encoding="utf-8")
+    for name in ("ship_t1.toml", "short_east.csv", "meridian_5e.geojson"):
+        text = text.replace(f'"{name}"', f'"{(VOYAGES / name).as_posix()}"')
+    text = text.replace("volume_m3 = 12.0", "volume_m3 = 100.0")
+    text = text.replace('waypoint = "Deep Point"', 'waypoint = "Far Point"')
+    p = tmp_path / "v.toml"
+    p.write_text(text, encoding="utf-8")
+    plan = build_plan(p)
+    assert plan.quantities.totals_t["mgo"] < plan.quantities.on_board_t["mgo"]
+    with pytest.raises(InputError) as exc:
+        plan_json(plan)
+    assert exc.value.place == "bunker_port[2].waypoint" and exc.value.value == "Far Point"
+    assert "West Point, Deep Point" in exc.value.expected
