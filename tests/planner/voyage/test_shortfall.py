@@ -204,3 +204,39 @@ def test_no_shortfall_on_the_sample_voyage():
     assert doc["shortfall"] is None
     assert plan_shortfall(plan) == []
     assert doc["compliant_fuel_needed_t"] < doc["compliant_fuel_on_board_t"]
+
+
+def test_reduced_speed_with_a_generator_on_the_circuit(tmp_path):
+    """T1 with a generator (ship_t1g.toml): per mile the main engine burns C·v² and the
+    generator g/v (per hour at a constant rate), so the need is pre + D·(C·v² + g/v);
+    its root found by SciPy's brentq ([SCIPY-2020]) on the hand-written need."""
+    from tests.helpers.plan import VOYAGES, dg_rate_t_h
+
+    text = (VOYAGES / "short_mgo_t1.toml").read_text(encoding="utf-8")
+    for name in ("short_east.csv", "meridian_5e.geojson"):
+        text = text.replace(f'"{name}"', f'"{(VOYAGES / name).as_posix()}"')
+    text = text.replace('"ship_t1.toml"', f'"{(VOYAGES / "ship_t1g.toml").as_posix()}"')
+    text = text.replace("volume_m3 = 12.0", "volume_m3 = 18.0")
+    p = tmp_path / "g.toml"
+    p.write_text(text, encoding="utf-8")
+    plan, _ = plan_doc(p)
+    g = dg_rate_t_h()
+    r12 = mass_rate_t_h(SPEED_KN) + g
+    ts = _switch_h(plan)
+    pre = r12 * (BOUNDARY_M / NM_M / SPEED_KN - ts)
+    c = mass_rate_t_h(SPEED_KN) / SPEED_KN ** 3
+    held = 18.0 * RHO / 1000.0
+
+    def need(v: float) -> float:
+        return pre + INSIDE_NM * (c * v * v + g / v)
+
+    (sp,) = plan_shortfall(plan)
+    assert need(SPEED_KN) == pytest.approx(sp.shortage.needed_t, rel=1e-9)
+    v_min = REF_SPEED_KN * (DEFAULT_MIN_LOAD_PCT / REF_LOAD_PCT) ** (1.0 / 3.0)
+    v_root = brentq(lambda v: need(v) - held, v_min, SPEED_KN, xtol=1e-12)
+    assert sp.reduced.speed_kn == pytest.approx(v_root, abs=1e-6)
+    assert sp.reduced.advised_kn == math.floor(v_root * 10) / 10
+    assert sp.reduced.need_t == pytest.approx(need(sp.reduced.advised_kn), rel=1e-9)
+    # the generator makes the saving smaller than the main engine alone would give
+    v_me_only = math.sqrt((held - pre) / (c * INSIDE_NM))
+    assert v_root < v_me_only
