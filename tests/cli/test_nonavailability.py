@@ -198,7 +198,7 @@ def test_plan_prints_the_shortfall_block_and_json_key():
     assert "Advisory: the master decides." in text
     doc = json.loads(changeover_ok("plan", str(VOYAGES / "short_mgo_t1.toml"), "--json").stdout)
     sf = doc["shortfall"]
-    assert list(doc)[-1] == "shortfall"
+    assert "shortfall" in doc
     assert set(sf["fuels"][0]) >= {"fuel", "needed_t", "on_board_t", "short_t", "short_m3_15c",
                                    "runs_out", "not_compliant", "reduced_speed",
                                    "bunker_ports", "must_notify", "advice"}
