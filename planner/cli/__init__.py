@@ -41,6 +41,7 @@ import typer
 
 from geo.errors import InputError
 from planner.cli import areas, calibrate, flush, log, plan, procedure, route
+from planner.cli.nonavailability import nonavailability_cmd
 
 COMPUTING: dict[str, Callable[..., None]] = {
     "flush": flush.flush_cmd,
@@ -48,6 +49,7 @@ COMPUTING: dict[str, Callable[..., None]] = {
     "procedure": procedure.procedure_cmd,
     "route": route.route_cmd,
     "calibrate": calibrate.calibrate_cmd,
+    "nonavailability": nonavailability_cmd,
 }
 """The commands that compute, in the order the help lists them; each checks PROJ first."""
 

@@ -206,6 +206,9 @@ def plan_lines(doc: dict, cols: int) -> list[str]:
         out += text_lines(n, cols, "Note: ")
     for w in doc["warnings"]:
         out += text_lines(w, cols, "Warning: ")
+    from planner.cli.shortfall_print import shortfall_lines
+
+    out += shortfall_lines(doc.get("shortfall"), cols)
     for c in doc["cautions"]:
         out += text_lines(c, cols)
     return out

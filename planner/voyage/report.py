@@ -231,7 +231,15 @@ def plan_json(plan: Plan) -> dict:
         "no_changeover_reason": plan.no_changeover_reason,
         "warnings": [w.text for w in plan.warnings],
         "cautions": plan_cautions(plan),
-    }
+    } | _shortfall(plan)
+
+
+def _shortfall(plan: Plan) -> dict:
+    """``{"shortfall": ...}``: where the compliant fuel runs out and the alternatives, or
+    None when there is enough (:mod:`planner.voyage.shortfall_report`)."""
+    from planner.voyage.shortfall_report import shortfall_json
+
+    return {"shortfall": shortfall_json(plan)}
 
 
 def _alongside_hours(plan: Plan) -> float:

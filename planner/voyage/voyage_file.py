@@ -60,13 +60,15 @@ from planner.common.input_files import read_toml
 from planner.common.keys import check_keys
 from planner.common.timefmt import parse_moment, parse_offset
 from planner.fuels import Fuel
+from planner.voyage.bunkering_file import BUNKERING_KEYS, Bunkering, load_bunkering
 from planner.voyage.scrubber_events import ScrubberOutage
 from planner.voyage.scrubber_voyage import discharge_zones_path, parse_outages
 
 FUEL_KEYS = ("name", "grade", "bdn_ref", "sulphur_pct", "density_kg_m3", "viscosity_cst",
              "viscosity_ref_c", "viscosity2_cst", "viscosity2_ref_c", "water_pct", "ash_pct",
              "q_net_mj_kg", "flash_point_c", "carbon_pct")
-TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty", "scrubber_outage")
+TOP_KEYS = ("voyage", "fuel", "tank", "margins", "port", "uncertainty",
+            "scrubber_outage") + BUNKERING_KEYS
 VOYAGE_KEYS = ("name", "ship", "route", "areas", "caution_zones", "depart", "ship_time",
                "speed_kn", "zone_change", "discharge_zones")
 ZONE_CHANGE_KEYS = ("at_utc", "ship_time")
@@ -168,6 +170,9 @@ class Voyage:
         Washwater discharge zones (GeoJSON, :mod:`geo.discharge_zones`), if any.
     scrubber_outages : tuple of ScrubberOutage
         Scrubbers out of service on the voyage (:mod:`planner.voyage.scrubber_voyage`).
+    bunkering : Bunkering
+        Bunker ports on the way and attempts to buy compliant fuel
+        (:mod:`planner.voyage.bunkering_file`).
     """
 
     file: str
@@ -190,6 +195,7 @@ class Voyage:
     port: PortSpec = field(default_factory=PortSpec)
     discharge_zones: Path | None = None
     scrubber_outages: tuple[ScrubberOutage, ...] = ()
+    bunkering: Bunkering = field(default_factory=Bunkering)
 
     def fuel(self, name: str) -> Fuel:
         """The delivery-note fuel called ``name``.
@@ -368,7 +374,8 @@ def load_voyage(path: str | Path) -> Voyage:
                   areas, depart, tz, speed, fuels, tanks, tuple(changes), cautions, margin_h,
                   frac, conf, choice, regular_h, port,
                   discharge_zones=discharge_zones_path(v, base, file),
-                  scrubber_outages=parse_outages(doc.get("scrubber_outage"), file))
+                  scrubber_outages=parse_outages(doc.get("scrubber_outage"), file),
+                  bunkering=load_bunkering(doc, file))
 
 
 def _loads(tab: dict, key: str, file: str) -> dict[str, float] | None:

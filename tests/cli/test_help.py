@@ -46,6 +46,8 @@ COMMAND_ARGS = {
     "calibrate": ["calibrate", "areas_sample/ship.toml",
                   "areas_sample/trends/kb_main_2027-05-30.csv",
                   "--switch-at", "2027-05-30T16:00+12:00"],
+    "nonavailability": ["nonavailability", "tests/data/voyages/short_mgo_t1.toml",
+                        "--pdf", "n.pdf"],
 }
 AREAS_ARGS = {
     "areas": ["areas", "areas_sample"],  # the old form: check

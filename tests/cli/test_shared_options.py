@@ -55,7 +55,7 @@ BAD = {"--confidence": ("1.5", ("0.5", "0.9999")), "--samples": ("10", ("100",))
 # declared once: flag -> commands that must all have it, declared identically
 SHARED = {
     "--json": ("flush", "plan", "procedure", "route", "areas check", "areas import",
-               "areas diff", "log show", "log verify", "calibrate"),
+               "areas diff", "log show", "log verify", "calibrate", "nonavailability"),
     "--limit": ("flush", "procedure", "calibrate"),
     "--target-pct": ("flush", "procedure", "calibrate"),
     "--confidence": ("flush", "plan"), "--samples": ("flush", "plan"),
