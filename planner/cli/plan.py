@@ -47,6 +47,9 @@ def plan_cmd(
     paper: Annotated[str, typer.Option(help="Paper of --sheets: a4 or letter.")] = "a4",
     gpx: Annotated[Path | None, typer.Option(help="Changeover start, compliant and boundary "
                                              "points as GPX 1.1 waypoints.")] = None,
+    trip_chart: Annotated[Path | None, typer.Option(help="If the scrubber fails: each "
+                                                    "circuit's time to compliant fuel along "
+                                                    "the voyage (PNG).")] = None,
     confidence: ConfidenceOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
@@ -55,7 +58,7 @@ def plan_cmd(
     from planner.common.outputs import check_outputs, dumps
 
     check_outputs({"--geojson": geojson, "--chart": chart, "--map": map_png, "--pdf": pdf,
-                   "--sheets": sheets, "--gpx": gpx})
+                   "--sheets": sheets, "--gpx": gpx, "--trip-chart": trip_chart})
     check_csv_folder(csv)
     _check_paper(paper)
     check_confidence(confidence)
@@ -63,7 +66,9 @@ def plan_cmd(
     plan, doc = _build(voyage, confidence, n_samples, n_seed, json_out)
     _write(plan, doc, geojson, chart, map_png, pdf)
     _write_watch(plan, doc, sheets, paper, gpx)
-    written = [p for p in (geojson, chart, map_png, pdf, sheets, gpx) if p is not None]
+    _write_trip(plan, trip_chart)
+    written = [p for p in (geojson, chart, map_png, pdf, sheets, gpx, trip_chart)
+               if p is not None]
     if csv is not None:
         from planner.cli.csv_tables import plan_csv, write_csv_dir
 
@@ -140,20 +145,8 @@ def _write_watch(plan: Plan, doc: dict, sheets: Path | None, paper: str,
         from planner.charts.plan_marks import events_of
         from planner.documents.gpx_marks import plan_waypoints, write_gpx
 
-        marks = charts_doc(doc)
-        write_gpx(gpx, plan_waypoints(marks, events_of(plan, marks)),
+        write_gpx(gpx, plan_waypoints(doc, events_of(plan, doc)),
                   name=f"{doc['voyage']['name']}: changeover marks")
-
-
-def charts_doc(doc: dict) -> dict:
-    """``doc`` for the map, the chart and the GPX marks: without the changeovers of served
-    circuits at their own boundaries (a discharge zone, a scrubber outage:
-    :data:`planner.voyage.runs.SCRUBBER_EVENTS`), which those displays have no words for yet;
-    the tables, the JSON, the CSV and the PDF's tables list them."""
-    from planner.voyage.runs import SCRUBBER_EVENTS
-
-    rows = [r for r in doc["changeovers"] if r.get("boundary_event") not in SCRUBBER_EVENTS]
-    return doc if len(rows) == len(doc["changeovers"]) else {**doc, "changeovers": rows}
 
 
 def _map(plan: Plan, doc: dict):
@@ -161,7 +154,6 @@ def _map(plan: Plan, doc: dict):
     from planner.charts.plan_marks import crossing_labels, event_notes, events_of, plan_marks
     from planner.charts.route_map import map_figure
 
-    doc = charts_doc(doc)
     events = events_of(plan, doc)
     return map_figure(plan.check, plan_marks(plan, doc), crossing_labels(events),
                       event_notes(events))
@@ -172,7 +164,24 @@ def _chart(plan: Plan, doc: dict):
     from planner.charts.plan_chart import chart_figure
     from planner.charts.plan_marks import events_of
 
-    return chart_figure(plan, events_of(plan, charts_doc(doc)))
+    return chart_figure(plan, events_of(plan, doc))
+
+
+def _write_trip(plan: Plan, out: Path | None) -> None:
+    """``--trip-chart``: the time to compliant fuel if the scrubber fails, along the voyage
+    (refused when the plan relies on no scrubber)."""
+    if out is None:
+        return
+    if not plan.scrubber_spans:
+        from geo.errors import InputError
+
+        raise InputError(plan.voyage.file, "--trip-chart", str(out),
+                         "a voyage whose plan relies on a scrubber (the ship file's "
+                         "[scrubbers] and fuel above a limit on the way)")
+    from planner.charts.trip_chart import draw_trip_chart
+    from planner.voyage.scrubber_trip import plan_trip_leads
+
+    draw_trip_chart(plan, plan_trip_leads(plan), out)
 
 
 def _document(plan: Plan, confidence: float | None, samples: int, seed: int,
@@ -182,6 +191,13 @@ def _document(plan: Plan, confidence: float | None, samples: int, seed: int,
     from planner.voyage.report import plan_json
 
     doc = plan_json(plan)
+    if plan.scrubber_spans:  # if the scrubber fails: the flush from each moment it is relied on
+        from planner.voyage.scrubber_trip import plan_trip_leads
+        from planner.voyage.scrubber_trip_json import trip_json
+
+        if progress is not None:
+            progress("if the scrubber fails")
+        doc.update(trip_json(plan, plan_trip_leads(plan)))
     conf = confidence if confidence is not None else plan.voyage.confidence
     if conf is not None:
         from planner.voyage.confidence import add_uncertainty
@@ -202,6 +218,10 @@ def plan_lines(doc: dict, cols: int) -> list[str]:
                      f"compliant {v['time_margin_h']:g} h before each boundary, sulphur "
                      f"target {v['sulphur_target_fraction']:.0%} of the limit", cols)
     out += ["", *table_lines(plan_tables(doc), cols)]
+    if doc.get("scrubber_trip"):
+        from planner.cli.trip_print import trip_lines
+
+        out += ["", *trip_lines(doc, cols)]
     for n in doc["notes"]:
         out += text_lines(n, cols, "Note: ")
     for w in doc["warnings"]:

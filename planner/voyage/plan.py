@@ -148,6 +148,21 @@ class Plan:
     scrubbed: tuple[Scrubbed, ...] = ()
     scrubber_so2_kg: tuple[tuple[float, float], ...] = ()
 
+    @property
+    def first_fuels(self) -> dict[str, Fuel] | None:
+        """Each circuit's fuel at departure when a scrubber's circuits have their own runs
+        (None: every circuit starts on ``runs[0].fuel``), for
+        :func:`planner.voyage.quantities.valve_periods`."""
+        return _first_fuels(self.system, self.runs, self.scrubbed)
+
+
+def _first_fuels(system: FuelSystem, runs: Sequence[Run],
+                 scrubbed: Sequence[Scrubbed]) -> dict[str, Fuel] | None:
+    if not scrubbed:
+        return None
+    own = {c: s.runs[0].fuel for s in scrubbed for c in s.circuits}
+    return {c: own.get(c, runs[0].fuel) for c in system.circuits}
+
 
 def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
                 flushes: FlushCache | None = None, passages: Sequence[ZonePassage] = (),
@@ -219,9 +234,7 @@ def plan_voyage(voyage: Voyage, system: FuelSystem, check: RouteCheck,
         reason = no_changeover_reason(check, runs, departs_compliant=inside)
         notes.append(reason)
     changes = [with_thermal(flushes, system, ch) for ch in changes]
-    first_fuels = None if not served else {
-        **{c: runs[0].fuel for c in plain or ()},
-        **{c: s.runs[0].fuel for s in scrubbed for c in s.circuits}}
+    first_fuels = _first_fuels(system, runs, scrubbed) if served else None
     quantities = plan_quantities(voyage, timeline, choices, runs, changes, flushes, first_fuels)
     warnings += passed_over_warnings(timeline, choices, voyage.fuel_choice_margin)
     warnings += plan_warnings(voyage, timeline, changes, quantities, flushes)

@@ -106,7 +106,8 @@ def burn_curve(plan: Plan, fuel: str) -> BurnCurve:
         The fuel's name.
     """
     tl = plan.timeline
-    periods = [p for p in valve_periods(plan.voyage, tl, plan.runs, plan.changes)
+    periods = [p for p in valve_periods(plan.voyage, tl, plan.runs, plan.changes,
+                                                    plan.first_fuels)
                if p[3].name == fuel and p[2] > p[1]]
     if not periods:
         return BurnCurve((tl.start_epoch_s,), (0.0,))

@@ -134,7 +134,8 @@ def pieces(plan: Plan, shortage: FuelShortage) -> list[Piece]:
     """
     tl = plan.timeline
     sched = tl.schedule
-    periods = [p for p in valve_periods(plan.voyage, tl, plan.runs, plan.changes)
+    periods = [p for p in valve_periods(plan.voyage, tl, plan.runs, plan.changes,
+                                                    plan.first_fuels)
                if p[3].name == shortage.fuel]
     out = []
     for c in plan.choices:
