@@ -224,7 +224,8 @@ def test_default_samples_differ_by_command_as_the_help_says(monkeypatch):
 
     monkeypatch.chdir(ROOT)
     monkeypatch.setattr("planner.voyage.run.build_plan",
-                        lambda *a, **k: SimpleNamespace(voyage=SimpleNamespace(confidence=None)))
+                        lambda *a, **k: SimpleNamespace(voyage=SimpleNamespace(confidence=None),
+                                                          scrubber_spans=()))
     monkeypatch.setattr("planner.voyage.report.plan_json", lambda plan: {})
     monkeypatch.setattr("planner.voyage.confidence.add_uncertainty", _stop)
     r = runner.invoke(app, ["plan", VOYAGE, "--json", "--confidence", "0.9"])
