@@ -158,30 +158,6 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
                     tuple(events))
 
 
-def _merged(system: FuelSystem, groups: list[list[Change]]) -> list[Change]:
-    """The changes of every group of circuits in time order (stable: a group's own order
-    kept), a change of one group joined to another group's at the same boundary (same
-    moment, direction, area, event, limit and target)."""
-    out: list[tuple[int, Change]] = []
-    order = list(system.circuits)
-    for g, changes in enumerate(groups):
-        for ch in changes:
-            same = next((i for i, (h, x) in enumerate(out) if h != g and _same(x, ch)), None)
-            if same is None:
-                out.append((g, ch))
-                continue
-            x = out[same][1]
-            parts = tuple(sorted(x.circuits + ch.circuits, key=lambda p: order.index(p.circuit)))
-            out[same] = (g, replace(x, circuits=parts))
-    return [ch for _, ch in sorted(out, key=lambda gc: gc[1].boundary_epoch_s)]
-
-
-def _same(a: Change, b: Change) -> bool:
-    return (abs(a.boundary_epoch_s - b.boundary_epoch_s) < 1.0 and a.direction == b.direction
-            and (a.area, a.event, a.before_departure) == (b.area, b.event, b.before_departure)
-            and abs(a.limit_pct - b.limit_pct) < 1e-12 and abs(a.target_pct - b.target_pct) < 1e-12)
-
-
 def _departs_unavailable(timeline: Timeline, scrubber: Scrubber, circuits: tuple[str, ...],
                         first: Availability, run: Run, departure: list[Change]
                         ) -> tuple[list[Change], PlanWarning | None]:

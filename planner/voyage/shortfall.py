@@ -27,7 +27,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from planner.voyage.quantities import alongside_h, valve_periods
+from planner.voyage.quantities import ValvePeriod, alongside_h, valve_periods
 
 if TYPE_CHECKING:
     from planner.voyage.plan import Plan
@@ -95,6 +95,21 @@ class BurnCurve:
         return t0 + (mass_t - m0) / (m1 - m0) * (t1 - t0)
 
 
+
+def fuel_periods(plan: Plan, fuel: str) -> list[ValvePeriod]:
+    """Every circuit's periods with its valve on ``fuel`` (each circuit from its own fuel
+    at departure, :attr:`planner.voyage.plan.Plan.first_fuels`).
+
+    Parameters
+    ----------
+    plan : Plan
+        The built plan.
+    fuel : str
+        The fuel's name.
+    """
+    return [p for p in valve_periods(plan.voyage, plan.timeline, plan.runs, plan.changes,
+                                     plan.first_fuels) if p[3].name == fuel]
+
 def burn_curve(plan: Plan, fuel: str) -> BurnCurve:
     """The mass of ``fuel`` every circuit draws, summed, against time (see the module notes).
 
@@ -106,9 +121,7 @@ def burn_curve(plan: Plan, fuel: str) -> BurnCurve:
         The fuel's name.
     """
     tl = plan.timeline
-    periods = [p for p in valve_periods(plan.voyage, tl, plan.runs, plan.changes,
-                                                    plan.first_fuels)
-               if p[3].name == fuel and p[2] > p[1]]
+    periods = [p for p in fuel_periods(plan, fuel) if p[2] > p[1]]
     if not periods:
         return BurnCurve((tl.start_epoch_s,), (0.0,))
     lo, hi = min(p[1] for p in periods), max(p[2] for p in periods)

@@ -28,8 +28,7 @@ from typing import TYPE_CHECKING
 from geo.ellipsoid import NM_M
 from planner.fuels import ISO_REFERENCE_Q_NET_MJ_KG
 from planner.ship.consumers import MainEngine
-from planner.voyage.quantities import valve_periods
-from planner.voyage.shortfall import FuelShortage
+from planner.voyage.shortfall import FuelShortage, fuel_periods
 
 if TYPE_CHECKING:
     from planner.voyage.plan import Plan
@@ -134,9 +133,7 @@ def pieces(plan: Plan, shortage: FuelShortage) -> list[Piece]:
     """
     tl = plan.timeline
     sched = tl.schedule
-    periods = [p for p in valve_periods(plan.voyage, tl, plan.runs, plan.changes,
-                                                    plan.first_fuels)
-               if p[3].name == shortage.fuel]
+    periods = fuel_periods(plan, shortage.fuel)
     out = []
     for c in plan.choices:
         st = c.stretch
