@@ -129,7 +129,7 @@ def span_boundaries(check: RouteCheck, span: ScrubberSpan) -> list[tuple[str, st
         c = tc.crossing
         if (c.event == "enter" and tc.in_force and tc.time_utc is not None
                 and span.from_m - _AT_M <= c.distance_m
-                and (c.distance_m < span.to_m or c.distance_m <= span.from_m + _AT_M)):
+                and (c.distance_m < span.to_m - _AT_M or c.distance_m <= span.from_m + _AT_M)):
             t = min(max(to_epoch(tc.time_utc), span.from_epoch_s), span.to_epoch_s)
             out.append((c.area, ENTER, t))
     entered = {a for a, _, t in out if t - span.from_epoch_s < _SAME_S}

@@ -260,3 +260,22 @@ def test_spacing_and_refusals(closed):
         TripLead(0, "main", STEP, 0.0, 0.0, 0.0, 0.0, 0.08, None, None, "")
     with pytest.raises(ValueError, match="out_of_compliance_h"):
         TripLead(0, "main", STEP, 0.0, 0.0, 0.0, 0.0, 0.08, 1.0, 2.0, "")
+
+
+def test_a_boundary_row_falls_back_to_a_fuel_legal_inside():
+    """At an entry on the scrubber, the lead is the flush to the fuel the circuits would burn
+    inside (the span that ends at the entry does not give a row there): every boundary row's
+    fallback fuel is within the limit of the area entered (MARPOL Annex VI reg. 14 [MARPOL-VI];
+    the egcs sample: hsfo on the scrubber, mgo inside the areas)."""
+    from planner.voyage import run
+    from planner.voyage.scrubber_trip import plan_trip_leads
+    from planner.voyage.scrubber_trip_json import trip_json
+
+    from tests.helpers.paths import ROOT
+
+    plan = run.build_plan(ROOT / "areas_sample" / "egcs_voyage.toml")
+    rows = trip_json(plan, plan_trip_leads(plan))["scrubber_trip"]["boundaries"]
+    inside = {a: st.limit_pct for st in plan.check.stretches for a in st.areas}
+    assert rows
+    for r in rows:
+        assert plan.voyage.fuel(r["fallback_fuel"]).sulphur_pct <= inside[r["area"]] + 1e-12, r
