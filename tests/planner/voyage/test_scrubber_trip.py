@@ -270,7 +270,6 @@ def test_a_boundary_row_falls_back_to_a_fuel_legal_inside():
     from planner.voyage import run
     from planner.voyage.scrubber_trip import plan_trip_leads
     from planner.voyage.scrubber_trip_json import trip_json
-
     from tests.helpers.paths import ROOT
 
     plan = run.build_plan(ROOT / "areas_sample" / "egcs_voyage.toml")
