@@ -42,6 +42,9 @@ import typer
 from geo.errors import InputError
 from planner.cli import areas, calibrate, flush, log, plan, procedure, route
 from planner.cli.nonavailability import nonavailability_cmd
+from planner.cli.plain_values import install as _read_plain_values
+
+_read_plain_values()  # plain values without pydantic (planner.cli.plain_values)
 
 COMPUTING: dict[str, Callable[..., None]] = {
     "flush": flush.flush_cmd,
