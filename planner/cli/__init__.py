@@ -138,9 +138,33 @@ app.add_typer(log.log_app, name="log", short_help=_summary(log.log_app.info.help
 
 
 def main() -> None:
-    """Console entry point."""
+    """Console entry point: a refusal or a mistyped command line is one line, exit 2."""
     try:
-        app()
+        code = app(standalone_mode=False, prog_name="changeover")
     except InputError as exc:
         sys.stderr.write(f"changeover: error: {exc}\n")
         sys.exit(2)
+    except Exception as exc:  # typer's click errors, as its own standalone mode would
+        sys.exit(_click_error(exc))
+    sys.exit(code if isinstance(code, int) else 0)
+
+
+def _click_error(exc: Exception) -> int:
+    """Report typer's (click's) error ``exc`` on standard error; its exit status.
+
+    A usage error is one line (:mod:`planner.cli.usage_line`); any other is shown as
+    typer shows it. Anything that is not click's is raised again."""
+    from planner.cli.usage_line import is_usage_error, usage_line
+
+    names = {k.__name__ for k in type(exc).__mro__}
+    if is_usage_error(exc):
+        root = None if getattr(exc, "ctx", None) is not None else typer.main.get_command(app)
+        sys.stderr.write(usage_line(exc, sys.argv[1:], root) + "\n")
+        return 2
+    if "ClickException" in names:
+        exc.show()  # type: ignore[attr-defined]
+        return int(exc.exit_code)  # type: ignore[attr-defined]
+    if "Abort" in names:
+        sys.stderr.write("Aborted!\n")
+        return 1
+    raise exc
