@@ -73,6 +73,27 @@ def test_the_scrubber_tables_are_whole(sample, width):
     assert "exit (a washwater discharge zone)" in " ".join(text.split())
 
 
+@pytest.mark.parametrize("width", WIDTHS)
+def test_the_served_circuits_emission_ratio_is_shown(sample, width):
+    """The stretches' ``scrubbed`` figures in the text, each number whole on one line: main
+    on hsfo (2.60 %, 84.93 % carbon [MEPC-308], from memory), uncleaned
+    10⁴ × (2.60/32.06)/(84.93/12.011) = 114.7 by hand ([IUPAC-2021] [D]); to meet 4.3 (0.10 %,
+    [MEPC-340] Table 1, from memory) 96.3 % of it removed."""
+    doc, texts = sample
+    lines = texts[width].splitlines()
+    assert "SO₂/CO₂ of the fuel burnt on a scrubber, by stretch" in lines
+    raw = 1e4 * (2.60 / 32.06) / (84.93 / 12.011)
+    assert f"{raw:.1f}" == "114.7" and f"{100 * (1 - 4.3 / raw):.1f}" == "96.3"
+    rows = [(st, x) for st in doc["stretches"] for x in st["scrubbed"]]
+    assert rows and {x["fuel"] for _, x in rows} == {"hsfo"}
+    head = " ".join(" ".join(lines).split())
+    assert "Circuit main on hsfo (2.60 % m/m sulphur, 84.93 % m/m carbon" in head
+    for st, x in rows:
+        cells = [f"{st['from_nm']:,.1f}", f"{st['to_nm']:,.1f}", f"{st['ratio_limit']:.1f}",
+                 f"{x['uncleaned_ratio']:.1f}", f"{x['so2_removal_needed_pct']:.1f}"]
+        assert any(all(c in line.split() for c in cells) for line in lines), cells
+
+
 def test_the_sample_files_are_written(tmp_path):
     gj = tmp_path / "plan.geojson"
     out = piped([*PLAN, "--geojson", str(gj), "--map", str(tmp_path / "map.png"),
