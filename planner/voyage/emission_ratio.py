@@ -209,7 +209,8 @@ def served_ratios(choices: Sequence[FuelChoice], spans: Sequence[ScrubberSpan],
     spans : sequence of ScrubberSpan
         Where the plan relies on a scrubber (``Plan.scrubber_spans``).
     fuels : mapping of str to Fuel
-        The fuels by name (``FuelSystem.fuels``).
+        The fuels by name (``FuelSystem.fuels``; a span of a fuel not in it, which a plan
+        never has, is left out).
     names : mapping of str to tuple of str
         The ship file's scrubbers each span's scrubber stands for (a joint ``"a + b"``);
         a name not in it stands for itself.
@@ -219,7 +220,8 @@ def served_ratios(choices: Sequence[FuelChoice], spans: Sequence[ScrubberSpan],
         st = c.stretch
         rows: dict[tuple[str, str, str], ServedRatio] = {}
         for x in spans:
-            if min(x.to_m, st.to_m) - max(x.from_m, st.from_m) <= _OVERLAP_M:
+            if min(x.to_m, st.to_m) - max(x.from_m, st.from_m) <= _OVERLAP_M or \
+                    x.fuel not in fuels:
                 continue
             for circuit in x.circuits:
                 key = (circuit, x.scrubber, x.fuel)

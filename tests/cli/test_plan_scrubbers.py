@@ -127,3 +127,26 @@ def test_an_outage_is_named_as_a_moment_on_the_clock(cols):
     assert position(row["start_lat"], row["start_lon"]) in text
     # the map, chart and GPX marks draw it too, under its own number
     assert row["number"] in {e.number for e in events_of(plan, doc)}
+
+
+@pytest.mark.parametrize("cols", [80, 120, 160])
+def test_a_leg_out_of_the_load_range_is_named_in_the_text(cols):
+    """The changeover before a slow leg below the scrubber's minimum load reads as such (not
+    as an area's entry), and the scrubber stop says which engine at what load: 15.9 % MCR at
+    8 kn by the propeller law, 85 % × (8/14)³ ([PROPELLER-LAW], common practice)."""
+    from planner.cli.plan import plan_lines
+    from tests.planner.voyage.test_scrubber_load import plan_of
+
+    _, doc = plan_of(min_load_pct=25.0)
+    lines = plan_lines(doc, cols)
+    assert all(len(line) <= cols for line in lines)
+    text = " ".join(" ".join(lines).split())
+    down = next(r for r in doc["changeovers"] if r["boundary_event"] == "load_out_of_range")
+    assert (f"Changeover {down['number']}: West Far ECA, a leg on which a served engine's "
+            "load is outside the scrubber's load range") in text
+    assert f"Leg begins {utc_full(down['boundary_utc'])}" in text
+    assert f"main_engine load {85 * (8 / 14) ** 3:.1f} % MCR at 8.0 kn, below scrubber " \
+        "egcs's 25 % minimum" in text
+    back = next(r for r in doc["changeovers"] if r["boundary_event"] == "load_in_range")
+    assert f"Changeover {back['number']}: West Far ECA, the served engines' load back " \
+        "within" in text
