@@ -104,6 +104,14 @@ SCRUBBER_EVENTS = {
     "scrubber_in_service": (
         ", scrubber back in service at {at}: change back to the high-sulphur fuel at or "
         "after {at}, never before", ("Scrubber back in service", "the ship then at")),
+    "load_out_of_range": (
+        ", a leg on which a served engine's load is outside the scrubber's load range (see "
+        "the scrubber events): change the served circuits to compliant fuel before the "
+        "leg{limit}", ("Leg begins", "at")),
+    "load_in_range": (
+        ", the served engines' load back within the scrubber's load range: change the served "
+        "circuits back to the high-sulphur fuel at or after the leg's start, never before",
+        ("Leg begins", "at")),
 }
 """The words of the served circuits' own boundaries (:data:`planner.voyage.runs.SCRUBBER_EVENTS`,
 :mod:`planner.voyage.scrubbing_choice`): the rest of the head's first line, then its label
@@ -272,7 +280,43 @@ def scrubber_tables(doc: dict) -> list[TextTable]:
         "scrubber fails). SO₂ of the served circuits: formed, and after cleaning at most "
         "what the same fuel mass at the limit would form (the emission ratio limit's "
         "equivalent, MEPC.340(77); the monitoring records the real emission).")
-    return [ev, sp]
+    return [ev, sp, *ratio_tables(doc)]
+
+
+RATIO_COLUMNS = (
+    Column("From nm", "r"), Column("To nm", "r"), Column("Limit % m/m", "r"),
+    Column("Ratio limit", "r"), Column("Uncleaned ratio", "r"),
+    Column("Removal needed %", "r"))
+
+
+def ratio_tables(doc: dict) -> list[TextTable]:
+    """The SO₂/CO₂ figures of the fuel each served circuit burns on a scrubber, stretch by
+    stretch (the ``stretches`` rows' ``scrubbed``): one group per circuit, scrubber and fuel,
+    its fuel's sulphur, carbon and source in the head; none when no stretch has one."""
+    heads: dict[tuple[str, str, str], tuple[str, ...]] = {}
+    rows: dict[tuple[str, str, str], list[tuple[str, ...]]] = {}
+    for st in doc.get("stretches", []):
+        for x in st.get("scrubbed", []):
+            on = " + ".join(x["scrubbers"])
+            key = (x["circuit"], on, x["fuel"])
+            heads.setdefault(key, (
+                f"Circuit {atom(x['circuit'])} on {atom(x['fuel'])} "
+                f"({atom(format(x['sulphur_pct'], '.2f') + ' % m/m')} sulphur, "
+                f"{atom(format(x['carbon_pct'], '.2f') + ' % m/m')} carbon: "
+                f"{x['carbon_source']}), scrubber {atom(on)}",))
+            rows.setdefault(key, []).append((
+                f"{st['from_nm']:,.1f}", f"{st['to_nm']:,.1f}", f"{st['limit_pct']:.2f}",
+                f"{st['ratio_limit']:.1f}", f"{x['uncleaned_ratio']:.1f}",
+                f"{x['so2_removal_needed_pct']:.1f}"))
+    if not rows:
+        return []
+    return [TextTable(
+        "SO₂/CO₂ of the fuel burnt on a scrubber, by stretch", RATIO_COLUMNS,
+        tuple(Group(tuple(r), heads[k]) for k, r in rows.items()),
+        "Ratios in ppm SO₂ per % v/v CO₂: the limit's equivalent (MEPC.340(77) Table 1), and "
+        "the served circuit's fuel burnt without cleaning (all sulphur to SO₂, all carbon to "
+        "CO₂). Removal needed: the share of that SO₂ the scrubber must remove, 1 - limit / "
+        "uncleaned. Planning figures only: the scrubber's continuous monitoring decides.")]
 
 
 def plan_tables(doc: dict) -> list[TextTable]:

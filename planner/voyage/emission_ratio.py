@@ -10,6 +10,11 @@ and where it comes from, and the share of the SO₂ a scrubber would have to
 remove: 0 when the fuel is within the stretch's sulphur limit by its delivery
 note, else ``1 − limit / uncleaned``.
 
+On a stretch where the plan relies on a scrubber (:class:`ScrubberSpan`), the served
+circuits burn their own fuel above the limit: :func:`served_ratios` gives the same
+figures for each served circuit's fuel (:class:`ServedRatio`), the ones the scrubber's
+operator needs, beside the main fuel's.
+
 Only figures: an exhaust gas cleaning system's approval, its operating manual
 and the continuous monitoring they require decide compliance ([MEPC-340]).
 Pure functions of the plan's parts.
@@ -17,7 +22,7 @@ Pure functions of the plan's parts.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from planner.fuels import Fuel
@@ -30,6 +35,9 @@ from planner.fuels.combustion import (
 )
 from planner.voyage.fuel_choice import FuelChoice
 from planner.voyage.runs import Run
+from planner.voyage.scrubber_events import ScrubberSpan
+
+_OVERLAP_M = 1e-3  # a span touching a stretch at one end (under 1 mm) is not on it
 
 TABLE_SOURCE = "MEPC.340(77) Table 1"
 """``ratio_limit_source`` of a tabulated limit ([MEPC-340])."""
@@ -152,3 +160,73 @@ def plan_ratios(choices: Sequence[FuelChoice], runs: Sequence[Run]) -> list[Stre
     """
     return [stretch_ratio(c.stretch.limit_pct, burnt_on(runs, c.stretch.from_m))
             for c in choices]
+
+
+@dataclass(frozen=True)
+class ServedRatio:
+    """The emission-ratio figures of one served circuit's fuel on a stretch where it relies
+    on a scrubber.
+
+    Parameters
+    ----------
+    circuit : str
+        The served circuit.
+    scrubbers : tuple of str
+        The ship file's scrubbers it relies on (two or more: at once).
+    ratio : StretchRatio
+        The figures of its fuel against the stretch's limit (:func:`stretch_ratio`).
+    """
+
+    circuit: str
+    scrubbers: tuple[str, ...]
+    ratio: StretchRatio
+
+    def __post_init__(self) -> None:
+        if not self.circuit or not self.scrubbers:
+            raise ValueError(f"served ratio: a circuit and its scrubbers expected, got "
+                             f"{self.circuit!r}, {self.scrubbers!r}")
+
+    def json(self) -> dict:
+        """One entry of a stretch row's ``scrubbed`` (ratios ppm per % v/v, % m/m, %)."""
+        r = self.ratio
+        return {"circuit": self.circuit, "scrubbers": list(self.scrubbers), "fuel": r.fuel,
+                "sulphur_pct": r.sulphur_pct, "uncleaned_ratio": r.uncleaned_ratio,
+                "carbon_pct": r.carbon_pct, "carbon_source": r.carbon_source,
+                "so2_removal_needed_pct": r.removal_needed * 100.0}
+
+
+def served_ratios(choices: Sequence[FuelChoice], spans: Sequence[ScrubberSpan],
+                  fuels: Mapping[str, Fuel],
+                  names: Mapping[str, tuple[str, ...]]) -> list[list[ServedRatio]]:
+    """For every stretch of a plan, the figures of each served circuit relying on a scrubber
+    there (a span of it overlapping the stretch), in the spans' time order, once per
+    circuit, scrubber and fuel; an empty list where none does.
+
+    Parameters
+    ----------
+    choices : sequence of FuelChoice
+        The plan's fuel choice per stretch (``Plan.choices``: the stretches and limits).
+    spans : sequence of ScrubberSpan
+        Where the plan relies on a scrubber (``Plan.scrubber_spans``).
+    fuels : mapping of str to Fuel
+        The fuels by name (``FuelSystem.fuels``; a span of a fuel not in it, which a plan
+        never has, is left out).
+    names : mapping of str to tuple of str
+        The ship file's scrubbers each span's scrubber stands for (a joint ``"a + b"``);
+        a name not in it stands for itself.
+    """
+    out = []
+    for c in choices:
+        st = c.stretch
+        rows: dict[tuple[str, str, str], ServedRatio] = {}
+        for x in spans:
+            if min(x.to_m, st.to_m) - max(x.from_m, st.from_m) <= _OVERLAP_M or \
+                    x.fuel not in fuels:
+                continue
+            for circuit in x.circuits:
+                key = (circuit, x.scrubber, x.fuel)
+                if key not in rows:
+                    rows[key] = ServedRatio(circuit, names.get(x.scrubber, (x.scrubber,)),
+                                            stretch_ratio(st.limit_pct, fuels[x.fuel]))
+        out.append(list(rows.values()))
+    return out

@@ -10,7 +10,7 @@ from __future__ import annotations
 from geo.area import Area
 from geo.ellipsoid import NM_M
 from planner.common.timefmt import format_offset, iso_utc
-from planner.voyage.emission_ratio import plan_ratios
+from planner.voyage.emission_ratio import ServedRatio, plan_ratios, served_ratios
 from planner.voyage.fuel_choice import FuelChoice, regular_fuel
 from planner.voyage.plan import Plan
 from planner.voyage.quantities import so2_by_area, sulphur_by_area
@@ -196,8 +196,10 @@ def plan_json(plan: Plan) -> dict:
              "limit_pct": c.stretch.limit_pct, "areas": list(c.stretch.areas),
              "fuel": _run_fuel(plan, c.stretch.from_m), "fuel_choice": _why(plan, c),
              "from_utc": iso_utc(c.stretch.from_utc), "to_utc": iso_utc(c.stretch.to_utc),
-             **r.json()}  # the emission ratio (planner.voyage.emission_ratio)
-            for c, r in zip(plan.choices, plan_ratios(plan.choices, plan.runs), strict=True)
+             **r.json(),  # the emission ratio (planner.voyage.emission_ratio)
+             "scrubbed": [x.json() for x in served]}
+            for c, r, served in zip(plan.choices, plan_ratios(plan.choices, plan.runs),
+                                    _served_ratios(plan), strict=True)
         ],
         "fuel_needed": [
             {"fuel": n.fuel, "from_utc": iso_utc(plan.timeline.utc(n.from_epoch_s)),
@@ -232,6 +234,13 @@ def plan_json(plan: Plan) -> dict:
         "warnings": [w.text for w in plan.warnings],
         "cautions": plan_cautions(plan),
     } | _shortfall(plan)
+
+
+def _served_ratios(plan: Plan) -> list[list[ServedRatio]]:
+    """Each stretch's served circuits relying on a scrubber, with their fuel's emission-ratio
+    figures (:func:`planner.voyage.emission_ratio.served_ratios`)."""
+    names = {s.scrubber.name: s.names for s in plan.scrubbed}
+    return served_ratios(plan.choices, plan.scrubber_spans, plan.system.fuels, names)
 
 
 def _shortfall(plan: Plan) -> dict:
@@ -337,7 +346,7 @@ def scrubber_json(plan: Plan) -> dict:
                                for c in g.circuits],
                   "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
                   "min_load_pct": s.min_load_pct, "max_load_pct": s.max_load_pct,
-                  "load_range_applied": False, "approval": s.approval}
+                  "load_range_applied": True, "approval": s.approval}
                  for s in plan.system.scrubbers.values()]
     spans = []
     for x, (formed, cleaned) in zip(plan.scrubber_spans, plan.scrubber_so2_kg, strict=True):

@@ -14,9 +14,13 @@ The rules (a ship's officer's; README, "Scrubbers in the plan"):
      has (``allows = none``: not at all);
    - outside every zone a hybrid runs open loop (common practice: less power and no
      chemicals), an open-only or closed-only scrubber in its one mode.
-   The served engines' load range (``min_load_pct``/``max_load_pct``) is **not
-   applied**: the plan warns when a scrubber it relies on sets one
-   (``scrubber_load_range``).
+   - the served engines run within its load range (``min_load_pct`` to
+     ``max_load_pct``, % MCR, its ends included), leg by leg: a main engine's load by the
+     propeller law at the leg's speed, a generator's its power over its rating
+     (:mod:`planner.voyage.scrubber_load`). Where a leg's load is outside the range the
+     scrubber is not available, like an outage, and the served circuits change over
+     against the real limit. What the plan cannot check (a generator without
+     ``rated_kw``, a boiler) it warns of (``scrubber_load_range``).
 3. Where available, the served circuits' fuel is chosen against the scrubber's
    ``max_sulphur_pct`` instead of the limit (the higher of the two): a 2.60 %
    fuel is chosen everywhere the scrubber is available, inside control areas
@@ -41,6 +45,7 @@ from planner.ship.scrubbers import CLOSED, MODES, OPEN, Scrubber
 from planner.ship.scrubbers import served_circuits as circuits_served
 from planner.ship.system import FuelSystem
 from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
+from planner.voyage.scrubber_load import LoadStretch, load_at, load_stretches, unchecked
 from planner.voyage.timeline import Timeline
 from planner.voyage.warning import PlanWarning
 
@@ -63,6 +68,9 @@ class Availability:
         Why not available (or why this mode), in words.
     out_of_service : bool
         Not available because the scrubber is out of service (an outage).
+    out_of_range : bool
+        Not available because a served engine's load is outside the scrubber's load range
+        on this leg (``why`` says which, at what load).
     """
 
     from_m: float
@@ -71,6 +79,7 @@ class Availability:
     zones: tuple[str, ...] = ()
     why: str = ""
     out_of_service: bool = False
+    out_of_range: bool = False
 
 
 def served_groups(system: FuelSystem) -> list[tuple[tuple[str, ...], Scrubber,
@@ -141,8 +150,10 @@ def joint_outages(outages: Sequence[ScrubberOutage], names: Sequence[str],
 
 def load_range_warnings(system: FuelSystem) -> list[PlanWarning]:
     """A ``scrubber_load_range`` warning for each scrubber relied on (serving a circuit whole)
-    that sets a load range: the plan does not apply it. (A scrubber serving part of a
-    circuit is warned of by the ship file's loader.)
+    whose load range the plan cannot hold some served consumer to
+    (:func:`planner.voyage.scrubber_load.unchecked`: a generator without ``rated_kw``, a
+    boiler). The range is applied to every other served engine. (A scrubber serving part of
+    a circuit is warned of by the ship file's loader.)
 
     Parameters
     ----------
@@ -152,11 +163,13 @@ def load_range_warnings(system: FuelSystem) -> list[PlanWarning]:
     out = []
     relied = {n for names, _, _ in served_groups(system) for n in names}
     for s in system.scrubbers.values():
-        if s.name in relied and (s.min_load_pct > 0.0 or s.max_load_pct < 110.0):
-            out.append(PlanWarning("scrubber_load_range", (  # type: ignore[arg-type]
-                f"Scrubber {s.name}: the load range {s.min_load_pct:g}-{s.max_load_pct:g} % "
-                "MCR is not applied by the plan; check the served engines' load on every "
-                "span where the plan relies on it (slow steaming, manoeuvring, stops).")))
+        missing = unchecked(s, system) if s.name in relied else []
+        if missing:
+            out.append(PlanWarning("scrubber_load_range", (
+                f"Scrubber {s.name}: the plan applies its load range "
+                f"{s.min_load_pct:g}-{s.max_load_pct:g} % MCR to the engines whose load it "
+                f"knows, not to {', '.join(missing)}; check that load on every span where "
+                "the plan relies on the scrubber.")))
     return out
 
 
@@ -169,9 +182,10 @@ def _zone_modes(scrubber: Scrubber, zones: Sequence[ZonePassage]) -> tuple[str, 
 
 
 def _cuts(length_m: float, stretches: Sequence[Stretch], passages: Sequence[ZonePassage],
-          outage_m: Sequence[float]) -> list[float]:
+          outage_m: Sequence[float], loads: Sequence[LoadStretch] = ()) -> list[float]:
     raw = sorted({0.0, length_m, *(s.from_m for s in stretches), *(s.to_m for s in stretches),
-                  *(p.from_m for p in passages), *(p.to_m for p in passages), *outage_m})
+                  *(p.from_m for p in passages), *(p.to_m for p in passages), *outage_m,
+                  *(x.from_m for x in loads[1:])})
     out: list[float] = []
     for x in raw:
         x = min(max(x, 0.0), length_m)
@@ -182,7 +196,8 @@ def _cuts(length_m: float, stretches: Sequence[Stretch], passages: Sequence[Zone
 
 def availability(scrubber: Scrubber, timeline: Timeline, stretches: Sequence[Stretch],
                  passages: Sequence[ZonePassage],
-                 outages: Sequence[ScrubberOutage]) -> list[Availability]:
+                 outages: Sequence[ScrubberOutage],
+                 ranges: Sequence[Scrubber] | None = None) -> list[Availability]:
     """The scrubber's availability along the route, piece by piece (see the module notes).
 
     Parameters
@@ -197,12 +212,15 @@ def availability(scrubber: Scrubber, timeline: Timeline, stretches: Sequence[Str
         The route's passages through washwater discharge zones.
     outages : sequence of ScrubberOutage
         The voyage file's outages (those of other scrubbers are ignored).
+    ranges : sequence of Scrubber, optional
+        The ship file's scrubbers whose load ranges apply, each to its own consumers
+        (default: ``scrubber`` itself; the scrubbers a joint one stands for).
 
     Returns
     -------
     list of Availability
-        In route order, neighbours cut where the stretches, the zones or an outage begin
-        or end.
+        In route order, neighbours cut where the stretches, the zones, an outage or the
+        served engines' load verdict begin or end.
     """
     sched = timeline.schedule
     mine = [o for o in outages if o.scrubber == scrubber.name]
@@ -210,7 +228,9 @@ def availability(scrubber: Scrubber, timeline: Timeline, stretches: Sequence[Str
                                                  if o.until_epoch_s is not None]
     outage_m = [float(x) for x in sched.distance_at_epoch(moments)] if moments else []
     length = stretches[-1].to_m if stretches else sched.path.length_m
-    cuts = _cuts(length, stretches, passages, outage_m)
+    loads = load_stretches(ranges if ranges is not None else (scrubber,), timeline.system,
+                           sched)
+    cuts = _cuts(length, stretches, passages, outage_m, loads)
     out: list[Availability] = []
     for a, b in zip(cuts[:-1], cuts[1:], strict=True):
         mid = 0.5 * (a + b)
@@ -222,6 +242,10 @@ def availability(scrubber: Scrubber, timeline: Timeline, stretches: Sequence[Str
             why = f"out of service from {from_epoch(down.from_epoch_s):%Y-%m-%d %H:%MZ}"
             out.append(Availability(a, b, None, names, why + (f" ({down.reason})" if down.reason
                                                                else ""), True))
+            continue
+        load = load_at(loads, mid)
+        if load is not None and load.out_of_range:
+            out.append(Availability(a, b, None, names, load.why, False, True))
             continue
         modes = _zone_modes(scrubber, zones)
         if not modes:

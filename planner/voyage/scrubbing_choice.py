@@ -17,6 +17,11 @@ A change of served circuits is for one of these boundaries (:attr:`Change.event`
 - a washwater discharge zone the scrubber cannot work in: ``zone_enter`` /
   ``zone_exit`` with the zone as the area (a crossing of the zone's boundary, a
   place the ship reaches);
+- a leg on which a served engine's load is outside the scrubber's load range
+  (:mod:`planner.voyage.scrubber_load`): ``load_out_of_range`` before it (compliant
+  before the ship reaches the leg's start, a place like an area's entry),
+  ``load_in_range`` where the load is back within the range; the area is the one
+  whose limit the circuits then meet;
 - else what the whole ship's change would be (an area's boundary or date, the global
   cap, a departure).
 
@@ -38,6 +43,14 @@ from planner.voyage.runs import SCRUBBER_BACK, SCRUBBER_OUT, ZONE_ENTER, ZONE_EX
 from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
 from planner.voyage.scrubbing import Availability, piece_at, scrubbed_stretches
 from planner.voyage.timeline import Timeline
+
+LOAD_OUT = "load_out_of_range"
+"""A served circuit's change to compliant fuel before a leg where a served engine's load is
+outside the scrubber's load range."""
+LOAD_IN = "load_in_range"
+"""A served circuit's change back to high-sulphur fuel where the load is back in range."""
+LOAD_EVENTS = (LOAD_OUT, LOAD_IN)
+"""The served circuits' boundary events of the load range (places, not clock moments)."""
 
 _SAME_S = 1.0  # a boundary is an outage's moment within 1 s
 _SAME_M = 1.0  # a boundary is a zone's or a crossing's within 1 m
@@ -141,4 +154,7 @@ def served_event(ch: Change, check: RouteCheck, timeline: Timeline, scrubber: Sc
         edge = p.from_m if down else p.to_m
         if abs(edge - ch.boundary_m) < _SAME_M and (not down or side.mode is None):
             return replace(ch, area=p.zone, event=ZONE_ENTER if down else ZONE_EXIT)
+    other = piece_at(pieces, ch.boundary_m - (_SAME_M if down else -_SAME_M))
+    if side.out_of_range and not other.out_of_range:  # side: the compliant one
+        return replace(ch, event=LOAD_OUT if down else LOAD_IN)
     return ch

@@ -131,7 +131,8 @@ def scrubbed_plan(flushes: FlushCache, voyage: Voyage, system: FuelSystem, timel
         too when the scrubber cannot work at departure (she came in on compliant fuel),
         else the highest-sulphur fuel chosen for them (``[port] departure_fuel`` rules).
     """
-    pieces = availability(scrubber, timeline, check.stretches, passages, outages)
+    ranges = [system.scrubbers[n] for n in names if n in system.scrubbers] or None
+    pieces = availability(scrubber, timeline, check.stretches, passages, outages, ranges)
     fuels = valve_fuels(system, circuits, fuels_on_board(voyage, system))
     choices = served_choices(check, timeline, scrubber, pieces, fuels, voyage.fuel_choice_margin,
                              voyage.file)

@@ -12,7 +12,10 @@ the limit or the fallback fuel changes. The scrubber is relied on
 
 with a **mode change** wherever the mode changes on the way (closed loop
 established at the entry of a zone that forbids open-loop discharge, back to
-open at its exit), and **out of service** at each planned outage's moment. The
+open at its exit), and **out of service** at each planned outage's moment. A stop
+ahead of a leg where a served engine's load is outside the scrubber's range says so
+(which engine, at what load, against which end), and the start after it where the
+load is back within the range. The
 *fallback fuel* of a span is the plain fuel choice there (the fuel the circuits
 would burn without the scrubber, to change to if it fails). Events are in time
 order; positions are where the ship then is on the timeline.
@@ -33,6 +36,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+from geo.ellipsoid import NM_M
 from planner.fuels import so2_formed_kg, so2_from_fuel_kg
 from planner.ship.scrubbers import Scrubber
 from planner.voyage.flush_cache import FlushCache
@@ -47,7 +51,8 @@ from planner.voyage.scrubber_events import (
     ScrubberOutage,
     ScrubberSpan,
 )
-from planner.voyage.scrubbing import Availability, real_stretch_at
+from planner.voyage.scrubbing import Availability, piece_at, real_stretch_at
+from planner.voyage.scrubbing_choice import LOAD_IN, LOAD_OUT
 from planner.voyage.so2 import Period, stretch_burnt_t, sulphur_burnt_t
 from planner.voyage.timeline import Timeline
 
@@ -162,14 +167,21 @@ def spans_and_events(scrubber: Scrubber, circuits: tuple[str, ...], runs: Sequen
                      else
                      f"circuit {names} on {run.fuel.name} ({run.fuel.sulphur_pct:.2f} %) from "
                      "departure")
+        if into is not None and into.event == LOAD_IN:
+            start_why += (f"; the served engines' load within scrubber {scrubber.name}'s range "
+                          f"from {into.boundary_m / NM_M:,.1f} nm")
         events.append(ScrubberEvent(scrubber.name, START, first.mode, first.from_epoch_s,
                                     first.from_m, start_why))
         if away is not None:
             to = away.circuits[0].to_fuel
-            events.append(ScrubberEvent(
-                scrubber.name, STOP, None, mine[-1].to_epoch_s, mine[-1].to_m,
-                f"every inlet of {names} at the {away.target_pct:.3f} % target on {to} "
-                f"(limit {away.limit_pct:.2f} % at {away.area})"))
+            stop_why = (f"every inlet of {names} at the {away.target_pct:.3f} % target on {to} "
+                        f"(limit {away.limit_pct:.2f} % at {away.area})")
+            if away.event == LOAD_OUT:
+                beyond = piece_at(pieces, away.boundary_m + 1.0)
+                stop_why += (f"; scrubber {scrubber.name} not available from "
+                             f"{away.boundary_m / NM_M:,.1f} nm: {beyond.why}")
+            events.append(ScrubberEvent(scrubber.name, STOP, None, mine[-1].to_epoch_s,
+                                        mine[-1].to_m, stop_why))
     for o in (o for o in outages if o.scrubber == scrubber.name):
         if o.from_epoch_s > timeline.end_epoch_s or (o.until_epoch_s is not None
                                                      and o.until_epoch_s <= timeline.start_epoch_s):

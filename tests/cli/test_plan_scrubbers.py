@@ -73,6 +73,27 @@ def test_the_scrubber_tables_are_whole(sample, width):
     assert "exit (a washwater discharge zone)" in " ".join(text.split())
 
 
+@pytest.mark.parametrize("width", WIDTHS)
+def test_the_served_circuits_emission_ratio_is_shown(sample, width):
+    """The stretches' ``scrubbed`` figures in the text, each number whole on one line: main
+    on hsfo (2.60 %, 84.93 % carbon [MEPC-308], from memory), uncleaned
+    10⁴ × (2.60/32.06)/(84.93/12.011) = 114.7 by hand ([IUPAC-2021] [D]); to meet 4.3 (0.10 %,
+    [MEPC-340] Table 1, from memory) 96.3 % of it removed."""
+    doc, texts = sample
+    lines = texts[width].splitlines()
+    assert "SO₂/CO₂ of the fuel burnt on a scrubber, by stretch" in lines
+    raw = 1e4 * (2.60 / 32.06) / (84.93 / 12.011)
+    assert f"{raw:.1f}" == "114.7" and f"{100 * (1 - 4.3 / raw):.1f}" == "96.3"
+    rows = [(st, x) for st in doc["stretches"] for x in st["scrubbed"]]
+    assert rows and {x["fuel"] for _, x in rows} == {"hsfo"}
+    head = " ".join(" ".join(lines).split())
+    assert "Circuit main on hsfo (2.60 % m/m sulphur, 84.93 % m/m carbon" in head
+    for st, x in rows:
+        cells = [f"{st['from_nm']:,.1f}", f"{st['to_nm']:,.1f}", f"{st['ratio_limit']:.1f}",
+                 f"{x['uncleaned_ratio']:.1f}", f"{x['so2_removal_needed_pct']:.1f}"]
+        assert any(all(c in line.split() for c in cells) for line in lines), cells
+
+
 def test_the_sample_files_are_written(tmp_path):
     gj = tmp_path / "plan.geojson"
     out = piped([*PLAN, "--geojson", str(gj), "--map", str(tmp_path / "map.png"),
@@ -106,3 +127,26 @@ def test_an_outage_is_named_as_a_moment_on_the_clock(cols):
     assert position(row["start_lat"], row["start_lon"]) in text
     # the map, chart and GPX marks draw it too, under its own number
     assert row["number"] in {e.number for e in events_of(plan, doc)}
+
+
+@pytest.mark.parametrize("cols", [80, 120, 160])
+def test_a_leg_out_of_the_load_range_is_named_in_the_text(cols):
+    """The changeover before a slow leg below the scrubber's minimum load reads as such (not
+    as an area's entry), and the scrubber stop says which engine at what load: 15.9 % MCR at
+    8 kn by the propeller law, 85 % × (8/14)³ ([PROPELLER-LAW], common practice)."""
+    from planner.cli.plan import plan_lines
+    from tests.planner.voyage.test_scrubber_load import plan_of
+
+    _, doc = plan_of(min_load_pct=25.0)
+    lines = plan_lines(doc, cols)
+    assert all(len(line) <= cols for line in lines)
+    text = " ".join(" ".join(lines).split())
+    down = next(r for r in doc["changeovers"] if r["boundary_event"] == "load_out_of_range")
+    assert (f"Changeover {down['number']}: West Far ECA, a leg on which a served engine's "
+            "load is outside the scrubber's load range") in text
+    assert f"Leg begins {utc_full(down['boundary_utc'])}" in text
+    assert f"main_engine load {85 * (8 / 14) ** 3:.1f} % MCR at 8.0 kn, below scrubber " \
+        "egcs's 25 % minimum" in text
+    back = next(r for r in doc["changeovers"] if r["boundary_event"] == "load_in_range")
+    assert f"Changeover {back['number']}: West Far ECA, the served engines' load back " \
+        "within" in text

@@ -99,3 +99,52 @@ def test_a_fuel_within_the_limit_needs_none_even_if_its_carbon_is_low():
 def test_stretch_ratio_checks_itself():
     with pytest.raises(ValueError):
         StretchRatio(0.1, 4.3, TABLE_SOURCE, "f", 1.0, 85.0, "x", 40.0, 1.5)
+
+
+def test_no_scrubber_no_served_figures(sample):
+    """The first sample's ship has no scrubber: every stretch row has an empty list."""
+    _, doc = sample
+    assert all(row["scrubbed"] == [] for row in doc["stretches"])
+
+
+def test_a_served_circuit_has_the_figures_of_its_own_fuel():
+    """scrub_far.toml (fictional): the main circuit burns 2.60 % hsfo (RMG 380, no carbon on
+    the note: 84.93 % [MEPC-308], from memory) on the scrubber everywhere, the boiler its
+    own compliant fuel. Each stretch lists main's figures by hand against its limit
+    ([MEPC-340] Table 1: 4.3 for 0.10 %, 21.7 for 0.50 %, from memory)."""
+    from tests.planner.voyage.test_scrubbing import plan_of
+
+    plan, doc = plan_of()
+    raw = by_hand(2.60, 84.93)
+    for row in doc["stretches"]:
+        (x,) = row["scrubbed"]
+        assert (x["circuit"], x["scrubbers"], x["fuel"], x["sulphur_pct"]) == (
+            "main", ["egcs"], "hsfo", 2.60)
+        assert x["carbon_pct"] == 84.93 and "from memory" in x["carbon_source"]
+        assert x["uncleaned_ratio"] == pytest.approx(raw, rel=1e-12)
+        assert x["so2_removal_needed_pct"] == pytest.approx(
+            100 * (1 - TABLE_1[row["limit_pct"]] / raw), rel=1e-12)
+        # the row's own keys still describe the main fuel burnt (the boiler's runs)
+        fuel = plan.system.fuels[row["fuel"]]
+        assert row["fuel"] != "hsfo"
+        assert row["uncleaned_ratio"] == pytest.approx(by_hand(fuel.sulphur_pct, fuel.carbon),
+                                                       rel=1e-12)
+    inside = [r for r in doc["stretches"] if r["limit_pct"] == 0.10]
+    assert inside and all(f"{r['scrubbed'][0]['so2_removal_needed_pct']:.1f}" == "96.3"
+                          for r in inside)
+
+
+def test_a_stretch_without_a_span_lists_none():
+    """A span that only touches a stretch at its end is not on it; a stretch with no span
+    has an empty list."""
+    from planner.voyage.emission_ratio import served_ratios
+    from planner.voyage.scrubber_events import ScrubberSpan
+    from tests.planner.voyage.test_scrubbing import plan_of
+
+    plan, _ = plan_of()
+    first = plan.choices[0].stretch
+    touch = ScrubberSpan("egcs", ("main",), "hsfo", "hfo", 0.5, "open", first.to_m,
+                         first.to_m + 10.0, 0.0, 1.0)
+    got = served_ratios(plan.choices, [touch], plan.system.fuels, {})
+    assert got[0] == [] and [x.circuit for x in got[1]] == ["main"]
+    assert all(g == [] for g in got[2:])
