@@ -29,12 +29,14 @@ KINDS = {"enter": "enter", "exit": "exit", "comes_into_force": "comes into force
          "ceases": "ceases to apply", "departure": "before departure",
          "cap_change": "global cap changes", "scrubber_out_of_service": "scrubber outage",
          "scrubber_in_service": "scrubber back in service", "zone_enter": "zone enter",
-         "zone_exit": "zone exit"}
+         "zone_exit": "zone exit", "load_out_of_range": "load out of scrubber range",
+         "load_in_range": "load back in scrubber range"}
 """The short name of each ``boundary_event`` (the map's, chart's and GPX's)."""
 
-ZONE_EVENTS = ("enter", "exit", "zone_enter", "zone_exit")
+ZONE_EVENTS = ("enter", "exit", "zone_enter", "zone_exit", "load_out_of_range", "load_in_range")
 """A changeover's boundary that is a place but no crossing of the route check's areas when
-no crossing matches it: a washwater discharge zone's (the served circuits')."""
+no crossing matches it: a washwater discharge zone's, or the start of a leg whose load is
+outside or back inside a scrubber's load range (the served circuits')."""
 
 SCRUBBER_KINDS = {"start": "scrubber start", "stop": "scrubber stop",
                   "mode_change": "scrubber mode change",
@@ -95,6 +97,14 @@ def what_text(r: dict, at: str) -> str:
     if ev == "zone_exit":
         return (", exit (a washwater discharge zone): change the served circuits back to the "
                 "high-sulphur fuel at or after the boundary, never before")
+    if ev == "load_out_of_range":
+        return (", a leg on which a served engine's load is outside the scrubber's load range "
+                "(see the scrubber events): change the served circuits to compliant fuel "
+                f"before the leg{limit}")
+    if ev == "load_in_range":
+        return (", the served engines' load back within the scrubber's load range: change the "
+                "served circuits back to the high-sulphur fuel at or after the leg's start, "
+                "never before")
     if ev == "scrubber_out_of_service":
         return (f", scrubber out of service at {at}: the served circuits compliant by {at} "
                 f"wherever the ship is{limit}")
@@ -119,6 +129,7 @@ def moment_words(r: dict) -> tuple[str, str]:
     ev = boundary_event(r)
     return {"enter": ("Boundary", "at"), "exit": ("Boundary", "at"),
             "zone_enter": ("Boundary", "at"), "zone_exit": ("Boundary", "at"),
+            "load_out_of_range": ("Leg begins", "at"), "load_in_range": ("Leg begins", "at"),
             "comes_into_force": ("Comes into force", "the ship then at"),
             "ceases": ("Ceases to apply", "the ship then at"),
             "departure": ("Departure", "alongside at"),
@@ -195,6 +206,8 @@ def _note(r: dict) -> str:
             return f"on {r.get('to_fuel')} before departure"
         if ev == "zone_enter":
             return f"on {r.get('to_fuel')} before the zone (the scrubber cannot work in it)"
+        if ev == "load_out_of_range":
+            return f"on {r.get('to_fuel')} before the leg (load outside the scrubber's range)"
         return f"on {r.get('to_fuel')} before the boundary"
     if ev in ("ceases", "cap_change", "scrubber_in_service"):
         return f"back to {r.get('to_fuel')} from then"
@@ -202,6 +215,8 @@ def _note(r: dict) -> str:
         return f"to {r.get('to_fuel')} from departure"
     if ev == "zone_exit":
         return f"back to {r.get('to_fuel')} from the zone's exit"
+    if ev == "load_in_range":
+        return f"back to {r.get('to_fuel')} from the leg's start (load back in range)"
     return f"back to {r.get('to_fuel')} from the exit"
 
 

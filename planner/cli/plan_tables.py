@@ -91,53 +91,20 @@ def groups(rows: list[dict]) -> list[list[dict]]:
     return out
 
 
-SCRUBBER_EVENTS = {
-    "zone_enter": (
-        ", enter (a washwater discharge zone the scrubber cannot work in): change the served "
-        "circuits to compliant fuel before the boundary{limit}", ("Boundary", "at")),
-    "zone_exit": (
-        ", exit (a washwater discharge zone): change the served circuits back to the "
-        "high-sulphur fuel at or after the boundary, never before", ("Boundary", "at")),
-    "scrubber_out_of_service": (
-        ", scrubber out of service at {at}: the served circuits compliant by {at} wherever "
-        "the ship is{limit}", ("Scrubber out of service", "the ship then at")),
-    "scrubber_in_service": (
-        ", scrubber back in service at {at}: change back to the high-sulphur fuel at or "
-        "after {at}, never before", ("Scrubber back in service", "the ship then at")),
-    "load_out_of_range": (
-        ", a leg on which a served engine's load is outside the scrubber's load range (see "
-        "the scrubber events): change the served circuits to compliant fuel before the "
-        "leg{limit}", ("Leg begins", "at")),
-    "load_in_range": (
-        ", the served engines' load back within the scrubber's load range: change the served "
-        "circuits back to the high-sulphur fuel at or after the leg's start, never before",
-        ("Leg begins", "at")),
-}
-"""The words of the served circuits' own boundaries (:data:`planner.voyage.runs.SCRUBBER_EVENTS`,
-:mod:`planner.voyage.scrubbing_choice`): the rest of the head's first line, then its label
-and position words."""
-
-
 def _what(r: dict, day: str = "") -> str:
     """What the changeover is, in words (after the area's name), from its
-    ``boundary_event`` (:func:`planner.charts.plan_events.what_text`, or
-    :data:`SCRUBBER_EVENTS`); the boundary's moment as ``HH:MMZ`` when on ``day``."""
+    ``boundary_event`` (:func:`planner.charts.plan_events.what_text`, the words the
+    PDF, the sheets, the map and the chart use); the boundary's moment as ``HH:MMZ``
+    when on ``day``."""
     from planner.charts.plan_events import what_text
 
-    at = utc_cell(r.get("boundary_utc"), day)
-    own = SCRUBBER_EVENTS.get(r.get("boundary_event", ""))
-    if own is not None:
-        limit = (f" (limit {r['limit_pct']:.2f} % m/m, target {r['target_pct']:.3f} % m/m)"
-                 if r.get("target_pct") else "")
-        return own[0].format(at=at, limit=limit)
-    return what_text(r, at)
+    return what_text(r, utc_cell(r.get("boundary_utc"), day))
 
 
 def _moment_words(r: dict) -> tuple[str, str]:
     from planner.charts.plan_events import moment_words
 
-    own = SCRUBBER_EVENTS.get(r.get("boundary_event", ""))
-    return own[1] if own is not None else moment_words(r)
+    return moment_words(r)
 
 
 def _head(g: list[dict]) -> tuple[str, ...]:

@@ -310,6 +310,12 @@ def _boundary_step(event: str, area: str, down: bool) -> str:
     if event == "scrubber_out_of_service":
         return ("scrubber out: the scrubber is out of service from now (every inlet it served "
                 "compliant by now; note the position)")
+    if event == "load_out_of_range":
+        return ("leg begins: a served engine's load is outside the scrubber's range from here "
+                "(every inlet it served compliant by now; note the position)")
+    if event == "load_in_range":
+        return ("leg begins: the served engines' load is back within the scrubber's range (the "
+                "switch back to the high-sulphur fuel may begin; note the position)")
     if event == "scrubber_in_service":
         return ("scrubber back: the scrubber is back in service from now (the switch back to "
                 "the high-sulphur fuel may begin; note the position)")

@@ -96,9 +96,11 @@ CORRECTABLE = (STARTED, COMPLETED, BACK_COMMENCED, BACK_COMPLETED, TANKS, SAMPLE
 MAX_OFFSET_MIN = 14 * 60
 
 BOUNDARY_EVENTS = ("enter", "exit", "comes_into_force", "ceases", "departure", "cap_change",
-                   "zone_enter", "zone_exit", "scrubber_out_of_service", "scrubber_in_service")
+                   "zone_enter", "zone_exit", "scrubber_out_of_service", "scrubber_in_service",
+                   "load_out_of_range", "load_in_range")
 """What a planned boundary may be (the plan JSON's ``boundary_event``, docs/json-contract.md):
-a crossing (``enter``, ``exit``) or a moment on the clock (the others, see
+a crossing (``enter``, ``exit``), a served circuit's place (``zone_*``, ``load_*``) or a
+moment on the clock (the others, see
 :mod:`planner.journal.events`)."""
 
 

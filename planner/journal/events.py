@@ -8,10 +8,18 @@ The plan JSON (docs/json-contract.md) names each changeover's ``boundary_event``
 ``ceases``          the area ceases to be in force while the ship is inside it
 ``departure``       made alongside before departure (or commenced at departure)
 ``cap_change``      the global sulphur cap changes while under way
+``zone_enter``/     a served circuit's change at a washwater discharge zone its scrubber
+``zone_exit``       cannot work in (a place: the zone's boundary)
+``scrubber_out_of_service``/``scrubber_in_service``  a served circuit's change for a planned
+                    scrubber outage and back (moments on the clock)
+``load_out_of_range``/``load_in_range``  a served circuit's change at the start of a leg on
+                    which a served engine's load leaves or re-enters the scrubber's load
+                    range (a place: where the leg begins)
 ==================  ======================================================================
 
-Only ``enter`` and ``exit`` are crossings; the others are deadlines on the clock, and the
-position the plan gives for them is where the ship then is, not a boundary. A plan made
+Only ``enter`` and ``exit`` are crossings of an area; the zone and load events are places
+too; the others are deadlines on the clock, and the position the plan gives for them is
+where the ship then is, not a boundary. A plan made
 before ``boundary_event`` existed is read as ``enter`` (to compliant) or ``exit`` (back).
 Plain text, no terminal or PDF markup.
 """
@@ -30,6 +38,12 @@ _MOMENT = {
     "ceases": "the area ceased",
     "departure": "departure",
     "cap_change": "the sulphur cap changed",
+    "zone_enter": "entry into the discharge zone",
+    "zone_exit": "exit from the discharge zone",
+    "scrubber_out_of_service": "the scrubber went out of service",
+    "scrubber_in_service": "the scrubber was back in service",
+    "load_out_of_range": "the leg's start",
+    "load_in_range": "the leg's start",
 }
 """The boundary after ``before``/``after`` in a heading (``completed 12 min after entry``)."""
 
@@ -68,14 +82,45 @@ def boundary_phrase(event: str, area: str | None, when: str, where: str) -> str:
         return f"planned departure {when}{' from ' + where if where else ''}"
     if event == "cap_change":
         return f"the global sulphur cap changed at {when} (a moment on the clock{at})"
+    if event in _SCRUBBER_CLOCK:
+        return f"{_SCRUBBER_CLOCK[event]} at {when} (a moment on the clock{at})"
+    if event in _SCRUBBER_PLACE:
+        return f"planned {_SCRUBBER_PLACE[event]} {when}{' at ' + where if where else ''}"
     word = "entry" if event == "enter" else "exit"
     return f"planned boundary {word} {when}{' at ' + where if where else ''}"
+
+
+_SCRUBBER_CLOCK = {"scrubber_out_of_service": "the scrubber planned out of service",
+                   "scrubber_in_service": "the scrubber planned back in service"}
+_SCRUBBER_PLACE = {
+    "zone_enter": "entry into a washwater discharge zone the scrubber cannot work in",
+    "zone_exit": "exit from the washwater discharge zone",
+    "load_out_of_range": "start of a leg with a served engine's load outside the scrubber's "
+                         "load range",
+    "load_in_range": "start of a leg with the served engines' load back in the scrubber's "
+                     "load range",
+}
+_SCRUBBER_GOAL = {
+    "zone_enter": "to compliant fuel before entering {area} (a washwater discharge zone the "
+                  "scrubber cannot work in)",
+    "scrubber_out_of_service": "to compliant fuel before the scrubber's planned outage ({area})",
+    "load_out_of_range": "to compliant fuel before the leg with the load outside the scrubber's "
+                         "range ({area})",
+    "zone_exit": "back to the high-sulphur fuel after leaving {area} (washwater discharge zone)",
+    "scrubber_in_service": "back to the high-sulphur fuel after the scrubber's return to "
+                           "service ({area})",
+    "load_in_range": "back to the high-sulphur fuel from the leg with the load back in the "
+                     "scrubber's range ({area})",
+}
+"""The served circuits' own boundaries: clock moments, places, and what a change is for."""
 
 
 def goal_text(event: str, direction: str, area: str) -> str:
     """What a changeover is for, in a heading: ``to compliant fuel before entering X``,
     ``to compliant fuel before X came into force``, ``to compliant fuel alongside before
     departure, inside X``, ``back to regular fuel after leaving X`` / ``after X ceased``."""
+    if event in _SCRUBBER_GOAL:
+        return _SCRUBBER_GOAL[event].format(area=area)
     if direction == "to_compliant":
         if event == "comes_into_force":
             return f"to compliant fuel before {area} came into force (the ship inside it)"
@@ -103,8 +148,15 @@ def late_check(event: str, kind_completes: bool) -> str:
                 "departure": "the ship left before the changeover was complete: check "
                              "where it was then",
                 "cap_change": "check the fuel at the inlets when the sulphur cap changed",
+                "zone_enter": "check where the ship entered the discharge zone",
+                "scrubber_out_of_service": "check the fuel at the inlets when the scrubber "
+                                           "went out of service",
+                "load_out_of_range": "check where the leg with the load out of range began",
                 }.get(event, "check where the ship crossed into the area")
     return {"ceases": "check the time the area ceased to be in force",
             "departure": "check the time of departure",
             "cap_change": "check the time the sulphur cap changed",
+            "zone_exit": "check where the ship left the discharge zone",
+            "scrubber_in_service": "check the time the scrubber was back in service",
+            "load_in_range": "check where the leg with the load back in range began",
             }.get(event, "check where the ship left the area")

@@ -45,7 +45,12 @@ ZONE_ENTER = "zone_enter"
 scrubber cannot work in (a place the ship reaches, like an area's entry)."""
 ZONE_EXIT = "zone_exit"
 """A served circuit's change back to high-sulphur fuel on leaving such a zone."""
-SCRUBBER_EVENTS = (ZONE_ENTER, ZONE_EXIT, SCRUBBER_OUT, SCRUBBER_BACK)
+LOAD_OUT = "load_out_of_range"
+"""A served circuit's change to compliant fuel before a leg on which a served engine's load
+is outside the scrubber's load range (a place, like an area's entry)."""
+LOAD_IN = "load_in_range"
+"""A served circuit's change back to high-sulphur fuel where the load is back in range."""
+SCRUBBER_EVENTS = (ZONE_ENTER, ZONE_EXIT, SCRUBBER_OUT, SCRUBBER_BACK, LOAD_OUT, LOAD_IN)
 """The boundary events of served circuits' changes only (:mod:`planner.voyage.scrubbing_choice`)."""
 CLOCK_EVENTS = ("comes_into_force", "ceases", "departure", "cap_change", SCRUBBER_OUT,
                 SCRUBBER_BACK)
@@ -113,7 +118,9 @@ class Change:
         compliant by a scrubber's planned outage) or ``"scrubber_in_service"`` (back to
         high-sulphur fuel when it ends), ``"zone_enter"`` / ``"zone_exit"`` (a served
         circuit's change at a washwater discharge zone the scrubber cannot work in, the zone
-        as ``area``). Empty: not yet known (``enter`` / ``exit`` by direction).
+        as ``area``), ``"load_out_of_range"`` / ``"load_in_range"`` (a served circuit's
+        change at the start of a leg on which a served engine's load leaves or re-enters
+        the scrubber's load range). Empty: not yet known (``enter`` / ``exit`` by direction).
     """
 
     area: str

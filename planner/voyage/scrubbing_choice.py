@@ -39,16 +39,19 @@ from planner.fuels import Fuel
 from planner.ship.scrubbers import Scrubber
 from planner.ship.system import FuelSystem
 from planner.voyage.fuel_choice import FuelChoice, choose_fuels
-from planner.voyage.runs import SCRUBBER_BACK, SCRUBBER_OUT, ZONE_ENTER, ZONE_EXIT, Change
+from planner.voyage.runs import (
+    LOAD_IN,
+    LOAD_OUT,
+    SCRUBBER_BACK,
+    SCRUBBER_OUT,
+    ZONE_ENTER,
+    ZONE_EXIT,
+    Change,
+)
 from planner.voyage.scrubber_events import ScrubberOutage, ZonePassage
 from planner.voyage.scrubbing import Availability, piece_at, scrubbed_stretches
 from planner.voyage.timeline import Timeline
 
-LOAD_OUT = "load_out_of_range"
-"""A served circuit's change to compliant fuel before a leg where a served engine's load is
-outside the scrubber's load range."""
-LOAD_IN = "load_in_range"
-"""A served circuit's change back to high-sulphur fuel where the load is back in range."""
 LOAD_EVENTS = (LOAD_OUT, LOAD_IN)
 """The served circuits' boundary events of the load range (places, not clock moments)."""
 

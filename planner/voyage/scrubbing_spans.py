@@ -41,7 +41,7 @@ from planner.fuels import so2_formed_kg, so2_from_fuel_kg
 from planner.ship.scrubbers import Scrubber
 from planner.voyage.flush_cache import FlushCache
 from planner.voyage.fuel_choice import FuelChoice
-from planner.voyage.runs import Change, Run
+from planner.voyage.runs import LOAD_IN, LOAD_OUT, Change, Run
 from planner.voyage.scrubber_events import (
     MODE_CHANGE,
     OUT_OF_SERVICE,
@@ -52,7 +52,6 @@ from planner.voyage.scrubber_events import (
     ScrubberSpan,
 )
 from planner.voyage.scrubbing import Availability, piece_at, real_stretch_at
-from planner.voyage.scrubbing_choice import LOAD_IN, LOAD_OUT
 from planner.voyage.so2 import Period, stretch_burnt_t, sulphur_burnt_t
 from planner.voyage.timeline import Timeline
 

@@ -284,10 +284,17 @@ def test_a_scrubber_event_is_not_a_crossing():
     ("scrubber_in_service", "to_regular", ("Scrubber back in service", "the ship then at"),
      ", scrubber back in service at 14:00Z: change back to the high-sulphur fuel at or after "
      "14:00Z, never before"),
+    ("load_out_of_range", "to_compliant", ("Leg begins", "at"),
+     ", a leg on which a served engine's load is outside the scrubber's load range (see the "
+     "scrubber events): change the served circuits to compliant fuel before the leg "
+     "(limit 0.10 % m/m)"),
+    ("load_in_range", "to_regular", ("Leg begins", "at"),
+     ", the served engines' load back within the scrubber's load range: change the served "
+     "circuits back to the high-sulphur fuel at or after the leg's start, never before"),
 ])
 def test_the_served_circuits_boundaries_have_words(event, direction, label, words):
-    """The words of the terminal table (planner/cli/plan_tables.py SCRUBBER_EVENTS, the
-    scrubber plan's own), for the PDF, the sheets, the map, the chart and the GPX."""
+    """The words of the served circuits' own boundaries, one text for the terminal table
+    (planner/cli/plan_tables.py), the PDF, the sheets, the map, the chart and the GPX."""
     from planner.charts.plan_events import KINDS, moment_words, plan_events, what_text
 
     r = {"boundary_event": event, "direction": direction, "limit_pct": 0.1, "number": 3,
@@ -297,4 +304,4 @@ def test_the_served_circuits_boundaries_have_words(event, direction, label, word
     assert moment_words(r) == label
     [e] = plan_events([], [r], [])
     assert e.kind == KINDS[event] and e.label == "3"
-    assert e.zone == event.startswith("zone_")
+    assert e.zone == event.startswith(("zone_", "load_"))  # places, not clock moments

@@ -100,3 +100,28 @@ def test_a_switch_back_at_departure_reads_as_such():
         "to compliant fuel before Tarrow Approaches ECA came into force (the ship inside it)"
     r = _record(BACK_COMMENCED, 0, "departure")
     assert relation_text(BACK_COMMENCED, r) == "commenced at departure"
+
+
+@pytest.mark.parametrize(("event", "direction", "goal"), [
+    ("load_out_of_range", "to_compliant",
+     "to compliant fuel before the leg with the load outside the scrubber's range (global cap)"),
+    ("load_in_range", "to_regular",
+     "back to the high-sulphur fuel from the leg with the load back in the scrubber's range "
+     "(global cap)"),
+    ("zone_enter", "to_compliant",
+     "to compliant fuel before entering global cap (a washwater discharge zone the scrubber "
+     "cannot work in)"),
+    ("scrubber_out_of_service", "to_compliant",
+     "to compliant fuel before the scrubber's planned outage (global cap)"),
+])
+def test_a_served_circuits_boundary_is_not_called_an_area_entry(event, direction, goal):
+    """A served circuit's own boundary (a zone, an outage, a leg whose engine load leaves the
+    scrubber's range) is said as what it is, never as entering or leaving an area."""
+    from planner.journal.events import boundary_phrase, goal_text, late_check, moment_word
+
+    assert goal_text(event, direction, "global cap") == goal
+    phrase = boundary_phrase(event, "global cap", "2027-06-01 19:37Z", "38°48.0'S 172°00.0'W")
+    assert "boundary entry" not in phrase and "boundary exit" not in phrase
+    assert moment_word(event) != "the boundary"
+    check = late_check(event, direction == "to_compliant")
+    assert "crossed into the area" not in check and "left the area" not in check
