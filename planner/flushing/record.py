@@ -44,10 +44,19 @@ class Inlets:
         self.pipes = np.array(pipes, dtype=int)
         self.of_consumer = np.array([order.index(kn) for kn in zip(kinds, nodes, strict=True)],
                                     dtype=int)
+        n_stirred = len(net.stirred)  # each consumer's source among the stirred nodes, then pipes
+        self._at_consumer = np.array(
+            [n if k == STIRRED else n_stirred + n for k, n in zip(kinds, nodes, strict=True)],
+            dtype=int)
 
     def values(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
         """Composition at each source (n_sources, F) from stirred (S, F) and pipe (P, F) values."""
         return np.concatenate((stirred[self.stirred], pipe_outlet[self.pipes]))
+
+    def at_consumers(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
+        """Each consumer's inlet (k, C, F) from stirred (k, S, F) and pipe (k, P, F) values:
+        ``values(...)[of_consumer]`` for ``k`` quantities at once."""
+        return np.concatenate((stirred, pipe_outlet), axis=1)[:, self._at_consumer]
 
 
 class Recorder:

@@ -306,19 +306,12 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     rec.add_state(h * trial.consumption_m3h, trial.inlet_mean, vol_new, x_new)
     state.stirred_out_m3h, state.pipe_flow_m3h = fl.stirred_out.copy(), qp.copy()
     state.last_end = end[run.inlets.of_consumer]
-    state.slope = _end_slope(run.inlets, step)
+    g, k = trial.inlet_shape
+    state.slope = (2.0 / h) * g + (6.0 / h) * k  # d/dt at s = 1 of its Legendre profile
     state.inlet, state.x, state.volume_m3 = inlet, x_new, vol_new
     state.time_h, state.grid = _next_time(t, h, run.output_step_h)
     state.k = next_exponent(trial.k, trial.error, h, trial.h_try, run.k_max)
     state.n_steps += 1
-
-
-def _end_slope(inlets: Inlets, step: StepResult) -> np.ndarray:
-    """Rate of change of each consumer inlet at the step end (C, F), 1/h: the derivative at
-    ``s = 1`` of its quadratic Legendre profile over the step, ``(2·g + 6·k)/h``."""
-    g = inlets.values(step.moments[2], step.outflow[1])
-    k = inlets.values(step.moments[3], step.outflow[2])
-    return ((2.0 / step.h) * g + (6.0 / step.h) * k)[inlets.of_consumer]
 
 
 def _interior(h: float, grid: int | None, output_step_h: float) -> int:

@@ -71,6 +71,7 @@ class Trial(NamedTuple):
     props: Propagators
     consumption_m3h: np.ndarray  # (C,)
     inlet_mean: np.ndarray  # (C, F) mean inlet composition over the step
+    inlet_shape: np.ndarray  # (2, C, F) its Legendre slope and curvature over the step
     h_try: float  # the trial length it was cut from, h
     error: float  # over the allowance
     k: int  # the step exponent after any halving
@@ -137,14 +138,15 @@ def try_step(
         shares, checked = _shares(run, fl, every, s)
         known, fresh = _pipe_windows(run.net.pipe_volume_m3, pipes, fl.pipe_flow, h, every)
         step = compute_step(x, known, fresh, fl.system[:, s:], shares, props.maps(h), checked)
-        mean = run.inlets.values(step.moments[1], step.outflow[0])[run.inlets.of_consumer]
+        legendre = run.inlets.at_consumers(step.moments[1:4], step.outflow)  # (3, C, F)
+        mean = legendre[0]
         err = max(step.shape_error / run.tolerance,
                   _flow_error(run, at.segment, consumption, mean))
         if err > 2.0 and k > _MIN_STEP_EXP and h >= 0.99 * h_try:
             k -= 1
             h_try = h_try / 2.0
             continue
-        return Trial(step, fl, props, consumption, mean, h_try, err, k)
+        return Trial(step, fl, props, consumption, mean, legendre[1:], h_try, err, k)
 
 
 def draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.ndarray:
