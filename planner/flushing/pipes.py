@@ -157,7 +157,7 @@ class PipeSet:
         np.copyto(st, -_FAR, where=gone)
         live = st < _HALF_FAR
         live &= st > -_HALF_FAR
-        self.head = lo + np.argmax(live, axis=0)  # the first column still in the pipe
+        self.head = lo + live.argmax(axis=0)  # the first column still in the pipe
         self._lo = min(self.head.tolist(), default=hi - 1)
 
     def sample(self, pipes: np.ndarray, positions_m3: np.ndarray, left: np.ndarray) -> np.ndarray:

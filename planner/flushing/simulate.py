@@ -287,13 +287,12 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     x_new, vol_new = _commit_stirred(run, state, step, fl)
     _check_tanks(run, state, vol_new, fl, t, t + h)
     qp = fl.pipe_flow
-    flowing = qp > NO_FLOW_M3H
     through = qp * h
     interior = _interior(h, state.grid, run.output_step_h)
     if interior and run.inlets.stirred.size:
         dense = trial.props.dense(dense_start(state.x, step.g, h), interior)
         rec.add_dense(dense[:, run.inlets.stirred])
-    every = bool(flowing.all())
+    every = float(np.minimum.reduce(qp, initial=np.inf)) > NO_FLOW_M3H  # every pipe flows
     if not every:
         through = through * np.heaviside(qp - NO_FLOW_M3H, 0.0)
     parcels = step.inflow[:3].transpose(1, 0, 2)

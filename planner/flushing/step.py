@@ -25,6 +25,7 @@ Time in hours, volumes m³, flows m³/h, compositions as volume fractions (…, 
 
 from __future__ import annotations
 
+import math
 from typing import NamedTuple
 
 import numpy as np
@@ -273,7 +274,7 @@ def compute_step(
             cubic[0] += known[:, 3]
             np.abs(cubic[0], out=cubic[0])
         np.abs(inflow[3], out=cubic[1])
-        shape = float(np.maximum.reduce((cubic.max(axis=2) * checked).ravel()))
+        shape = float(np.maximum.reduce((np.maximum.reduce(cubic, axis=2) * checked).ravel()))
     return StepResult(maps.h, moments, out, inflow, g, shape)
 
 
@@ -340,7 +341,7 @@ def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
     ``numpy.linalg.solve`` for its error."""
     if _gesv is not None:
         r = _gesv(a, b, signature="dd->d")
-        if np.isfinite(r).all():
+        if math.isfinite(float(np.add.reduce(r, axis=None))):  # a sum overflowing re-solves
             return r
     return np.linalg.solve(a, b)
 

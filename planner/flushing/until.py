@@ -116,7 +116,7 @@ class Watch:
         """Every watched source (its composition now, ``inlet`` (n_sources, F)) inside the
         half-space ``w·φ ≤ 0`` (default: at the level)."""
         g = np.maximum(inlet[self.sources], 0.0) @ (self.w if w is None else w)
-        return bool(g.size == 0 or float(g.max()) <= 0.0)
+        return bool(g.size == 0 or float(np.maximum.reduce(g)) <= 0.0)
 
     def settled(self, x: np.ndarray, stirred_out_m3h: np.ndarray, pipes: PipeSet,
                 pipe_flow_m3h: np.ndarray, w: np.ndarray | None = None) -> bool:
