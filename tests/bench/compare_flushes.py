@@ -13,6 +13,9 @@ count or length differ. To compare with the main branch::
     git archive main | tar -x -C /tmp/base
     .venv/bin/python tests/bench/compare_flushes.py --code /tmp/base --dump /tmp/base.json
     .venv/bin/python tests/bench/compare_flushes.py --dump /tmp/new.json --against /tmp/base.json
+
+For the error of either against a converged solution, dump a reference at a thousandth
+of the tolerance (``--tolerance 1e-6``, about 30 times the steps) and compare with it.
 """
 
 from __future__ import annotations
@@ -27,8 +30,9 @@ ROOT = Path(__file__).resolve().parents[2]
 LOADS_PCT = (30.0, 60.0, 85.0, 100.0)
 
 
-def dump(code: Path) -> dict:
-    """Every case's results with the package found under ``code``."""
+def dump(code: Path, tolerance: float | None = None) -> dict:
+    """Every case's results with the package found under ``code`` (at the simulation's
+    default step tolerance, or at ``tolerance``)."""
     sys.path.insert(0, str(code))
     import numpy as np
 
@@ -46,7 +50,9 @@ def dump(code: Path) -> dict:
                     key = f"{path.name}:{name}:{a}->{b}:{load:g}"
                     try:
                         sched = schedule_at(system, load_pct=load, circuits=[name])
-                        r, s = flush(system, name, a, b, sched, limit_pct=0.10, target_pct=0.09)
+                        options = {} if tolerance is None else {"tolerance": tolerance}
+                        r, s = flush(system, name, a, b, sched, limit_pct=0.10, target_pct=0.09,
+                                     **options)
                     except Exception as exc:  # an error must stay the same error
                         out[key] = {"error": f"{type(exc).__name__}: {exc}"}
                         continue
@@ -110,8 +116,11 @@ def main() -> None:
     ap.add_argument("--code", type=Path, default=ROOT, help="where the planner package is")
     ap.add_argument("--dump", type=Path, required=True, help="write the results here (JSON)")
     ap.add_argument("--against", type=Path, help="an earlier dump to compare with")
+    ap.add_argument("--tolerance", type=float,
+                    help="the simulation's step tolerance (default: its own, 1e-3); a dump at "
+                         "1e-6 is a reference to measure the default's error against")
     args = ap.parse_args()
-    results = dump(args.code.resolve())
+    results = dump(args.code.resolve(), args.tolerance)
     args.dump.write_text(json.dumps(results))
     print(f"{len(results)} cases written to {args.dump}")
     if args.against is not None:
