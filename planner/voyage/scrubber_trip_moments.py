@@ -35,6 +35,10 @@ ENTER, INSIDE_AT_START, COMES_INTO_FORCE = "enter", "inside_at_start", "comes_in
 BOUNDARY_EVENTS = (ENTER, INSIDE_AT_START, COMES_INTO_FORCE)
 """What a boundary row is: an entry crossed on the scrubber, a span starting inside an area,
 an area coming into force while the ship is inside it on the scrubber."""
+BOUNDARY_WORDS = {ENTER: "entered on the scrubber",
+                  INSIDE_AT_START: "on the scrubber from here, inside the area",
+                  COMES_INTO_FORCE: "comes into force while on the scrubber"}
+"""What happens at a boundary row's moment, in words (after the area's name)."""
 
 
 def out_of_compliance_h(check: RouteCheck, timeline: Timeline, fuel_sulphur_pct: float,
