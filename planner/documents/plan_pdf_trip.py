@@ -126,13 +126,22 @@ def boundary_table(trip: dict) -> list:
     title = para("If the scrubber fails at a boundary (times from the failure)", "h2")
     if not order:
         return [title, para("No control-area boundary is passed on a scrubber.", "small")]
+    from reportlab.platypus import TableStyle
+
     rows: list[list] = []
     heads: list[tuple[int, object]] = []
+    problems: list[int] = []  # rows whose reason takes both "compliant" columns
     for key in order:
         heads.append((len(rows) + 1, key))
         rows.append([_boundary_head(by[key][0])] + [""] * (len(TRIP_HEAD) - 1))
-        rows += [_lead_row(r) for r in by[key]]
-    return [title, _grouped(TRIP_HEAD, rows, heads, TRIP_WIDTHS, "llllll")]
+        for r in by[key]:
+            if r.get("problem"):
+                problems.append(len(rows) + 1)
+            rows.append(_lead_row(r))
+    t = _grouped(TRIP_HEAD, rows, heads, TRIP_WIDTHS, "llllll")
+    if problems:
+        t.setStyle(TableStyle([("SPAN", (4, k), (5, k)) for k in problems]))
+    return [title, t]
 
 
 def longest_table(trip: dict) -> list:

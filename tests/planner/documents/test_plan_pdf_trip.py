@@ -138,3 +138,20 @@ def test_no_scrubber_no_tables(tmp_path):
     assert "Changeovers, by boundary" in t
     assert "If the scrubber fails" not in t
     assert "SO2/CO2 of the fuel burnt on a scrubber" not in t
+
+
+def test_a_lead_without_a_figure_prints_its_reason(sample, tmp_path):
+    """A boundary row whose flush cannot be followed: dashes for the hours, its reason (markup
+    characters printed as they are) across both 'compliant' columns."""
+    import copy
+
+    from planner.documents.plan_pdf import write_plan_pdf
+
+    doc = copy.deepcopy(sample[0])
+    r = doc["scrubber_trip"]["boundaries"][0]
+    r.update(time_to_compliant_h=None, out_of_compliance_h=None, compliant_utc=None,
+             compliant_ship_time=None, problem="tank mgo_service runs dry <&> at 0.5 h")
+    write_plan_pdf(tmp_path / "plan.pdf", doc)
+    t = pdf_flat(tmp_path / "plan.pdf")
+    assert f"{r['circuit']} {r['fuel']} to {r['fallback_fuel']} — — tank mgo_service runs dry " \
+           "<&> at 0.5 h" in t
