@@ -99,7 +99,7 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
         return np.array([plan.timeline.utc(v).replace(tzinfo=None)
                          for v in np.atleast_1d(epoch_s)])
 
-    fig, ax = plt.subplots(figsize=(11, 5.5), dpi=120)
+    fig, ax = plt.subplots(figsize=(11, 6.2), dpi=120)
     for k, circuit in enumerate(plan.system.circuits):
         t, s = inlet_sulphur_along_voyage(plan, circuit)
         ax.plot(dt(t), s, lw=1.5, ls=LINE_STYLES[k % len(LINE_STYLES)],
@@ -139,8 +139,12 @@ def chart_figure(plan: Plan, events: list[PlanEvent] | None = None):
         chart_scrubbers(ax, lambda iso: datetime.fromisoformat(iso.replace("Z", "+00:00"))
                         .replace(tzinfo=None), spans, scrub, _above(plan, spans))
     ax.grid(True, lw=0.3)
-    ax.legend(fontsize=8, loc="upper right")
+    # the legend under the axes, so it hides no curve and no event's label (S6 stop, ...)
+    handles, labels = ax.get_legend_handles_labels()
+    ncol = 4
+    fig.legend(handles, labels, fontsize=8, loc="lower center", ncol=ncol, frameon=False)
+    rows = -(-len(labels) // ncol)
     ax.set_title(f"{plan.system.ship.name}: sulphur at the inlets along the voyage "
                  "(advisory)")
-    fig.tight_layout()
+    fig.tight_layout(rect=(0.0, 0.035 * rows + 0.01, 1.0, 1.0))
     return fig

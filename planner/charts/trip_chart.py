@@ -4,8 +4,9 @@ One line per circuit and span (line styles, so the chart reads in black and
 white): the time from a failure at that moment until every inlet of the circuit
 is at the flushing target on the fallback fuel; beside it, thinner and grey,
 the part of that time out of compliance. Each control-area boundary passed on a
-scrubber is a dotted vertical line labelled with its area; the spans are
-shaded. UTC along the bottom, the ship's time (with its offset) along the top.
+scrubber is a dotted vertical line labelled with its area and what happens there
+(entered; on the scrubber from there inside it, in which washwater mode; coming into
+force); the spans are shaded. UTC along the bottom, the ship's time (with its offset) along the top.
 Samples whose flush never reaches the target are crosses on the axis.
 Moments are epoch seconds (``*_epoch_s``: seconds since 1970-01-01 UTC) until
 they are drawn. PNG, or PDF for a ``.pdf`` name.
@@ -13,16 +14,19 @@ they are drawn. PNG, or PDF for a ``.pdf`` name.
 
 from __future__ import annotations
 
+import math
 from pathlib import Path
 
 import numpy as np
 
 from planner.voyage.plan import Plan
 from planner.voyage.scrubber_trip import TripLeads
+from planner.voyage.scrubber_trip_moments import COMES_INTO_FORCE, ENTER, INSIDE_AT_START
 
 LINE_STYLES = ("-", "--", "-.", ":")
 """One per circuit, so the chart reads in black and white."""
 _MINUTES_UP_TO_H = 3.0  # leads all under this are drawn in minutes
+_NEAR = 0.03  # boundary lines closer than this share of the spans' time are labelled apart
 
 
 def draw_trip_chart(plan: Plan, leads: TripLeads, out: str | Path) -> None:
@@ -54,6 +58,27 @@ def _ship_labels(plan: Plan, ticks: np.ndarray) -> list[str]:
         tz = plan.voyage.ship_tz_at(utc)
         out.append(f"{utc.astimezone(tz).strftime('%d %b %H:%M')}\n({format_offset(tz)})")
     return out
+
+
+def boundary_label(area: str, event: str, mode: str) -> str:
+    """What happens at a boundary row's moment, as the chart writes it beside its line
+    (two short lines where one would be long): ``enter Corran Sea ECA``, ``inside Corran Sea
+    ECA:`` over ``closed loop from here`` (a span on the scrubber starting inside the area, in
+    the span's washwater mode), ``Corran Sea ECA comes`` over ``into force on the scrubber``."""
+    if event == ENTER:
+        return f"enter {area}"
+    if event == INSIDE_AT_START:
+        return f"inside {area}:\n{mode} loop from here"
+    if event == COMES_INTO_FORCE:
+        return f"{area} comes\ninto force on the scrubber"
+    return area
+
+
+def boundary_labels(leads: TripLeads) -> list[tuple[str, float]]:
+    """``(label, epoch_s)`` of each boundary the chart marks, once, in time order."""
+    seen = dict.fromkeys((r.area, r.event, leads.spans[r.lead.span].mode, r.lead.fail_epoch_s)
+                         for r in leads.boundaries)
+    return [(boundary_label(a, e, m), t) for a, e, m, t in seen]
 
 
 def trip_figure(plan: Plan, leads: TripLeads):
@@ -101,14 +126,20 @@ def trip_figure(plan: Plan, leads: TripLeads):
                         label=None if "never" in labelled else "target not reached")
                 labelled.add("never")
     top = max([v * scale for v in known] + [1.0]) * 1.25
-    for b in dict.fromkeys((r.area, r.event, r.lead.fail_epoch_s) for r in leads.boundaries):
-        when = dt(b[2])[0]
+    shown = list(leads.spans)
+    near_s = _NEAR * ((max(s.to_epoch_s for s in shown) - min(s.from_epoch_s for s in shown))
+                      if shown else 0.0)
+    last_s, last_left = -math.inf, False
+    for label, when_s in boundary_labels(leads):
+        when = dt(when_s)[0]
         ax.axvline(when, color="black", lw=0.8, ls=":")
-        ax.annotate(f"{'enter ' if b[1] == 'enter' else ''}{b[0]}"
-                    f"{' (comes into force)' if b[1] == 'comes_into_force' else ''}",
-                    (when, top * 0.02), rotation=90, fontsize=7, va="bottom", ha="right",
-                    xytext=(-2, 0), textcoords="offset points",
+        # left of its line, unless the label before is close on the left (then right)
+        left = not (last_left and when_s - last_s < near_s)
+        ax.annotate(label, (when, top * 0.02), rotation=90, fontsize=7, va="bottom",
+                    ha="right" if left else "left", xytext=(-2 if left else 2, 0),
+                    textcoords="offset points",
                     bbox={"facecolor": "white", "edgecolor": "none", "pad": 0.5})
+        last_s, last_left = when_s, left
     if leads.spans:
         a = min(s.from_epoch_s for s in leads.spans)
         b = max(s.to_epoch_s for s in leads.spans)

@@ -9,7 +9,9 @@ washwater mode, from and to in UTC, ship's time and position. Events, numbered
 ``S1``, ``S2`` ... as on the map, the chart and the GPX marks: time in UTC and
 ship's time, position, event, mode, the action and why. Then the caution that
 the EGCS approval and its operating manual come first ([MARPOL-VI] regulation
-4; [MEPC-340]). reportlab is imported inside the functions.
+4; [MEPC-340]); then, as the terminal prints them, the "if the scrubber fails" tables
+and the SO2/CO2 table (:mod:`planner.documents.plan_pdf_trip`). reportlab is imported
+inside the functions.
 """
 
 from __future__ import annotations
@@ -24,6 +26,7 @@ from planner.documents.plan_pdf_cells import (
     ship_lines,
     utc_lines,
 )
+from planner.documents.plan_pdf_trip import ratio_table, trip_tables
 
 SPAN_HEAD = ["Scrubber", "Circuits", "Fuel (fallback), limit", "Mode", "From UTC",
              "From ship's time", "From position", "To UTC", "To ship's time", "To position"]
@@ -96,4 +99,4 @@ def scrubber_section(doc: dict) -> list:
                            align="lllllll"),
                 para("Numbered S1, S2 ... as on the route map, the sulphur chart and the GPX "
                      "marks. Times UTC and ship's time; positions WGS84.", "small")]
-    return out
+    return out + trip_tables(doc) + ratio_table(doc)

@@ -44,6 +44,15 @@ ahead, an exit): those failures are found the same way. Straight lines between
 the samples are then the figures themselves for a one-flow chain, and a close
 chord otherwise.
 
+A failure while the circuit's changeover into the span's fuel is still under way (the span
+starts at that valve switch, leaving a washwater zone or an area) does not find the circuit
+full of it: at the switch the inlets are still on the fuel left. Given the plan's
+changeovers (``changes``), the lead is then counted from the state the changeover has
+reached (:mod:`planner.voyage.scrubber_trip_partial`: the trip flush and the changeover's
+own flush added, the models being linear), and the first minutes after the switch, where it
+rises steeply, are sampled closer (:func:`~planner.voyage.scrubber_trip_moments.under_way_moments`);
+the time out of compliance still counts the span's fuel at its delivery-note sulphur.
+
 A failure the flush cannot follow (the fallback tank runs dry, a pump cannot
 cover the consumption: :class:`~planner.flushing.FlushError`) or that never
 reaches the target within the horizon (nothing is burnt, e.g. alongside with
@@ -73,15 +82,19 @@ from planner.voyage.scrubber_trip_moments import (
     ENDS_AT_CHANGE,
     ENDS_AT_LIMIT,
     SAMPLE_KINDS,
+    UNDER_WAY,
     limit_changes_epoch_s,
     load_changes_epoch_s,
     out_of_compliance_h,
     sample_moments,
     span_boundaries,
+    under_way_moments,
 )
+from planner.voyage.scrubber_trip_partial import change_under_way, partial_time_to_target_h
 from planner.voyage.timeline import Timeline
 
 if TYPE_CHECKING:
+    from planner.voyage.changeovers import CircuitChange
     from planner.voyage.plan import Plan
 
 DEFAULT_STEP_H = 0.25
@@ -209,8 +222,9 @@ class _Circuit:
 
     def __init__(self, system: FuelSystem, timeline: Timeline, check: RouteCheck,
                  flushes: FlushCache, span: ScrubberSpan, index: int, circuit: str,
-                 target_pct: float) -> None:
+                 target_pct: float, changes: Sequence[CircuitChange] = ()) -> None:
         self.system, self.timeline, self.check, self.flushes = system, timeline, check, flushes
+        self.changes = tuple(changes)
         self.span, self.index, self.circuit, self.target_pct = span, index, circuit, target_pct
         self.fuel_sulphur_pct = system.fuels[span.fuel].sulphur_pct
         self.leads: dict[float, TripLead] = {}
@@ -241,6 +255,11 @@ class _Circuit:
         if d is None:
             return None, (f"the inlets do not reach {self.target_pct:.3f} % within "
                           f"{HORIZON_H:g} h at the consumption from then on")
+        under_way = change_under_way(self.changes, self.circuit, self.span.fuel, t)
+        if under_way is not None and under_way.to_tank == self.tanks[0]:
+            got = partial_time_to_target_h(st.result, under_way, self.circuit, t,
+                                           self.target_pct)
+            d = d if got is None else got
         return d, ""
 
     def lead(self, t: float, kind: str) -> TripLead:
@@ -283,7 +302,7 @@ class _Circuit:
 def trip_leads(system: FuelSystem, timeline: Timeline, check: RouteCheck,
                flushes: FlushCache | None, spans: Sequence[ScrubberSpan],
                voyage_target_fraction: float, step_h: float = DEFAULT_STEP_H,
-               ) -> TripLeads:
+               changes: Sequence[CircuitChange] = ()) -> TripLeads:
     """The lead of every circuit along every span, and at the boundaries (module notes).
 
     Parameters
@@ -302,6 +321,11 @@ def trip_leads(system: FuelSystem, timeline: Timeline, check: RouteCheck,
         The voyage's sulphur target fraction (``margins.sulphur_target_fraction``).
     step_h : float, default :data:`DEFAULT_STEP_H` [h]
         Spacing of the regular samples.
+    changes : sequence of CircuitChange, default ()
+        The plan's circuit changeovers: a failure while a circuit's changeover into the
+        span's fuel is still under way starts from the state it has reached
+        (:mod:`planner.voyage.scrubber_trip_partial`); without them, from the circuit full
+        of the span's fuel.
 
     Returns
     -------
@@ -327,12 +351,16 @@ def trip_leads(system: FuelSystem, timeline: Timeline, check: RouteCheck,
         bounds = span_boundaries(check, span)
         limits = limit_changes_epoch_s(check, timeline)
         for circuit in span.circuits:
-            c = _Circuit(system, timeline, check, flushes, span, i, circuit, target)
+            c = _Circuit(system, timeline, check, flushes, span, i, circuit, target, changes)
             consumers = system.circuits[circuit].consumers if circuit in system.circuits else ()
-            changes = load_changes_epoch_s(timeline, consumers)
-            for t, kind in sample_moments(span, step_h, [b[2] for b in bounds], changes):
+            loads = load_changes_epoch_s(timeline, consumers)
+            for t, kind in sample_moments(span, step_h, [b[2] for b in bounds], loads):
                 c.lead(t, kind)
-            for kind, moments in ((ENDS_AT_CHANGE, changes), (ENDS_AT_LIMIT, limits)):
+            under_way = change_under_way(changes, circuit, span.fuel, span.from_epoch_s)
+            if under_way is not None:
+                for t in under_way_moments(under_way.start_epoch_s, span, step_h):
+                    c.lead(t, UNDER_WAY)
+            for kind, moments in ((ENDS_AT_CHANGE, loads), (ENDS_AT_LIMIT, limits)):
                 for b in moments:
                     t = c.ends_at(b) if b > span.from_epoch_s else None
                     if t is not None:
@@ -362,4 +390,5 @@ def plan_trip_leads(plan: Plan, spans: Sequence[ScrubberSpan] | None = None,
     """
     return trip_leads(plan.system, plan.timeline, plan.check, plan.flushes,
                       plan.scrubber_spans if spans is None else spans,
-                      plan.voyage.sulphur_target_fraction, step_h)
+                      plan.voyage.sulphur_target_fraction, step_h,
+                      [part for change in plan.changes for part in change.circuits])

@@ -22,17 +22,23 @@ from planner.voyage.timeline import Timeline
 _SAME_S = 0.5  # moments closer than this are one sample, s
 _SAME_RATE = 1e-9  # rates closer than this (relative) are one load: a leg's round-off
 _AT_M = 1.0  # a crossing this close to the span's start is at its start, m
+_UNDER_WAY_FIRST_S = 15.0  # the first sample after a valve switch into the span's fuel, s
 
-START, END, STEP, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, ENDS_AT_LIMIT = (
+START, END, STEP, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, ENDS_AT_LIMIT, UNDER_WAY = (
     "start", "end", "step", "boundary", "load_change", "ends_at_load_change",
-    "ends_at_limit_change")
-SAMPLE_KINDS = (START, END, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, ENDS_AT_LIMIT, STEP)
+    "ends_at_limit_change", "changeover_under_way")
+SAMPLE_KINDS = (START, END, BOUNDARY, LOAD_CHANGE, ENDS_AT_CHANGE, ENDS_AT_LIMIT, UNDER_WAY,
+                STEP)
 """Why a moment is sampled, in priority order (a moment sampled for two reasons keeps the
 first)."""
 ENTER, INSIDE_AT_START, COMES_INTO_FORCE = "enter", "inside_at_start", "comes_into_force"
 BOUNDARY_EVENTS = (ENTER, INSIDE_AT_START, COMES_INTO_FORCE)
 """What a boundary row is: an entry crossed on the scrubber, a span starting inside an area,
 an area coming into force while the ship is inside it on the scrubber."""
+BOUNDARY_WORDS = {ENTER: "entered on the scrubber",
+                  INSIDE_AT_START: "on the scrubber from here, inside the area",
+                  COMES_INTO_FORCE: "comes into force while on the scrubber"}
+"""What happens at a boundary row's moment, in words (after the area's name)."""
 
 
 def out_of_compliance_h(check: RouteCheck, timeline: Timeline, fuel_sulphur_pct: float,
@@ -172,4 +178,30 @@ def sample_moments(span: ScrubberSpan, step_h: float, boundaries: Sequence[float
     n = int((b - a) / (step_h * 3600.0))
     out += [(a + k * step_h * 3600.0, STEP) for k in range(1, n + 1)
             if a + k * step_h * 3600.0 < b]
+    return out
+
+
+def under_way_moments(switch_epoch_s: float, span: ScrubberSpan, step_h: float) -> list[float]:
+    """Moments after a valve switch into the span's fuel, closer together than the steps.
+
+    A failure at the switch finds the circuit full of the fuel left (nothing to flush); one a
+    minute later already has the span's fuel on its way to the inlets, so the lead rises
+    steeply in the first minutes (:mod:`planner.voyage.scrubber_trip_partial`). Sampled at
+    15 s, 30 s, 1, 2, 4 ... min after the switch, before the first regular step.
+
+    Parameters
+    ----------
+    switch_epoch_s : float [s]
+        The valve switch into the span's fuel, seconds since 1970-01-01 UTC.
+    span : ScrubberSpan
+        The span (moments off it are left out).
+    step_h : float [h]
+        Spacing of the regular samples.
+    """
+    out, dt = [], _UNDER_WAY_FIRST_S
+    while dt < step_h * 3600.0:
+        t = switch_epoch_s + dt
+        if span.from_epoch_s < t < span.to_epoch_s:
+            out.append(t)
+        dt *= 2.0
     return out

@@ -64,3 +64,26 @@ def test_no_boundary_says_so():
     doc = {"scrubber_trip": {"step_h": 0.25, "spans": [], "boundaries": [], "samples": []}}
     text = "\n".join(trip_lines(doc, 80))
     assert "No control-area boundary is passed on a scrubber." in text
+
+
+def test_readme_example_is_the_egcs_sample_at_100_columns():
+    """README's "If the scrubber fails" example is what ``changeover plan
+    areas_sample/egcs_voyage.toml`` prints at 100 columns (the scrubber sample, fictional),
+    up to the "..." where it stops."""
+    from planner.cli.trip_print import trip_lines
+    from planner.voyage.report import plan_json
+    from planner.voyage.run import build_plan
+    from planner.voyage.scrubber_trip import plan_trip_leads
+    from planner.voyage.scrubber_trip_json import trip_json
+    from tests.helpers.paths import ROOT
+
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    marker = "$ changeover plan areas_sample/egcs_voyage.toml      # at 100 columns\n...\n"
+    assert marker in readme
+    excerpt = readme.split(marker, 1)[1].split("\n...", 1)[0]
+    assert excerpt.startswith("If the scrubber fails at a boundary")
+    plan = build_plan(ROOT / "areas_sample" / "egcs_voyage.toml")
+    doc = plan_json(plan)
+    doc.update(trip_json(plan, plan_trip_leads(plan)))
+    assert excerpt in "\n".join(trip_lines(doc, 100))
+    assert all(len(line) <= 100 for line in excerpt.splitlines())

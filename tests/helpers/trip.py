@@ -1,8 +1,8 @@
 """A hand-made scrubber span on the sample voyage, for the scrubber-trip output tests.
 
-Until the plan fills ``Plan.scrubber_spans`` (hsfo and the scrubber's rules), the span is
-built by hand over Meridian Reach ECA (areas_sample, fictional): both circuits on vlsfo
-with mgo as the fallback, from 20 km before the entry to the exit.
+Built by hand over Meridian Reach ECA (areas_sample, fictional) so that two circuits share a
+span (the egcs sample's own spans, ``Plan.scrubber_spans``, serve main only): both circuits
+on vlsfo with mgo as the fallback, from 20 km before the entry to the exit.
 """
 
 from __future__ import annotations

@@ -5,14 +5,18 @@ Fixtures (fictional, ``tests/data/voyages``, see ``tests.helpers.plan``): ship T
 one well-stirred volume V = 1.0 m³ between its valve and the only consumer (a main
 engine on the propeller law, flat SFOC, both fuels 880 kg/m³ and 40 MJ/kg), sailing due
 east on 50°N into the meridian 5°E (0.10 % area) and arriving at 6°E inside it; the
-plan's target is 0.8 × 0.10 = 0.08 %. Until hsfo and the scrubber plan exist the span is
-made by hand: the circuit ``main`` on ``hfo`` (0.40 %) with ``mgo`` (0.05 %) as the fallback.
+plan's target is 0.8 × 0.10 = 0.08 %. T1 has no scrubber, so its spans are made by hand:
+the circuit ``main`` on ``hfo`` (0.40 %) with ``mgo`` (0.05 %) as the fallback (the plan's
+own spans, hsfo on the scrubber, are those of the egcs sample, tested at the end).
 
 Outside sources: the CSTR washout T = V/q · ln((S₀ − S₁)/(S_t − S₁)) ([LEVENSPIEL-1999]
 [D]); with a step in the flow the throughput ∫q dt = V·ln(...) is what must pass
 ([LEVENSPIEL-1999] [D]), and SciPy's ``solve_ivp`` on the same ODE dS/dt = q(t)/V·(S₁ − S)
 ([SCIPY-2020]); distances on the parallel N·cos φ·Δλ ([WGS84] [D]), the propeller law
-([PROPELLER-LAW], common practice).
+([PROPELLER-LAW], common practice). A failure Δ after the valve switch into hfo finds the
+stirred volume at c₀ = 1 − exp(−qΔ/V) of hfo (the same washout filling it,
+[LEVENSPIEL-1999] [D]), and then needs V/q · ln(c₀ (S_hfo − S_mgo)/(S_t − S_mgo)), or
+nothing when that is negative.
 """
 
 from __future__ import annotations
@@ -278,3 +282,66 @@ def test_a_boundary_row_falls_back_to_a_fuel_legal_inside():
     assert rows
     for r in rows:
         assert plan.voyage.fuel(r["fallback_fuel"]).sulphur_pct <= inside[r["area"]] + 1e-12, r
+
+
+def hand_change_into_hfo(plan, lon: float):
+    """``(change, switch_s)``: the circuit main's changeover mgo → hfo at ``lon`` (by hand, as
+    the plan would make one leaving an area), its flush through the plan's cache."""
+    from planner.voyage.changeovers import CircuitChange
+
+    t = float(plan.timeline.schedule.epoch_at([parallel_m(2.0, lon)])[0])
+    study = plan.flushes.study(plan.system, "main", "mgo_service", "hfo_service",
+                               plan.timeline.consumption_from(t, 96.0), 0.10, 0.3825,
+                               thermal=False)
+    return CircuitChange("main", "to_regular", "mgo", "hfo", "mgo_service", "hfo_service",
+                         t, None, None, t, study), t
+
+
+@pytest.mark.parametrize("delta_h", [0.0, 0.05, 0.1, 0.25, 0.5, 1.0])
+def test_failure_while_the_changeover_into_the_fuel_is_under_way(closed, delta_h):
+    """The circuit not yet full of hfo: the lead is the washout from c₀ (module notes), not
+    from the volume full of hfo; at the switch itself there is nothing to flush."""
+    change, s = hand_change_into_hfo(closed, 3.0)
+    span = span_between(closed, 3.0, 4.8)
+    t = s + delta_h * 3600.0
+    span = ScrubberSpan(span.scrubber, span.circuits, span.fuel, span.fallback_fuel,
+                        span.limit_pct, span.mode, span.from_m, span.to_m, s, max(t, s + 60.0))
+    got = trip_leads(closed.system, closed.timeline, closed.check, closed.flushes, [span],
+                     closed.voyage.sulphur_target_fraction, changes=[change])
+    (lead,) = [x for x in got.samples if abs(x.fail_epoch_s - t) < 0.5]
+    q = flow_m3_h(12.0)
+    c0 = 1.0 - math.exp(-q * delta_h / V_M3)
+    want = max(0.0, V_M3 / q * math.log(c0 * (S_HFO - S_MGO) / (TARGET - S_MGO))) if c0 else 0.0
+    assert lead.time_to_compliant_h == pytest.approx(want, abs=TIME_TOL_H)
+    full = trip_leads(closed.system, closed.timeline, closed.check, closed.flushes, [span],
+                      closed.voyage.sulphur_target_fraction)  # without the changeover
+    (plain,) = [x for x in full.samples if abs(x.fail_epoch_s - t) < 0.5]
+    assert plain.time_to_compliant_h == pytest.approx(washout_h(q), abs=TIME_TOL_H)
+
+
+def test_sample_failure_at_the_switch_into_hsfo_needs_no_flush():
+    """egcs sample (fictional): main's valve goes vlsfo → hsfo at 21:20:33Z leaving Port
+    Aldmere harbour waters, vlsfo (0.47 %) the fallback under the 0.50 % cap. A failure at the
+    switch finds vlsfo at the inlets: no time to compliant, none out of compliance; a minute
+    later hsfo is on its way (a lead, shorter than with the circuit full of hsfo); the span's
+    longest time out of compliance is not at its start."""
+    from planner.voyage import run
+    from planner.voyage.scrubber_trip_json import trip_json
+    from planner.voyage.scrubber_trip_moments import UNDER_WAY
+    from tests.helpers.paths import ROOT
+
+    plan = run.build_plan(ROOT / "areas_sample" / "egcs_voyage.toml")
+    leads = plan_trip_leads(plan)
+    first = leads.series(0, "main")
+    assert first[0].kind == START
+    assert plan.timeline.utc(first[0].fail_epoch_s).strftime("%H:%M:%S") == "21:20:33"
+    assert first[0].time_to_compliant_h == 0.0
+    assert first[0].out_of_compliance_h == 0.0
+    under = [x for x in first if x.kind == UNDER_WAY]
+    assert len(under) >= 5
+    leads_h = [x.time_to_compliant_h for x in (first[0], *under)]
+    assert leads_h == sorted(leads_h)  # the slug of hsfo grows with the time on it
+    full = max(x.time_to_compliant_h for x in first)
+    assert 0.0 < under[2].time_to_compliant_h < full  # 1 min after the switch
+    worst = trip_json(plan, leads)["scrubber_trip"]["spans"][0]["worst"][0]
+    assert worst["utc"] != "2027-05-29T21:20:33Z"
