@@ -2,8 +2,8 @@
 
 Each refusal is one :class:`geo.errors.InputError` naming the option the
 value came from, so the command line prints one line and nothing is written:
-an unknown tank, a sounding above the tank's capacity (when the ship file
-gave it), a fuel not registered, a correction of an entry that does
+an unknown tank, circuit or scrubber (when the ship file named them), a
+sounding above the tank's capacity (when the ship file gave it), a fuel not registered, a correction of an entry that does
 not exist (or of the wrong kind), a completion timed before its start (or a
 start corrected to after its completion), a first entry that is not the
 ship's set-up.
@@ -14,6 +14,7 @@ from __future__ import annotations
 from geo.errors import InputError
 from planner.common.timefmt import format_utc
 from planner.journal.codec import encode
+from planner.journal.details_kinds import ScrubberDetails
 from planner.journal.entries import (
     CORRECTABLE,
     CORRECTION,
@@ -40,6 +41,7 @@ def check_entry(state: JournalState, entry: Entry) -> None:
     if entry.record is not None:
         check_tanks(state, entry.record)
         check_circuit(state, entry.record)
+        check_scrubber(state, entry.record)
         check_order(state, entry.subject_kind, entry.record, root)
 
 
@@ -110,6 +112,15 @@ def check_circuit(state: JournalState, r: Record) -> None:
     if state.circuits and r.circuit is not None and r.circuit not in state.circuits:
         raise InputError("--circuit", "", r.circuit,
                          f"one of the ship's circuits: {', '.join(state.circuits)}")
+
+
+def check_scrubber(state: JournalState, r: Record) -> None:
+    """A scrubber named must be one of the ship file's (when the journal was set up from a
+    ship file that named its scrubbers)."""
+    name = r.details.scrubber if isinstance(r.details, ScrubberDetails) else None
+    if state.scrubbers and name is not None and name not in state.scrubbers:
+        raise InputError("--scrubber", "", name,
+                         f"one of the ship's scrubbers: {', '.join(state.scrubbers)}")
 
 
 def check_order(state: JournalState, kind: str, r: Record, root: int | None) -> None:
