@@ -3,10 +3,10 @@
 Each refusal is one :class:`geo.errors.InputError` naming the option the
 value came from, so the command line prints one line and nothing is written:
 an unknown tank, circuit or scrubber (when the ship file named them), a
-sounding above the tank's capacity (when the ship file gave it), a fuel not registered, a correction of an entry that does
-not exist (or of the wrong kind), a completion timed before its start (or a
-start corrected to after its completion), a first entry that is not the
-ship's set-up.
+sounding above the tank's capacity (when the ship file gave it), a fuel not
+registered, a correction of an entry that does not exist (or of the wrong
+kind), a completion timed before its start (or a start corrected to after its
+completion), a first entry that is not the ship's set-up.
 """
 
 from __future__ import annotations

@@ -1,10 +1,11 @@
 """The journal as it stands: a fold over its entries, in order.
 
 :class:`JournalState` knows the ship (name, IMO number), the tank names and
-fuels registered so far (set up from a ship file, also its circuits and scrubbers),
-the ship's last UTC offset and voyage, and for every entry its corrections: :meth:`JournalState.current` is the record as it now
-reads (the latest correction, or None when struck out), while the original
-and every earlier version stay available for printing.
+fuels registered so far (set up from a ship file, also its circuits and
+scrubbers), the ship's last UTC offset and voyage, and for every entry its
+corrections: :meth:`JournalState.current` is the record as it now reads (the
+latest correction, or None when struck out), while the original and every
+earlier version stay available for printing.
 """
 
 from __future__ import annotations
