@@ -116,9 +116,13 @@ def check_circuit(state: JournalState, r: Record) -> None:
 
 def check_scrubber(state: JournalState, r: Record) -> None:
     """A scrubber named must be one of the ship file's (when the journal was set up from a
-    ship file that named its scrubbers)."""
+    ship file that named its scrubbers), or several of them as a plan relies on them together
+    on one circuit (``"a + b"``, :func:`planner.voyage.scrubbing.joint_scrubber`)."""
     name = r.details.scrubber if isinstance(r.details, ScrubberDetails) else None
-    if state.scrubbers and name is not None and name not in state.scrubbers:
+    if not state.scrubbers or name is None:
+        return
+    if name not in state.scrubbers and not all(
+            part in state.scrubbers for part in name.split(" + ")):
         raise InputError("--scrubber", "", name,
                          f"one of the ship's scrubbers: {', '.join(state.scrubbers)}")
 

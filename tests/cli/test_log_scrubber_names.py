@@ -90,3 +90,30 @@ def test_an_older_set_up_without_scrubbers_reads_and_encodes_as_written():
     assert encode(new)["scrubbers"] == ["egcs"]
     with pytest.raises(ValueError, match="scrubbers"):
         SetupDetails("x", None, scrubbers=["egcs"])  # type: ignore[arg-type]
+
+
+def test_scrubbers_the_plan_relies_on_together_are_taken_by_their_joint_name(tmp_path):
+    """A plan relying on two scrubbers serving one circuit names its events ``"a + b"``
+    (planner.voyage.scrubbing.joint_scrubber); each part must be a scrubber of the ship."""
+    text = SHIP.read_text(encoding="utf-8")
+    one = 'consumers = ["main_engine", "dg1", "dg2"]\nmode = "hybrid"'
+    assert text.count(one) == 1
+    ship = tmp_path / "two.toml"
+    ship.write_text(text.replace(one, 'consumers = ["main_engine"]\nmode = "hybrid"') +
+                    '\n[scrubbers.egcs2]\nconsumers = ["dg1", "dg2"]\nmode = "hybrid"\n'
+                    'max_sulphur_pct = 3.50\n', encoding="utf-8")
+    j = tmp_path / "j.db"
+    assert "  scrubbers: egcs, egcs2" in ok(j, "init", "--ship-file", str(ship), "--tz",
+                                             "+12:00", "--journal", str(j)).splitlines()
+    plan = tmp_path / "plan.json"
+    plan.write_text(json.dumps({"scrubber_events": [{
+        "number": 1, "scrubber": "egcs + egcs2", "event": "start", "mode": "open",
+        "utc": "2027-05-29T21:20:33Z", "ship_time": "2027-05-30T09:20+12:00", "lat": -39.7,
+        "lon": 167.0, "distance_nm": 60.0, "reason": "at the valve switch to hsfo"}]}),
+        encoding="utf-8")
+    out = ok(j, "scrubber", "start", "--from-plan", str(plan), "--event", "1", "--as-planned",
+             "--confirm")
+    assert "scrubber started: egcs + egcs2" in out
+    for wrong in ("egcs + egsc2", "egcs +", "egcs2 + dg1"):
+        one_line_exit_2(run(j, *READING, "--scrubber", wrong),
+                        "expected one of the ship's scrubbers: egcs, egcs2")
