@@ -136,7 +136,7 @@ def init_cmd(
     journal: JournalOpt = None,
     ship_file: Annotated[Path | None, typer.Option(
         "--ship-file", help="Take the ship's name, IMO number, tanks (with capacities), "
-                            "circuits and fuels from this ship file (TOML); its [ship] "
+                            "circuits, scrubbers and fuels from this ship file (TOML); its [ship] "
                             "journal key names the journal when --journal is not given.")]
     = None,
     ship: Annotated[str | None, typer.Option(help="Ship's name.")] = None,
@@ -162,7 +162,8 @@ def init_cmd(
         p = ship_particulars(ship_file)
         names = tuple(tank or ()) + tuple(c.tank for c in p.tanks if c.tank not in (tank or ()))
         make = setup_entry(t, ship or p.name, imo or p.imo or None, names,
-                           capacities=p.tanks, circuits=p.circuits, source=p.source)
+                           capacities=p.tanks, circuits=p.circuits, source=p.source,
+                           scrubbers=p.scrubbers)
         then = [fuel_entry(t, f.name, f.grade, f.sulphur_pct, f.density15_kg_m3, f.bdn_ref)
                 for f in p.fuels]
         if journal is None and p.journal and not _journal_env():

@@ -221,6 +221,8 @@ def scrubber_tables(doc: dict) -> list[TextTable]:
     the plan relies on a scrubber; none when the ship file has no scrubber."""
     if "scrubbers" not in doc:
         return []
+    why_not = [f"Scrubber {s['name']} is not relied on: {s['not_relied_on']}."
+               for s in doc["scrubbers"] if s.get("not_relied_on")]
     ev = table("Scrubber events", [
         ("No.", "r"), ("Scrubber", "l"), ("Event", "l"), ("Mode", "l"), ("UTC", "l"),
         ("Ship's time", "l"), ("Position", "l"), ("nm", "r"), ("Why", "w")],
@@ -228,10 +230,12 @@ def scrubber_tables(doc: dict) -> list[TextTable]:
           e["mode"] or DASH, utc_full(e["utc"]), ship_full(e["ship_time"]),
           position(e["lat"], e["lon"]), f"{e['distance_nm']:,.1f}", e["reason"]]
          for e in doc["scrubber_events"]],
-        "Start: in operation before the high-sulphur fuel reaches the inlets (at the valve "
-        "switch to it). Stop: every served inlet compliant again. The approval and the "
-        "system's operating manual come first." if doc["scrubber_events"] else
-        "No scrubber event: the plan relies on no scrubber on this voyage.")
+        " ".join(["Start: in operation before the high-sulphur fuel reaches the inlets (at "
+                  "the valve switch to it). Stop: every served inlet compliant again. The "
+                  "approval and the system's operating manual come first."
+                  if doc["scrubber_events"] else
+                  "No scrubber event: the plan relies on no scrubber on this voyage.",
+                  *why_not]))
     sp = table("Where the plan relies on a scrubber", [
         ("Scrubber", "l"), ("Circuits", "l"), ("Fuel", "l"), ("Fallback", "l"),
         ("Limit % m/m", "r"), ("Mode", "l"), ("From nm", "r"), ("To nm", "r"),

@@ -2,11 +2,11 @@
 
 Each refusal is one :class:`geo.errors.InputError` naming the option the
 value came from, so the command line prints one line and nothing is written:
-an unknown tank, a sounding above the tank's capacity (when the ship file
-gave it), a fuel not registered, a correction of an entry that does
-not exist (or of the wrong kind), a completion timed before its start (or a
-start corrected to after its completion), a first entry that is not the
-ship's set-up.
+an unknown tank, circuit or scrubber (when the ship file named them), a
+sounding above the tank's capacity (when the ship file gave it), a fuel not
+registered, a correction of an entry that does not exist (or of the wrong
+kind), a completion timed before its start (or a start corrected to after its
+completion), a first entry that is not the ship's set-up.
 """
 
 from __future__ import annotations
@@ -14,6 +14,7 @@ from __future__ import annotations
 from geo.errors import InputError
 from planner.common.timefmt import format_utc
 from planner.journal.codec import encode
+from planner.journal.details_kinds import ScrubberDetails
 from planner.journal.entries import (
     CORRECTABLE,
     CORRECTION,
@@ -40,6 +41,7 @@ def check_entry(state: JournalState, entry: Entry) -> None:
     if entry.record is not None:
         check_tanks(state, entry.record)
         check_circuit(state, entry.record)
+        check_scrubber(state, entry.record)
         check_order(state, entry.subject_kind, entry.record, root)
 
 
@@ -110,6 +112,19 @@ def check_circuit(state: JournalState, r: Record) -> None:
     if state.circuits and r.circuit is not None and r.circuit not in state.circuits:
         raise InputError("--circuit", "", r.circuit,
                          f"one of the ship's circuits: {', '.join(state.circuits)}")
+
+
+def check_scrubber(state: JournalState, r: Record) -> None:
+    """A scrubber named must be one of the ship file's (when the journal was set up from a
+    ship file that named its scrubbers), or several of them as a plan relies on them together
+    on one circuit (``"a + b"``, :func:`planner.voyage.scrubbing.joint_scrubber`)."""
+    name = r.details.scrubber if isinstance(r.details, ScrubberDetails) else None
+    if not state.scrubbers or name is None:
+        return
+    if name not in state.scrubbers and not all(
+            part in state.scrubbers for part in name.split(" + ")):
+        raise InputError("--scrubber", "", name,
+                         f"one of the ship's scrubbers: {', '.join(state.scrubbers)}")
 
 
 def check_order(state: JournalState, kind: str, r: Record, root: int | None) -> None:

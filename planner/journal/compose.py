@@ -9,7 +9,8 @@ entry is chained into, and any refusal writes nothing.
 Defaults, each shown back to the user after the entry is written:
 
 - time: ``--at``, else (with ``--as-planned``) the planned time, else now;
-- ship's offset: ``--tz``, else the offset written on ``--at``, else the
+- ship's offset: ``--tz``, else the offset written on ``--at``, else (with the time
+  taken from the plan) the offset of the plan's ship's time for that step, else the
   last entry's;
 - voyage: ``--voyage``, else the last entry's;
 - area and circuit: typed, else the plan's, else the start being completed;
@@ -63,7 +64,7 @@ from planner.journal.inputs import (
     parse_tz,
     written_time,
 )
-from planner.journal.plan_link import plan_areas, planned_for
+from planner.journal.plan_link import plan_areas, planned_step
 from planner.journal.state import JournalState
 
 Builder = Callable[[JournalState], Entry]
@@ -100,8 +101,10 @@ def _who(t: Typed) -> Person:
     return Person(t.rank.strip(), t.name.strip())
 
 
-def _when(t: Typed, state: JournalState, planned: Planned | None):
-    """(UTC time, ship's offset in minutes, fields taken from the plan)."""
+def _when(t: Typed, state: JournalState, planned: Planned | None,
+          plan_offset_min: int | None = None):
+    """(UTC time, ship's offset in minutes, fields taken from the plan); ``plan_offset_min``
+    [min east of UTC]: the offset the plan gives for the planned time, taken with it."""
     taken: list[str] = []
     written = None
     if t.at:
@@ -117,6 +120,8 @@ def _when(t: Typed, state: JournalState, planned: Planned | None):
         offset = parse_tz(t.tz)
     elif written is not None:
         offset = written
+    elif taken and plan_offset_min is not None:
+        offset = plan_offset_min
     elif state.last_offset_min is not None:
         offset = state.last_offset_min
     else:
@@ -170,13 +175,14 @@ def _tanks(state: JournalState, texts: tuple[str, ...], fuels: tuple[FuelUse, ..
     return tuple(readings)
 
 
-def _planned(kind: str, t: Typed) -> Planned | None:
+def _planned(kind: str, t: Typed) -> tuple[Planned | None, int | None]:
+    """The plan's values for the step, and the ship's offset [min] the plan gives then."""
     if t.plan is None:
         if t.changeover is not None or t.as_planned:
             raise InputError("--from-plan", "", None, "the plan JSON to take the "
                                                       "changeover from")
-        return None
-    return planned_for(kind, t.plan, t.changeover, t.circuit)
+        return None, None
+    return planned_step(kind, t.plan, t.changeover, t.circuit)
 
 
 def _confirmed(kind: str, record: Record, state: JournalState, t: Typed) -> Record:
@@ -198,8 +204,8 @@ def changeover_entry(kind: str, t: Typed) -> Builder:
     """A started / completed / back-commenced / back-completed entry (see module defaults)."""
     def make(state: JournalState) -> Entry:
         who = _who(t)
-        planned = _planned(kind, t)
-        moment, offset, taken = _when(t, state, planned)
+        planned, plan_offset = _planned(kind, t)
+        moment, offset, taken = _when(t, state, planned, plan_offset)
         position = _where(t, planned, True, taken)
         voyage = t.voyage or state.last_voyage
         area = t.area or (planned.area if planned else None)

@@ -44,9 +44,10 @@ def check_imo(imo: str, option: str = "--imo") -> str:
 
 def setup_entry(t: Typed, ship: str | None, imo: str | None, tanks: tuple[str, ...], *,
                 capacities: tuple[TankCapacity, ...] = (), circuits: tuple[str, ...] = (),
-                source: str = "") -> Builder:
+                source: str = "", scrubbers: tuple[str, ...] = ()) -> Builder:
     """The ship's set-up: name and IMO number (entry 1), or later tank names to add; with
-    the tanks' capacities and the circuits when read from the ship file ``source``."""
+    the tanks' capacities, the circuits and the scrubbers when read from the ship file
+    ``source``."""
     imo_digits = check_imo(imo) if imo else None
     names = tuple(n.strip() for n in tanks)
     for n in names:
@@ -62,7 +63,7 @@ def setup_entry(t: Typed, ship: str | None, imo: str | None, tanks: tuple[str, .
         moment, offset, _ = _when(dataclasses.replace(t, at=None), state, None)
         record = Record(moment, offset, None, None, None, None, (),
                         SetupDetails(ship.strip() if ship else None, imo_digits, names,
-                                     capacities, circuits, source))
+                                     capacities, circuits, source, scrubbers))
         return _entry(SETUP, _who(t), record)
     return make
 

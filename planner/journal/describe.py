@@ -249,6 +249,8 @@ def summary(s: Stored, state: JournalState) -> list[str]:
                          f"  tank known: {t}{cap}")
         if getattr(r.details, "circuits", ()):
             lines.append(f"  circuits: {', '.join(r.details.circuits)}")
+        if getattr(r.details, "scrubbers", ()):
+            lines.append(f"  scrubbers: {', '.join(r.details.scrubbers)}")
         if tanks and isinstance(tanks[0], TankReading):
             lines.append(f"  total {sum(t.volume15_m3 for t in tanks):.3f} m³ at 15 °C, "
                          f"{sum(t.mass_t for t in tanks):.3f} t")

@@ -280,7 +280,9 @@ class SetupDetails:
 
     The first entry of every journal is a set-up with the ship's name and IMO
     number. Later set-ups may add tank names or (rarely) change the name;
-    None means unchanged.
+    None means unchanged. Read from a ship file (``source``), it also holds the
+    tanks' capacities, the circuits' names and the scrubbers' names (``scrubbers``:
+    empty in journals set up before the journal took them, and then not checked).
     """
 
     TYPE: ClassVar[str] = "setup"
@@ -290,6 +292,7 @@ class SetupDetails:
     capacities: tuple[TankCapacity, ...] = field(default=(), metadata=ADDED)
     circuits: tuple[str, ...] = field(default=(), metadata=ADDED)
     source: str = field(default="", metadata=ADDED)   # the ship file it was read from
+    scrubbers: tuple[str, ...] = field(default=(), metadata=ADDED)   # the ship file's
 
     def __post_init__(self) -> None:
         if self.ship_name is not None:
@@ -309,6 +312,10 @@ class SetupDetails:
             raise ValueError("SetupDetails.circuits must be a tuple of names")
         for c in self.circuits:
             _text("SetupDetails", "circuits", c)
+        if not isinstance(self.scrubbers, tuple):
+            raise ValueError("SetupDetails.scrubbers must be a tuple of names")
+        for s in self.scrubbers:
+            _text("SetupDetails", "scrubbers", s)
         _text("SetupDetails", "source", self.source, empty_ok=True)
 
 

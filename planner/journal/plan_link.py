@@ -22,6 +22,12 @@ back completed             to_regular          complete_utc, complete_lat/lon
 
 (a completion's position only when the plan gives it), and every step keeps the area,
 circuit, boundary (time, position, event) and margin.
+
+The ship's time the plan gives for the step (``start_ship_time``, ``compliant_ship_time``,
+``complete_ship_time``: ISO 8601 with the UTC offset in force on board then, such as
+``2027-06-01T16:35-11:00`` after the clocks were put back at the date line) gives the
+offset of an entry whose time is taken from the plan (:func:`planned_step`,
+:func:`ship_offset_min`); a plan without it leaves the journal's offset.
 """
 
 from __future__ import annotations
@@ -41,7 +47,7 @@ from planner.journal.entries import (
     Planned,
     Position,
 )
-from planner.journal.inputs import written_position
+from planner.journal.inputs import OFFSET_RANGE_MIN, written_position
 
 MAX_PLAN_BYTES = 64 * 2**20
 """Largest plan JSON read, bytes (a plan of a long voyage is well under a megabyte)."""
@@ -106,6 +112,18 @@ def planned_for(kind: str, path: str | Path, number: int | None,
                 circuit: str | None = None) -> Planned:
     """The :class:`Planned` values of changeover ``number`` (from 1) for a step of ``kind``;
     with several circuits in that changeover, ``circuit`` (default the plan's first)."""
+    return planned_step(kind, path, number, circuit)[0]
+
+
+SHIP_TIME_KEYS = {"to_compliant": ("start_ship_time", "compliant_ship_time"),
+                  "to_regular": ("start_ship_time", "complete_ship_time")}
+"""The plan's ship's time of a changeover's start and of its completion, by direction."""
+
+
+def planned_step(kind: str, path: str | Path, number: int | None,
+                 circuit: str | None = None) -> tuple[Planned, int | None]:
+    """:func:`planned_for`'s values, and the ship's UTC offset [min east of UTC] the plan
+    gives for the step's planned time (None when the plan gives no ship's time for it)."""
     file = str(path)
     items = load_changeovers(path)
     if number is None:
@@ -129,6 +147,7 @@ def planned_for(kind: str, path: str | Path, number: int | None,
     t0 = _time(item, "start_utc", file, place, required=False)
     t1 = _time(item, done_key, file, place, required=False)
     flush_h = (t1 - t0).total_seconds() / 3600.0 if t0 and t1 and t1 >= t0 else None
+    offset = ship_offset_min(item, SHIP_TIME_KEYS[direction][0 if starts else 1], file, place)
     return Planned(
         source=Path(path).name,
         changeover=number,
@@ -144,7 +163,29 @@ def planned_for(kind: str, path: str | Path, number: int | None,
         flush_h=flush_h,
         event=_event(item, file, place),
         clock_deadline=_flag(item, "clock_deadline", file, place),
-    )
+    ), offset
+
+
+def ship_offset_min(item: dict, key: str, file: str, place: str) -> int | None:
+    """The UTC offset [min east of UTC] of the plan's ship's time ``item[key]``
+    (``2027-06-01T19:25-11:00``); None when the plan gives none."""
+    v = item.get(key)
+    if v is None:
+        return None
+    expected = "the ship's time with its UTC offset, e.g. 2027-06-01T19:25-11:00"
+    try:
+        moment = datetime.fromisoformat(v) if isinstance(v, str) else None
+    except ValueError:
+        moment = None
+    off = moment.utcoffset() if moment is not None else None
+    if off is None:
+        raise InputError(file, f"{place}.{key}", v, expected)
+    minutes = off.total_seconds() / 60.0
+    low, high = OFFSET_RANGE_MIN
+    if minutes % 15 or not low <= minutes <= high:
+        raise InputError(file, f"{place}.{key}", v, expected + " (a real offset: -12:00 to "
+                                                     "+14:00, in steps of 15 minutes)")
+    return int(minutes)
 
 
 def plan_circuits(path: str | Path, number: int) -> list[str]:

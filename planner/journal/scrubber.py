@@ -11,7 +11,9 @@ A plan JSON's ``scrubber_events`` (``[{"number", "scrubber", "event", "mode", "u
 "ship_time", "lat", "lon", "distance_nm", "reason"}]``) prefills one event by its
 ``number`` (``--from-plan PLAN.json --event N``): the scrubber, the mode, and the planned
 time, position and reason, kept in the entry. The plan's ``out_of_service`` is the
-journal's ``failure``.
+journal's ``failure``. With the planned time taken (``--as-planned``, no ``--at``) the
+entry's ship's offset is that of the plan's ``ship_time`` (the offset in force on board at
+that moment of the plan: after a zone change, not the journal's last), unless ``--tz``.
 
 :func:`scrubber_changes` is what a correction of a scrubber entry changes (the ratio and
 the over-limit flag worked out again).
@@ -139,7 +141,7 @@ def planned_event(path: str, number: int | None) -> dict:
 
 def _plan_values(path: str, number: int | None, event: str) -> dict:
     """The planned values of the plan's event, checked against the event typed."""
-    from planner.journal.plan_link import _number, _text, _time
+    from planner.journal.plan_link import _number, _text, _time, ship_offset_min
 
     it = planned_event(path, number)
     place = it["place"]
@@ -165,6 +167,7 @@ def _plan_values(path: str, number: int | None, event: str) -> dict:
         raise InputError(path, f"{place}.reason", reason, "text")
     return {"scrubber": _text(it, "scrubber", path, place), "mode": mode,
             "utc": _time(it, "utc", path, place, required=False), "position": pos,
+            "offset_min": ship_offset_min(it, "ship_time", path, place),
             "reason": " ".join(reason.split())}
 
 
@@ -195,6 +198,8 @@ def scrubber_entry(t: Typed, name: str | None, event: str, mode: str | None = No
             typed = dataclasses.replace(t, at=written_time(plan["utc"]).isoformat())
             taken.append("time")
         moment, offset, _ = _when(typed, state, None)
+        if taken and not t.tz and plan is not None and plan["offset_min"] is not None:
+            offset = plan["offset_min"]  # the ship's time of the plan at that moment
         if t.pos:
             position = parse_position(t.pos)
         elif plan is not None and t.as_planned and plan["position"] is not None:

@@ -1,4 +1,5 @@
-"""The ship's particulars, tanks, circuits and fuels read from the ship file for ``log init``.
+"""The ship's particulars, tanks, circuits, scrubbers and fuels read from the ship file for
+``log init``.
 
 The ship file is read through :func:`planner.ship.ship_file.load_ship` (the same checked
 loader the plan uses; nothing here changes it), so every fault in it is one
@@ -7,7 +8,8 @@ loader the plan uses; nothing here changes it), so every fault in it is one
 - the ship's name and IMO number (``[ship] name``, ``imo``);
 - every tank with its capacity (``[tanks.NAME] capacity_m3``): soundings above a
   tank's capacity are then refused;
-- the circuits' names (``[circuits.NAME]``);
+- the circuits' names (``[circuits.NAME]``): an entry naming another circuit is refused;
+- the scrubbers' names (``[scrubbers.NAME]``): a scrubber entry naming another is refused;
 - every fuel with its grade, sulphur and density at 15 °C (``[fuels.NAME]``) and its
   delivery-note reference (``bdn_ref``; "not given in FILE" when the file has none).
 """
@@ -32,6 +34,7 @@ class ShipParticulars:
     tanks: tuple[TankCapacity, ...]
     circuits: tuple[str, ...]
     fuels: tuple[FuelSpec, ...]
+    scrubbers: tuple[str, ...] = ()
 
 
 def ship_particulars(path: str | Path) -> ShipParticulars:
@@ -56,4 +59,5 @@ def ship_particulars(path: str | Path) -> ShipParticulars:
                              str(exc).split(" must be ")[-1]) from None
     return ShipParticulars(source=name, name=system.ship.name, imo=system.ship.imo,
                            journal=system.ship.journal, tanks=tuple(tanks),
-                           circuits=tuple(system.circuits), fuels=tuple(fuels))
+                           circuits=tuple(system.circuits), fuels=tuple(fuels),
+                           scrubbers=tuple(system.scrubbers))

@@ -1,10 +1,11 @@
 """The journal as it stands: a fold over its entries, in order.
 
 :class:`JournalState` knows the ship (name, IMO number), the tank names and
-fuels registered so far, the ship's last UTC offset and voyage, and for every
-entry its corrections: :meth:`JournalState.current` is the record as it now
-reads (the latest correction, or None when struck out), while the original
-and every earlier version stay available for printing.
+fuels registered so far (set up from a ship file, also its circuits and
+scrubbers), the ship's last UTC offset and voyage, and for every entry its
+corrections: :meth:`JournalState.current` is the record as it now reads (the
+latest correction, or None when struck out), while the original and every
+earlier version stay available for printing.
 """
 
 from __future__ import annotations
@@ -43,6 +44,7 @@ class JournalState:
         self.tanks: list[str] = []
         self.capacity_m3: dict[str, float] = {}
         self.circuits: list[str] = []
+        self.scrubbers: list[str] = []
         self.fuels: dict[str, FuelSpec] = {}
         self.stored: dict[int, Stored] = {}
         self.corrections: dict[int, list[int]] = {}
@@ -75,6 +77,7 @@ class JournalState:
             self.tanks += [t for t in d.tanks if t not in self.tanks]
             self.capacity_m3.update({c.tank: c.capacity_m3 for c in d.capacities})
             self.circuits += [c for c in d.circuits if c not in self.circuits]
+            self.scrubbers += [x for x in d.scrubbers if x not in self.scrubbers]
             self.last_offset_min = r.ship_offset_min
         elif e.kind == FUEL and r is not None:
             self.fuels[r.details.fuel.name] = r.details.fuel

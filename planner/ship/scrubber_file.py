@@ -15,9 +15,13 @@ Every fault is one :class:`geo.errors.InputError` naming the file and the key
 ``scrubbers.NAME.key``: an unknown key (nearest key suggested), a wrong type, a
 consumer the ship file lacks, a consumer served by two scrubbers, a mode word
 not in :data:`planner.ship.scrubbers.MODE_WORDS`, ``max_sulphur_pct`` outside
-(0, 4.50] % m/m (the highest sulphur any fuel may have, [MARPOL-VI]). A circuit
+(0, 4.50] % m/m (the highest sulphur any fuel may have, [MARPOL-VI]), a load
+outside 0-110 % MCR, ``min_load_pct`` not below ``max_load_pct``. A circuit
 some but not all of whose consumers a scrubber serves gets a warning: a circuit
-carries one fuel, so it cannot burn high-sulphur fuel on the scrubber.
+carries one fuel, so it cannot burn high-sulphur fuel on the scrubber. So does
+a load range end above 0 and at most :data:`FRACTION_LOAD_PCT` (``max_load_pct =
+1.1`` meant as 110 %): it is taken as written, and so would leave the scrubber
+out of the plan on every leg, or rely on it at loads its approval does not cover.
 """
 
 from __future__ import annotations
@@ -33,6 +37,12 @@ from planner.ship.scrubbers import MODE_WORDS, Scrubber
 SCRUBBER_KEYS = ("consumers", "mode", "max_sulphur_pct", "min_load_pct", "max_load_pct",
                  "approval", "note")
 """The keys a ``[scrubbers.NAME]`` table may hold."""
+
+FRACTION_LOAD_PCT = 1.5
+"""A load range end above 0 and at most this [% MCR] looks like a fraction of MCR written
+for a percentage (1.1 for 110 %, 0.25 for 25 %): taken, with an ``unusual_input`` warning.
+No engine is approved for scrubber operation at 1.5 % MCR or less, from memory (a
+typo guard, not a limit of any scrubber)."""
 
 
 def parse_scrubbers(r: Reader, group: object, consumers: Mapping[str, Consumer]
@@ -106,16 +116,36 @@ def _scrubber(r: Reader, name: str, t: object, consumers: Mapping[str, Consumer]
         if not isinstance(value, str):
             raise r.fail(f"{place}.{key}", value, "text")
         texts[key] = value.strip()
+    typed = {"min_load_pct": low, "max_load_pct": high}
     low = 0.0 if low is None else low
     high = 110.0 if high is None else high
+    fractions = [k for k, x in typed.items() if x is not None and _fraction(x)]
     if not low < high:
+        hint = "".join(f"; {k} = {typed[k]:g} looks like a fraction of MCR: "
+                       f"{_per_cent(k, typed[k])}" for k in fractions)
         raise r.fail(f"{place}.min_load_pct", low,
-                     f"a load below max_load_pct ({high:g} % MCR)")
+                     f"a load below max_load_pct ({high:g} % MCR){hint}")
+    for key in fractions:
+        r.warnings.append(
+            f"{r.file}: {place}.{key} = {typed[key]:g} % MCR looks like a fraction of MCR; "
+            f"expected {_per_cent(key, typed[key])}; as written, the plan relies on "
+            f"scrubber {name} only while the engines it serves run at {low:g}-{high:g} % "
+            "MCR; check the ship file.")
     try:
         return Scrubber(name, tuple(who), MODE_WORDS[mode], sulphur,  # type: ignore[arg-type]
                         low, high, **texts)
     except ValueError as e:
         raise r.fail(place, name, f"valid scrubber data ({e})") from None
+
+
+def _fraction(x: float) -> bool:
+    """A load range end that looks like a fraction of MCR (:data:`FRACTION_LOAD_PCT`)."""
+    return 0.0 < x <= FRACTION_LOAD_PCT
+
+
+def _per_cent(key: str, x: float) -> str:
+    """What is expected of a load range end ``x`` [% MCR] written as a fraction, in words."""
+    return f"per cent of MCR, such as 110 ({key} = {100.0 * x:.4g} for {x:g} × MCR)"
 
 
 def partial_circuit_warnings(file: str, scrubbers: Mapping[str, Scrubber],

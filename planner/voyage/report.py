@@ -15,6 +15,7 @@ from planner.voyage.fuel_choice import FuelChoice, regular_fuel
 from planner.voyage.plan import Plan
 from planner.voyage.quantities import so2_by_area, sulphur_by_area
 from planner.voyage.route_report import force_event_rows
+from planner.voyage.scrubbing_plan import not_relied_reasons
 
 CAUTIONS = (
     "Advisory only: the engine and boiler makers' instructions and the ship's safety "
@@ -324,7 +325,9 @@ def plan_geojson(plan: Plan, doc: dict | None = None) -> dict:
 
 def scrubber_json(plan: Plan) -> dict:
     """The plan's scrubber keys: ``scrubbers`` (each with the circuits it serves whole),
-    ``scrubber_spans`` and ``scrubber_events`` (numbered from 1, in time order). The plan's
+    ``scrubber_spans`` and ``scrubber_events`` (numbered from 1, in time order); each
+    scrubber's ``not_relied_on`` says why the plan relies on it nowhere (null when it does
+    somewhere, :func:`planner.voyage.scrubbing_plan.not_relied_reasons`). The plan's
     document carries them only when the ship file has a scrubber (a plan without one is
     byte for byte as before).
 
@@ -341,12 +344,14 @@ def scrubber_json(plan: Plan) -> dict:
         and after cleaning at most, :func:`planner.voyage.scrubbing_spans.span_so2`).
     """
     t = plan.timeline
+    why_not = not_relied_reasons(plan.system, plan.scrubbed)
     scrubbers = [{"name": s.name, "consumers": list(s.consumers),
                   "circuits": [c for g in plan.scrubbed if s.name in g.names
                                for c in g.circuits],
                   "mode": s.mode_word, "max_sulphur_pct": s.max_sulphur_pct,
                   "min_load_pct": s.min_load_pct, "max_load_pct": s.max_load_pct,
-                  "load_range_applied": True, "approval": s.approval}
+                  "load_range_applied": True, "approval": s.approval,
+                  "not_relied_on": why_not.get(s.name)}
                  for s in plan.system.scrubbers.values()]
     spans = []
     for x, (formed, cleaned) in zip(plan.scrubber_spans, plan.scrubber_so2_kg, strict=True):

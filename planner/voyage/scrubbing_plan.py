@@ -209,3 +209,53 @@ def _same(a: Change, b: Change) -> bool:
     return (abs(a.boundary_epoch_s - b.boundary_epoch_s) < 1.0 and a.direction == b.direction
             and (a.area, a.event, a.before_departure) == (b.area, b.event, b.before_departure)
             and abs(a.limit_pct - b.limit_pct) < 1e-12 and abs(a.target_pct - b.target_pct) < 1e-12)
+
+
+def not_relied_reasons(system: FuelSystem, scrubbed: Sequence[Scrubbed]) -> dict[str, str | None]:
+    """Why the plan relies on each of the ship file's scrubbers nowhere on the voyage, in
+    words (None: it relies on it somewhere, or the scrubber could work somewhere and the
+    circuits' own fuel choice needs it nowhere, or it serves no circuit whole: the ship
+    file's loader warns of that).
+
+    Parameters
+    ----------
+    system : FuelSystem
+        The ship (her scrubbers, in the ship file's order).
+    scrubbed : sequence of Scrubbed
+        The plan's groups of served circuits (:attr:`planner.voyage.plan.Plan.scrubbed`).
+
+    Returns
+    -------
+    dict of str to str or None
+        By the ship file's scrubber name, in its order.
+    """
+    out: dict[str, str | None] = {}
+    for name in system.scrubbers:
+        groups = [g for g in scrubbed if name in g.names]
+        if not groups or any(g.spans for g in groups):
+            out[name] = None
+            continue
+        texts = [t for t in dict.fromkeys(_nowhere(g) for g in groups) if t]
+        out[name] = "; ".join(texts) or None
+    return out
+
+
+def _nowhere(g: Scrubbed) -> str:
+    """Why scrubber group ``g`` can work nowhere on the route ("" when it can somewhere)."""
+    pieces = g.pieces
+    if not pieces or any(p.mode is not None for p in pieces):
+        return ""
+    s = g.scrubber
+    served = f"circuit {', '.join(g.circuits)} stays on compliant fuel"
+    if all(p.out_of_range for p in pieces):
+        return (f"the engines it serves run outside its load range {s.min_load_pct:g}-"
+                f"{s.max_load_pct:g} % MCR on every leg sailed ({pieces[0].why}), so "
+                f"{served}; check min_load_pct and max_load_pct in the ship file (per cent "
+                "of MCR, such as 110)")
+    kinds = [k for k, hit in (
+        ("out of service", any(p.out_of_service for p in pieces)),
+        (f"outside its load range {s.min_load_pct:g}-{s.max_load_pct:g} % MCR",
+         any(p.out_of_range for p in pieces)),
+        ("in washwater discharge zones where it cannot work",
+         any(not p.out_of_service and not p.out_of_range for p in pieces))) if hit]
+    return f"it can work nowhere on the route ({', or '.join(kinds)}), so {served}"
