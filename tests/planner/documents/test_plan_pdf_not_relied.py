@@ -107,3 +107,14 @@ def test_a_second_scrubber_relied_on_nowhere_is_named_beneath_the_events(tmp_pat
     note = "Numbered S1, S2 ... as on the route map"
     assert note in text and text.index(note) < text.index(line)
     assert "Scrubber egcs is not relied on" not in text
+
+
+def test_readme_scrubbers_in_the_plan_tells_of_the_reason():
+    """README's section "Scrubbers in the plan" names the JSON key and the printed line
+    (terminal and PDF)."""
+    text = (ROOT / "README.md").read_text(encoding="utf-8")
+    section = text.split("#### Scrubbers in the plan\n", 1)[1].split("\n#### ", 1)[0]
+    flat = " ".join(section.split())
+    assert "`not_relied_on`" in flat
+    assert '"Scrubber egcs is not relied on: …"' in flat
+    assert "PDF in its section **Scrubber**" in flat
