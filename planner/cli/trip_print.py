@@ -20,7 +20,9 @@ EVENT_WORDS = {"enter": "entered on the scrubber",
                "inside_at_start": "on the scrubber from here, inside the area",
                "comes_into_force": "comes into force while on the scrubber"}
 ADVISORY = ("Advisory only: a failure's time out of compliance is counted until every "
-            "inlet reaches the plan's flushing target, at the planned consumption. The "
+            "inlet reaches the plan's flushing target, at the planned consumption; a "
+            "failure while the changeover into the span's fuel is still under way starts "
+            "from the state that changeover has reached. The "
             "engine and boiler makers' instructions and the ship's safety management "
             "system come first; report a scrubber failure as the flag and port States ask.")
 
@@ -46,7 +48,7 @@ def _head(r: dict) -> tuple[str, ...]:
     words = EVENT_WORDS.get(r["event"], r["event"])
     return (f"{r['area']}: {words} ({atom(r['scrubber'])}), {utc_full(r['utc'])}, "
             f"{ship_full(r['ship_time'])} ship's time, {position(r['lat'], r['lon'])}, "
-            f"{atom(format(r['distance_nm'], '.1f') + ' nm')} from departure",)
+            f"{atom(format(r['distance_nm'], ',.1f') + ' nm')} from departure",)
 
 
 def boundary_table(doc: dict) -> TextTable:

@@ -7,7 +7,10 @@ default; nothing is printed when both are empty, so a plan without a scrubber
 prints as before. Spans: scrubber, circuits, fuel (and the fallback fuel),
 washwater mode, from and to in UTC, ship's time and position. Events, numbered
 ``S1``, ``S2`` ... as on the map, the chart and the GPX marks: time in UTC and
-ship's time, position, event, mode, the action and why. Then the caution that
+ship's time, position, event, mode, the action and why; beneath them, for each
+scrubber of ``scrubbers`` the plan relies on nowhere, "Scrubber NAME is not
+relied on: ..." with its ``not_relied_on`` reason, as the terminal prints it (a
+plan relying on no scrubber prints the section for these lines alone). Then the caution that
 the EGCS approval and its operating manual come first ([MARPOL-VI] regulation
 4; [MEPC-340]); then, as the terminal prints them, the "if the scrubber fails" tables
 and the SO2/CO2 table (:mod:`planner.documents.plan_pdf_trip`). reportlab is imported
@@ -71,14 +74,37 @@ def relies_text(spans: list[dict]) -> str:
     return words(spans)
 
 
+def not_relied_lines(doc: dict) -> list[str]:
+    """"Scrubber NAME is not relied on: REASON." for each scrubber of the document's
+    ``scrubbers`` with a ``not_relied_on`` reason, in the file's order (the terminal's
+    words, :func:`planner.cli.plan_tables.scrubber_tables`)."""
+    out = []
+    for s in doc.get("scrubbers") or []:
+        why = s.get("not_relied_on") if isinstance(s, dict) else None
+        if why:
+            out.append(f"Scrubber {s.get('name', '—')} is not relied on: "
+                       f"{str(why).rstrip('.')}.")
+    return out
+
+
+def _relied_on_nowhere(why_not: list[str]) -> list:
+    """The section when the plan relies on no scrubber: its head and the reasons."""
+    return keep([para("Scrubber", "h1"),
+                 para("No scrubber event: the plan relies on no scrubber on this voyage.",
+                      "body")]
+                + [para(plain(x), "body") for x in why_not])
+
+
 def scrubber_section(doc: dict) -> list:
-    """The section "Scrubber" (nothing when the document has no scrubber span or event)."""
+    """The section "Scrubber" (nothing when the document has no scrubber span or event
+    and no scrubber with a ``not_relied_on`` reason)."""
     from planner.charts.scrubber_marks import CAUTION, event_rows
 
     spans = doc.get("scrubber_spans") or []
     events = event_rows(doc)
+    why_not = not_relied_lines(doc)
     if not spans and not events:
-        return []
+        return _relied_on_nowhere(why_not) if why_not else []
     head: list = [para("Scrubber", "h1")]
     if spans:
         head.append(para(plain(relies_text(spans)), "body"))
@@ -99,4 +125,5 @@ def scrubber_section(doc: dict) -> list:
                            align="lllllll"),
                 para("Numbered S1, S2 ... as on the route map, the sulphur chart and the GPX "
                      "marks. Times UTC and ship's time; positions WGS84.", "small")]
+    out += [para(plain(x), "body") for x in why_not]
     return out + trip_tables(doc) + ratio_table(doc)
