@@ -29,6 +29,8 @@ class Inlets:
     ----------
     stirred, pipes : ndarray of int
         Indices of the stirred nodes and of the pipes that feed consumers.
+    pipe_list, pipe_volume_m3 : list of int, list of float [m³]
+        Those pipes as ints, and their volumes.
     of_consumer : ndarray (C,) of int
         Each consumer's source, an index into ``stirred`` then ``pipes``.
     """
@@ -42,6 +44,8 @@ class Inlets:
         order = [(STIRRED, n) for n in stirred] + [(k, n) for k, n in found if k != STIRRED]
         self.stirred = np.array(stirred, dtype=int)
         self.pipes = np.array(pipes, dtype=int)
+        self.pipe_list = pipes  # the same, as ints
+        self.pipe_volume_m3 = net.pipe_volume_m3[self.pipes].tolist()  # their volumes [m³]
         self.of_consumer = np.array([order.index(kn) for kn in zip(kinds, nodes, strict=True)],
                                     dtype=int)
         n_stirred = len(net.stirred)  # each consumer's source among the stirred nodes, then pipes
