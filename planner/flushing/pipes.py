@@ -33,11 +33,15 @@ _SLACK = 1e-12  # a left limit this close (relative to the pipe volume) to a bou
 _CAPACITY = 16  # parcels per pipe the arrays start with
 _FAR = 1e30  # where unused and departed columns start [m³]: far, and cubed still finite
 _HALF_FAR = 0.5 * _FAR
-_GAUSS_WJ = _GAUSS_W[:, None] * _WEIGHTS  # (node, j): quadrature weight × (2j + 1)
 # _LEGENDRE_POWERS[n, j]: coefficient of z^n in the shifted Legendre polynomial P_j(z)
 _LEGENDRE_POWERS = np.array(
     [[1.0, -1.0, 1.0, -1.0], [0.0, 2.0, -6.0, 12.0], [0.0, 0.0, 6.0, -30.0], [0.0, 0.0, 0.0, 20.0]]
 )
+# from the powers 0 … 3 of a parcel position s, then of a window position u, to P0 … P2 at
+# s and (2j + 1)·Pj, j = 0 … 3, at u: (8, 7)
+_TO_LEGENDRE = np.zeros((8, 7))
+_TO_LEGENDRE[:4, :3] = _LEGENDRE_POWERS[:, :3]
+_TO_LEGENDRE[4:, 3:] = _LEGENDRE_POWERS * _WEIGHTS
 
 
 class PipeSet:
@@ -67,6 +71,7 @@ class PipeSet:
         self.head = np.zeros(p, dtype=int)
         self._rows = np.arange(p)
         self._lo, self._hi = 0, 1  # the columns in use: least head, one past the last
+        self._powers: dict[int, np.ndarray] = {}  # window's work arrays, by column count
 
     def window(self, width_m3: np.ndarray, inv_throughput: np.ndarray) -> np.ndarray:
         """Outflow moments of each pipe's first ``width_m3`` (P,) for a step passing W.
@@ -85,21 +90,22 @@ class PipeSet:
         wid = np.minimum(st + ln, width_m3[:, None])
         wid -= a
         np.maximum(wid, 0.0, out=wid)
-        pw = np.empty((2, p, n, 3, 4))  # powers 0 … 3 of the nodes' s and u
-        pw[..., 0] = 1.0
-        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[1, ..., 1])
+        pw = self._powers.get(n)  # powers 0 … 3 of the nodes' s, then u: (P, n, 3, 2, 4)
+        if pw is None:
+            pw = self._powers[n] = np.ones((p, n, 3, 2, 4))
+        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[..., 1, 1])
         xi += a[..., None]  # outlet distance of the Gauss nodes of each piece
-        np.subtract(xi, st[..., None], out=pw[0, ..., 1])
-        pw[0, ..., 1] /= ln[..., None]  # ... as parcel positions s
+        np.subtract(xi, st[..., None], out=pw[..., 0, 1])
+        pw[..., 0, 1] /= ln[..., None]  # ... as parcel positions s
         xi *= inv_throughput[:, None, None]  # ... and as window positions u
         z = pw[..., 1]
         np.multiply(z, z, out=pw[..., 2])
         np.multiply(pw[..., 2], z, out=pw[..., 3])
-        leg = pw.reshape(-1, 4).dot(_LEGENDRE_POWERS).reshape(pw.shape)  # P0 … P3, s and u
-        c = np.matmul(leg[0, ..., :3], self.coef[lo:hi].transpose(1, 0, 2, 3))  # (P, n, 3, F)
-        leg[1] *= (wid * inv_throughput[:, None])[..., None, None] * _GAUSS_WJ
-        m = leg[1].reshape(p, 3 * n, 4).transpose(0, 2, 1)
-        return np.matmul(m, c.reshape(p, 3 * n, -1))
+        leg = pw.reshape(-1, 8).dot(_TO_LEGENDRE).reshape(p, n, 3, 7)
+        c = np.matmul(leg[..., :3], self.coef[lo:hi].transpose(1, 0, 2, 3))  # (P, n, 3, F)
+        c *= np.multiply.outer(wid * inv_throughput[:, None], _GAUSS_W)[..., None]
+        m = leg[..., 3:].reshape(p, 3 * n, 4)
+        return np.matmul(c.reshape(p, 3 * n, -1).transpose(0, 2, 1), m).transpose(0, 2, 1)
 
     def outlets(self) -> np.ndarray:
         """Composition just inside each outlet (P, F): the right limit at ξ = 0."""
@@ -153,10 +159,8 @@ class PipeSet:
         st = self.start[lo:hi]
         st -= throughput_m3
         ln = self.length[lo:hi]
-        gone = st + ln <= _GONE * ln
-        np.copyto(st, -_FAR, where=gone)
-        live = st < _HALF_FAR
-        live &= st > -_HALF_FAR
+        np.copyto(st, -_FAR, where=st <= ln * (_GONE - 1.0))  # gone: st + ln <= _GONE·ln
+        live = np.abs(st) < _HALF_FAR
         self.head = lo + live.argmax(axis=0)  # the first column still in the pipe
         self._lo = min(self.head.tolist(), default=hi - 1)
 

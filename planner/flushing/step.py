@@ -254,27 +254,32 @@ def compute_step(
         approximated to its cubic part (``shape_error``, the error estimate).
     """
     s, p = bp.shape
+    f = x0.shape[1]
     mx = maps.from_x.dot(x0)
     if fresh is None:
         out = known[:, :3].transpose(1, 0, 2)
+        out2 = out.reshape(3 * p, f)
     else:
-        out = _pipe_outflows(maps, mx, known, fresh, bp, shares)
+        out2 = _pipe_outflows(maps, mx, known, fresh, bp, shares)
+        out = out2.reshape(3, p, f)
     g = np.matmul(bp, out)
-    moments = mx + maps.from_g.dot(g.reshape(3 * s, -1))
-    moments = moments.reshape(5, s, -1)
-    inflow = np.matmul(shares.ws, moments[1:])
-    inflow[:3] += np.matmul(shares.wp, out)
+    moments = mx + maps.from_g.dot(g.reshape(3 * s, f))
+    inflow = shares.ws_blocks.dot(moments[s:])  # (4P, F): moment, pipe
+    inflow[: 3 * p] += shares.wp_blocks.dot(out2)
+    inflow = inflow.reshape(4, p, f)
+    moments = moments.reshape(5, s, f)
     shape = 0.0
     if p:
-        cubic = np.empty((2, p, x0.shape[1]))
+        cubic = np.empty((2, p, f))
         if fresh is None:
-            np.abs(known[:, 3], out=cubic[0])
+            cubic[0] = known[:, 3]
         else:
             np.matmul(fresh[:, 3:, :3], inflow[:3].transpose(1, 0, 2), out=cubic[0, :, None])
             cubic[0] += known[:, 3]
-            np.abs(cubic[0], out=cubic[0])
-        np.abs(inflow[3], out=cubic[1])
-        shape = float(np.maximum.reduce((np.maximum.reduce(cubic, axis=2) * checked).ravel()))
+        cubic[1] = inflow[3]
+        np.abs(cubic, out=cubic)
+        cubic *= checked[:, :, None]
+        shape = float(np.maximum.reduce(cubic, axis=None))
     return StepResult(maps.h, moments, out, inflow, g, shape)
 
 
@@ -283,7 +288,9 @@ class Shares(NamedTuple):
 
     ws: np.ndarray  # (P, S)
     wp: np.ndarray  # (P, P)
-    wp_blocks: np.ndarray  # (3, P, 3P): wp on the diagonal blocks of the pipe system
+    ws_blocks: np.ndarray  # (4P, 4S): ws on the diagonal blocks, one per moment
+    wp_blocks: np.ndarray  # (3P, 3P): wp on the diagonal blocks, one per moment
+    w_blocks: np.ndarray  # (3P, 3S + 3P): the first three of each, side by side
 
 
 def shares_of(w_in: np.ndarray, s: int) -> Shares:
@@ -299,14 +306,20 @@ def shares_of(w_in: np.ndarray, s: int) -> Shares:
     Returns
     -------
     Shares
-        ``ws``, ``wp`` as contiguous arrays, and ``wp`` set on the diagonal
-        blocks of a (3, P, 3P) array.
+        ``ws``, ``wp`` as contiguous arrays, each set on the diagonal blocks of a
+        (4P, 4S) and a (3P, 3P) array (the moments' maps, moment by moment), and the
+        first three blocks of both side by side (3P, 3S + 3P).
     """
     p = w_in.shape[0]
-    blocks = np.zeros((3, p, 3 * p))
+    ws, wp = np.ascontiguousarray(w_in[:, :s]), np.ascontiguousarray(w_in[:, s:])
+    ws_blocks = np.zeros((4 * p, 4 * s))
+    wp_blocks = np.zeros((3 * p, 3 * p))
+    for j in range(4):
+        ws_blocks[j * p : (j + 1) * p, j * s : (j + 1) * s] = ws
     for j in range(3):
-        blocks[j, :, j * p : (j + 1) * p] = w_in[:, s:]
-    return Shares(np.ascontiguousarray(w_in[:, :s]), np.ascontiguousarray(w_in[:, s:]), blocks)
+        wp_blocks[j * p : (j + 1) * p, j * p : (j + 1) * p] = wp
+    both = np.concatenate((ws_blocks[: 3 * p, : 3 * s], wp_blocks), axis=1)
+    return Shares(ws, wp, ws_blocks, wp_blocks, both)
 
 
 def _pipe_outflows(
@@ -317,7 +330,7 @@ def _pipe_outflows(
     bp: np.ndarray,
     shares: Shares,
 ) -> np.ndarray:
-    """Outflow moments O0, O1, O2 (3, P, F) of every pipe over the step.
+    """Outflow moments O0, O1, O2 of every pipe over the step (3P, F: moment, pipe).
 
     The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` and
     ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + loop·(Bp·O)``: with
@@ -326,13 +339,15 @@ def _pipe_outflows(
     """
     s, p = bp.shape
     f = mx.shape[1]
-    aug = np.concatenate((maps.loop.dot(bp).reshape(3 * s, 3 * p), mx[s : 4 * s]), axis=1)
-    tu = np.matmul(shares.ws, aug.reshape(3, s, 3 * p + f))  # (3, P, 3P + F): [T | U]
-    tu[:, :, : 3 * p] += shares.wp_blocks
-    ftu = np.matmul(fresh[:, :3, :3], tu.transpose(1, 0, 2)).reshape(3 * p, 3 * p + f)
+    aug = _augmented(s, p, f)  # [[Loop·Bp, moments of x(0)], [1, 0]]
+    aug[: 3 * s, : 3 * p] = maps.loop.dot(bp).reshape(3 * s, 3 * p)
+    aug[: 3 * s, 3 * p :] = mx[s : 4 * s]
+    tu = shares.w_blocks.dot(aug)  # (3P, 3P + F): [T | U], moment, pipe
+    ftu = np.matmul(fresh[:, :3, :3], tu.reshape(3, p, -1).transpose(1, 0, 2))
+    ftu = ftu.reshape(3 * p, 3 * p + f)
     system = _permutation(p) - ftu[:, : 3 * p]
     rhs = known[:, :3].reshape(3 * p, f) + ftu[:, 3 * p :]
-    return _solve(system, rhs).reshape(3, p, f)
+    return _solve(system, rhs)
 
 
 def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
@@ -341,9 +356,22 @@ def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
     ``numpy.linalg.solve`` for its error."""
     if _gesv is not None:
         r = _gesv(a, b, signature="dd->d")
-        if math.isfinite(float(np.add.reduce(r, axis=None))):  # a sum overflowing re-solves
+        if math.isfinite(r.item(0)):  # singular: all NaN
             return r
     return np.linalg.solve(a, b)
+
+
+_AUGMENTED: dict[tuple[int, int, int], np.ndarray] = {}
+
+
+def _augmented(s: int, p: int, f: int) -> np.ndarray:
+    """A work array (3S + 3P, 3P + F) for :func:`_pipe_outflows`: its last 3P rows hold
+    ``[1, 0]`` (the pipes' own outflow moments), the first 3S are written at each step."""
+    found = _AUGMENTED.get((s, p, f))
+    if found is None:
+        found = _AUGMENTED[(s, p, f)] = np.zeros((3 * s + 3 * p, 3 * p + f))
+        found[3 * s :, : 3 * p] = np.eye(3 * p)
+    return found
 
 
 _PERMUTATIONS: dict[int, np.ndarray] = {}
