@@ -290,7 +290,9 @@ def fresh_maps(volume_m3: np.ndarray, throughput_m3: np.ndarray) -> np.ndarray:
     ndarray (P, 4, 3) [-]
         Each pipe's map (zero where W ≤ V).
     """
+    passed = [w > v for w, v in zip(throughput_m3.tolist(), volume_m3.tolist(), strict=True)]
     r = volume_m3 / np.maximum(throughput_m3, volume_m3)  # pipe volumes are > 0
     maps = (r[:, None] ** _R_POWERS).dot(_FRESH_POLY)
-    maps *= np.heaviside(throughput_m3 - volume_m3, 0.0)[:, None]  # 0 where W ≤ V
+    if not all(passed):
+        maps *= np.array(passed, dtype=float)[:, None]  # 0 where W ≤ V
     return maps.reshape(len(r), 4, 3)

@@ -52,6 +52,7 @@ class Inlets:
         self._at_consumer = np.array(
             [n if k == STIRRED else n_stirred + n for k, n in zip(kinds, nodes, strict=True)],
             dtype=int)
+        self._pipe_at_consumer = None if stirred else np.array(nodes, dtype=int)
 
     def values(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
         """Composition at each source (n_sources, F) from stirred (S, F) and pipe (P, F) values."""
@@ -60,7 +61,9 @@ class Inlets:
     def at_consumers(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
         """Each consumer's inlet (k, C, F) from stirred (k, S, F) and pipe (k, P, F) values:
         ``values(...)[of_consumer]`` for ``k`` quantities at once."""
-        return np.concatenate((stirred, pipe_outlet), axis=1)[:, self._at_consumer]
+        if self._pipe_at_consumer is not None:  # every consumer fed by a pipe
+            return pipe_outlet.take(self._pipe_at_consumer, axis=1)
+        return np.concatenate((stirred, pipe_outlet), axis=1).take(self._at_consumer, axis=1)
 
 
 class Recorder:

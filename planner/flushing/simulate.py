@@ -336,9 +336,9 @@ def _commit_stirred(
     ([LEVENSPIEL-1999] mass balance [D]); tanks move by ``h·(q_in − q_out)``.
     """
     h, mean = step.h, step.moments[1]
-    inflow = fl.into_stirred.dot(np.concatenate((mean, step.outflow[0])))
-    content = state.volume_m3[:, None] * state.x + h * (inflow - fl.stirred_out[:, None] * mean)
-    volume = state.volume_m3 + h * (fl.stirred_in - fl.stirred_out) * run.tank_mask
+    gain = fl.balance.dot(np.concatenate((mean, step.outflow[0])))
+    content = state.volume_m3[:, None] * state.x + h * gain
+    volume = state.volume_m3 + h * fl.tank_net
     if float(np.minimum.reduce(volume)) > 0.0:
         return content / volume[:, None], volume
     with np.errstate(invalid="ignore", divide="ignore"):
