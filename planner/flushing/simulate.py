@@ -367,9 +367,12 @@ def _ends(
         at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
               for x, v in zip(w, inl.pipe_volume_m3, strict=True)]
         if min(at) >= 0.0:  # every source pipe passed more than its volume
-            basis = np.array([[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at])
-            parcel = step.inflow[:3, inl.pipes].transpose(1, 0, 2)  # (m, 3, F)
-            pipe_end = pipe_in = np.matmul(basis[:, None, :], parcel)[:, 0]
+            basis = [[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at]
+            if len(at) == 1:  # the profile of the one source pipe's parcel, (1, F)
+                pipe_end = pipe_in = np.dot(basis[0], step.inflow[:3, inl.pipe_list[0]])[None]
+            else:
+                parcel = step.inflow[:3].take(inl.pipes, axis=1).transpose(1, 0, 2)  # (m, 3, F)
+                pipe_end = pipe_in = np.matmul(np.array(basis)[:, None, :], parcel)[:, 0]
         else:
             wa = np.array(w)
             both = state.pipes.sample(inl.pipes, np.stack((wa, wa), axis=1), _LEFT_RIGHT)

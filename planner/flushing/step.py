@@ -260,7 +260,8 @@ def compute_step(
         out = known[:, :3].transpose(1, 0, 2)
         out2 = out.reshape(3 * p, f)
     else:
-        out2 = _pipe_outflows(maps, mx, known, fresh, bp, shares)
+        solved = _pipe_outflows(maps, mx, known, fresh, bp, shares)  # (4P, F)
+        out2 = solved[: 3 * p]
         out = out2.reshape(3, p, f)
     g = np.matmul(bp, out)
     moments = mx + maps.from_g.dot(g.reshape(3 * s, f))
@@ -274,8 +275,7 @@ def compute_step(
         if fresh is None:
             cubic[0] = known[:, 3]
         else:
-            np.matmul(fresh[:, 3:, :3], inflow[:3].transpose(1, 0, 2), out=cubic[0, :, None])
-            cubic[0] += known[:, 3]
+            cubic[0] = solved[3 * p :]
         cubic[1] = inflow[3]
         np.abs(cubic, out=cubic)
         cubic *= checked[:, :, None]
@@ -330,23 +330,25 @@ def _pipe_outflows(
     bp: np.ndarray,
     shares: Shares,
 ) -> np.ndarray:
-    """Outflow moments O0, O1, O2 of every pipe over the step (3P, F: moment, pipe).
+    """Outflow moments O0 … O3 of every pipe over the step (4P, F: moment, pipe).
 
-    The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` and
+    The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` (j < 3) and
     ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + loop·(Bp·O)``: with
     the unknowns ordered (moment, pipe) and the equations (pipe, moment),
-    ``(Π − F·T)·O = K + F·U`` (Π the permutation between the two orders).
+    ``(Π − F·T)·O = K + F·U`` (Π the permutation between the two orders). The
+    cubic O3, which nothing depends on, is solved for with the rest (its own
+    column of T is 0): the part of the outflow the quadratic profiles leave out.
     """
     s, p = bp.shape
     f = mx.shape[1]
-    aug = _augmented(s, p, f)  # [[Loop·Bp, moments of x(0)], [1, 0]]
+    aug = _augmented(s, p, f)  # [[Loop·Bp, 0, moments of x(0)], [1, 0, 0]]
     aug[: 3 * s, : 3 * p] = maps.loop.dot(bp).reshape(3 * s, 3 * p)
-    aug[: 3 * s, 3 * p :] = mx[s : 4 * s]
-    tu = shares.w_blocks.dot(aug)  # (3P, 3P + F): [T | U], moment, pipe
-    ftu = np.matmul(fresh[:, :3, :3], tu.reshape(3, p, -1).transpose(1, 0, 2))
-    ftu = ftu.reshape(3 * p, 3 * p + f)
-    system = _permutation(p) - ftu[:, : 3 * p]
-    rhs = known[:, :3].reshape(3 * p, f) + ftu[:, 3 * p :]
+    aug[: 3 * s, 4 * p :] = mx[s : 4 * s]
+    tu = shares.w_blocks.dot(aug)  # (3P, 4P + F): [T | 0 | U], moment, pipe
+    ftu = np.matmul(fresh, tu.reshape(3, p, -1).transpose(1, 0, 2))
+    ftu = ftu.reshape(4 * p, 4 * p + f)
+    system = _permutation(p) - ftu[:, : 4 * p]
+    rhs = known.reshape(4 * p, f) + ftu[:, 4 * p :]
     return _solve(system, rhs)
 
 
@@ -365,11 +367,12 @@ _AUGMENTED: dict[tuple[int, int, int], np.ndarray] = {}
 
 
 def _augmented(s: int, p: int, f: int) -> np.ndarray:
-    """A work array (3S + 3P, 3P + F) for :func:`_pipe_outflows`: its last 3P rows hold
-    ``[1, 0]`` (the pipes' own outflow moments), the first 3S are written at each step."""
+    """A work array (3S + 3P, 4P + F) for :func:`_pipe_outflows`: its last 3P rows hold
+    ``[1, 0, 0]`` (the pipes' own outflow moments), the first 3S are written at each step
+    but for their zero columns 3P … 4P − 1 (the cubic, which no inflow depends on)."""
     found = _AUGMENTED.get((s, p, f))
     if found is None:
-        found = _AUGMENTED[(s, p, f)] = np.zeros((3 * s + 3 * p, 3 * p + f))
+        found = _AUGMENTED[(s, p, f)] = np.zeros((3 * s + 3 * p, 4 * p + f))
         found[3 * s :, : 3 * p] = np.eye(3 * p)
     return found
 
@@ -378,13 +381,13 @@ _PERMUTATIONS: dict[int, np.ndarray] = {}
 
 
 def _permutation(p: int) -> np.ndarray:
-    """Π (3P, 3P): row (pipe q, moment i) has its 1 in column (moment i, pipe q)."""
+    """Π (4P, 4P): row (pipe q, moment i) has its 1 in column (moment i, pipe q)."""
     found = _PERMUTATIONS.get(p)
     if found is None:
-        found = np.zeros((3 * p, 3 * p))
+        found = np.zeros((4 * p, 4 * p))
         for q in range(p):
-            for i in range(3):
-                found[q * 3 + i, i * p + q] = 1.0
+            for i in range(4):
+                found[q * 4 + i, i * p + q] = 1.0
         _PERMUTATIONS[p] = found
     return found
 
