@@ -42,6 +42,8 @@ _LEGENDRE_POWERS = np.array(
 _TO_LEGENDRE = np.zeros((8, 7))
 _TO_LEGENDRE[:4, :3] = _LEGENDRE_POWERS[:, :3]
 _TO_LEGENDRE[4:, 3:] = _LEGENDRE_POWERS * _WEIGHTS
+_FROM_POWERS = np.ascontiguousarray(_TO_LEGENDRE[[0, 4, 1, 5, 2, 6, 3, 7]].T)  # (7, 8):
+# the same from the powers ordered (power, s or u)
 
 
 class PipeSet:
@@ -82,30 +84,29 @@ class PipeSet:
         parcels now in the pipe.
         """
         lo, hi = self._lo, self._hi
-        st, ln = self.start[lo:hi].T, self.length[lo:hi].T  # (P, n), read only
-        p, n = st.shape
+        st, ln = self.start[lo:hi], self.length[lo:hi]  # (n, P), read only
+        n, p = st.shape
         if not p:
             return np.zeros((0, 4, self.coef.shape[-1]))
         a = np.maximum(st, 0.0)
-        wid = np.minimum(st + ln, width_m3[:, None])
+        wid = np.minimum(st + ln, width_m3)
         wid -= a
         np.maximum(wid, 0.0, out=wid)
-        pw = self._powers.get(n)  # powers 0 … 3 of the nodes' s, then u: (P, n, 3, 2, 4)
+        pw = self._powers.get(n)  # powers 0 … 3 of the nodes' s and u: (4, 2, n, P, 3)
         if pw is None:
-            pw = self._powers[n] = np.ones((p, n, 3, 2, 4))
-        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[..., 1, 1])
+            pw = self._powers[n] = np.ones((4, 2, n, p, 3))
+        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[1, 1])
         xi += a[..., None]  # outlet distance of the Gauss nodes of each piece
-        np.subtract(xi, st[..., None], out=pw[..., 0, 1])
-        pw[..., 0, 1] /= ln[..., None]  # ... as parcel positions s
-        xi *= inv_throughput[:, None, None]  # ... and as window positions u
-        z = pw[..., 1]
-        np.multiply(z, z, out=pw[..., 2])
-        np.multiply(pw[..., 2], z, out=pw[..., 3])
-        leg = pw.reshape(-1, 8).dot(_TO_LEGENDRE).reshape(p, n, 3, 7)
-        c = np.matmul(leg[..., :3], self.coef[lo:hi].transpose(1, 0, 2, 3))  # (P, n, 3, F)
-        c *= np.multiply.outer(wid * inv_throughput[:, None], _GAUSS_W)[..., None]
-        m = leg[..., 3:].reshape(p, 3 * n, 4)
-        return np.matmul(c.reshape(p, 3 * n, -1).transpose(0, 2, 1), m).transpose(0, 2, 1)
+        s1 = np.subtract(xi, st[..., None], out=pw[1, 0])
+        s1 /= ln[..., None]  # ... as parcel positions s
+        xi *= inv_throughput[:, None]  # ... and as window positions u
+        np.multiply(pw[1], pw[1], out=pw[2])
+        np.multiply(pw[2], pw[1], out=pw[3])
+        leg = _FROM_POWERS.dot(pw.reshape(8, -1)).reshape(7, n, p, 3)  # P0 … P2 at s, P0 … P3 at u
+        c = np.matmul(leg[:3].transpose(1, 2, 3, 0), self.coef[lo:hi])  # (n, P, 3, F)
+        c *= np.multiply((wid * inv_throughput)[..., None], _GAUSS_W)[..., None]
+        m = leg[3:].transpose(2, 0, 1, 3).reshape(p, 4, 3 * n)
+        return np.matmul(m, c.transpose(1, 0, 2, 3).reshape(p, 3 * n, -1))
 
     def outlets(self) -> np.ndarray:
         """Composition just inside each outlet (P, F): the right limit at ξ = 0."""
@@ -290,8 +291,31 @@ def fresh_maps(volume_m3: np.ndarray, throughput_m3: np.ndarray) -> np.ndarray:
     ndarray (P, 4, 3) [-]
         Each pipe's map (zero where W ≤ V).
     """
-    passed = [w > v for w, v in zip(throughput_m3.tolist(), volume_m3.tolist(), strict=True)]
-    r = volume_m3 / np.maximum(throughput_m3, volume_m3)  # pipe volumes are > 0
+    if not any(w > v for w, v in zip(throughput_m3.tolist(), volume_m3.tolist(), strict=True)):
+        return np.zeros((len(volume_m3), 4, 3))
+    return fresh_maps_of(volume_m3.tolist(), throughput_m3.tolist())
+
+
+def fresh_maps_of(volume_m3: list[float], throughput_m3: list[float]) -> np.ndarray | None:
+    """:func:`fresh_maps` from floats, None when no pipe passes more than its volume.
+
+    Parameters
+    ----------
+    volume_m3 : list of float (P) [m³]
+        Pipe volumes V (> 0).
+    throughput_m3 : list of float (P) [m³]
+        Volumes passed in the step, W.
+
+    Returns
+    -------
+    ndarray (P, 4, 3) or None [-]
+        Each pipe's map (zero where W ≤ V); None when W ≤ V in every pipe.
+    """
+    passed = [w > v for w, v in zip(throughput_m3, volume_m3, strict=True)]
+    if not any(passed):
+        return None
+    r = np.array([v / w if f else 1.0
+                  for w, v, f in zip(throughput_m3, volume_m3, passed, strict=True)])
     maps = (r[:, None] ** _R_POWERS).dot(_FRESH_POLY)
     if not all(passed):
         maps *= np.array(passed, dtype=float)[:, None]  # 0 where W ≤ V

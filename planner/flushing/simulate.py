@@ -214,7 +214,7 @@ def _settings(
     kappa = net.draw_density_kg_m3(schedule.basis)
     routing = net.after
     into = routing.dst[routing.dst_kind == STIRRED]
-    filled = np.unique(into[net.is_tank[into]])
+    filled = np.array(sorted(set(into[net.is_tank[into]].tolist())), dtype=int)  # as np.unique
     return Run(
         net=net,
         rates_t_h=rates,

@@ -23,7 +23,7 @@ import numpy as np
 from planner.flushing.flowmap import FlowMap, Flows
 from planner.flushing.fronts import Fronts, next_arrival_h
 from planner.flushing.network import Network
-from planner.flushing.pipes import PipeSet, fresh_maps
+from planner.flushing.pipes import PipeSet, fresh_maps_of
 from planner.flushing.record import Inlets
 from planner.flushing.step import (
     PropagatorCache,
@@ -257,9 +257,7 @@ def _pipe_windows(
         through = through * np.heaviside(pipe_flow_m3h - NO_FLOW_M3H, 0.0)
         known = pipes.window(np.minimum(volume_m3, through), inv)
         known[~flowing, 0] = pipes.outlets()[~flowing]
-    if not any(w > v for w, v in zip(through.tolist(), volume_m3.tolist(), strict=True)):
-        return through, known, None
-    return through, known, fresh_maps(volume_m3, through)
+    return through, known, fresh_maps_of(volume_m3.tolist(), through.tolist())
 
 
 def _flow_error(run: Run, segment: int, consumption_m3h: list[float], inlet_mean: np.ndarray

@@ -109,7 +109,7 @@ class Watch:
         record = until.level_pct if until.record_pct is None else until.record_pct
         self.w_record = sign * net.density_kg_m3 * (net.sulphur_pct - record)
         mine = [i for i, c in enumerate(net.consumer_circuit) if c == until.circuit]
-        self.sources = np.unique(of_consumer[mine])
+        self.sources = np.array(sorted(set(of_consumer[mine].tolist())), dtype=int)
         self._source_list = self.sources.tolist()
         self._w_list = self.w.tolist()
         self.reached_h: float | None = None  # since when the inlets have been at the level

@@ -23,7 +23,7 @@ from planner.flushing import ConsumptionSchedule, FlushError, make_switch, simul
 from planner.flushing.flowmap import FlowMap
 from planner.flushing.network import compile_network, flow_matrices
 from planner.flushing.phi import phi_double, phi_stack
-from planner.flushing.pipes import PipeSet, fresh_moments, profile
+from planner.flushing.pipes import PipeSet, fresh_maps, fresh_maps_of, fresh_moments, profile
 from planner.ship.ship_file import load_ship
 from tests.helpers.flushing import SHIPS
 
@@ -140,6 +140,17 @@ def test_fresh_moments_of_a_pipe_flushed_twice_over():
     assert m[1, 0] == pytest.approx(0.75, abs=1e-14)
 
 
+def test_fresh_maps_of_floats_are_each_pipes_map():
+    # per pipe the map of fresh_moments; none where the step does not flush the pipe
+    # through (W <= V), and None when it flushes none
+    volume, through = [0.5, 1.0, 0.2], [1.0, 0.8, 0.2]
+    maps = fresh_maps_of(volume, through)
+    np.testing.assert_allclose(maps[0], fresh_moments(0.5, 1.0), rtol=1e-14, atol=1e-15)
+    assert np.all(maps[1:] == 0.0)
+    np.testing.assert_array_equal(fresh_maps(np.array(volume), np.array(through)), maps)
+    assert fresh_maps_of([1.0, 0.3], [0.5, 0.3]) is None
+
+
 @pytest.mark.parametrize("path", sorted(SHIPS.glob("t*.toml")), ids=lambda p: p.stem)
 def test_flow_map_matches_the_link_by_link_matrices(path):
     system = load_ship(path)
@@ -158,6 +169,12 @@ def test_flow_map_matches_the_link_by_link_matrices(path):
             np.testing.assert_allclose(fl.stirred_out, fm.stirred_out, **tol)
             a = (fm.ss - np.diag(fm.stirred_in)) / net.stirred_volume_m3[:, None]
             np.testing.assert_allclose(fl.system[:, :s], a, **tol)
+            # the commit's balance, the tanks' net inflow, the pipes' flow into stirred volumes
+            gain = np.hstack((fm.ss - np.diag(fm.stirred_out), fm.sp))
+            np.testing.assert_allclose(fl.balance, gain, **tol)
+            np.testing.assert_allclose(
+                fl.tank_net, (fm.stirred_in - fm.stirred_out) * net.is_tank, **tol)
+            np.testing.assert_allclose(fl.pipe_to_stirred, fm.sp.sum(axis=0), **tol)
 
 
 def test_a_branch_that_burns_nothing_keeps_the_old_fuel():
