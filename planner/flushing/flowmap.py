@@ -28,6 +28,8 @@ reused.
 
 from __future__ import annotations
 
+import itertools
+import math
 from typing import NamedTuple
 
 import numpy as np
@@ -67,7 +69,7 @@ class FlowMap:
         self.net = net
         shapes = ((n_links,), (s, s + p), (s, s + p), (p, s + p), (s,), (s,), (p,), (s, s + p),
                   (s,), (p,))
-        self._bounds = np.cumsum([0] + [int(np.prod(sh)) for sh in shapes]).tolist()
+        self._bounds = [0, *itertools.accumulate(math.prod(sh) for sh in shapes)]
         self._shapes = shapes
         self._per_link = _per_link(routing, s, p, self._bounds, net.is_tank.tolist())
         self._constant = net.flow_constant_m3h @ self._per_link

@@ -183,6 +183,25 @@ class PipeSet:
         np.clip(s, 0.0, 1.0, out=s)
         return profile(self.coef[j, rows], s)
 
+    def limits(self, pipe: int, position_m3: float) -> tuple[np.ndarray, np.ndarray]:
+        """:meth:`sample` of one pipe at one outlet distance [m³], on floats: its left and
+        its right limit there (F each)."""
+        lo = self._lo
+        starts = self.start[lo : self._hi, pipe].tolist()
+        lengths = self.length[lo : self._hi, pipe].tolist()
+        head = int(self.head[pipe]) - lo
+        out = []
+        for cut in (position_m3 - _SLACK * float(self.volume_m3[pipe]), position_m3):
+            best, k = -np.inf, 0  # the parcel starting last at or before the cut
+            for c, v in enumerate(starts):
+                if best < v <= cut:
+                    best, k = v, c
+            k = max(k, head)
+            at = min(max((position_m3 - starts[k]) / lengths[k], 0.0), 1.0)
+            out.append(np.dot([1.0, 2.0 * at - 1.0, (6.0 * at - 6.0) * at + 1.0],
+                              self.coef[lo + k, pipe]))
+        return out[0], out[1]
+
     def _make_room(self) -> None:
         """Move the columns in use to the first ones, and widen the arrays if still full."""
         lo, hi = self._lo, self._hi

@@ -345,9 +345,6 @@ def _commit_stirred(
         return np.where(volume[:, None] > 0.0, content / volume[:, None], state.x), volume
 
 
-_LEFT_RIGHT = np.array([True, False])
-
-
 def _ends(
     run: Run, state: _State, trial: Trial, x_new: np.ndarray, through_m3: list[float]
 ) -> tuple[np.ndarray, np.ndarray]:
@@ -374,9 +371,8 @@ def _ends(
                 parcel = step.inflow[:3].take(inl.pipes, axis=1).transpose(1, 0, 2)  # (m, 3, F)
                 pipe_end = pipe_in = np.matmul(np.array(basis)[:, None, :], parcel)[:, 0]
         else:
-            wa = np.array(w)
-            both = state.pipes.sample(inl.pipes, np.stack((wa, wa), axis=1), _LEFT_RIGHT)
-            pipe_end, pipe_in = both[:, 0], both[:, 1]
+            both = [state.pipes.limits(i, x) for i, x in zip(inl.pipe_list, w, strict=True)]
+            pipe_end, pipe_in = np.array([b[0] for b in both]), np.array([b[1] for b in both])
         if not n_st:
             return pipe_end, pipe_in
     end, inlet = np.empty_like(state.inlet), np.empty_like(state.inlet)

@@ -131,6 +131,24 @@ def test_pipe_windows_and_samples_match_quadrature_with_an_idle_pipe():
              for p in range(2)], abs=1e-10)
 
 
+def test_pipe_limits_are_the_samples_left_and_right():
+    # limits(p, x) on floats is sample() at x, its left limit then its right limit
+    # (a boundary within 1e-12 of the volume belongs to the earlier parcel)
+    rng = np.random.default_rng(5)
+    volume = np.array([0.3, 0.2])
+    pipes = PipeSet(volume, np.array([[1.0, 0.0], [0.5, 0.5]]))
+    for _ in range(6):
+        through = rng.uniform(0.05, 0.25, 2)
+        pipes.push(through, rng.normal(size=(2, 3, 2)), True)
+        for p in range(2):
+            for x in (0.0, 0.5 * through[p], through[p], float(volume[p])):
+                both = pipes.sample(np.array([p]), np.array([[x, x]]), np.array([True, False]))
+                left, right = pipes.limits(p, x)
+                np.testing.assert_allclose(left, both[0, 0], rtol=1e-15, atol=1e-15)
+                np.testing.assert_allclose(right, both[0, 1], rtol=1e-15, atol=1e-15)
+        pipes.advance(through)
+
+
 def test_fresh_moments_of_a_pipe_flushed_twice_over():
     # inflow that enters and leaves within the step: its first half leaves in the outlet
     # window [V, W] for V = W/2 ([LEVENSPIEL-1999] plug flow [P]); a constant inflow
