@@ -121,8 +121,8 @@ class Recorder:
         self._steps.append((time_h, h, interior, start, end))
         self.step_end_h.append(time_h + h)
         if self.inlets.pipes.size:
-            self._flow.append(pipe_flow_m3h[self.inlets.pipes])
-            self._parcels.append(parcels[self.inlets.pipes])
+            self._flow.append(pipe_flow_m3h.take(self.inlets.pipes))
+            self._parcels.append(parcels.take(self.inlets.pipes, axis=0))
 
     def add_dense(self, values: np.ndarray) -> None:
         """The stirred sources at the output times inside the last step (n, n_stirred, F)."""

@@ -283,7 +283,7 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     t = state.time_h
     seg = bisect.bisect_right(run.bounds_h, t * (1 + 1e-13) + 1e-15) - 1
     of_consumer = run.inlets.of_consumer
-    phi0 = state.inlet[of_consumer]
+    phi0 = state.inlet.take(of_consumer, axis=0)
     if state.jump > _JUMP:  # a front reached an inlet
         change = np.abs(phi0 - state.last_end[of_consumer])
         state.slope = np.where(change.max(axis=1, keepdims=True) > _JUMP, 0.0, state.slope)
