@@ -82,11 +82,12 @@ class StepMaps:
     ``from_x`` (5S, S) and ``from_g`` (5S, 3S) give the end state and the
     step's mean, Legendre slope, curvature and cubic of every stirred node
     (five blocks of S rows) from ``x(0)`` and from the Legendre coefficients
-    ``g0, g1, g2`` of the pipe outflows entering them; ``loop`` (9S, S) is the
-    (mean, slope, curvature) × (g0, g1, g2) block, arranged for the pipe system.
+    ``g0, g1, g2`` of the pipe outflows entering them; ``by_row`` (15S, S) is
+    ``from_g`` with its rows split by input moment (row (output, node, input)),
+    so that one product with ``Bp`` gives the map from the pipe outflow moments.
     """
 
-    __slots__ = ("h", "phi", "from_x", "from_g", "loop")
+    __slots__ = ("h", "phi", "from_x", "from_g", "by_row")
 
     def __init__(self, phi: np.ndarray, h: float) -> None:
         s = phi.shape[1]
@@ -96,7 +97,7 @@ class StepMaps:
         self.h, self.phi = h, phi
         self.from_x = np.ascontiguousarray(full[:, :s])
         self.from_g = np.ascontiguousarray(full[:, s:])
-        self.loop = np.ascontiguousarray(full[s : 4 * s, s:]).reshape(9 * s, s)
+        self.by_row = self.from_g.reshape(15 * s, s)
 
 
 class Propagators:
@@ -203,7 +204,6 @@ class StepResult(NamedTuple):
     outflow: np.ndarray  # (3, P, F): pipe outflow mean, slope and curvature
     inflow: np.ndarray  # (4, P, F): pipe inflow mean, slope, curvature (the parcel to push),
     #                     and the cubic part of its stirred share
-    g: np.ndarray  # (3, S, F): Legendre coefficients of the pipe outflows into the stirred
     shape_error: float  # largest cubic coefficient the quadratic profiles leave out [-]
 
 
@@ -256,15 +256,15 @@ def compute_step(
     s, p = bp.shape
     f = x0.shape[1]
     mx = maps.from_x.dot(x0)
+    from_out = maps.by_row.dot(bp).reshape(5 * s, 3 * p)  # the map from_g·(1 ⊗ Bp)
     if fresh is None:
         out = known[:, :3].transpose(1, 0, 2)
         out2 = out.reshape(3 * p, f)
     else:
-        solved = _pipe_outflows(maps, mx, known, fresh, bp, shares)  # (4P, F)
+        solved = _pipe_outflows(from_out, mx, known, fresh, s, shares)  # (4P, F)
         out2 = solved[: 3 * p]
         out = out2.reshape(3, p, f)
-    g = np.matmul(bp, out)
-    moments = mx + maps.from_g.dot(g.reshape(3 * s, f))
+    moments = mx + from_out.dot(out2)
     inflow = shares.ws_blocks.dot(moments[s:])  # (4P, F): moment, pipe
     inflow[: 3 * p] += shares.wp_blocks.dot(out2)
     inflow = inflow.reshape(4, p, f)
@@ -280,7 +280,7 @@ def compute_step(
         np.abs(cubic, out=cubic)
         cubic *= checked[:, :, None]
         shape = float(np.maximum.reduce(cubic, axis=None))
-    return StepResult(maps.h, moments, out, inflow, g, shape)
+    return StepResult(maps.h, moments, out, inflow, shape)
 
 
 class Shares(NamedTuple):
@@ -323,26 +323,25 @@ def shares_of(w_in: np.ndarray, s: int) -> Shares:
 
 
 def _pipe_outflows(
-    maps: StepMaps,
+    from_out: np.ndarray,
     mx: np.ndarray,
     known: np.ndarray,
     fresh: np.ndarray,
-    bp: np.ndarray,
+    s: int,
     shares: Shares,
 ) -> np.ndarray:
     """Outflow moments O0 … O3 of every pipe over the step (4P, F: moment, pipe).
 
     The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` (j < 3) and
-    ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + loop·(Bp·O)``: with
+    ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + from_out·O``: with
     the unknowns ordered (moment, pipe) and the equations (pipe, moment),
     ``(Π − F·T)·O = K + F·U`` (Π the permutation between the two orders). The
     cubic O3, which nothing depends on, is solved for with the rest (its own
     column of T is 0): the part of the outflow the quadratic profiles leave out.
     """
-    s, p = bp.shape
-    f = mx.shape[1]
-    aug = _augmented(s, p, f)  # [[Loop·Bp, 0, moments of x(0)], [1, 0, 0]]
-    aug[: 3 * s, : 3 * p] = maps.loop.dot(bp).reshape(3 * s, 3 * p)
+    p, f = known.shape[0], mx.shape[1]
+    aug = _augmented(s, p, f)  # [[from_out, 0, moments of x(0)], [1, 0, 0]] (mean … curvature)
+    aug[: 3 * s, : 3 * p] = from_out[s : 4 * s]
     aug[: 3 * s, 4 * p :] = mx[s : 4 * s]
     tu = shares.w_blocks.dot(aug)  # (3P, 4P + F): [T | 0 | U], moment, pipe
     ftu = np.matmul(fresh, tu.reshape(3, p, -1).transpose(1, 0, 2))
