@@ -135,9 +135,7 @@ def try_step(
     s = len(run.net.stirred)
     inlet, slope = at.inlet.tolist(), at.slope.tolist()
     while True:
-        half = 0.5 * h_try
-        drawn = _draws(rate, [[a + half * b for a, b in zip(ra, rb, strict=True)]
-                              for ra, rb in zip(inlet, slope, strict=True)], run.kappa)
+        drawn = _draws(rate, inlet, run.kappa, slope, 0.5 * h_try)
         consumption = np.array(drawn)
         fl = run.flow_map.flows(consumption, t)
         if run.filled.size and _refresh(run, volume_m3, fl.stirred_in):
@@ -182,8 +180,10 @@ def draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.nd
     return rate_kg_h * d[:, 1] / d[:, 0]
 
 
-def _draws(rate_kg_h: list[float], phi: list[list[float]], kappa: list[float]) -> list[float]:
-    """:func:`draw_m3h` on floats (a handful of consumers and fuels: cheaper than arrays).
+def _draws(rate_kg_h: list[float], phi: list[list[float]], kappa: list[float],
+           slope: list[list[float]] | None = None, dt_h: float = 0.0) -> list[float]:
+    """:func:`draw_m3h` on floats (a handful of consumers and fuels: cheaper than arrays),
+    at ``φ + dt·slope`` when a slope is given.
 
     Parameters
     ----------
@@ -193,6 +193,10 @@ def _draws(rate_kg_h: list[float], phi: list[list[float]], kappa: list[float]) -
         Volume fractions of the fuels at each inlet.
     kappa : list of float (F) [kg/m³]
         What one m³ of each fuel counts for against the rates.
+    slope : list of list of float (C, F), optional [1/h]
+        Rate of change of ``phi``.
+    dt_h : float, default 0 [h]
+        How far along ``slope`` the draws are taken.
 
     Returns
     -------
@@ -200,6 +204,20 @@ def _draws(rate_kg_h: list[float], phi: list[list[float]], kappa: list[float]) -
         The draws, ``m·Σφ⁺/Σφ⁺·κ`` (``φ⁺ = max(φ, 0)``).
     """
     out = []
+    if len(kappa) == 2:  # two fuels, the common case, written out
+        if slope is not None:
+            phi = [[a0 + dt_h * b0, a1 + dt_h * b1]
+                   for (a0, a1), (b0, b1) in zip(phi, slope, strict=True)]
+        k0, k1 = kappa
+        for r, (p0, p1) in zip(rate_kg_h, phi, strict=True):
+            p0 = p0 if p0 > 0.0 else 0.0
+            p1 = p1 if p1 > 0.0 else 0.0
+            mass = p0 * k0 + p1 * k1
+            out.append(r * (p0 + p1) / mass if mass else math.nan)
+        return out
+    if slope is not None:
+        phi = [[a + dt_h * b for a, b in zip(ra, rb, strict=True)]
+               for ra, rb in zip(phi, slope, strict=True)]
     for r, row in zip(rate_kg_h, phi, strict=True):
         mass = volume = 0.0
         for p, k in zip(row, kappa, strict=True):

@@ -129,9 +129,11 @@ class Watch:
         """Every flowing content inside the half-space (the module notes; default: the
         level's)."""
         w = self.w if w is None else w
-        flowing = stirred_out_m3h > _UNFLOWING_M3H
-        if flowing.any() and float((np.maximum(x[flowing], 0.0) @ w).max()) > 0.0:
-            return False
+        weights = w.tolist()  # a handful of nodes and fuels: floats are cheaper
+        for row, q in zip(x.tolist(), stirred_out_m3h.tolist(), strict=True):
+            if q > _UNFLOWING_M3H and sum(
+                    max(p, 0.0) * c for p, c in zip(row, weights, strict=True)) > 0.0:
+                return False
         return pipes.max_linear(w, pipe_flow_m3h > _UNFLOWING_M3H) <= 0.0
 
     def over(self, time_h: float, inlet: np.ndarray, x: np.ndarray,

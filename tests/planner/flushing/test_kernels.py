@@ -24,6 +24,7 @@ from planner.flushing.flowmap import FlowMap
 from planner.flushing.network import compile_network, flow_matrices
 from planner.flushing.phi import phi_double, phi_stack
 from planner.flushing.pipes import PipeSet, fresh_maps, fresh_maps_of, fresh_moments, profile
+from planner.flushing.trial import _draws, draw_m3h
 from planner.ship.ship_file import load_ship
 from tests.helpers.flushing import SHIPS
 
@@ -156,6 +157,22 @@ def test_fresh_moments_of_a_pipe_flushed_twice_over():
     m = fresh_moments(0.5, 1.0)
     assert m[0, 0] == pytest.approx(0.5, abs=1e-14)
     assert m[1, 0] == pytest.approx(0.75, abs=1e-14)
+
+
+@pytest.mark.parametrize("n_fuels", [2, 3])
+def test_draws_on_floats_are_draw_m3h(n_fuels):
+    # the step's draws on floats (two fuels written out, any number in general) against
+    # the array form, at the inlet and along its slope, a negative fraction counting as 0
+    rng = np.random.default_rng(n_fuels)
+    rate = rng.uniform(100.0, 2000.0, 3)
+    phi = rng.dirichlet(np.ones(n_fuels), 3)
+    phi[0, 0] = -1e-12
+    slope = rng.normal(size=(3, n_fuels))
+    kappa = rng.uniform(800.0, 1000.0, n_fuels)
+    two = np.stack((kappa, np.ones(n_fuels)), axis=1)
+    for dt in (0.0, 0.01):
+        got = _draws(rate.tolist(), phi.tolist(), kappa.tolist(), slope.tolist(), dt)
+        np.testing.assert_allclose(got, draw_m3h(rate, phi + dt * slope, two), rtol=1e-14)
 
 
 def test_fresh_maps_of_floats_are_each_pipes_map():
