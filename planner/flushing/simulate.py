@@ -311,8 +311,8 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     state.stirred_out_m3h, state.pipe_flow_m3h = fl.stirred_out, qp
     state.last_end = end
     state.jump = 0.0 if end is inlet else float(np.maximum.reduce(np.abs(inlet - end), axis=None))
-    g, k = trial.inlet_shape
-    state.slope = (2.0 / h) * g + (6.0 / h) * k  # d/dt at s = 1 of its Legendre profile
+    shape = trial.inlet_shape  # d/dt at s = 1 of its Legendre profile:
+    state.slope = (2.0 / h) * shape[0] + (6.0 / h) * shape[1]
     state.inlet, state.x, state.volume_m3 = inlet, x_new, vol_new
     state.time_h, state.grid = _next_time(t, h, run.output_step_h)
     state.k = next_exponent(trial.k, trial.error, h, trial.h_try, run.k_max)

@@ -247,8 +247,9 @@ def _shares(run: Run, fl: Flows, every: bool, s: int) -> tuple[Shares, np.ndarra
     cubic parts count (2, P): of the outflow of those feeding a stirred volume, of the
     inflow of all (that flow)."""
     qp = fl.pipe_flow
-    checked = np.ones((2, len(qp)))
+    checked = np.empty((2, len(qp)))
     np.heaviside(fl.pipe_to_stirred, 0.0, out=checked[0])
+    checked[1] = 1.0
     if every:
         if run.flow_map.single_inflow:
             return run.flow_map.unit_shares, checked
