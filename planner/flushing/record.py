@@ -20,6 +20,7 @@ import numpy as np
 
 from planner.flushing.network import STIRRED, Network
 from planner.flushing.pipes import PipeSet
+from planner.flushing.step import StepResult
 
 
 class Inlets:
@@ -53,6 +54,42 @@ class Inlets:
             [n if k == STIRRED else n_stirred + n for k, n in zip(kinds, nodes, strict=True)],
             dtype=int)
         self._pipe_at_consumer = None if stirred else np.array(nodes, dtype=int)
+
+    def ends(self, step: StepResult, pipes: PipeSet, x_new: np.ndarray, through_m3: list[float]
+             ) -> tuple[np.ndarray, np.ndarray]:
+        """Each source's composition at a step's end: the left limit closing it and the right
+        limit opening the next (n_sources, F each; one array when they are the same).
+
+        A stirred node: the step's end state (``step``), then the bookkept state
+        ``x_new`` (S, F). A pipe: its parcels (the step's own pushed in, not yet moved on)
+        at the step's throughput ``through_m3`` (P) [m³]; when it passed more than its
+        volume, that is inside the parcel it took in ([LEVENSPIEL-1999] plug flow [P]).
+        """
+        n_st = self.stirred.size
+        pipe_end = pipe_in = None
+        if self.pipes.size:
+            w = [through_m3[i] for i in self.pipe_list]
+            at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
+                  for x, v in zip(w, self.pipe_volume_m3, strict=True)]
+            if min(at) >= 0.0:  # every source pipe passed more than its volume
+                basis = [[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at]
+                if len(at) == 1:  # the profile of the one source pipe's parcel, (1, F)
+                    pipe_end = pipe_in = np.dot(basis[0], step.inflow[:3, self.pipe_list[0]])[None]
+                else:
+                    parcel = step.inflow[:3].take(self.pipes, axis=1).transpose(1, 0, 2)
+                    pipe_end = pipe_in = np.matmul(np.array(basis)[:, None, :], parcel)[:, 0]
+            else:
+                both = [pipes.limits(i, x) for i, x in zip(self.pipe_list, w, strict=True)]
+                pipe_end, pipe_in = np.array([b[0] for b in both]), np.array([b[1] for b in both])
+            if not n_st:
+                return pipe_end, pipe_in
+        shape = (n_st + self.pipes.size, x_new.shape[1])
+        end, inlet = np.empty(shape), np.empty(shape)
+        end[:n_st] = step.moments[0][self.stirred]
+        inlet[:n_st] = x_new[self.stirred]
+        if pipe_end is not None:
+            end[n_st:], inlet[n_st:] = pipe_end, pipe_in
+        return end, inlet
 
     def values(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
         """Composition at each source (n_sources, F) from stirred (S, F) and pipe (P, F) values."""

@@ -51,7 +51,6 @@ from planner.flushing.trial import (
     INITIAL_STEP_EXP,
     Run,
     Start,
-    Trial,
     next_exponent,
     try_step,
 )
@@ -302,7 +301,7 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     parcels = step.inflow[:3].transpose(1, 0, 2)
     state.pipes.push(through, parcels, trial.every)
     through_list = through.tolist()
-    end, inlet = _ends(run, state, trial, x_new, through_list)
+    end, inlet = run.inlets.ends(step, state.pipes, x_new, through_list)
     rec.add(t, h, interior, state.inlet, end, qp, parcels)
     state.pipes.advance(through)
     state.fronts = advance_fronts(state.fronts, run.net.pipe_volume_m3, through_list,
@@ -344,44 +343,6 @@ def _commit_stirred(
         return content / volume[:, None], volume
     with np.errstate(invalid="ignore", divide="ignore"):
         return np.where(volume[:, None] > 0.0, content / volume[:, None], state.x), volume
-
-
-def _ends(
-    run: Run, state: _State, trial: Trial, x_new: np.ndarray, through_m3: list[float]
-) -> tuple[np.ndarray, np.ndarray]:
-    """Each source's composition at the step end: the left limit closing it and the right
-    limit opening the next (n_sources, F each; one array when they are the same).
-
-    A stirred node: the propagators' end state, then the bookkept state. A pipe: its
-    parcels (the step's own pushed in, not yet moved on) at the step's throughput
-    ``through_m3`` (P) [m³]; when it passed more than its volume, that is inside the parcel
-    it took in.
-    """
-    inl, step = run.inlets, trial.step
-    n_st = inl.stirred.size
-    pipe_end = pipe_in = None
-    if inl.pipes.size:
-        w = [through_m3[i] for i in inl.pipe_list]
-        at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
-              for x, v in zip(w, inl.pipe_volume_m3, strict=True)]
-        if min(at) >= 0.0:  # every source pipe passed more than its volume
-            basis = [[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at]
-            if len(at) == 1:  # the profile of the one source pipe's parcel, (1, F)
-                pipe_end = pipe_in = np.dot(basis[0], step.inflow[:3, inl.pipe_list[0]])[None]
-            else:
-                parcel = step.inflow[:3].take(inl.pipes, axis=1).transpose(1, 0, 2)  # (m, 3, F)
-                pipe_end = pipe_in = np.matmul(np.array(basis)[:, None, :], parcel)[:, 0]
-        else:
-            both = [state.pipes.limits(i, x) for i, x in zip(inl.pipe_list, w, strict=True)]
-            pipe_end, pipe_in = np.array([b[0] for b in both]), np.array([b[1] for b in both])
-        if not n_st:
-            return pipe_end, pipe_in
-    end, inlet = np.empty_like(state.inlet), np.empty_like(state.inlet)
-    end[:n_st] = step.moments[0][inl.stirred]
-    inlet[:n_st] = x_new[inl.stirred]
-    if pipe_end is not None:
-        end[n_st:], inlet[n_st:] = pipe_end, pipe_in
-    return end, inlet
 
 
 def _check_tanks(

@@ -284,10 +284,9 @@ def compute_step(
 
 
 class Shares(NamedTuple):
-    """Each pipe's inflow shares from the stirred volumes and the pipes (all [-])."""
+    """Each pipe's inflow shares ``ws`` from the stirred volumes and ``wp`` from the pipes,
+    on the diagonal blocks of the moments' maps, moment by moment (all [-])."""
 
-    ws: np.ndarray  # (P, S)
-    wp: np.ndarray  # (P, P)
     ws_blocks: np.ndarray  # (4P, 4S): ws on the diagonal blocks, one per moment
     wp_blocks: np.ndarray  # (3P, 3P): wp on the diagonal blocks, one per moment
     w_blocks: np.ndarray  # (3P, 3S + 3P): the first three of each, side by side
@@ -306,20 +305,17 @@ def shares_of(w_in: np.ndarray, s: int) -> Shares:
     Returns
     -------
     Shares
-        ``ws``, ``wp`` as contiguous arrays, each set on the diagonal blocks of a
-        (4P, 4S) and a (3P, 3P) array (the moments' maps, moment by moment), and the
-        first three blocks of both side by side (3P, 3S + 3P).
+        ``ws`` (P, S) and ``wp`` (P, P) on the diagonal blocks of a (4P, 4S) and a
+        (3P, 3P) array, and the first three blocks of both side by side (3P, 3S + 3P).
     """
     p = w_in.shape[0]
-    ws, wp = np.ascontiguousarray(w_in[:, :s]), np.ascontiguousarray(w_in[:, s:])
-    ws_blocks = np.zeros((4 * p, 4 * s))
-    wp_blocks = np.zeros((3 * p, 3 * p))
+    ws_blocks, wp_blocks = np.zeros((4 * p, 4 * s)), np.zeros((3 * p, 3 * p))
     for j in range(4):
-        ws_blocks[j * p : (j + 1) * p, j * s : (j + 1) * s] = ws
-    for j in range(3):
-        wp_blocks[j * p : (j + 1) * p, j * p : (j + 1) * p] = wp
+        ws_blocks[j * p : (j + 1) * p, j * s : (j + 1) * s] = w_in[:, :s]
+        if j < 3:
+            wp_blocks[j * p : (j + 1) * p, j * p : (j + 1) * p] = w_in[:, s:]
     both = np.concatenate((ws_blocks[: 3 * p, : 3 * s], wp_blocks), axis=1)
-    return Shares(ws, wp, ws_blocks, wp_blocks, both)
+    return Shares(ws_blocks, wp_blocks, both)
 
 
 def _pipe_outflows(
@@ -363,12 +359,13 @@ def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
 
 
 _AUGMENTED: dict[tuple[int, int, int], np.ndarray] = {}
+_PERMUTATIONS: dict[int, np.ndarray] = {}
 
 
 def _augmented(s: int, p: int, f: int) -> np.ndarray:
     """A work array (3S + 3P, 4P + F) for :func:`_pipe_outflows`: its last 3P rows hold
-    ``[1, 0, 0]`` (the pipes' own outflow moments), the first 3S are written at each step
-    but for their zero columns 3P … 4P − 1 (the cubic, which no inflow depends on)."""
+    ``[1, 0, 0]``, the first 3S are written at each step but for their zero columns
+    3P … 4P − 1 (the cubic, which no inflow depends on)."""
     found = _AUGMENTED.get((s, p, f))
     if found is None:
         found = _AUGMENTED[(s, p, f)] = np.zeros((3 * s + 3 * p, 4 * p + f))
@@ -376,18 +373,12 @@ def _augmented(s: int, p: int, f: int) -> np.ndarray:
     return found
 
 
-_PERMUTATIONS: dict[int, np.ndarray] = {}
-
-
 def _permutation(p: int) -> np.ndarray:
     """Π (4P, 4P): row (pipe q, moment i) has its 1 in column (moment i, pipe q)."""
     found = _PERMUTATIONS.get(p)
     if found is None:
-        found = np.zeros((4 * p, 4 * p))
-        for q in range(p):
-            for i in range(4):
-                found[q * 4 + i, i * p + q] = 1.0
-        _PERMUTATIONS[p] = found
+        found = _PERMUTATIONS[p] = np.zeros((4 * p, 4 * p))
+        found[np.arange(4 * p), (np.arange(4 * p) % 4) * p + np.arange(4 * p) // 4] = 1.0
     return found
 
 
