@@ -333,9 +333,10 @@ def fresh_maps_of(volume_m3: list[float], throughput_m3: list[float]) -> np.ndar
     passed = [w > v for w, v in zip(throughput_m3, volume_m3, strict=True)]
     if not any(passed):
         return None
-    r = np.array([v / w if f else 1.0
-                  for w, v, f in zip(throughput_m3, volume_m3, passed, strict=True)])
-    maps = (r[:, None] ** _R_POWERS).dot(_FRESH_POLY)
-    if not all(passed):
-        maps *= np.array(passed, dtype=float)[:, None]  # 0 where W ≤ V
+    r = [v / w if f else 1.0 for w, v, f in zip(throughput_m3, volume_m3, passed, strict=True)]
+    if all(passed):
+        return (np.array(r)[:, None] ** _R_POWERS).dot(_FRESH_POLY).reshape(len(r), 4, 3)
+    r_mask = np.array((r, passed), dtype=float)  # r, and 1.0 where W > V (else the map is 0)
+    maps = (r_mask[0][:, None] ** _R_POWERS).dot(_FRESH_POLY)
+    maps *= r_mask[1][:, None]
     return maps.reshape(len(r), 4, 3)

@@ -336,11 +336,13 @@ def _commit_stirred(
     ([LEVENSPIEL-1999] mass balance [D]); tanks move by ``h·(q_in − q_out)``.
     """
     h, mean = step.h, step.moments[1]
-    gain = fl.balance.dot(np.concatenate((mean, step.outflow[0])))
-    content = state.volume_m3[:, None] * state.x + h * gain
+    content = fl.balance.dot(np.concatenate((mean, step.outflow[0])))  # the gain, m³/h
+    content *= h
+    content += state.volume_m3[:, None] * state.x
     volume = state.volume_m3 + h * fl.tank_net
     if float(np.minimum.reduce(volume)) > 0.0:
-        return content / volume[:, None], volume
+        content /= volume[:, None]
+        return content, volume
     with np.errstate(invalid="ignore", divide="ignore"):
         return np.where(volume[:, None] > 0.0, content / volume[:, None], state.x), volume
 

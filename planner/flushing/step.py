@@ -242,8 +242,8 @@ def compute_step(
     maps : StepMaps
         The stirred-volume maps for this step length and these flows.
     checked : ndarray (2, P) [-]
-        1 where the cubic part counts toward the error: of a pipe's outflow
-        into a stirred volume (first row), of a pipe's inflow (second row).
+        1 where the cubic part counts toward the error: of a pipe's inflow
+        (first row), of a pipe's outflow into a stirred volume (second row).
 
     Returns
     -------
@@ -265,20 +265,16 @@ def compute_step(
         out2 = solved[: 3 * p]
         out = out2.reshape(3, p, f)
     moments = mx + from_out.dot(out2)
-    inflow = shares.ws_blocks.dot(moments[s:])  # (4P, F): moment, pipe
-    inflow[: 3 * p] += shares.wp_blocks.dot(out2)
-    inflow = inflow.reshape(4, p, f)
+    both = np.empty((5 * p, f))  # the inflow moments (moment, pipe), then the outflow cubic
+    np.dot(shares.ws_blocks, moments[s:], out=both[: 4 * p])
+    both[: 3 * p] += shares.wp_blocks.dot(out2)
+    inflow = both[: 4 * p].reshape(4, p, f)
     moments = moments.reshape(5, s, f)
     shape = 0.0
     if p:
-        cubic = np.empty((2, p, f))
-        if fresh is None:
-            cubic[0] = known[:, 3]
-        else:
-            cubic[0] = solved[3 * p :]
-        cubic[1] = inflow[3]
-        np.abs(cubic, out=cubic)
-        cubic *= checked[:, :, None]
+        both[4 * p :] = known[:, 3] if fresh is None else solved[3 * p :]
+        cubic = np.abs(both[3 * p :])  # (2P, F): the cubic parts of the inflow, the outflow
+        cubic *= checked.reshape(2 * p, 1)
         shape = float(np.maximum.reduce(cubic, axis=None))
     return StepResult(maps.h, moments, out, inflow, shape)
 

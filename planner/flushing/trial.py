@@ -244,19 +244,19 @@ def _refresh(run: Run, volume_m3: np.ndarray, stirred_in_m3h: np.ndarray) -> boo
 
 def _shares(run: Run, fl: Flows, every: bool, s: int) -> tuple[Shares, np.ndarray]:
     """Each pipe's inflow shares (:class:`~planner.flushing.step.Shares`), and which pipes'
-    cubic parts count (2, P): of the outflow of those feeding a stirred volume, of the
-    inflow of all (that flow)."""
+    cubic parts count (2, P): of the inflow of all (that flow), of the outflow of those
+    feeding a stirred volume."""
     qp = fl.pipe_flow
     checked = np.empty((2, len(qp)))
-    np.heaviside(fl.pipe_to_stirred, 0.0, out=checked[0])
-    checked[1] = 1.0
+    checked[0] = 1.0
+    np.heaviside(fl.pipe_to_stirred, 0.0, out=checked[1])
     if every:
         if run.flow_map.single_inflow:
             return run.flow_map.unit_shares, checked
         return shares_of(fl.into_pipes / qp[:, None], s), checked
     flowing = qp > NO_FLOW_M3H
-    np.heaviside(qp - NO_FLOW_M3H, 0.0, out=checked[1])
-    checked[0] *= checked[1]
+    np.heaviside(qp - NO_FLOW_M3H, 0.0, out=checked[0])
+    checked[1] *= checked[0]
     inv = np.divide(1.0, qp, out=np.zeros_like(qp), where=flowing)
     return shares_of(fl.into_pipes * inv[:, None], s), checked
 
