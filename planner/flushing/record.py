@@ -67,6 +67,13 @@ class Inlets:
         """
         n_st = self.stirred.size
         pipe_end = pipe_in = None
+        if not n_st and len(self.pipe_list) == 1:  # one source pipe, the common case
+            i, v = self.pipe_list[0], self.pipe_volume_m3[0]
+            x = through_m3[i]
+            if x > v * (1.0 + 1e-9):  # inside the parcel it took in
+                s = 1.0 - v / x
+                value = np.dot([1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0], step.inflow[:3, i])
+                return value[None], value[None]
         if self.pipes.size:
             w = [through_m3[i] for i in self.pipe_list]
             at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
