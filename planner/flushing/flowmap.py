@@ -17,7 +17,8 @@ is linear in the link flows; so all of them, flattened into one vector, are
 - ``[ss − diag(out) | sp]`` (S, S + P): what each stirred volume's content
   gains per unit of the compositions flowing (its inflows less its outflow);
 - the net inflow of each tank (S, 0 for a fixed volume) and the flow from
-  each pipe into the stirred volumes (P),
+  each pipe into the stirred volumes (P);
+- ``A`` and ``Bp`` again, each contiguous (S, S and S, P),
 
 all m³/h but for ``[A | Bp]``, as :class:`~planner.flushing.network.FlowMatrices`
 names them. Grouping the sums this way makes a node whose inflow does not
@@ -54,6 +55,8 @@ class Flows(NamedTuple):
     balance: np.ndarray  # (S, S + P): [ss − diag(stirred_out) | sp], m³/h
     tank_net: np.ndarray  # (S,) inflow less outflow of each tank (0 for a fixed volume), m³/h
     pipe_to_stirred: np.ndarray  # (P,) flow from each pipe into the stirred volumes, m³/h
+    a: np.ndarray  # (S, S): system[:, :S], contiguous, 1/h
+    bp: np.ndarray  # (S, P): system[:, S:], contiguous, 1/h
 
 
 class FlowMap:
@@ -68,7 +71,7 @@ class FlowMap:
         s, p, n_links = len(net.stirred), len(net.pipes), len(routing.src)
         self.net = net
         shapes = ((n_links,), (s, s + p), (s, s + p), (p, s + p), (s,), (s,), (p,), (s, s + p),
-                  (s,), (p,))
+                  (s,), (p,), (s, s), (s, p))
         self._bounds = [0, *itertools.accumulate(math.prod(sh) for sh in shapes)]
         self._shapes = shapes
         self._per_link = _per_link(routing, s, p, self._bounds, net.is_tank.tolist())
@@ -89,9 +92,12 @@ class FlowMap:
 
     def set_volumes(self, volume_m3: np.ndarray) -> None:
         """Hold the stirred volumes (S,) m³ that ``[A | Bp]`` divides by."""
-        b, width = self._bounds, self._shapes[1][1]
+        b, (s, width) = self._bounds, self._shapes[1]
         scale = np.ones(b[-1])
-        scale[b[1] : b[2]] = np.repeat(1.0 / np.asarray(volume_m3, dtype=float), width)
+        inv = 1.0 / np.asarray(volume_m3, dtype=float)
+        scale[b[1] : b[2]] = np.repeat(inv, width)
+        scale[b[10] : b[11]] = np.repeat(inv, s)
+        scale[b[11] : b[12]] = np.repeat(inv, width - s)
         self.volume_m3 = np.array(volume_m3, dtype=float)
         self._c = self._constant * scale
         self._d = self._per_consumption * scale
@@ -141,6 +147,11 @@ def _per_link(routing: Routing, s: int, p: int, bounds: list[int], is_tank: list
         if dk == STIRRED:
             t[link, bounds[1] + di * width + col] += 1.0  # system, off the diagonal part
             t[link, bounds[1] + di * width + di] -= 1.0  # system: − inflow on the diagonal
+            if sk == STIRRED:  # the same, as A and Bp
+                t[link, bounds[10] + di * s + si] += 1.0
+            else:
+                t[link, bounds[11] + di * p + si] += 1.0
+            t[link, bounds[10] + di * s + di] -= 1.0
             t[link, bounds[2] + di * width + col] += 1.0  # into_stirred
             t[link, bounds[4] + di] += 1.0  # stirred_in
             t[link, bounds[7] + di * width + col] += 1.0  # balance

@@ -295,7 +295,7 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     qp, through = fl.pipe_flow, trial.through_m3
     interior = _interior(h, state.grid, run.output_step_h)
     if interior and run.inlets.stirred.size:
-        g = np.matmul(fl.system[:, len(run.net.stirred):], step.outflow)  # into the stirred
+        g = np.matmul(fl.bp, step.outflow)  # into the stirred
         dense = trial.props.dense(dense_start(state.x, g, h), interior)
         rec.add_dense(dense[:, run.inlets.stirred])
     parcels = step.inflow[:3].transpose(1, 0, 2)

@@ -142,12 +142,12 @@ def try_step(
             fl = run.flow_map.flows(consumption, t)
         qp = fl.pipe_flow.tolist()
         h = max(min(h_try, limit_h, next_arrival_h(fronts, qp)), _MIN_STEP_H)
-        props = cache.get(fl.system[:, :s])
+        props = cache.get(fl.a)
         every = not qp or min(qp) > NO_FLOW_M3H  # every pipe flows
         shares, checked = _shares(run, fl, every, s)
         through, known, fresh = _pipe_windows(run.net.pipe_volume_m3, pipes, fl.pipe_flow, h,
                                               every)
-        step = compute_step(x, known, fresh, fl.system[:, s:], shares, props.maps(h), checked)
+        step = compute_step(x, known, fresh, fl.bp, shares, props.maps(h), checked)
         legendre = run.inlets.at_consumers(step.moments[1:4], step.outflow)  # (3, C, F)
         mean = legendre[0]
         err = max(step.shape_error / run.tolerance, _flow_error(run, at.segment, drawn, mean))

@@ -204,6 +204,8 @@ def test_flow_map_matches_the_link_by_link_matrices(path):
             np.testing.assert_allclose(fl.stirred_out, fm.stirred_out, **tol)
             a = (fm.ss - np.diag(fm.stirred_in)) / net.stirred_volume_m3[:, None]
             np.testing.assert_allclose(fl.system[:, :s], a, **tol)
+            np.testing.assert_array_equal(fl.a, fl.system[:, :s])  # the same, contiguous
+            np.testing.assert_array_equal(fl.bp, fl.system[:, s:])
             # the commit's balance, the tanks' net inflow, the pipes' flow into stirred volumes
             gain = np.hstack((fm.ss - np.diag(fm.stirred_out), fm.sp))
             np.testing.assert_allclose(fl.balance, gain, **tol)
