@@ -13,7 +13,12 @@ is linear in the link flows; so all of them, flattened into one vector, are
 - ``[ss | sp]`` (S, S + P): the flows into each stirred volume;
 - ``[ps | pp]`` (P, S + P): the flows into each pipe;
 - the total inflow and outflow of each stirred volume (S each), the flow
-  through each pipe (P),
+  through each pipe (P);
+- ``[ss − diag(out) | sp]`` (S, S + P): what each stirred volume's content
+  gains per unit of the compositions flowing (its inflows less its outflow);
+- the net inflow of each tank (S, 0 for a fixed volume) and the flow from
+  each pipe into the stirred volumes (P);
+- ``A`` and ``Bp`` again, each contiguous (S, S and S, P),
 
 all m³/h but for ``[A | Bp]``, as :class:`~planner.flushing.network.FlowMatrices`
 names them. Grouping the sums this way makes a node whose inflow does not
@@ -24,6 +29,8 @@ reused.
 
 from __future__ import annotations
 
+import itertools
+import math
 from typing import NamedTuple
 
 import numpy as np
@@ -45,6 +52,11 @@ class Flows(NamedTuple):
     stirred_in: np.ndarray  # (S,) m³/h
     stirred_out: np.ndarray  # (S,) m³/h
     pipe_flow: np.ndarray  # (P,) m³/h
+    balance: np.ndarray  # (S, S + P): [ss − diag(stirred_out) | sp], m³/h
+    tank_net: np.ndarray  # (S,) inflow less outflow of each tank (0 for a fixed volume), m³/h
+    pipe_to_stirred: np.ndarray  # (P,) flow from each pipe into the stirred volumes, m³/h
+    a: np.ndarray  # (S, S): system[:, :S], contiguous, 1/h
+    bp: np.ndarray  # (S, P): system[:, S:], contiguous, 1/h
 
 
 class FlowMap:
@@ -58,10 +70,11 @@ class FlowMap:
     def __init__(self, net: Network, routing: Routing, volume_m3: np.ndarray) -> None:
         s, p, n_links = len(net.stirred), len(net.pipes), len(routing.src)
         self.net = net
-        shapes = ((n_links,), (s, s + p), (s, s + p), (p, s + p), (s,), (s,), (p,))
-        self._bounds = np.cumsum([0] + [int(np.prod(sh)) for sh in shapes]).tolist()
+        shapes = ((n_links,), (s, s + p), (s, s + p), (p, s + p), (s,), (s,), (p,), (s, s + p),
+                  (s,), (p,), (s, s), (s, p))
+        self._bounds = [0, *itertools.accumulate(math.prod(sh) for sh in shapes)]
         self._shapes = shapes
-        self._per_link = _per_link(routing, s, p, self._bounds)
+        self._per_link = _per_link(routing, s, p, self._bounds, net.is_tank.tolist())
         self._constant = net.flow_constant_m3h @ self._per_link
         d = net.flow_per_consumption.T @ self._per_link
         d[np.abs(d) <= _SNAP * float(np.abs(d).max(initial=0.0))] = 0.0
@@ -79,9 +92,12 @@ class FlowMap:
 
     def set_volumes(self, volume_m3: np.ndarray) -> None:
         """Hold the stirred volumes (S,) m³ that ``[A | Bp]`` divides by."""
-        b, width = self._bounds, self._shapes[1][1]
+        b, (s, width) = self._bounds, self._shapes[1]
         scale = np.ones(b[-1])
-        scale[b[1] : b[2]] = np.repeat(1.0 / np.asarray(volume_m3, dtype=float), width)
+        inv = 1.0 / np.asarray(volume_m3, dtype=float)
+        scale[b[1] : b[2]] = np.repeat(inv, width)
+        scale[b[10] : b[11]] = np.repeat(inv, s)
+        scale[b[11] : b[12]] = np.repeat(inv, width - s)
         self.volume_m3 = np.array(volume_m3, dtype=float)
         self._c = self._constant * scale
         self._d = self._per_consumption * scale
@@ -112,7 +128,8 @@ class FlowMap:
         np.dot(np.maximum(q, 0.0), self._t, out=self._flat)
 
 
-def _per_link(routing: Routing, s: int, p: int, bounds: list[int]) -> np.ndarray:
+def _per_link(routing: Routing, s: int, p: int, bounds: list[int], is_tank: list[bool]
+              ) -> np.ndarray:
     """``T`` (L, K): the entries of the flat vector each unit of link flow adds to."""
     n_links = len(routing.src)
     t = np.zeros((n_links, bounds[-1]))
@@ -124,11 +141,24 @@ def _per_link(routing: Routing, s: int, p: int, bounds: list[int]) -> np.ndarray
         t[link, bounds[0] + link] = 1.0  # the link flow itself
         if sk == STIRRED:
             t[link, bounds[5] + si] += 1.0  # stirred_out
+            t[link, bounds[7] + si * width + si] -= 1.0  # balance: − outflow on the diagonal
+            if is_tank[si]:
+                t[link, bounds[8] + si] -= 1.0  # tank_net
         if dk == STIRRED:
             t[link, bounds[1] + di * width + col] += 1.0  # system, off the diagonal part
             t[link, bounds[1] + di * width + di] -= 1.0  # system: − inflow on the diagonal
+            if sk == STIRRED:  # the same, as A and Bp
+                t[link, bounds[10] + di * s + si] += 1.0
+            else:
+                t[link, bounds[11] + di * p + si] += 1.0
+            t[link, bounds[10] + di * s + di] -= 1.0
             t[link, bounds[2] + di * width + col] += 1.0  # into_stirred
             t[link, bounds[4] + di] += 1.0  # stirred_in
+            t[link, bounds[7] + di * width + col] += 1.0  # balance
+            if is_tank[di]:
+                t[link, bounds[8] + di] += 1.0  # tank_net
+            if sk != STIRRED:
+                t[link, bounds[9] + si] += 1.0  # pipe_to_stirred
         elif dk == PIPE:
             t[link, bounds[3] + di * width + col] += 1.0  # into_pipes
             t[link, bounds[6] + di] += 1.0  # pipe_flow

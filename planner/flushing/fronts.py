@@ -85,6 +85,8 @@ def next_arrival_h(fronts: Fronts, pipe_flow_m3h: Sequence[float]) -> float:
     0.05
     """
     h = math.inf
+    if not any(fronts):
+        return h
     for distances, flow in zip(fronts, pipe_flow_m3h, strict=True):
         if distances and flow > 0:
             h = min(h, distances[0] / flow)

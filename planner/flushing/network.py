@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -74,7 +75,6 @@ class Network:
     fuels: tuple[Fuel, ...]
     density_kg_m3: np.ndarray  # (F,)
     sulphur_pct: np.ndarray  # (F,)
-    q_net_mj_kg: np.ndarray  # (F,)
     stirred: tuple[str, ...]
     is_tank: np.ndarray  # (S,) bool
     stirred_volume_m3: np.ndarray  # (S,) initial volume
@@ -91,6 +91,12 @@ class Network:
     after: Routing
     consumer_link: np.ndarray  # (C,) index of the link feeding each consumer
     switches: tuple[Switch, ...]
+
+    @cached_property
+    def q_net_mj_kg(self) -> np.ndarray:
+        """Net specific energy of each fuel (F,), MJ/kg (worked out when first asked for:
+        an estimate costs more than the rest of the network)."""
+        return np.array([f.q_net for f in self.fuels])
 
     def flows_m3h(self, consumption_m3h: np.ndarray) -> np.ndarray:
         """Link flows (L,), m³/h, for volumetric consumptions (C,), m³/h."""
@@ -156,7 +162,6 @@ def compile_network(system: FuelSystem, switches: Sequence[Switch]) -> Network:
         fuels=fuels,
         density_kg_m3=np.array([f.density_kg_m3 for f in fuels]),
         sulphur_pct=np.array([f.sulphur_pct for f in fuels]),
-        q_net_mj_kg=np.array([f.q_net for f in fuels]),
         stirred=nodes.stirred,
         is_tank=np.array([n in system.tanks for n in nodes.stirred]),
         stirred_volume_m3=np.array([_volume_m3(system, n) for n in nodes.stirred]),

@@ -33,11 +33,17 @@ _SLACK = 1e-12  # a left limit this close (relative to the pipe volume) to a bou
 _CAPACITY = 16  # parcels per pipe the arrays start with
 _FAR = 1e30  # where unused and departed columns start [m³]: far, and cubed still finite
 _HALF_FAR = 0.5 * _FAR
-_GAUSS_WJ = _GAUSS_W[:, None] * _WEIGHTS  # (node, j): quadrature weight × (2j + 1)
 # _LEGENDRE_POWERS[n, j]: coefficient of z^n in the shifted Legendre polynomial P_j(z)
 _LEGENDRE_POWERS = np.array(
     [[1.0, -1.0, 1.0, -1.0], [0.0, 2.0, -6.0, 12.0], [0.0, 0.0, 6.0, -30.0], [0.0, 0.0, 0.0, 20.0]]
 )
+# from the powers 0 … 3 of a parcel position s, then of a window position u, to P0 … P2 at
+# s and (2j + 1)·Pj, j = 0 … 3, at u: (8, 7)
+_TO_LEGENDRE = np.zeros((8, 7))
+_TO_LEGENDRE[:4, :3] = _LEGENDRE_POWERS[:, :3]
+_TO_LEGENDRE[4:, 3:] = _LEGENDRE_POWERS * _WEIGHTS
+_FROM_POWERS = np.ascontiguousarray(_TO_LEGENDRE[[0, 4, 1, 5, 2, 6, 3, 7]].T)  # (7, 8):
+# the same from the powers ordered (power, s or u)
 
 
 class PipeSet:
@@ -67,6 +73,7 @@ class PipeSet:
         self.head = np.zeros(p, dtype=int)
         self._rows = np.arange(p)
         self._lo, self._hi = 0, 1  # the columns in use: least head, one past the last
+        self._powers: dict[int, np.ndarray] = {}  # window's work arrays, by column count
 
     def window(self, width_m3: np.ndarray, inv_throughput: np.ndarray) -> np.ndarray:
         """Outflow moments of each pipe's first ``width_m3`` (P,) for a step passing W.
@@ -77,29 +84,29 @@ class PipeSet:
         parcels now in the pipe.
         """
         lo, hi = self._lo, self._hi
-        st, ln = self.start[lo:hi].T, self.length[lo:hi].T  # (P, n), read only
-        p, n = st.shape
+        st, ln = self.start[lo:hi], self.length[lo:hi]  # (n, P), read only
+        n, p = st.shape
         if not p:
             return np.zeros((0, 4, self.coef.shape[-1]))
         a = np.maximum(st, 0.0)
-        wid = np.minimum(st + ln, width_m3[:, None])
+        wid = np.minimum(st + ln, width_m3)
         wid -= a
         np.maximum(wid, 0.0, out=wid)
-        pw = np.empty((2, p, n, 3, 4))  # powers 0 … 3 of the nodes' s and u
-        pw[..., 0] = 1.0
-        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[1, ..., 1])
+        pw = self._powers.get(n)  # powers 0 … 3 of the nodes' s and u: (4, 2, n, P, 3)
+        if pw is None:
+            pw = self._powers[n] = np.ones((4, 2, n, p, 3))
+        xi = np.multiply(wid[..., None], _GAUSS_X, out=pw[1, 1])
         xi += a[..., None]  # outlet distance of the Gauss nodes of each piece
-        np.subtract(xi, st[..., None], out=pw[0, ..., 1])
-        pw[0, ..., 1] /= ln[..., None]  # ... as parcel positions s
-        xi *= inv_throughput[:, None, None]  # ... and as window positions u
-        z = pw[..., 1]
-        np.multiply(z, z, out=pw[..., 2])
-        np.multiply(pw[..., 2], z, out=pw[..., 3])
-        leg = pw.reshape(-1, 4).dot(_LEGENDRE_POWERS).reshape(pw.shape)  # P0 … P3, s and u
-        c = np.matmul(leg[0, ..., :3], self.coef[lo:hi].transpose(1, 0, 2, 3))  # (P, n, 3, F)
-        leg[1] *= (wid * inv_throughput[:, None])[..., None, None] * _GAUSS_WJ
-        m = leg[1].reshape(p, 3 * n, 4).transpose(0, 2, 1)
-        return np.matmul(m, c.reshape(p, 3 * n, -1))
+        s1 = np.subtract(xi, st[..., None], out=pw[1, 0])
+        s1 /= ln[..., None]  # ... as parcel positions s
+        xi *= inv_throughput[:, None]  # ... and as window positions u
+        np.multiply(pw[1], pw[1], out=pw[2])
+        np.multiply(pw[2], pw[1], out=pw[3])
+        leg = _FROM_POWERS.dot(pw.reshape(8, -1)).reshape(7, n, p, 3)  # P0 … P2 at s, P0 … P3 at u
+        c = np.matmul(leg[:3].transpose(1, 2, 3, 0), self.coef[lo:hi])  # (n, P, 3, F)
+        c *= np.multiply((wid * inv_throughput)[..., None], _GAUSS_W)[..., None]
+        m = leg[3:].transpose(2, 0, 1, 3).reshape(p, 4, 3 * n)
+        return np.matmul(m, c.transpose(1, 0, 2, 3).reshape(p, 3 * n, -1))
 
     def outlets(self) -> np.ndarray:
         """Composition just inside each outlet (P, F): the right limit at ξ = 0."""
@@ -153,10 +160,8 @@ class PipeSet:
         st = self.start[lo:hi]
         st -= throughput_m3
         ln = self.length[lo:hi]
-        gone = st + ln <= _GONE * ln
-        np.copyto(st, -_FAR, where=gone)
-        live = st < _HALF_FAR
-        live &= st > -_HALF_FAR
+        np.copyto(st, -_FAR, where=st <= ln * (_GONE - 1.0))  # gone: st + ln <= _GONE·ln
+        live = np.abs(st) < _HALF_FAR
         self.head = lo + live.argmax(axis=0)  # the first column still in the pipe
         self._lo = min(self.head.tolist(), default=hi - 1)
 
@@ -177,6 +182,25 @@ class PipeSet:
         s = (positions_m3 - self.start[j, rows]) / self.length[j, rows]
         np.clip(s, 0.0, 1.0, out=s)
         return profile(self.coef[j, rows], s)
+
+    def limits(self, pipe: int, position_m3: float) -> tuple[np.ndarray, np.ndarray]:
+        """:meth:`sample` of one pipe at one outlet distance [m³], on floats: its left and
+        its right limit there (F each)."""
+        lo = self._lo
+        starts = self.start[lo : self._hi, pipe].tolist()
+        lengths = self.length[lo : self._hi, pipe].tolist()
+        head = int(self.head[pipe]) - lo
+        out = []
+        for cut in (position_m3 - _SLACK * float(self.volume_m3[pipe]), position_m3):
+            best, k = -np.inf, 0  # the parcel starting last at or before the cut
+            for c, v in enumerate(starts):
+                if best < v <= cut:
+                    best, k = v, c
+            k = max(k, head)
+            at = min(max((position_m3 - starts[k]) / lengths[k], 0.0), 1.0)
+            out.append(np.dot([1.0, 2.0 * at - 1.0, (6.0 * at - 6.0) * at + 1.0],
+                              self.coef[lo + k, pipe]))
+        return out[0], out[1]
 
     def _make_room(self) -> None:
         """Move the columns in use to the first ones, and widen the arrays if still full."""
@@ -286,7 +310,33 @@ def fresh_maps(volume_m3: np.ndarray, throughput_m3: np.ndarray) -> np.ndarray:
     ndarray (P, 4, 3) [-]
         Each pipe's map (zero where W ≤ V).
     """
-    r = volume_m3 / np.maximum(throughput_m3, volume_m3)  # pipe volumes are > 0
-    maps = (r[:, None] ** _R_POWERS).dot(_FRESH_POLY)
-    maps *= np.heaviside(throughput_m3 - volume_m3, 0.0)[:, None]  # 0 where W ≤ V
+    if not any(w > v for w, v in zip(throughput_m3.tolist(), volume_m3.tolist(), strict=True)):
+        return np.zeros((len(volume_m3), 4, 3))
+    return fresh_maps_of(volume_m3.tolist(), throughput_m3.tolist())
+
+
+def fresh_maps_of(volume_m3: list[float], throughput_m3: list[float]) -> np.ndarray | None:
+    """:func:`fresh_maps` from floats, None when no pipe passes more than its volume.
+
+    Parameters
+    ----------
+    volume_m3 : list of float (P) [m³]
+        Pipe volumes V (> 0).
+    throughput_m3 : list of float (P) [m³]
+        Volumes passed in the step, W.
+
+    Returns
+    -------
+    ndarray (P, 4, 3) or None [-]
+        Each pipe's map (zero where W ≤ V); None when W ≤ V in every pipe.
+    """
+    passed = [w > v for w, v in zip(throughput_m3, volume_m3, strict=True)]
+    if not any(passed):
+        return None
+    r = [v / w if f else 1.0 for w, v, f in zip(throughput_m3, volume_m3, passed, strict=True)]
+    if all(passed):
+        return (np.array(r)[:, None] ** _R_POWERS).dot(_FRESH_POLY).reshape(len(r), 4, 3)
+    r_mask = np.array((r, passed), dtype=float)  # r, and 1.0 where W > V (else the map is 0)
+    maps = (r_mask[0][:, None] ** _R_POWERS).dot(_FRESH_POLY)
+    maps *= r_mask[1][:, None]
     return maps.reshape(len(r), 4, 3)

@@ -20,6 +20,7 @@ import numpy as np
 
 from planner.flushing.network import STIRRED, Network
 from planner.flushing.pipes import PipeSet
+from planner.flushing.step import StepResult
 
 
 class Inlets:
@@ -29,6 +30,8 @@ class Inlets:
     ----------
     stirred, pipes : ndarray of int
         Indices of the stirred nodes and of the pipes that feed consumers.
+    pipe_list, pipe_volume_m3 : list of int, list of float [m³]
+        Those pipes as ints, and their volumes.
     of_consumer : ndarray (C,) of int
         Each consumer's source, an index into ``stirred`` then ``pipes``.
     """
@@ -42,12 +45,58 @@ class Inlets:
         order = [(STIRRED, n) for n in stirred] + [(k, n) for k, n in found if k != STIRRED]
         self.stirred = np.array(stirred, dtype=int)
         self.pipes = np.array(pipes, dtype=int)
+        self.pipe_list = pipes  # the same, as ints
+        self.pipe_volume_m3 = net.pipe_volume_m3[self.pipes].tolist()  # their volumes [m³]
         self.of_consumer = np.array([order.index(kn) for kn in zip(kinds, nodes, strict=True)],
                                     dtype=int)
         n_stirred = len(net.stirred)  # each consumer's source among the stirred nodes, then pipes
         self._at_consumer = np.array(
             [n if k == STIRRED else n_stirred + n for k, n in zip(kinds, nodes, strict=True)],
             dtype=int)
+        self._pipe_at_consumer = None if stirred else np.array(nodes, dtype=int)
+
+    def ends(self, step: StepResult, pipes: PipeSet, x_new: np.ndarray, through_m3: list[float]
+             ) -> tuple[np.ndarray, np.ndarray]:
+        """Each source's composition at a step's end: the left limit closing it and the right
+        limit opening the next (n_sources, F each; one array when they are the same).
+
+        A stirred node: the step's end state (``step``), then the bookkept state
+        ``x_new`` (S, F). A pipe: its parcels (the step's own pushed in, not yet moved on)
+        at the step's throughput ``through_m3`` (P) [m³]; when it passed more than its
+        volume, that is inside the parcel it took in ([LEVENSPIEL-1999] plug flow [P]).
+        """
+        n_st = self.stirred.size
+        pipe_end = pipe_in = None
+        if not n_st and len(self.pipe_list) == 1:  # one source pipe, the common case
+            i, v = self.pipe_list[0], self.pipe_volume_m3[0]
+            x = through_m3[i]
+            if x > v * (1.0 + 1e-9):  # inside the parcel it took in
+                s = 1.0 - v / x
+                value = np.dot([1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0], step.inflow[:3, i])
+                return value[None], value[None]
+        if self.pipes.size:
+            w = [through_m3[i] for i in self.pipe_list]
+            at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
+                  for x, v in zip(w, self.pipe_volume_m3, strict=True)]
+            if min(at) >= 0.0:  # every source pipe passed more than its volume
+                basis = [[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at]
+                if len(at) == 1:  # the profile of the one source pipe's parcel, (1, F)
+                    pipe_end = pipe_in = np.dot(basis[0], step.inflow[:3, self.pipe_list[0]])[None]
+                else:
+                    parcel = step.inflow[:3].take(self.pipes, axis=1).transpose(1, 0, 2)
+                    pipe_end = pipe_in = np.matmul(np.array(basis)[:, None, :], parcel)[:, 0]
+            else:
+                both = [pipes.limits(i, x) for i, x in zip(self.pipe_list, w, strict=True)]
+                pipe_end, pipe_in = np.array([b[0] for b in both]), np.array([b[1] for b in both])
+            if not n_st:
+                return pipe_end, pipe_in
+        shape = (n_st + self.pipes.size, x_new.shape[1])
+        end, inlet = np.empty(shape), np.empty(shape)
+        end[:n_st] = step.moments[0][self.stirred]
+        inlet[:n_st] = x_new[self.stirred]
+        if pipe_end is not None:
+            end[n_st:], inlet[n_st:] = pipe_end, pipe_in
+        return end, inlet
 
     def values(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
         """Composition at each source (n_sources, F) from stirred (S, F) and pipe (P, F) values."""
@@ -56,7 +105,9 @@ class Inlets:
     def at_consumers(self, stirred: np.ndarray, pipe_outlet: np.ndarray) -> np.ndarray:
         """Each consumer's inlet (k, C, F) from stirred (k, S, F) and pipe (k, P, F) values:
         ``values(...)[of_consumer]`` for ``k`` quantities at once."""
-        return np.concatenate((stirred, pipe_outlet), axis=1)[:, self._at_consumer]
+        if self._pipe_at_consumer is not None:  # every consumer fed by a pipe
+            return pipe_outlet.take(self._pipe_at_consumer, axis=1)
+        return np.concatenate((stirred, pipe_outlet), axis=1).take(self._at_consumer, axis=1)
 
 
 class Recorder:
@@ -114,8 +165,8 @@ class Recorder:
         self._steps.append((time_h, h, interior, start, end))
         self.step_end_h.append(time_h + h)
         if self.inlets.pipes.size:
-            self._flow.append(pipe_flow_m3h[self.inlets.pipes])
-            self._parcels.append(parcels[self.inlets.pipes])
+            self._flow.append(pipe_flow_m3h.take(self.inlets.pipes))
+            self._parcels.append(parcels.take(self.inlets.pipes, axis=0))
 
     def add_dense(self, values: np.ndarray) -> None:
         """The stirred sources at the output times inside the last step (n, n_stirred, F)."""

@@ -304,8 +304,14 @@ def build_result(
 
 def _interp_rows(x: np.ndarray, xp: np.ndarray, fp: np.ndarray) -> np.ndarray:
     """:func:`numpy.interp` of every column of ``fp`` (n, M), given at increasing ``xp``
-    (n,), at ``x`` (m,): (m, M)."""
-    out = np.empty((len(x), fp.shape[1]))
-    for k in range(fp.shape[1]):
-        out[:, k] = np.interp(x, xp, fp[:, k])
+    (n,), at ``x`` (m,): (m, M), all columns at once (the same formula:
+    ``slope·(x − xp[j]) + fp[j]``, the end values outside ``xp``)."""
+    n = len(xp)
+    if n < 2:
+        return np.repeat(fp[:1], len(x), axis=0)
+    j = np.clip(np.searchsorted(xp, x, side="right") - 1, 0, n - 2)
+    slope = (fp[j + 1] - fp[j]) / (xp[j + 1] - xp[j])[:, None]
+    out = slope * (x - xp[j])[:, None] + fp[j]
+    out[x <= xp[0]] = fp[0]
+    out[x >= xp[-1]] = fp[-1]
     return out

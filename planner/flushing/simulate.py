@@ -49,10 +49,8 @@ from planner.flushing.schedule import ConsumptionSchedule
 from planner.flushing.step import PropagatorCache, StepResult, dense_start
 from planner.flushing.trial import (
     INITIAL_STEP_EXP,
-    NO_FLOW_M3H,
     Run,
     Start,
-    Trial,
     next_exponent,
     try_step,
 )
@@ -215,7 +213,7 @@ def _settings(
     kappa = net.draw_density_kg_m3(schedule.basis)
     routing = net.after
     into = routing.dst[routing.dst_kind == STIRRED]
-    filled = np.unique(into[net.is_tank[into]])
+    filled = np.array(sorted(set(into[net.is_tank[into]].tolist())), dtype=int)  # as np.unique
     return Run(
         net=net,
         rates_t_h=rates,
@@ -230,7 +228,11 @@ def _settings(
         flow_map=FlowMap(net, routing, net.stirred_volume_m3),
         inlets=Inlets(net),
         used=tuple(None if np.all(r > 0.0) else np.flatnonzero(r > 0.0) for r in rates),
+        rates_kg_h=tuple((r * 1000.0).tolist() for r in rates),
+        kappa=kappa.tolist(),
         tanks=np.flatnonzero(net.is_tank),
+        tank_list=np.flatnonzero(net.is_tank).tolist(),
+        tank_capacity_m3=net.capacity_m3[net.is_tank].tolist(),
         filled=filled,
         tank_mask=net.is_tank.astype(float),
     )
@@ -247,14 +249,17 @@ class _State:
     pipes: PipeSet
     fronts: Fronts
     inlet: np.ndarray  # (n_sources, F) composition at each source now (right limits)
-    last_end: np.ndarray  # (C, F) inlet compositions at the end of the last step (left limits)
+    last_end: np.ndarray  # (n_sources, F) compositions at the end of the last step (left limits)
+    jump: float  # largest difference between the right and left limits of the last step end [-]
     slope: np.ndarray  # (C, F) predicted rate of change of each inlet, 1/h
     k: int  # next trial step: output step · 2^k
     warnings: list[str]
     over_capacity: set[str]  # tanks already warned about
     n_steps: int = 0
-    stirred_out_m3h: np.ndarray | None = None  # the last step's outflows (S,)
-    pipe_flow_m3h: np.ndarray | None = None  # the last step's pipe flows (P,)
+    # the last step's outflows (S,) and pipe flows (P,): views of the flow map's buffer, which
+    # holds them until the next step's flows
+    stirred_out_m3h: np.ndarray | None = None
+    pipe_flow_m3h: np.ndarray | None = None
 
 
 def _start(run: Run) -> tuple[_State, Recorder]:
@@ -266,9 +271,9 @@ def _start(run: Run) -> tuple[_State, Recorder]:
     rec = Recorder(run.inlets, x, vol, pipes, run.output_step_h)
     fronts = initial_fronts(net, run.rates_t_h[0], run.kappa_kg_m3, x, pipe0)
     inlet = run.inlets.values(x, pipe0)
-    last = inlet[run.inlets.of_consumer]
-    state = _State(0.0, 0, x, vol, pipes, fronts, inlet, last, np.zeros_like(last),
-                   INITIAL_STEP_EXP, [], set())
+    slope = np.zeros_like(inlet[run.inlets.of_consumer])
+    state = _State(0.0, 0, x, vol, pipes, fronts, inlet, inlet, 0.0, slope, INITIAL_STEP_EXP, [],
+                   set())
     return state, rec
 
 
@@ -276,9 +281,10 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     """One step: try it, commit it, record it, check the tanks, choose the next length."""
     t = state.time_h
     seg = bisect.bisect_right(run.bounds_h, t * (1 + 1e-13) + 1e-15) - 1
-    phi0 = state.inlet[run.inlets.of_consumer]
-    change = np.abs(phi0 - state.last_end)
-    if float(np.maximum.reduce(change.ravel())) > _JUMP:  # a front reached an inlet
+    of_consumer = run.inlets.of_consumer
+    phi0 = state.inlet.take(of_consumer, axis=0)
+    if state.jump > _JUMP:  # a front reached an inlet
+        change = np.abs(phi0 - state.last_end[of_consumer])
         state.slope = np.where(change.max(axis=1, keepdims=True) > _JUMP, 0.0, state.slope)
     at = Start(t, state.grid, state.k, seg, phi0, state.slope)
     trial = try_step(run, at, state.x, state.volume_m3, state.pipes, state.fronts, cache)
@@ -286,27 +292,26 @@ def _advance(run: Run, state: _State, rec: Recorder, cache: PropagatorCache) -> 
     h = step.h
     x_new, vol_new = _commit_stirred(run, state, step, fl)
     _check_tanks(run, state, vol_new, fl, t, t + h)
-    qp = fl.pipe_flow
-    through = qp * h
+    qp, through = fl.pipe_flow, trial.through_m3
     interior = _interior(h, state.grid, run.output_step_h)
     if interior and run.inlets.stirred.size:
-        dense = trial.props.dense(dense_start(state.x, step.g, h), interior)
+        g = np.matmul(fl.bp, step.outflow)  # into the stirred
+        dense = trial.props.dense(dense_start(state.x, g, h), interior)
         rec.add_dense(dense[:, run.inlets.stirred])
-    every = float(np.minimum.reduce(qp, initial=np.inf)) > NO_FLOW_M3H  # every pipe flows
-    if not every:
-        through = through * np.heaviside(qp - NO_FLOW_M3H, 0.0)
     parcels = step.inflow[:3].transpose(1, 0, 2)
-    state.pipes.push(through, parcels, every)
-    end, inlet = _ends(run, state, trial, x_new, through)
+    state.pipes.push(through, parcels, trial.every)
+    through_list = through.tolist()
+    end, inlet = run.inlets.ends(step, state.pipes, x_new, through_list)
     rec.add(t, h, interior, state.inlet, end, qp, parcels)
     state.pipes.advance(through)
-    state.fronts = advance_fronts(state.fronts, run.net.pipe_volume_m3, through.tolist(),
+    state.fronts = advance_fronts(state.fronts, run.net.pipe_volume_m3, through_list,
                                   fl.into_pipes[:, len(run.net.stirred):])
     rec.add_state(h * trial.consumption_m3h, trial.inlet_mean, vol_new, x_new)
-    state.stirred_out_m3h, state.pipe_flow_m3h = fl.stirred_out.copy(), qp.copy()
-    state.last_end = end[run.inlets.of_consumer]
-    g, k = trial.inlet_shape
-    state.slope = (2.0 / h) * g + (6.0 / h) * k  # d/dt at s = 1 of its Legendre profile
+    state.stirred_out_m3h, state.pipe_flow_m3h = fl.stirred_out, qp
+    state.last_end = end
+    state.jump = 0.0 if end is inlet else float(np.maximum.reduce(np.abs(inlet - end), axis=None))
+    shape = trial.inlet_shape  # d/dt at s = 1 of its Legendre profile:
+    state.slope = (2.0 / h) * shape[0] + (6.0 / h) * shape[1]
     state.inlet, state.x, state.volume_m3 = inlet, x_new, vol_new
     state.time_h, state.grid = _next_time(t, h, run.output_step_h)
     state.k = next_exponent(trial.k, trial.error, h, trial.h_try, run.k_max)
@@ -331,46 +336,15 @@ def _commit_stirred(
     ([LEVENSPIEL-1999] mass balance [D]); tanks move by ``h·(q_in − q_out)``.
     """
     h, mean = step.h, step.moments[1]
-    inflow = fl.into_stirred.dot(np.concatenate((mean, step.outflow[0])))
-    content = state.volume_m3[:, None] * state.x + h * (inflow - fl.stirred_out[:, None] * mean)
-    volume = state.volume_m3 + h * (fl.stirred_in - fl.stirred_out) * run.tank_mask
+    content = fl.balance.dot(np.concatenate((mean, step.outflow[0])))  # the gain, m³/h
+    content *= h
+    content += state.volume_m3[:, None] * state.x
+    volume = state.volume_m3 + h * fl.tank_net
     if float(np.minimum.reduce(volume)) > 0.0:
-        return content / volume[:, None], volume
+        content /= volume[:, None]
+        return content, volume
     with np.errstate(invalid="ignore", divide="ignore"):
         return np.where(volume[:, None] > 0.0, content / volume[:, None], state.x), volume
-
-
-_LEFT_RIGHT = np.array([True, False])
-
-
-def _ends(
-    run: Run, state: _State, trial: Trial, x_new: np.ndarray, through_m3: np.ndarray
-) -> tuple[np.ndarray, np.ndarray]:
-    """Each source's composition at the step end: the left limit closing it and the right
-    limit opening the next (n_sources, F each).
-
-    A stirred node: the propagators' end state, then the bookkept state. A pipe: its
-    parcels (the step's own pushed in, not yet moved on) at the step's throughput; when
-    it passed more than its volume, that is inside the parcel it took in.
-    """
-    inl, step = run.inlets, trial.step
-    n_st = inl.stirred.size
-    end, inlet = np.empty_like(state.inlet), np.empty_like(state.inlet)
-    if n_st:
-        end[:n_st] = step.moments[0][inl.stirred]
-        inlet[:n_st] = x_new[inl.stirred]
-    if inl.pipes.size:
-        w = through_m3[inl.pipes]
-        at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
-              for x, v in zip(w.tolist(), run.net.pipe_volume_m3[inl.pipes].tolist(), strict=True)]
-        if min(at) >= 0.0:  # every source pipe passed more than its volume
-            basis = np.array([[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at])
-            parcel = step.inflow[:3, inl.pipes].transpose(1, 0, 2)  # (m, 3, F)
-            end[n_st:] = inlet[n_st:] = np.matmul(basis[:, None, :], parcel)[:, 0]
-        else:
-            both = state.pipes.sample(inl.pipes, np.repeat(w[:, None], 2, axis=1), _LEFT_RIGHT)
-            end[n_st:], inlet[n_st:] = both[:, 0], both[:, 1]
-    return end, inlet
 
 
 def _check_tanks(
@@ -381,11 +355,11 @@ def _check_tanks(
     its end ``t_end_h``."""
     net = run.net
     vt = volume_m3[run.tanks].tolist()
-    for i, v in zip(run.tanks.tolist(), vt, strict=True):
+    for i, v in zip(run.tank_list, vt, strict=True):
         if v < 0.0:
             t_dry = t_h + state.volume_m3[i] / (fl.stirred_out[i] - fl.stirred_in[i])
             raise TankDry(net.stirred[i], t_dry)
-    for i, v, cap in zip(run.tanks.tolist(), vt, net.capacity_m3[run.tanks].tolist(), strict=True):
+    for i, v, cap in zip(run.tank_list, vt, run.tank_capacity_m3, strict=True):
         if v > cap * (1 + 1e-9) and net.stirred[i] not in state.over_capacity:
             state.over_capacity.add(net.stirred[i])
             state.warnings.append(

@@ -82,11 +82,12 @@ class StepMaps:
     ``from_x`` (5S, S) and ``from_g`` (5S, 3S) give the end state and the
     step's mean, Legendre slope, curvature and cubic of every stirred node
     (five blocks of S rows) from ``x(0)`` and from the Legendre coefficients
-    ``g0, g1, g2`` of the pipe outflows entering them; ``loop`` (9S, S) is the
-    (mean, slope, curvature) × (g0, g1, g2) block, arranged for the pipe system.
+    ``g0, g1, g2`` of the pipe outflows entering them; ``by_row`` (15S, S) is
+    ``from_g`` with its rows split by input moment (row (output, node, input)),
+    so that one product with ``Bp`` gives the map from the pipe outflow moments.
     """
 
-    __slots__ = ("h", "phi", "from_x", "from_g", "loop")
+    __slots__ = ("h", "phi", "from_x", "from_g", "by_row")
 
     def __init__(self, phi: np.ndarray, h: float) -> None:
         s = phi.shape[1]
@@ -96,7 +97,7 @@ class StepMaps:
         self.h, self.phi = h, phi
         self.from_x = np.ascontiguousarray(full[:, :s])
         self.from_g = np.ascontiguousarray(full[:, s:])
-        self.loop = np.ascontiguousarray(full[s : 4 * s, s:]).reshape(9 * s, s)
+        self.by_row = self.from_g.reshape(15 * s, s)
 
 
 class Propagators:
@@ -203,7 +204,6 @@ class StepResult(NamedTuple):
     outflow: np.ndarray  # (3, P, F): pipe outflow mean, slope and curvature
     inflow: np.ndarray  # (4, P, F): pipe inflow mean, slope, curvature (the parcel to push),
     #                     and the cubic part of its stirred share
-    g: np.ndarray  # (3, S, F): Legendre coefficients of the pipe outflows into the stirred
     shape_error: float  # largest cubic coefficient the quadratic profiles leave out [-]
 
 
@@ -242,8 +242,8 @@ def compute_step(
     maps : StepMaps
         The stirred-volume maps for this step length and these flows.
     checked : ndarray (2, P) [-]
-        1 where the cubic part counts toward the error: of a pipe's outflow
-        into a stirred volume (first row), of a pipe's inflow (second row).
+        1 where the cubic part counts toward the error: of a pipe's inflow
+        (first row), of a pipe's outflow into a stirred volume (second row).
 
     Returns
     -------
@@ -254,36 +254,38 @@ def compute_step(
         approximated to its cubic part (``shape_error``, the error estimate).
     """
     s, p = bp.shape
+    f = x0.shape[1]
     mx = maps.from_x.dot(x0)
+    from_out = maps.by_row.dot(bp).reshape(5 * s, 3 * p)  # the map from_g·(1 ⊗ Bp)
     if fresh is None:
         out = known[:, :3].transpose(1, 0, 2)
+        out2 = out.reshape(3 * p, f)
     else:
-        out = _pipe_outflows(maps, mx, known, fresh, bp, shares)
-    g = np.matmul(bp, out)
-    moments = mx + maps.from_g.dot(g.reshape(3 * s, -1))
-    moments = moments.reshape(5, s, -1)
-    inflow = np.matmul(shares.ws, moments[1:])
-    inflow[:3] += np.matmul(shares.wp, out)
+        solved = _pipe_outflows(from_out, mx, known, fresh, s, shares)  # (4P, F)
+        out2 = solved[: 3 * p]
+        out = out2.reshape(3, p, f)
+    moments = mx + from_out.dot(out2)
+    both = np.empty((5 * p, f))  # the inflow moments (moment, pipe), then the outflow cubic
+    np.dot(shares.ws_blocks, moments[s:], out=both[: 4 * p])
+    both[: 3 * p] += shares.wp_blocks.dot(out2)
+    inflow = both[: 4 * p].reshape(4, p, f)
+    moments = moments.reshape(5, s, f)
     shape = 0.0
     if p:
-        cubic = np.empty((2, p, x0.shape[1]))
-        if fresh is None:
-            np.abs(known[:, 3], out=cubic[0])
-        else:
-            np.matmul(fresh[:, 3:, :3], inflow[:3].transpose(1, 0, 2), out=cubic[0, :, None])
-            cubic[0] += known[:, 3]
-            np.abs(cubic[0], out=cubic[0])
-        np.abs(inflow[3], out=cubic[1])
-        shape = float(np.maximum.reduce((np.maximum.reduce(cubic, axis=2) * checked).ravel()))
-    return StepResult(maps.h, moments, out, inflow, g, shape)
+        both[4 * p :] = known[:, 3] if fresh is None else solved[3 * p :]
+        cubic = np.abs(both[3 * p :])  # (2P, F): the cubic parts of the inflow, the outflow
+        cubic *= checked.reshape(2 * p, 1)
+        shape = float(np.maximum.reduce(cubic, axis=None))
+    return StepResult(maps.h, moments, out, inflow, shape)
 
 
 class Shares(NamedTuple):
-    """Each pipe's inflow shares from the stirred volumes and the pipes (all [-])."""
+    """Each pipe's inflow shares ``ws`` from the stirred volumes and ``wp`` from the pipes,
+    on the diagonal blocks of the moments' maps, moment by moment (all [-])."""
 
-    ws: np.ndarray  # (P, S)
-    wp: np.ndarray  # (P, P)
-    wp_blocks: np.ndarray  # (3, P, 3P): wp on the diagonal blocks of the pipe system
+    ws_blocks: np.ndarray  # (4P, 4S): ws on the diagonal blocks, one per moment
+    wp_blocks: np.ndarray  # (3P, 3P): wp on the diagonal blocks, one per moment
+    w_blocks: np.ndarray  # (3P, 3S + 3P): the first three of each, side by side
 
 
 def shares_of(w_in: np.ndarray, s: int) -> Shares:
@@ -299,40 +301,46 @@ def shares_of(w_in: np.ndarray, s: int) -> Shares:
     Returns
     -------
     Shares
-        ``ws``, ``wp`` as contiguous arrays, and ``wp`` set on the diagonal
-        blocks of a (3, P, 3P) array.
+        ``ws`` (P, S) and ``wp`` (P, P) on the diagonal blocks of a (4P, 4S) and a
+        (3P, 3P) array, and the first three blocks of both side by side (3P, 3S + 3P).
     """
     p = w_in.shape[0]
-    blocks = np.zeros((3, p, 3 * p))
-    for j in range(3):
-        blocks[j, :, j * p : (j + 1) * p] = w_in[:, s:]
-    return Shares(np.ascontiguousarray(w_in[:, :s]), np.ascontiguousarray(w_in[:, s:]), blocks)
+    ws_blocks, wp_blocks = np.zeros((4 * p, 4 * s)), np.zeros((3 * p, 3 * p))
+    for j in range(4):
+        ws_blocks[j * p : (j + 1) * p, j * s : (j + 1) * s] = w_in[:, :s]
+        if j < 3:
+            wp_blocks[j * p : (j + 1) * p, j * p : (j + 1) * p] = w_in[:, s:]
+    both = np.concatenate((ws_blocks[: 3 * p, : 3 * s], wp_blocks), axis=1)
+    return Shares(ws_blocks, wp_blocks, both)
 
 
 def _pipe_outflows(
-    maps: StepMaps,
+    from_out: np.ndarray,
     mx: np.ndarray,
     known: np.ndarray,
     fresh: np.ndarray,
-    bp: np.ndarray,
+    s: int,
     shares: Shares,
 ) -> np.ndarray:
-    """Outflow moments O0, O1, O2 (3, P, F) of every pipe over the step.
+    """Outflow moments O0 … O3 of every pipe over the step (4P, F: moment, pipe).
 
-    The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` and
-    ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + loop·(Bp·O)``: with
+    The inflow moments are ``I_j = ws·(moment j of x) + wp·O_j`` (j < 3) and
+    ``O = K + F·I``, where moment j of ``x`` is ``from_x·x0 + from_out·O``: with
     the unknowns ordered (moment, pipe) and the equations (pipe, moment),
-    ``(Π − F·T)·O = K + F·U`` (Π the permutation between the two orders).
+    ``(Π − F·T)·O = K + F·U`` (Π the permutation between the two orders). The
+    cubic O3, which nothing depends on, is solved for with the rest (its own
+    column of T is 0): the part of the outflow the quadratic profiles leave out.
     """
-    s, p = bp.shape
-    f = mx.shape[1]
-    aug = np.concatenate((maps.loop.dot(bp).reshape(3 * s, 3 * p), mx[s : 4 * s]), axis=1)
-    tu = np.matmul(shares.ws, aug.reshape(3, s, 3 * p + f))  # (3, P, 3P + F): [T | U]
-    tu[:, :, : 3 * p] += shares.wp_blocks
-    ftu = np.matmul(fresh[:, :3, :3], tu.transpose(1, 0, 2)).reshape(3 * p, 3 * p + f)
-    system = _permutation(p) - ftu[:, : 3 * p]
-    rhs = known[:, :3].reshape(3 * p, f) + ftu[:, 3 * p :]
-    return _solve(system, rhs).reshape(3, p, f)
+    p, f = known.shape[0], mx.shape[1]
+    aug = _augmented(s, p, f)  # [[from_out, 0, moments of x(0)], [1, 0, 0]] (mean … curvature)
+    aug[: 3 * s, : 3 * p] = from_out[s : 4 * s]
+    aug[: 3 * s, 4 * p :] = mx[s : 4 * s]
+    tu = shares.w_blocks.dot(aug)  # (3P, 4P + F): [T | 0 | U], moment, pipe
+    ftu = np.matmul(fresh, tu.reshape(3, p, -1).transpose(1, 0, 2))
+    ftu = ftu.reshape(4 * p, 4 * p + f)
+    system = _permutation(p) - ftu[:, : 4 * p]
+    rhs = known.reshape(4 * p, f) + ftu[:, 4 * p :]
+    return _solve(system, rhs)
 
 
 def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
@@ -341,23 +349,32 @@ def _solve(a: np.ndarray, b: np.ndarray) -> np.ndarray:
     ``numpy.linalg.solve`` for its error."""
     if _gesv is not None:
         r = _gesv(a, b, signature="dd->d")
-        if math.isfinite(float(np.add.reduce(r, axis=None))):  # a sum overflowing re-solves
+        if math.isfinite(r.item(0)):  # singular: all NaN
             return r
     return np.linalg.solve(a, b)
 
 
+_AUGMENTED: dict[tuple[int, int, int], np.ndarray] = {}
 _PERMUTATIONS: dict[int, np.ndarray] = {}
 
 
+def _augmented(s: int, p: int, f: int) -> np.ndarray:
+    """A work array (3S + 3P, 4P + F) for :func:`_pipe_outflows`: its last 3P rows hold
+    ``[1, 0, 0]``, the first 3S are written at each step but for their zero columns
+    3P … 4P − 1 (the cubic, which no inflow depends on)."""
+    found = _AUGMENTED.get((s, p, f))
+    if found is None:
+        found = _AUGMENTED[(s, p, f)] = np.zeros((3 * s + 3 * p, 4 * p + f))
+        found[3 * s :, : 3 * p] = np.eye(3 * p)
+    return found
+
+
 def _permutation(p: int) -> np.ndarray:
-    """Π (3P, 3P): row (pipe q, moment i) has its 1 in column (moment i, pipe q)."""
+    """Π (4P, 4P): row (pipe q, moment i) has its 1 in column (moment i, pipe q)."""
     found = _PERMUTATIONS.get(p)
     if found is None:
-        found = np.zeros((3 * p, 3 * p))
-        for q in range(p):
-            for i in range(3):
-                found[q * 3 + i, i * p + q] = 1.0
-        _PERMUTATIONS[p] = found
+        found = _PERMUTATIONS[p] = np.zeros((4 * p, 4 * p))
+        found[np.arange(4 * p), (np.arange(4 * p) % 4) * p + np.arange(4 * p) // 4] = 1.0
     return found
 
 

@@ -23,7 +23,7 @@ import numpy as np
 from planner.flushing.flowmap import FlowMap, Flows
 from planner.flushing.fronts import Fronts, next_arrival_h
 from planner.flushing.network import Network
-from planner.flushing.pipes import PipeSet, fresh_maps
+from planner.flushing.pipes import PipeSet, fresh_maps_of
 from planner.flushing.record import Inlets
 from planner.flushing.step import (
     PropagatorCache,
@@ -59,7 +59,11 @@ class Run:
     flow_map: FlowMap
     inlets: Inlets
     used: tuple[np.ndarray | None, ...]  # per segment, the consumers with a rate (None: all)
+    rates_kg_h: tuple[list[float], ...]  # per segment, the consumers' rates as floats
+    kappa: list[float]  # kappa_kg_m3 as floats
     tanks: np.ndarray  # indices of the tanks among the stirred nodes
+    tank_list: list[int]  # the same, as ints
+    tank_capacity_m3: list[float]  # their capacities [m³]
     filled: np.ndarray  # indices of the tanks some link may fill
     tank_mask: np.ndarray  # (S,) 1.0 for a tank, 0.0 for a fixed volume
 
@@ -76,6 +80,8 @@ class Trial(NamedTuple):
     h_try: float  # the trial length it was cut from, h
     error: float  # over the allowance
     k: int  # the step exponent after any halving
+    through_m3: np.ndarray  # (P,) volume each pipe passes (0 for one that does not flow)
+    every: bool  # every pipe flows
 
 
 class Start(NamedTuple):
@@ -125,29 +131,32 @@ def try_step(
     k, t = at.k, at.time_h
     h_try = _trial_length_h(k, t, at.grid, run.output_step_h)
     limit_h = run.bounds_h[at.segment + 1] - t
-    rate = run.rates_t_h[at.segment] * 1000.0
+    rate = run.rates_kg_h[at.segment]
     s = len(run.net.stirred)
+    inlet, slope = at.inlet.tolist(), at.slope.tolist()
     while True:
-        consumption = draw_m3h(rate, at.inlet + (0.5 * h_try) * at.slope, run.draw_kg_m3)
+        drawn = _draws(rate, inlet, run.kappa, slope, 0.5 * h_try)
+        consumption = np.array(drawn)
         fl = run.flow_map.flows(consumption, t)
         if run.filled.size and _refresh(run, volume_m3, fl.stirred_in):
             fl = run.flow_map.flows(consumption, t)
         qp = fl.pipe_flow.tolist()
         h = max(min(h_try, limit_h, next_arrival_h(fronts, qp)), _MIN_STEP_H)
-        props = cache.get(fl.system[:, :s])
+        props = cache.get(fl.a)
         every = not qp or min(qp) > NO_FLOW_M3H  # every pipe flows
         shares, checked = _shares(run, fl, every, s)
-        known, fresh = _pipe_windows(run.net.pipe_volume_m3, pipes, fl.pipe_flow, h, every)
-        step = compute_step(x, known, fresh, fl.system[:, s:], shares, props.maps(h), checked)
+        through, known, fresh = _pipe_windows(run.net.pipe_volume_m3, pipes, fl.pipe_flow, h,
+                                              every)
+        step = compute_step(x, known, fresh, fl.bp, shares, props.maps(h), checked)
         legendre = run.inlets.at_consumers(step.moments[1:4], step.outflow)  # (3, C, F)
         mean = legendre[0]
-        err = max(step.shape_error / run.tolerance,
-                  _flow_error(run, at.segment, consumption, mean))
+        err = max(step.shape_error / run.tolerance, _flow_error(run, at.segment, drawn, mean))
         if err > 2.0 and k > _MIN_STEP_EXP and h >= 0.99 * h_try:
             k -= 1
             h_try = h_try / 2.0
             continue
-        return Trial(step, fl, props, consumption, mean, legendre[1:], h_try, err, k)
+        return Trial(step, fl, props, consumption, mean, legendre[1:], h_try, err, k, through,
+                     every)
 
 
 def draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.ndarray:
@@ -171,6 +180,54 @@ def draw_m3h(rate_kg_h: np.ndarray, phi: np.ndarray, kappa: np.ndarray) -> np.nd
     return rate_kg_h * d[:, 1] / d[:, 0]
 
 
+def _draws(rate_kg_h: list[float], phi: list[list[float]], kappa: list[float],
+           slope: list[list[float]] | None = None, dt_h: float = 0.0) -> list[float]:
+    """:func:`draw_m3h` on floats (a handful of consumers and fuels: cheaper than arrays),
+    at ``φ + dt·slope`` when a slope is given.
+
+    Parameters
+    ----------
+    rate_kg_h : list of float (C) [kg/h]
+        The consumers' rates.
+    phi : list of list of float (C, F) [-]
+        Volume fractions of the fuels at each inlet.
+    kappa : list of float (F) [kg/m³]
+        What one m³ of each fuel counts for against the rates.
+    slope : list of list of float (C, F), optional [1/h]
+        Rate of change of ``phi``.
+    dt_h : float, default 0 [h]
+        How far along ``slope`` the draws are taken.
+
+    Returns
+    -------
+    list of float (C) [m³/h]
+        The draws, ``m·Σφ⁺/Σφ⁺·κ`` (``φ⁺ = max(φ, 0)``).
+    """
+    out = []
+    if len(kappa) == 2:  # two fuels, the common case, written out
+        if slope is not None:
+            phi = [[a0 + dt_h * b0, a1 + dt_h * b1]
+                   for (a0, a1), (b0, b1) in zip(phi, slope, strict=True)]
+        k0, k1 = kappa
+        for r, (p0, p1) in zip(rate_kg_h, phi, strict=True):
+            p0 = p0 if p0 > 0.0 else 0.0
+            p1 = p1 if p1 > 0.0 else 0.0
+            mass = p0 * k0 + p1 * k1
+            out.append(r * (p0 + p1) / mass if mass else math.nan)
+        return out
+    if slope is not None:
+        phi = [[a + dt_h * b for a, b in zip(ra, rb, strict=True)]
+               for ra, rb in zip(phi, slope, strict=True)]
+    for r, row in zip(rate_kg_h, phi, strict=True):
+        mass = volume = 0.0
+        for p, k in zip(row, kappa, strict=True):
+            if p > 0.0:
+                mass += p * k
+                volume += p
+        out.append(r * volume / mass if mass else math.nan)
+    return out
+
+
 def _refresh(run: Run, volume_m3: np.ndarray, stirred_in_m3h: np.ndarray) -> bool:
     """Hold a filled tank's new volume once it has moved by more than 0.5 % since it was
     last held (its dilution rate is q / V); True when one was."""
@@ -187,28 +244,29 @@ def _refresh(run: Run, volume_m3: np.ndarray, stirred_in_m3h: np.ndarray) -> boo
 
 def _shares(run: Run, fl: Flows, every: bool, s: int) -> tuple[Shares, np.ndarray]:
     """Each pipe's inflow shares (:class:`~planner.flushing.step.Shares`), and which pipes'
-    cubic parts count (2, P): of the outflow of those feeding a stirred volume, of the
-    inflow of all (that flow)."""
+    cubic parts count (2, P): of the inflow of all (that flow), of the outflow of those
+    feeding a stirred volume."""
     qp = fl.pipe_flow
     checked = np.empty((2, len(qp)))
-    np.heaviside(np.add.reduce(fl.into_stirred[:, s:], axis=0), 0.0, out=checked[0])
+    checked[0] = 1.0
+    np.heaviside(fl.pipe_to_stirred, 0.0, out=checked[1])
     if every:
-        checked[1] = 1.0
         if run.flow_map.single_inflow:
             return run.flow_map.unit_shares, checked
         return shares_of(fl.into_pipes / qp[:, None], s), checked
     flowing = qp > NO_FLOW_M3H
-    np.heaviside(qp - NO_FLOW_M3H, 0.0, out=checked[1])
-    checked[0] *= checked[1]
+    np.heaviside(qp - NO_FLOW_M3H, 0.0, out=checked[0])
+    checked[1] *= checked[0]
     inv = np.divide(1.0, qp, out=np.zeros_like(qp), where=flowing)
     return shares_of(fl.into_pipes * inv[:, None], s), checked
 
 
 def _pipe_windows(
     volume_m3: np.ndarray, pipes: PipeSet, pipe_flow_m3h: np.ndarray, h: float, every: bool,
-) -> tuple[np.ndarray, np.ndarray | None]:
-    """What the parcels now in the pipes deliver over the step (4, P, F), and the map of
-    the rest (P, 4, 3), None when no pipe passes more than its volume."""
+) -> tuple[np.ndarray, np.ndarray, np.ndarray | None]:
+    """The volume each pipe passes over the step (P,) [m³], what the parcels now in the
+    pipes deliver (P, 4, F), and the map of the rest (P, 4, 3), None when no pipe passes
+    more than its volume."""
     through = pipe_flow_m3h * h
     if every:
         known = pipes.window(np.minimum(volume_m3, through), 1.0 / through)
@@ -218,27 +276,25 @@ def _pipe_windows(
         through = through * np.heaviside(pipe_flow_m3h - NO_FLOW_M3H, 0.0)
         known = pipes.window(np.minimum(volume_m3, through), inv)
         known[~flowing, 0] = pipes.outlets()[~flowing]
-    if not any(w > v for w, v in zip(through.tolist(), volume_m3.tolist(), strict=True)):
-        return known, None
-    return known, fresh_maps(volume_m3, through)
+    return through, known, fresh_maps_of(volume_m3.tolist(), through.tolist())
 
 
-def _flow_error(
-    run: Run, segment: int, consumption_m3h: np.ndarray, inlet_mean: np.ndarray
-) -> float:
-    """Relative error of the frozen consumption flows against the draw at the step's mean
-    inlet blend, over its allowance (a tenth of the tolerance)."""
+def _flow_error(run: Run, segment: int, consumption_m3h: list[float], inlet_mean: np.ndarray
+                ) -> float:
+    """Relative error of the frozen consumption flows (C) m³/h against the draw at the
+    step's mean inlet blend (C, F), over its allowance (a tenth of the tolerance)."""
     used = run.used[segment]
-    if used is None:
-        actual = draw_m3h(run.rates_t_h[segment] * 1000.0, inlet_mean, run.draw_kg_m3)
-        rel = np.abs(actual / consumption_m3h - 1.0)
-    elif used.size:
-        actual = draw_m3h(run.rates_t_h[segment][used] * 1000.0, inlet_mean[used],
-                           run.draw_kg_m3)
-        rel = np.abs(actual / consumption_m3h[used] - 1.0)
-    else:
-        return 0.0
-    return max(rel.tolist()) / (0.1 * run.tolerance)
+    rate, mean = run.rates_kg_h[segment], inlet_mean.tolist()
+    if used is not None:
+        if not used.size:
+            return 0.0
+        keep = used.tolist()
+        rate = [rate[i] for i in keep]
+        mean = [mean[i] for i in keep]
+        consumption_m3h = [consumption_m3h[i] for i in keep]
+    actual = _draws(rate, mean, run.kappa)
+    rel = [abs(a / c - 1.0) for a, c in zip(actual, consumption_m3h, strict=True)]
+    return max(rel) / (0.1 * run.tolerance)
 
 
 def _trial_length_h(k: int, time_h: float, grid: int | None, output_step_h: float) -> float:

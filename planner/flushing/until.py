@@ -109,23 +109,31 @@ class Watch:
         record = until.level_pct if until.record_pct is None else until.record_pct
         self.w_record = sign * net.density_kg_m3 * (net.sulphur_pct - record)
         mine = [i for i, c in enumerate(net.consumer_circuit) if c == until.circuit]
-        self.sources = np.unique(of_consumer[mine])
+        self.sources = np.array(sorted(set(of_consumer[mine].tolist())), dtype=int)
+        self._source_list = self.sources.tolist()
+        self._w_list = self.w.tolist()
         self.reached_h: float | None = None  # since when the inlets have been at the level
 
     def inlets_at_level(self, inlet: np.ndarray, w: np.ndarray | None = None) -> bool:
         """Every watched source (its composition now, ``inlet`` (n_sources, F)) inside the
         half-space ``w·φ ≤ 0`` (default: at the level)."""
-        g = np.maximum(inlet[self.sources], 0.0) @ (self.w if w is None else w)
-        return bool(g.size == 0 or float(np.maximum.reduce(g)) <= 0.0)
+        weights = self._w_list if w is None else w.tolist()
+        rows = inlet.tolist()  # a handful of sources and fuels: floats are cheaper
+        for i in self._source_list:
+            if sum(max(p, 0.0) * c for p, c in zip(rows[i], weights, strict=True)) > 0.0:
+                return False
+        return True
 
     def settled(self, x: np.ndarray, stirred_out_m3h: np.ndarray, pipes: PipeSet,
                 pipe_flow_m3h: np.ndarray, w: np.ndarray | None = None) -> bool:
         """Every flowing content inside the half-space (the module notes; default: the
         level's)."""
         w = self.w if w is None else w
-        flowing = stirred_out_m3h > _UNFLOWING_M3H
-        if flowing.any() and float((np.maximum(x[flowing], 0.0) @ w).max()) > 0.0:
-            return False
+        weights = w.tolist()  # a handful of nodes and fuels: floats are cheaper
+        for row, q in zip(x.tolist(), stirred_out_m3h.tolist(), strict=True):
+            if q > _UNFLOWING_M3H and sum(
+                    max(p, 0.0) * c for p, c in zip(row, weights, strict=True)) > 0.0:
+                return False
         return pipes.max_linear(w, pipe_flow_m3h > _UNFLOWING_M3H) <= 0.0
 
     def over(self, time_h: float, inlet: np.ndarray, x: np.ndarray,

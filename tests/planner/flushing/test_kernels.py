@@ -23,7 +23,8 @@ from planner.flushing import ConsumptionSchedule, FlushError, make_switch, simul
 from planner.flushing.flowmap import FlowMap
 from planner.flushing.network import compile_network, flow_matrices
 from planner.flushing.phi import phi_double, phi_stack
-from planner.flushing.pipes import PipeSet, fresh_moments, profile
+from planner.flushing.pipes import PipeSet, fresh_maps, fresh_maps_of, fresh_moments, profile
+from planner.flushing.trial import _draws, draw_m3h
 from planner.ship.ship_file import load_ship
 from tests.helpers.flushing import SHIPS
 
@@ -131,6 +132,24 @@ def test_pipe_windows_and_samples_match_quadrature_with_an_idle_pipe():
              for p in range(2)], abs=1e-10)
 
 
+def test_pipe_limits_are_the_samples_left_and_right():
+    # limits(p, x) on floats is sample() at x, its left limit then its right limit
+    # (a boundary within 1e-12 of the volume belongs to the earlier parcel)
+    rng = np.random.default_rng(5)
+    volume = np.array([0.3, 0.2])
+    pipes = PipeSet(volume, np.array([[1.0, 0.0], [0.5, 0.5]]))
+    for _ in range(6):
+        through = rng.uniform(0.05, 0.25, 2)
+        pipes.push(through, rng.normal(size=(2, 3, 2)), True)
+        for p in range(2):
+            for x in (0.0, 0.5 * through[p], through[p], float(volume[p])):
+                both = pipes.sample(np.array([p]), np.array([[x, x]]), np.array([True, False]))
+                left, right = pipes.limits(p, x)
+                np.testing.assert_allclose(left, both[0, 0], rtol=1e-15, atol=1e-15)
+                np.testing.assert_allclose(right, both[0, 1], rtol=1e-15, atol=1e-15)
+        pipes.advance(through)
+
+
 def test_fresh_moments_of_a_pipe_flushed_twice_over():
     # inflow that enters and leaves within the step: its first half leaves in the outlet
     # window [V, W] for V = W/2 ([LEVENSPIEL-1999] plug flow [P]); a constant inflow
@@ -138,6 +157,33 @@ def test_fresh_moments_of_a_pipe_flushed_twice_over():
     m = fresh_moments(0.5, 1.0)
     assert m[0, 0] == pytest.approx(0.5, abs=1e-14)
     assert m[1, 0] == pytest.approx(0.75, abs=1e-14)
+
+
+@pytest.mark.parametrize("n_fuels", [2, 3])
+def test_draws_on_floats_are_draw_m3h(n_fuels):
+    # the step's draws on floats (two fuels written out, any number in general) against
+    # the array form, at the inlet and along its slope, a negative fraction counting as 0
+    rng = np.random.default_rng(n_fuels)
+    rate = rng.uniform(100.0, 2000.0, 3)
+    phi = rng.dirichlet(np.ones(n_fuels), 3)
+    phi[0, 0] = -1e-12
+    slope = rng.normal(size=(3, n_fuels))
+    kappa = rng.uniform(800.0, 1000.0, n_fuels)
+    two = np.stack((kappa, np.ones(n_fuels)), axis=1)
+    for dt in (0.0, 0.01):
+        got = _draws(rate.tolist(), phi.tolist(), kappa.tolist(), slope.tolist(), dt)
+        np.testing.assert_allclose(got, draw_m3h(rate, phi + dt * slope, two), rtol=1e-14)
+
+
+def test_fresh_maps_of_floats_are_each_pipes_map():
+    # per pipe the map of fresh_moments; none where the step does not flush the pipe
+    # through (W <= V), and None when it flushes none
+    volume, through = [0.5, 1.0, 0.2], [1.0, 0.8, 0.2]
+    maps = fresh_maps_of(volume, through)
+    np.testing.assert_allclose(maps[0], fresh_moments(0.5, 1.0), rtol=1e-14, atol=1e-15)
+    assert np.all(maps[1:] == 0.0)
+    np.testing.assert_array_equal(fresh_maps(np.array(volume), np.array(through)), maps)
+    assert fresh_maps_of([1.0, 0.3], [0.5, 0.3]) is None
 
 
 @pytest.mark.parametrize("path", sorted(SHIPS.glob("t*.toml")), ids=lambda p: p.stem)
@@ -158,6 +204,14 @@ def test_flow_map_matches_the_link_by_link_matrices(path):
             np.testing.assert_allclose(fl.stirred_out, fm.stirred_out, **tol)
             a = (fm.ss - np.diag(fm.stirred_in)) / net.stirred_volume_m3[:, None]
             np.testing.assert_allclose(fl.system[:, :s], a, **tol)
+            np.testing.assert_array_equal(fl.a, fl.system[:, :s])  # the same, contiguous
+            np.testing.assert_array_equal(fl.bp, fl.system[:, s:])
+            # the commit's balance, the tanks' net inflow, the pipes' flow into stirred volumes
+            gain = np.hstack((fm.ss - np.diag(fm.stirred_out), fm.sp))
+            np.testing.assert_allclose(fl.balance, gain, **tol)
+            np.testing.assert_allclose(
+                fl.tank_net, (fm.stirred_in - fm.stirred_out) * net.is_tank, **tol)
+            np.testing.assert_allclose(fl.pipe_to_stirred, fm.sp.sum(axis=0), **tol)
 
 
 def test_a_branch_that_burns_nothing_keeps_the_old_fuel():
