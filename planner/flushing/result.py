@@ -269,11 +269,16 @@ def build_result(
         (burnt.reshape(len(step_t), -1), tv[:, tanks_i], tx[:, tanks_i].reshape(len(step_t), -1)),
         axis=1))
     inlets = {}
+    by_source: dict[int, tuple[np.ndarray, np.ndarray]] = {}  # consumers share a source's arrays
     for c, name in enumerate(net.consumers):
-        src = trace_phi[rec.inlets.of_consumer[c]]
+        k = int(rec.inlets.of_consumer[c])
+        if k not in by_source:
+            src = trace_phi[k]
+            by_source[k] = (src.take(idx, axis=0).T, src.T)
+        at_output, trace = by_source[k]
         b = at_grid[:, c * n_f : (c + 1) * n_f].T
         inlets[name] = InletCurve(
-            name, net.consumer_circuit[c], net.fuels, grid, src[idx].T, b, trace_t, src.T
+            name, net.consumer_circuit[c], net.fuels, grid, at_output, b, trace_t, trace
         )
     tanks = {}
     base = n_c * n_f
@@ -310,8 +315,10 @@ def _interp_rows(x: np.ndarray, xp: np.ndarray, fp: np.ndarray) -> np.ndarray:
     if n < 2:
         return np.repeat(fp[:1], len(x), axis=0)
     j = np.clip(np.searchsorted(xp, x, side="right") - 1, 0, n - 2)
-    slope = (fp[j + 1] - fp[j]) / (xp[j + 1] - xp[j])[:, None]
-    out = slope * (x - xp[j])[:, None] + fp[j]
+    slopes = (fp[1:] - fp[:-1]) / (xp[1:] - xp[:-1])[:, None]  # per interval (n - 1, M)
+    out = slopes.take(j, axis=0)
+    out *= (x - xp.take(j))[:, None]
+    out += fp.take(j, axis=0)
     out[x <= xp[0]] = fp[0]
     out[x >= xp[-1]] = fp[-1]
     return out
