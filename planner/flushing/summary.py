@@ -104,10 +104,14 @@ def summarize(
     inlets = result.circuit_inlets(circuit)
 
     def when(level: float, settled: bool = True) -> tuple[float | None, dict[str, float | None]]:
-        each = {
-            c.consumer: (c.time_at_or_below_h if down else c.time_at_or_above_h)(level, settled)
-            for c in inlets
-        }
+        each: dict[str, float | None] = {}
+        by_trace: dict[int, float | None] = {}  # consumers fed by one source share its trace
+        for c in inlets:
+            key = id(c.trace_fractions)
+            if key not in by_trace:
+                by_trace[key] = (c.time_at_or_below_h if down else c.time_at_or_above_h)(
+                    level, settled)
+            each[c.consumer] = by_trace[key]
         vals = list(each.values())
         return (None if any(v is None for v in vals) else max(vals)), each  # type: ignore
 
