@@ -198,7 +198,7 @@ class PipeSet:
                     best, k = v, c
             k = max(k, head)
             at = min(max((position_m3 - starts[k]) / lengths[k], 0.0), 1.0)
-            out.append(np.dot([1.0, 2.0 * at - 1.0, (6.0 * at - 6.0) * at + 1.0],
+            out.append(np.dot(legendre_basis(at),
                               self.coef[lo + k, pipe]))
         return out[0], out[1]
 
@@ -216,6 +216,23 @@ class PipeSet:
         self.start, self.length, self.coef = start, length, coef
         self.head = self.head - lo
         self._lo, self._hi = 0, hi - lo
+
+
+def legendre_basis(s: float) -> list[float]:
+    """The shifted Legendre polynomials P0, P1, P2 at one position along a parcel.
+
+    Parameters
+    ----------
+    s : float [-]
+        Position along the parcel, 0 at its outlet end, 1 at its inlet end.
+
+    Returns
+    -------
+    list of float [-]
+        ``[1, 2s − 1, 6s² − 6s + 1]``: ``legendre_basis(s) · coef`` is :func:`profile` of
+        one parcel.
+    """
+    return [1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0]
 
 
 def profile(coef: np.ndarray, s: np.ndarray) -> np.ndarray:

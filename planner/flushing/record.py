@@ -19,7 +19,7 @@ from __future__ import annotations
 import numpy as np
 
 from planner.flushing.network import STIRRED, Network
-from planner.flushing.pipes import PipeSet
+from planner.flushing.pipes import PipeSet, legendre_basis, profile
 from planner.flushing.step import StepResult
 
 
@@ -67,19 +67,12 @@ class Inlets:
         """
         n_st = self.stirred.size
         pipe_end = pipe_in = None
-        if not n_st and len(self.pipe_list) == 1:  # one source pipe, the common case
-            i, v = self.pipe_list[0], self.pipe_volume_m3[0]
-            x = through_m3[i]
-            if x > v * (1.0 + 1e-9):  # inside the parcel it took in
-                s = 1.0 - v / x
-                value = np.dot([1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0], step.inflow[:3, i])
-                return value[None], value[None]
         if self.pipes.size:
             w = [through_m3[i] for i in self.pipe_list]
             at = [1.0 - v / x if x > v * (1.0 + 1e-9) else -1.0
                   for x, v in zip(w, self.pipe_volume_m3, strict=True)]
             if min(at) >= 0.0:  # every source pipe passed more than its volume
-                basis = [[1.0, 2.0 * s - 1.0, (6.0 * s - 6.0) * s + 1.0] for s in at]
+                basis = [legendre_basis(s) for s in at]
                 if len(at) == 1:  # the profile of the one source pipe's parcel, (1, F)
                     pipe_end = pipe_in = np.dot(basis[0], step.inflow[:3, self.pipe_list[0]])[None]
                 else:
@@ -242,7 +235,5 @@ class Recorder:
             k = np.searchsorted(starts, at, side="right") - 1  # at >= 0 = starts[0]
             s = (at - starts[k]) / lengths[k]
             np.clip(s, 0.0, 1.0, out=s)
-            c = coef[k]
-            out[i] = c[:, 0] + c[:, 1] * (2.0 * s - 1.0)[:, None] + c[:, 2] * (
-                (6.0 * s - 6.0) * s + 1.0)[:, None]
+            out[i] = profile(coef[k], s)
         return out

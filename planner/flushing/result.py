@@ -32,8 +32,24 @@ def _sulphur(fr: np.ndarray, rho: np.ndarray, s: np.ndarray) -> np.ndarray:
     return (m * s[:, None]).sum(0) / m.sum(0)
 
 
-def _crossing(t: np.ndarray, g: np.ndarray, settled: bool) -> float | None:
-    """First time g ≤ 0 (or, if ``settled``, the time from which g ≤ 0 to the end)."""
+def crossing_h(t: np.ndarray, g: np.ndarray, settled: bool) -> float | None:
+    """When a sampled excess ``g`` gets to 0 or below, on straight lines between samples.
+
+    Parameters
+    ----------
+    t : ndarray (n,) [h]
+        Sample times, increasing.
+    g : ndarray (n,) [-]
+        The excess over the level at each sample (any unit: only its sign and linear
+        interpolation count).
+    settled : bool
+        True: the time from which ``g ≤ 0`` to the last sample; False: the first time.
+
+    Returns
+    -------
+    float or None [h]
+        None when never (``settled``: when above at the last sample).
+    """
     above = g > 0.0
     if settled:
         if above[-1]:
@@ -130,11 +146,11 @@ class InletCurve:
         ``settled=True``: from when it stays so until the horizon (None if it is
         above at the horizon); ``settled=False``: the first time it gets there.
         """
-        return _crossing(self.trace_time_h, self._g(level_pct), settled)
+        return crossing_h(self.trace_time_h, self._g(level_pct), settled)
 
     def time_at_or_above_h(self, level_pct: float, settled: bool = True) -> float | None:
         """As :meth:`time_at_or_below_h`, for sulphur at or above ``level_pct`` (switching back)."""
-        return _crossing(self.trace_time_h, -self._g(level_pct), settled)
+        return crossing_h(self.trace_time_h, -self._g(level_pct), settled)
 
 
 @dataclass(frozen=True)

@@ -234,7 +234,6 @@ def _settings(
         tank_list=np.flatnonzero(net.is_tank).tolist(),
         tank_capacity_m3=net.capacity_m3[net.is_tank].tolist(),
         filled=filled,
-        tank_mask=net.is_tank.astype(float),
     )
 
 

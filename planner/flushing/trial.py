@@ -65,7 +65,6 @@ class Run:
     tank_list: list[int]  # the same, as ints
     tank_capacity_m3: list[float]  # their capacities [m³]
     filled: np.ndarray  # indices of the tanks some link may fill
-    tank_mask: np.ndarray  # (S,) 1.0 for a tank, 0.0 for a fixed volume
 
 
 class Trial(NamedTuple):

@@ -108,9 +108,15 @@ AT_EXPECTED = ("an ISO 8601 time with its UTC offset, e.g. 2027-06-02T14:05Z or 
                "2027-06-02T16:05+02:00")
 
 
-def _check_offset(minutes: int, text: str, option: str) -> int:
+def is_real_offset(minutes: float) -> bool:
+    """A UTC offset in use on Earth [min east of UTC] (:data:`OFFSET_RANGE_MIN`, in steps of
+    15 minutes)."""
     low, high = OFFSET_RANGE_MIN
-    if not low <= minutes <= high or minutes % 15:
+    return low <= minutes <= high and not minutes % 15
+
+
+def _check_offset(minutes: int, text: str, option: str) -> int:
+    if not is_real_offset(minutes):
         raise InputError(option, "", text, "a real UTC offset: -12:00 to +14:00, in steps "
                                            "of 15 minutes")
     return minutes

@@ -47,7 +47,7 @@ from planner.journal.entries import (
     Planned,
     Position,
 )
-from planner.journal.inputs import OFFSET_RANGE_MIN, written_position
+from planner.journal.inputs import is_real_offset, written_position
 
 MAX_PLAN_BYTES = 64 * 2**20
 """Largest plan JSON read, bytes (a plan of a long voyage is well under a megabyte)."""
@@ -181,8 +181,7 @@ def ship_offset_min(item: dict, key: str, file: str, place: str) -> int | None:
     if off is None:
         raise InputError(file, f"{place}.{key}", v, expected)
     minutes = off.total_seconds() / 60.0
-    low, high = OFFSET_RANGE_MIN
-    if minutes % 15 or not low <= minutes <= high:
+    if not is_real_offset(minutes):
         raise InputError(file, f"{place}.{key}", v, expected + " (a real offset: -12:00 to "
                                                      "+14:00, in steps of 15 minutes)")
     return int(minutes)

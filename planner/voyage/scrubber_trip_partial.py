@@ -35,6 +35,8 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from planner.flushing.result import crossing_h
+
 if TYPE_CHECKING:
     from planner.flushing import FlushResult
     from planner.voyage.changeovers import CircuitChange
@@ -73,22 +75,6 @@ def change_under_way(changes: Sequence[CircuitChange], circuit: str, fuel: str,
         return None
     record_h = float(last.study.result.time_h[-1])
     return last if fail_epoch_s - last.start_epoch_s < record_h * 3600.0 else None
-
-
-def _settled_below_h(t_h: np.ndarray, excess: np.ndarray) -> float | None:
-    """The time from which ``excess`` stays at or below 0 to the end of the record [h]
-    (None if it ends above; straight lines between the points)."""
-    above = excess > 0.0
-    if above[-1]:
-        return None
-    idx = np.flatnonzero(above)
-    if idx.size == 0:
-        return float(t_h[0])
-    k = int(idx[-1]) + 1
-    t0, t1, g0, g1 = t_h[k - 1], t_h[k], excess[k - 1], excess[k]
-    if t1 <= t0 or g0 == g1:
-        return float(t1)
-    return float(t0 + (t1 - t0) * g0 / (g0 - g1))
 
 
 def partial_time_to_target_h(trip: FlushResult, change: CircuitChange, circuit: str,
@@ -140,10 +126,10 @@ def partial_time_to_target_h(trip: FlushResult, change: CircuitChange, circuit: 
             x[names.index(f.name)] += np.where(inside, c, 1.0 if f.name == change.to_fuel
                                                else 0.0)
         x[names.index(change.to_fuel)] -= 1.0
-        mass = np.clip(x, 0.0, None) * np.array([fuel[n].density_kg_m3 for n in names])[:, None]
+        rho = np.array([fuel[n].density_kg_m3 for n in names])
         s = np.array([fuel[n].sulphur_pct for n in names])
-        sulphur_pct = (mass * s[:, None]).sum(0) / mass.sum(0)
-        got = _settled_below_h(t_h, sulphur_pct - target_pct)
+        # the sulphur mass over the target's, as InletCurve.time_at_or_below_h measures it
+        got = crossing_h(t_h, ((s - target_pct) * rho) @ np.clip(x, 0.0, None), settled=True)
         if got is None:
             return None
         worst = max(worst, got)
